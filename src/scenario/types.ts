@@ -1,0 +1,83 @@
+/**
+ * The validated, dimensionless scenario every other part of the engine consumes.
+ * Raw JSON (with optional engineering-unit fields) becomes this through `parseScenario`;
+ * nothing downstream ever sees ppm, Hz or quality factors.
+ */
+
+/** A directed, weighted link: carries node `from`'s signal into node `to` (A[to][from] = weight). */
+export interface Link {
+  from: number;
+  to: number;
+  weight: number;
+}
+
+export type Topology = 'ring-one-way' | 'ring-two-way' | { edges: Link[] };
+
+export interface ModeSpec {
+  /** Natural frequency omega_j (dimensionless; mode 0 is the wanted mode). */
+  omega: number;
+  /** Gain g_j of the sustaining element. */
+  gain: number;
+  /** Extra loss d_j. */
+  loss: number;
+}
+
+export interface CouplingSpec {
+  /** kappa */
+  strength: number;
+  /** rho */
+  reactive: number;
+  /** sigma */
+  dissipative: number;
+}
+
+export interface NoiseSpec {
+  /** White-noise intensity q added to every x'' equation (sqrt(q) dW per unit tau). */
+  intensity: number;
+  /** Intensity of a random walk of each node's Delta_k (per unit tau). */
+  detuningWalk: number;
+  /** Seed of the noise generator (unsigned 32-bit integer). */
+  seed: number;
+}
+
+/** x and x' of one mode of one node, in the original coordinates. */
+export interface ModeState {
+  x: number;
+  xdot: number;
+}
+
+export type InitialSpec =
+  | { state: ModeState[][] }
+  | { random: { seed: number; amplitude: number } }
+  | { pattern: { q: number; amplitude: number; mode: number } };
+
+export interface IntegratorSpec {
+  /** Micro steps per carrier period of the fastest mode. */
+  stepsPerPeriod: number;
+  /** Carrier periods (of mode 0) per macro tick. */
+  macroPeriods: number;
+  /** Grid points per fast angle for the torus average of the guiding system. */
+  averagingGrid: number;
+}
+
+export interface UnitsSpec {
+  /** Frequency in Hz that mode 0 (omega_0) stands for; tau = omega_0-periods * 2 pi. */
+  nominalFrequencyHz: number;
+}
+
+export interface Scenario {
+  name: string;
+  nodes: number;
+  topology: Topology;
+  /** Links after expanding the topology; the order fixes link indices. */
+  links: Link[];
+  epsilon: number;
+  modes: ModeSpec[];
+  coupling: CouplingSpec;
+  /** Delta_k per node (relative mistuning eps * Delta_k). */
+  detuning: number[];
+  noise: NoiseSpec;
+  initial: InitialSpec;
+  integrator: IntegratorSpec;
+  units: UnitsSpec;
+}

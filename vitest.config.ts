@@ -1,0 +1,26 @@
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+  test: {
+    projects: [
+      {
+        extends: true,
+        test: { name: 'engine', include: ['tests/unit/**/*.test.ts'], testTimeout: 120_000 },
+      },
+      {
+        extends: true,
+        test: { name: 'server', include: ['tests/integration/**/*.test.ts'], testTimeout: 120_000 },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'browser',
+          include: ['tests/browser/**/*.test.ts'],
+          testTimeout: 180_000,
+          hookTimeout: 180_000,
+          fileParallelism: false,
+        },
+      },
+    ],
+  },
+});
