@@ -1,0 +1,25 @@
+/** Public API of the scenario layer: validation, normalization and the engineering-unit mapping. */
+export { ScenarioError } from './errors.js';
+export {
+  parseScenario,
+  scenarioToJSON,
+  ringLinks,
+  defaultMacroPeriods,
+  MAX_NODES,
+  DEFAULT_NAME,
+  DEFAULT_NOMINAL_FREQUENCY_HZ,
+  DEFAULT_STEPS_PER_PERIOD,
+  DEFAULT_AVERAGING_GRID,
+} from './parse.js';
+export type { ScenarioJSON } from './parse.js';
+export {
+  ppmToDelta,
+  deltaToPpm,
+  qualityToLoss,
+  lossToQuality,
+  offsetPpmToOmega,
+  omegaToOffsetPpm,
+  tauToSeconds,
+  secondsToTau,
+} from './units.js';
+export type * from './types.js';

@@ -1,0 +1,90 @@
+import { describe, expect, test } from 'vitest';
+import { parseScenario, scenarioToJSON } from '../../../src/scenario/index.js';
+import {
+  builtInScenarioNames,
+  builtInScenarioRaw,
+  loadBuiltInScenario,
+} from '../../../src/scenarios/index.js';
+
+describe('built-in scenarios', () => {
+  test('the three scenarios are listed, demo first', () => {
+    expect(builtInScenarioNames).toEqual(['timing-board-8', 'ring-one-way-5', 'pair-adler']);
+  });
+
+  test('the demo loads with the expected sizes and mapped values', () => {
+    const s = loadBuiltInScenario('timing-board-8');
+    expect(s.name).toBe('Timing board, 8 resonators');
+    expect(s.nodes).toBe(8);
+    expect(s.modes).toHaveLength(2);
+    expect(s.topology).toBe('ring-two-way');
+    expect(s.links).toHaveLength(16); // two links into each of 8 nodes (design.md section 2)
+    expect(s.detuning).toHaveLength(8);
+    expect(s.units.nominalFrequencyHz).toBe(10e6);
+    // hand arithmetic with the mapping of design.md section 2 and the Q definition (common practice):
+    expect(s.modes[0]!.omega).toBe(1); // 0 ppm
+    expect(s.modes[0]!.loss).toBeCloseTo(0.5, 14); // 1 / (1e-5 * 2e5)
+    expect(s.modes[1]!.omega).toBeCloseTo(1.0015, 15); // 1500 ppm above mode 0
+    expect(s.modes[1]!.loss).toBeCloseTo(1.0015 / 1.5, 14); // 1.0015 / (1e-5 * 1.5e5)
+    expect(s.detuning[0]).toBeCloseTo(0.012, 14); // 0.12 ppm / 1e-5
+    expect(s.detuning[3]).toBeCloseTo(-0.015, 14); // -0.15 ppm / 1e-5
+    expect(s.noise).toEqual({ intensity: 1e-9, seed: 2026, detuningWalk: 0 });
+    expect(s.initial).toEqual({ random: { seed: 7, amplitude: 0.2 } });
+    expect(s.integrator.macroPeriods).toBe(159); // round(1 / (2 pi 100 * 1e-5)) by hand
+  });
+
+  test('the one-way ring and the pair have their stated shape', () => {
+    const ring = loadBuiltInScenario('ring-one-way-5');
+    expect(ring.links).toHaveLength(5);
+    expect(ring.initial).toEqual({ pattern: { q: 1, amplitude: 2, mode: 0 } });
+    const pair = loadBuiltInScenario('pair-adler');
+    expect(pair.links).toEqual([
+      { from: 0, to: 1, weight: 1 },
+      { from: 1, to: 0, weight: 1 },
+    ]);
+    expect(pair.detuning).toEqual([0.005, -0.005]);
+  });
+
+  test.each(builtInScenarioNames)('%s survives scenarioToJSON -> JSON text -> parseScenario', (name) => {
+    const s = loadBuiltInScenario(name);
+    const json = scenarioToJSON(s);
+    const text = JSON.stringify(json);
+    expect(text).not.toMatch(/Ppm|quality/);
+    expect(parseScenario(JSON.parse(text))).toEqual(s);
+  });
+
+  test('scenarioToJSON round-trips an explicit state and an edge list', () => {
+    const s = parseScenario({
+      name: 'explicit',
+      nodes: 2,
+      topology: { edges: [[1, 0, 0.25]] },
+      epsilon: 2e-3,
+      modes: [
+        { omega: 1, gain: 1, loss: 0.1 },
+        { omega: 1.7, gain: 0.5, loss: 0 },
+      ],
+      coupling: { strength: 0.1, reactive: -0.3, dissipative: 1 },
+      initial: {
+        state: [
+          [{ x: 1, xdot: 0 }, { x: 0.1, xdot: -0.2 }],
+          [{ x: -1, xdot: 0.5 }, { x: 0, xdot: 0 }],
+        ],
+      },
+      integrator: { stepsPerPeriod: 32, macroPeriods: 7, averagingGrid: 12 },
+    });
+    const json = scenarioToJSON(s);
+    expect(json.topology).toEqual({ edges: [[1, 0, 0.25]] });
+    expect(parseScenario(JSON.parse(JSON.stringify(json)))).toEqual(s);
+  });
+
+  test('builtInScenarioRaw returns a fresh copy each time', () => {
+    const raw = builtInScenarioRaw('pair-adler') as { nodes: number };
+    raw.nodes = 99;
+    expect((builtInScenarioRaw('pair-adler') as { nodes: number }).nodes).toBe(2);
+  });
+
+  test('an unknown name lists the available ones', () => {
+    expect(() => loadBuiltInScenario('timing-board')).toThrow(
+      'unknown built-in scenario "timing-board"; available: timing-board-8, ring-one-way-5, pair-adler',
+    );
+  });
+});

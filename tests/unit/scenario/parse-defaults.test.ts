@@ -1,0 +1,124 @@
+import { describe, expect, test } from 'vitest';
+import { parseScenario, scenarioToJSON } from '../../../src/scenario/index.js';
+
+const minimal = (extra: Record<string, unknown> = {}) => ({
+  nodes: 4,
+  topology: 'ring-two-way',
+  epsilon: 1e-3,
+  modes: [{ omega: 1, gain: 1, loss: 0 }],
+  coupling: { strength: 0.1 },
+  ...extra,
+});
+
+describe('defaults', () => {
+  // the defaults are the ones fixed in the brief for this module (common practice for the project)
+  test('a minimal scenario gets every documented default', () => {
+    const s = parseScenario(minimal());
+    expect(s.name).toBe('Untitled scenario');
+    expect(s.coupling).toEqual({ strength: 0.1, reactive: 0, dissipative: 0 });
+    expect(s.detuning).toEqual([0, 0, 0, 0]);
+    expect(s.noise).toEqual({ intensity: 0, seed: 1, detuningWalk: 0 });
+    expect(s.initial).toEqual({ random: { seed: 1, amplitude: 0.1 } });
+    expect(s.units).toEqual({ nominalFrequencyHz: 10e6 });
+    // macroPeriods = max(1, round(1 / (2 pi 100 eps))): 1 / (0.2 pi) = 1.59 -> 2 (hand arithmetic)
+    expect(s.integrator).toEqual({ stepsPerPeriod: 16, macroPeriods: 2, averagingGrid: 8 });
+  });
+
+  test.each([
+    [0, 1], // stated special case
+    [1e-5, 159], // 1 / (2 pi 1e-3) = 159.15 (hand arithmetic)
+    [1e-4, 16], // 15.92 -> 16
+    [0.5, 1], // 0.0032 -> 0 -> clamped to 1
+  ])('default macroPeriods at eps = %s is %s', (eps, expected) => {
+    expect(parseScenario(minimal({ epsilon: eps })).integrator.macroPeriods).toBe(expected);
+  });
+
+  test('given integrator fields override only themselves', () => {
+    const s = parseScenario(minimal({ integrator: { stepsPerPeriod: 64 } }));
+    expect(s.integrator).toEqual({ stepsPerPeriod: 64, macroPeriods: 2, averagingGrid: 8 });
+  });
+
+  test('noise.detuningWalk defaults to 0 when noise is given', () => {
+    const s = parseScenario(minimal({ noise: { intensity: 1e-9, seed: 99 } }));
+    expect(s.noise).toEqual({ intensity: 1e-9, seed: 99, detuningWalk: 0 });
+  });
+
+  test('pattern.mode defaults to 0', () => {
+    const s = parseScenario(minimal({ initial: { pattern: { q: 2, amplitude: 1.5 } } }));
+    expect(s.initial).toEqual({ pattern: { q: 2, amplitude: 1.5, mode: 0 } });
+  });
+
+  test('eps = 0 is allowed for pure harmonic runs', () => {
+    expect(parseScenario(minimal({ epsilon: 0 })).epsilon).toBe(0);
+  });
+});
+
+describe('engineering-unit fields are mapped to the dimensionless model', () => {
+  test('detuningPpm becomes Delta = ppm * 1e-6 / eps', () => {
+    // hand arithmetic: 2 ppm / 1e-5 = 0.2, -0.5 ppm / 1e-5 = -0.05 (design.md section 2)
+    const s = parseScenario(minimal({ epsilon: 1e-5, detuningPpm: [2, -0.5, 0, 1] }));
+    expect(s.detuning[0]).toBeCloseTo(0.2, 14);
+    expect(s.detuning[1]).toBeCloseTo(-0.05, 14);
+    expect(s.detuning[2]).toBe(0);
+    expect(s.detuning[3]).toBeCloseTo(0.1, 14);
+  });
+
+  test('offsetPpm is relative to mode 0, and mode 0 itself is relative to 1', () => {
+    const s = parseScenario(
+      minimal({
+        modes: [
+          { offsetPpm: 100, gain: 1, loss: 0 },
+          { offsetPpm: 1500, gain: 1, loss: 0 },
+        ],
+      }),
+    );
+    // hand arithmetic: 1 + 1e-4, then (1 + 1e-4)(1 + 1.5e-3)
+    expect(s.modes[0]!.omega).toBeCloseTo(1.0001, 15);
+    expect(s.modes[1]!.omega).toBeCloseTo(1.0001 * 1.0015, 15);
+  });
+
+  test('quality uses the mode\'s own omega', () => {
+    const s = parseScenario(
+      minimal({
+        epsilon: 1e-5,
+        modes: [
+          { omega: 2, gain: 1, quality: 1e5 },
+          { omega: 3, gain: 1, loss: 0.25 },
+        ],
+      }),
+    );
+    // d = omega / (eps Q) = 2 / (1e-5 * 1e5) = 2 (hand arithmetic, Q definition: common practice)
+    expect(s.modes[0]!.loss).toBeCloseTo(2, 14);
+    expect(s.modes[1]!.loss).toBe(0.25);
+  });
+
+  test('the output never carries engineering fields except units.nominalFrequencyHz', () => {
+    const s = parseScenario(minimal({ epsilon: 1e-5, nominalFrequencyHz: 32768, detuningPpm: [1, 0, 0, 0] }));
+    expect(s.units.nominalFrequencyHz).toBe(32768);
+    expect(Object.keys(s)).not.toContain('detuningPpm');
+    expect(Object.keys(s.modes[0]!).sort()).toEqual(['gain', 'loss', 'omega']);
+  });
+});
+
+describe('purity', () => {
+  test('the raw input is not modified and shares nothing with the result', () => {
+    const raw = minimal({
+      topology: { edges: [[0, 1, 1], [1, 2, 1]] },
+      detuning: [0.1, 0, 0, 0],
+      initial: { state: [0, 1, 2, 3].map(() => [{ x: 1, xdot: 0 }]) },
+    });
+    const before = JSON.stringify(raw);
+    const s = parseScenario(deepFreeze(structuredClone(raw)));
+    s.detuning[0] = 9;
+    expect(JSON.stringify(raw)).toBe(before);
+    expect(scenarioToJSON(s).detuning[0]).toBe(9);
+  });
+});
+
+function deepFreeze<T>(value: T): T {
+  if (value !== null && typeof value === 'object') {
+    for (const v of Object.values(value)) deepFreeze(v);
+    Object.freeze(value);
+  }
+  return value;
+}
