@@ -8,7 +8,7 @@ export {
   MAX_NODES,
   DEFAULT_NAME,
   DEFAULT_NOMINAL_FREQUENCY_HZ,
-  DEFAULT_STEPS_PER_PERIOD,
+  defaultStepsPerPeriod,
   DEFAULT_AVERAGING_GRID,
 } from './parse.js';
 export type { ScenarioJSON } from './parse.js';

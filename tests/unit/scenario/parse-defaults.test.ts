@@ -21,7 +21,8 @@ describe('defaults', () => {
     expect(s.initial).toEqual({ random: { seed: 1, amplitude: 0.1 } });
     expect(s.units).toEqual({ nominalFrequencyHz: 10e6 });
     // macroPeriods = max(1, round(1 / (2 pi 100 eps))): 1 / (0.2 pi) = 1.59 -> 2 (hand arithmetic)
-    expect(s.integrator).toEqual({ stepsPerPeriod: 16, macroPeriods: 2, averagingGrid: 8 });
+    // 8 ceil(1700 sqrt(1e-3) / 8) = 8 ceil(6.72) = 56
+    expect(s.integrator).toEqual({ stepsPerPeriod: 56, macroPeriods: 2, averagingGrid: 8 });
   });
 
   test.each([
@@ -122,3 +123,17 @@ function deepFreeze<T>(value: T): T {
   }
   return value;
 }
+
+describe('default micro step follows eps', () => {
+  test.each([
+    [1e-7, 8],
+    [1e-5, 8],
+    [1e-4, 24],
+    [1e-3, 56],
+    [1e-2, 176],
+    [0.5, 256],
+  ])('eps = %s gives %s steps per period', (eps, expected) => {
+    // 8 ceil(1700 sqrt(eps) / 8), at least 8 and at most 256 (arithmetic on the documented rule)
+    expect(parseScenario(minimal({ epsilon: eps })).integrator.stepsPerPeriod).toBe(expected);
+  });
+});

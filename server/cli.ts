@@ -1,0 +1,92 @@
+import { ScenarioError } from '../src/scenario/errors.js';
+import { simulate } from './commands/simulate.js';
+import { UsageError } from './scenario-file.js';
+
+const USAGE = `usage:
+  syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson]
+  syncring serve [--port PORT] [--scenario SCENARIO.json]
+
+SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler).`;
+
+interface Parsed {
+  positional: string[];
+  flags: Map<string, string | true>;
+}
+
+/** Split argv into positionals and --flags (a flag takes the next word unless it is a flag). */
+export function parseArgs(argv: string[], valued: readonly string[]): Parsed {
+  const positional: string[] = [];
+  const flags = new Map<string, string | true>();
+  for (let i = 0; i < argv.length; i++) {
+    const word = argv[i];
+    if (!word.startsWith('--')) {
+      positional.push(word);
+      continue;
+    }
+    const [name, inline] = word.slice(2).split('=', 2);
+    if (valued.includes(name)) {
+      const value = inline ?? argv[++i];
+      if (value === undefined) throw new UsageError(`--${name} needs a value`);
+      flags.set(name, value);
+    } else if (inline === undefined) {
+      flags.set(name, true);
+    } else {
+      throw new UsageError(`--${name} takes no value`);
+    }
+  }
+  return { positional, flags };
+}
+
+function onlyFlags(parsed: Parsed, allowed: readonly string[]): void {
+  for (const name of parsed.flags.keys()) {
+    if (!allowed.includes(name)) throw new UsageError(`unknown option --${name}`);
+  }
+}
+
+function numberFlag(parsed: Parsed, name: string): number | undefined {
+  const value = parsed.flags.get(name);
+  if (value === undefined) return undefined;
+  const n = Number(value);
+  if (value === true || !Number.isFinite(n)) throw new UsageError(`--${name} must be a number (got ${value === true ? 'nothing' : JSON.stringify(value)})`);
+  return n;
+}
+
+export async function main(argv: string[]): Promise<number> {
+  const [command, ...rest] = argv;
+  try {
+    switch (command) {
+      case 'simulate': {
+        const parsed = parseArgs(rest, ['until', 'out']);
+        onlyFlags(parsed, ['until', 'out']);
+        if (parsed.positional.length !== 1) throw new UsageError('simulate needs exactly one SCENARIO');
+        const until = numberFlag(parsed, 'until');
+        if (until === undefined) throw new UsageError('simulate needs --until TAU');
+        const out = parsed.flags.get('out');
+        const result = simulate({ scenario: parsed.positional[0], until, out: typeof out === 'string' ? out : undefined });
+        process.stdout.write(`${JSON.stringify(result)}\n`);
+        return result.status === 'halted' ? 3 : 0;
+      }
+      case 'serve': {
+        const { serve } = await import('./main.js');
+        const parsed = parseArgs(rest, ['port', 'scenario', 'host']);
+        onlyFlags(parsed, ['port', 'scenario', 'host']);
+        await serve({ port: numberFlag(parsed, 'port'), scenario: parsed.flags.get('scenario') as string | undefined });
+        return -1;
+      }
+      case undefined:
+      case 'help':
+      case '--help':
+        process.stdout.write(`${USAGE}\n`);
+        return command === undefined ? 2 : 0;
+      default:
+        throw new UsageError(`unknown command ${JSON.stringify(command)}`);
+    }
+  } catch (error) {
+    if (error instanceof UsageError || error instanceof ScenarioError) {
+      process.stderr.write(`syncring: ${error.message}\n`);
+      if (error instanceof UsageError && /command|needs|option/.test(error.message)) process.stderr.write(`${USAGE}\n`);
+      return 2;
+    }
+    throw error;
+  }
+}

@@ -1,0 +1,78 @@
+import { wrapAngle } from '../util/angles.js';
+
+/**
+ * Per-tick observables of one system (full or guide) read off its rotating-frame state:
+ * complex amplitude a = u - i v per node and mode, its modulus and phase, the wanted mode's
+ * neighbour phase differences and the mode energies. Plain numbers, ready for JSON.
+ */
+export interface SystemObservables {
+  /** |a_kj| per node, per mode. */
+  amplitude: number[][];
+  /** arg a_kj in (-pi, pi] per node, per mode. */
+  phase: number[][];
+  /** arg a_{k+1,0} - arg a_{k,0} wrapped to (-pi, pi], k = 0..N-1 with node N = node 0. */
+  phaseDifferences: number[];
+  /** sum_k |a_kj|^2 per mode. */
+  modeEnergy: number[];
+  /** The mode carrying most energy. */
+  dominantMode: number;
+}
+
+export function readObservables(y: Float64Array, nodes: number, modes: number): SystemObservables {
+  const amplitude: number[][] = [];
+  const phase: number[][] = [];
+  const modeEnergy = new Array<number>(modes).fill(0);
+  for (let k = 0; k < nodes; k++) {
+    const amps: number[] = [];
+    const phases: number[] = [];
+    for (let j = 0; j < modes; j++) {
+      const i = k * modes + j;
+      const re = y[2 * i];
+      const im = -y[2 * i + 1];
+      const r = Math.hypot(re, im);
+      amps.push(r);
+      phases.push(Math.atan2(im, re));
+      modeEnergy[j] += r * r;
+    }
+    amplitude.push(amps);
+    phase.push(phases);
+  }
+  const dominantMode = modeEnergy.indexOf(Math.max(...modeEnergy));
+  return {
+    amplitude,
+    phase,
+    phaseDifferences: neighbourPhaseDifferences(phase, 0),
+    modeEnergy,
+    dominantMode,
+  };
+}
+
+/** arg a_{k+1,j} - arg a_{k,j} wrapped to (-pi, pi], cyclic over the nodes. */
+export function neighbourPhaseDifferences(phase: number[][], mode: number): number[] {
+  const n = phase.length;
+  return phase.map((_, k) => wrapAngle(phase[(k + 1) % n][mode] - phase[k][mode]));
+}
+
+/** Real and imaginary parts of mode j's amplitudes (for the pattern classifier). */
+export function modeAmplitudes(y: Float64Array, nodes: number, modes: number, mode: number): { re: Float64Array; im: Float64Array } {
+  const re = new Float64Array(nodes);
+  const im = new Float64Array(nodes);
+  for (let k = 0; k < nodes; k++) {
+    const i = k * modes + mode;
+    re[k] = y[2 * i];
+    im[k] = -y[2 * i + 1];
+  }
+  return { re, im };
+}
+
+/** Largest |a_full - a_guide| over nodes and modes, absolute and relative to the mean |a_full|. */
+export function divergence(full: Float64Array, guide: Float64Array): { max: number; relative: number } {
+  let max = 0;
+  let sum = 0;
+  for (let i = 0; i < full.length; i += 2) {
+    max = Math.max(max, Math.hypot(full[i] - guide[i], full[i + 1] - guide[i + 1]));
+    sum += Math.hypot(full[i], full[i + 1]);
+  }
+  const mean = sum / (full.length / 2);
+  return { max, relative: mean > 0 ? max / mean : 0 };
+}

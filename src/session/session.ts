@@ -1,0 +1,233 @@
+import type { ModeState, Scenario } from '../scenario/types.js';
+import { tauToSeconds } from '../scenario/units.js';
+import { ModelParameters } from '../model/parameters.js';
+import { addToAmplitude, originalFromRotating } from '../model/coordinates.js';
+import { initialRotatingState } from '../model/initial.js';
+import { FullSystem } from '../integrate/full-system.js';
+import { GuideSystem } from '../guide/guide.js';
+import { nearResonances, type ResonanceWarning } from '../guide/resonance.js';
+import { divergence, readObservables, type SystemObservables } from '../observe/amplitudes.js';
+import { graphAutomorphisms } from '../pattern/automorphisms.js';
+import { relativeEquilibriumStability, solveRelativeEquilibrium } from '../predict/relative-equilibrium.js';
+import { applyPerturbation, describePerturbation, parsePerturbation, type Perturbation } from './perturbation.js';
+import { PatternTracker, type PatternReport } from './pattern-tracker.js';
+
+export interface SessionOptions {
+  /** Lock window in slow time units (eps tau); default 2. */
+  lockWindow?: number;
+  /** Largest phase-difference excursion over the window that still counts as locked (rad); default 0.05. */
+  lockTolerance?: number;
+  /** Relative residual below which a group element counts as a symmetry; default 0.02. */
+  symmetryTolerance?: number;
+  /** Relative tolerance of the guiding system's adaptive integrator; default 1e-10. */
+  guideTolerance?: number;
+}
+
+export type SessionEventKind = 'perturbation' | 'lock' | 'unlock' | 'pattern-change' | 'blow-up' | 'guide-failure' | 'warning';
+
+export interface SessionEvent {
+  /** Running number of the event within the session. */
+  seq: number;
+  tau: number;
+  kind: SessionEventKind;
+  message: string;
+  /** Who caused it (operator name, "schedule", "engine"). */
+  by: string;
+  perturbation?: Perturbation;
+}
+
+export interface GuideReport extends SystemObservables {
+  pattern: PatternReport;
+  /** Largest real part of the locked state's reduced Jacobian (slow-time units), null when unknown. */
+  margin: number | null;
+  /** Collective frequency shift per mode, in slow time (rad per unit eps tau), when locked. */
+  rotation: number[] | null;
+}
+
+export interface Frame {
+  tick: number;
+  tau: number;
+  /** eps tau */
+  slowTime: number;
+  /** Physical time at the nominal frequency. */
+  seconds: number;
+  /** 'halted' after a blow-up: the state is the last good one and the run does not go on. */
+  status: 'running' | 'halted';
+  full: SystemObservables & { pattern: PatternReport };
+  guide: GuideReport;
+  divergence: { max: number; relative: number };
+  events: SessionEvent[];
+}
+
+/** Above this many slow variables the guide's margin is not computed every lock (dense Jacobian). */
+const MARGIN_SIZE_LIMIT = 160;
+
+/**
+ * The co-simulation: the full system and the guiding system on one clock of macro ticks.
+ * Perturbations are queued and applied at the next tick boundary to both; each tick yields a
+ * frame with the observables of both, their patterns and symmetry, their divergence and the
+ * events of that tick. A blow-up halts the run with an event and keeps the last good state.
+ */
+export class CoSimulation {
+  readonly params: ModelParameters;
+  readonly full: FullSystem;
+  readonly guide: GuideSystem;
+  readonly macroStep: number;
+  readonly warnings: ResonanceWarning[];
+  tick = 0;
+  halted: string | null = null;
+  group: Int32Array[];
+
+  private readonly fullTracker: PatternTracker;
+  private readonly guideTracker: PatternTracker;
+  private readonly queue: { perturbation: Perturbation; by: string }[] = [];
+  private pending: SessionEvent[] = [];
+  private eventCount = 0;
+  private marginStale = true;
+  private margin: { margin: number; rotation: number[] } | null = null;
+  private lastFullKind = '';
+
+  constructor(readonly scenario: Scenario, readonly options: SessionOptions = {}) {
+    this.params = new ModelParameters(scenario);
+    const initial = initialRotatingState(scenario, this.params);
+    this.full = new FullSystem(this.params, initial, scenario.integrator.stepsPerPeriod, scenario.noise.seed);
+    this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? 1e-10);
+    this.macroStep = (scenario.integrator.macroPeriods * 2 * Math.PI) / this.params.omega[0];
+    const eps = this.params.epsilon;
+    const windowTicks = eps > 0 ? Math.round((options.lockWindow ?? 2) / (eps * this.macroStep)) : 10;
+    const lockTolerance = options.lockTolerance ?? 0.05;
+    const symmetryTolerance = options.symmetryTolerance ?? 0.02;
+    this.fullTracker = new PatternTracker(this.params.nodes, this.params.modes, windowTicks, lockTolerance, symmetryTolerance);
+    this.guideTracker = new PatternTracker(this.params.nodes, this.params.modes, windowTicks, lockTolerance, symmetryTolerance);
+    this.group = this.computeGroup();
+    this.warnings = nearResonances(this.params.omega, eps);
+    for (const w of this.warnings) this.record('warning', w.message, 'engine');
+  }
+
+  get tau(): number {
+    return this.full.tau;
+  }
+
+  /** Validate a raw perturbation (throws PerturbationError) and queue it. */
+  submit(raw: unknown, by: string, extraFields: readonly string[] = []): Perturbation {
+    const perturbation = parsePerturbation(raw, this.params, '', extraFields);
+    this.enqueue(perturbation, by);
+    return perturbation;
+  }
+
+  /** Queue an already validated perturbation for the next tick boundary. */
+  enqueue(perturbation: Perturbation, by: string): void {
+    this.queue.push({ perturbation, by });
+  }
+
+  /** One macro tick (or a shorter one ending at `until`); null once halted. */
+  step(until?: number): Frame | null {
+    if (this.halted) return null;
+    this.applyQueue();
+    const tauEnd = until !== undefined ? Math.min(this.tau + this.macroStep, until) : this.tau + this.macroStep;
+    const outcome = this.full.advance(tauEnd);
+    if (!outcome.ok) {
+      this.halted = outcome.reason ?? 'blow-up';
+      this.record('blow-up', `run halted: ${this.halted}; the state is kept as it was at tau = ${this.tau.toPrecision(8)}`, 'engine');
+      return this.frame();
+    }
+    if (outcome.detuningChanged) this.guide.invalidate();
+    if (!this.guide.failed && !this.guide.advance(tauEnd)) {
+      this.record('guide-failure', 'the guiding system failed (its step size collapsed); the full run goes on', 'engine');
+    }
+    this.guide.tau = tauEnd;
+    this.tick++;
+    return this.frame();
+  }
+
+  /** Step until tau >= until, calling onFrame for each tick. Returns the last frame. */
+  runUntil(until: number, onFrame?: (frame: Frame) => void): Frame | null {
+    let last: Frame | null = null;
+    while (this.tau < until * (1 - 1e-15) && !this.halted) {
+      last = this.step(until);
+      if (last && onFrame) onFrame(last);
+    }
+    return last;
+  }
+
+  /** The full state in the original coordinates (x, x') at the current tau. */
+  fullState(): ModeState[][] {
+    return originalFromRotating(this.params, this.tau, this.full.state);
+  }
+
+  private applyQueue(): void {
+    if (this.queue.length === 0) return;
+    let linksChanged = false;
+    const m = this.params.modes;
+    for (const { perturbation, by } of this.queue.splice(0)) {
+      applyPerturbation(perturbation, this.params, (node, mode, re, im) => {
+        addToAmplitude(this.full.state, m, node, mode, re, im);
+        addToAmplitude(this.guide.state, m, node, mode, re, im);
+      });
+      if (perturbation.action.endsWith('link') || perturbation.action === 'set-link-weight') linksChanged = true;
+      this.record('perturbation', describePerturbation(perturbation), by, perturbation);
+    }
+    if (linksChanged) this.group = this.computeGroup();
+    this.guide.invalidate();
+    this.marginStale = true;
+  }
+
+  private computeGroup(): Int32Array[] {
+    return graphAutomorphisms(this.params.nodes, this.params.currentLinks(), { limit: 4 * this.params.nodes + 8 }).elements;
+  }
+
+  private record(kind: SessionEventKind, message: string, by: string, perturbation?: Perturbation): void {
+    const event: SessionEvent = { seq: ++this.eventCount, tau: this.tau, kind, message, by };
+    if (perturbation) event.perturbation = perturbation;
+    this.pending.push(event);
+  }
+
+  private frame(): Frame {
+    const { nodes, modes } = this.params;
+    const fullObserved = readObservables(this.full.state, nodes, modes);
+    const guideObserved = readObservables(this.guide.state, nodes, modes);
+    const fullPattern = this.fullTracker.observe(this.tau, this.full.state, fullObserved, this.group);
+    const guidePattern = this.guideTracker.observe(this.tau, this.guide.state, guideObserved, this.group);
+    this.trackFullPattern(fullPattern);
+    const margin = guidePattern.locked ? this.guideMargin() : null;
+    if (!guidePattern.locked) this.marginStale = true;
+    const eps = this.params.epsilon;
+    const events = this.pending;
+    this.pending = [];
+    return {
+      tick: this.tick,
+      tau: this.tau,
+      slowTime: eps * this.tau,
+      seconds: tauToSeconds(this.tau, this.scenario.units.nominalFrequencyHz, this.params.omega[0]),
+      status: this.halted ? 'halted' : 'running',
+      full: { ...fullObserved, pattern: fullPattern },
+      guide: { ...guideObserved, pattern: guidePattern, margin: margin?.margin ?? null, rotation: margin?.rotation ?? null },
+      divergence: divergence(this.full.state, this.guide.state),
+      events,
+    };
+  }
+
+  /** Lock, unlock and pattern-change events of the full system (nothing while it stays unlocked). */
+  private trackFullPattern(pattern: PatternReport): void {
+    const label = pattern.locked ? `${pattern.kind}${pattern.q !== undefined ? ` q=${pattern.q}` : ''} on mode ${pattern.mode}` : 'unlocked';
+    const was = this.lastFullKind || 'unlocked';
+    this.lastFullKind = label;
+    if (label === was) return;
+    if (was === 'unlocked') this.record('lock', `locked into ${label}`, 'engine');
+    else if (label === 'unlocked') this.record('unlock', `lost lock (was ${was})`, 'engine');
+    else this.record('pattern-change', `pattern changed from ${was} to ${label}`, 'engine');
+  }
+
+  private guideMargin(): { margin: number; rotation: number[] } | null {
+    if (!this.marginStale) return this.margin;
+    this.marginStale = false;
+    this.margin = null;
+    if (this.guide.state.length > MARGIN_SIZE_LIMIT) return null;
+    const field = (y: Float64Array, out: Float64Array) => this.guide.average.evaluate(y, out);
+    const eq = solveRelativeEquilibrium(field, this.guide.state, this.params.modes);
+    if (!eq.converged) return null;
+    const stability = relativeEquilibriumStability(field, eq, this.params.modes);
+    this.margin = { margin: stability.margin, rotation: eq.rotation };
+    return this.margin;
+  }
+}
