@@ -174,7 +174,7 @@ function cosetRepresentatives(graph: ArcGraph, colour: Int32Array, plan: SearchP
     if (candidates.length < 2) continue; // only v_L itself: G_L = G_{L+1}
     const v = plan.order[level];
     const points = [v];
-    const reps = [identity];
+    const reps: Int32Array[] = [identity];
     orbitTag[v] = level;
     const close = (): void => {
       for (let i = 0; i < points.length; i++) {
@@ -202,7 +202,7 @@ function cosetRepresentatives(graph: ArcGraph, colour: Int32Array, plan: SearchP
 
 /** The first `limit` products t_0 t_1 ... t_deepest, identity first, as the listed elements. */
 function products(transversals: Int32Array[][], n: number, limit: number): Int32Array[] {
-  let elements = [Int32Array.from({ length: n }, (_, k) => k)];
+  let elements: Int32Array[] = [Int32Array.from({ length: n }, (_, k) => k)];
   for (const reps of transversals) {
     const next: Int32Array[] = [];
     for (const t of reps) {

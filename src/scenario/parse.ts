@@ -50,7 +50,7 @@ const DEFAULT_INITIAL_RANDOM = { seed: 1, amplitude: 0.1 };
  * integrates the field's harmonics (degree <= 4 in theta) exactly over a period.
  */
 export function defaultStepsPerPeriod(epsilon: number): number {
-  return Math.min(256, 8 * Math.max(1, Math.ceil((1700 * Math.sqrt(epsilon)) / 8)));
+  return Math.min(1024, 8 * Math.max(1, Math.ceil((1700 * Math.sqrt(epsilon)) / 8)));
 }
 
 /** Carrier periods per macro tick so that a tick lasts about 1/(100 eps) in tau. */
@@ -319,7 +319,7 @@ function parseIntegrator(value: unknown, epsilon: number): IntegratorSpec {
   const field = (key: string, check: Check, fallback: number): number =>
     numberField(obj, 'integrator', key, check, fallback);
   return {
-    stepsPerPeriod: field('stepsPerPeriod', intIn(4, 256), defaultStepsPerPeriod(epsilon)),
+    stepsPerPeriod: field('stepsPerPeriod', intIn(4, 4096), defaultStepsPerPeriod(epsilon)),
     macroPeriods: field('macroPeriods', intIn(1, Number.MAX_SAFE_INTEGER), defaultMacroPeriods(epsilon)),
     averagingGrid: field('averagingGrid', intIn(5, 64), DEFAULT_AVERAGING_GRID),
   };

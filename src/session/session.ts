@@ -13,7 +13,11 @@ import { applyPerturbation, describePerturbation, parsePerturbation, type Pertur
 import { PatternTracker, type PatternReport } from './pattern-tracker.js';
 
 export interface SessionOptions {
-  /** Lock window in slow time units (eps tau); default 2. */
+  /**
+   * Lock window in slow time units (eps tau). Default: two coupling relaxation times,
+   * 2 / (kappa |sigma + i rho / omega_0|), kept between 2 and 50, so a slow phase slip near the
+   * edge of the locking range is not mistaken for a lock.
+   */
   lockWindow?: number;
   /** Largest phase-difference excursion over the window that still counts as locked (rad); default 0.05. */
   lockTolerance?: number;
@@ -59,6 +63,15 @@ export interface Frame {
   events: SessionEvent[];
 }
 
+/** Two coupling relaxation times in slow time, clamped to [2, 50]. */
+export function defaultLockWindow(params: ModelParameters): number {
+  const rate = Math.abs(params.strength) * Math.hypot(params.dissipative, params.reactive / params.omega[0]);
+  return rate > 0 ? Math.min(50, Math.max(2, 2 / rate)) : 2;
+}
+
+/** The lock window never holds more ticks than this (memory and time per tick stay bounded). */
+const MAX_LOCK_WINDOW_TICKS = 5000;
+
 /** Above this many slow variables the guide's margin is not computed every lock (dense Jacobian). */
 const MARGIN_SIZE_LIMIT = 160;
 
@@ -94,7 +107,8 @@ export class CoSimulation {
     this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? 1e-10);
     this.macroStep = (scenario.integrator.macroPeriods * 2 * Math.PI) / this.params.omega[0];
     const eps = this.params.epsilon;
-    const windowTicks = eps > 0 ? Math.round((options.lockWindow ?? 2) / (eps * this.macroStep)) : 10;
+    const window = options.lockWindow ?? defaultLockWindow(this.params);
+    const windowTicks = eps > 0 ? Math.min(MAX_LOCK_WINDOW_TICKS, Math.max(2, Math.round(window / (eps * this.macroStep)))) : 10;
     const lockTolerance = options.lockTolerance ?? 0.05;
     const symmetryTolerance = options.symmetryTolerance ?? 0.02;
     this.fullTracker = new PatternTracker(this.params.nodes, this.params.modes, windowTicks, lockTolerance, symmetryTolerance);

@@ -131,9 +131,9 @@ describe('default micro step follows eps', () => {
     [1e-4, 24],
     [1e-3, 56],
     [1e-2, 176],
-    [0.5, 256],
+    [0.5, 1024], // 8 ceil(150.3) = 1208, capped at 1024
   ])('eps = %s gives %s steps per period', (eps, expected) => {
-    // 8 ceil(1700 sqrt(eps) / 8), at least 8 and at most 256 (arithmetic on the documented rule)
+    // 8 ceil(1700 sqrt(eps) / 8), at least 8 and at most 1024 (arithmetic on the documented rule)
     expect(parseScenario(minimal({ epsilon: eps })).integrator.stepsPerPeriod).toBe(expected);
   });
 });

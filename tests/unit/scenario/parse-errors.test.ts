@@ -193,9 +193,9 @@ const cases: Case[] = [
   ],
   [
     'stepsPerPeriod too large',
-    (s) => ({ ...s, integrator: { stepsPerPeriod: 300 } }),
+    (s) => ({ ...s, integrator: { stepsPerPeriod: 5000 } }),
     'integrator.stepsPerPeriod',
-    'must be between 4 and 256 (got 300)',
+    'must be between 4 and 4096 (got 5000)',
   ],
   [
     'averagingGrid too small',
