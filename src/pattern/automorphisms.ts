@@ -13,10 +13,12 @@
  * cosets t_c G_{L+1} over the orbit of v_L, one representative t_c per orbit point c. Working
  * from the deepest level up, each orbit is grown from the generators found so far; a
  * backtracking search is run only for a candidate image that no product of them reaches. The
- * elements are then the products t_0 t_1 ... of one representative per level, and the group
- * order is the product of the orbit sizes. A ring of N nodes costs two short searches and
- * O(N) per element. The backtracking is exponential in the worst case (graphs whose colours
- * do not separate orbits), as simple searches are.
+ * elements are the products t_0 t_1 ... of one representative per level, listed with the
+ * deepest level varying fastest, so the first |G_L| of them are G_L itself: the climb stops
+ * once |G_L| (the product of the orbit sizes so far) exceeds `limit`, which keeps groups such as
+ * S_n cheap. A ring of N nodes costs two short searches and O(N) per element. The backtracking
+ * is exponential in the worst case (graphs whose colours do not separate orbits), as simple
+ * searches are.
  */
 import type { Link } from '../scenario/types.js';
 import { buildArcGraph, type ArcGraph } from './arc-graph.js';
@@ -42,9 +44,7 @@ export interface AutomorphismOptions {
 export interface AutomorphismGroup {
   /** The identity first, then the other elements; perm[k] = p(k). At most `limit` of them. */
   elements: Int32Array[];
-  /** Number of elements of the whole group (exact below 2^53), listed or not. */
-  order: number;
-  /** True when order > limit, so `elements` is only the first `limit` elements. */
+  /** True when the group has more than `limit` elements, so only the first `limit` are listed. */
   truncated: boolean;
 }
 
@@ -68,9 +68,9 @@ export function graphAutomorphisms(
   const graph = buildArcGraph(nodes, links, tolerance, 'graphAutomorphisms');
   const colour = refineColours(graph);
   const plan = planSearch(graph, colour);
-  const transversals = cosetRepresentatives(graph, colour, plan);
-  const order = transversals.reduce((product, reps) => product * reps.length, 1);
-  return { elements: products(transversals, nodes, limit), order, truncated: order > limit };
+  const transversals = cosetRepresentatives(graph, colour, plan, limit);
+  const listed = transversals.reduce((product, reps) => product * reps.length, 1);
+  return { elements: products(transversals, nodes, limit), truncated: listed > limit };
 }
 
 /**
@@ -158,9 +158,10 @@ function compose(g: Int32Array, t: Int32Array): Int32Array {
 
 /**
  * For every level with a non-trivial orbit, deepest first: representatives t_c of the cosets
- * of G_{L+1} in G_L, the identity first. Their sizes multiply to |G_0|.
+ * of G_{L+1} in G_L, the identity first. Their sizes multiply to |G_L| for the last level
+ * reached: level 0 unless the product passed `limit` before.
  */
-function cosetRepresentatives(graph: ArcGraph, colour: Int32Array, plan: SearchPlan): Int32Array[][] {
+function cosetRepresentatives(graph: ArcGraph, colour: Int32Array, plan: SearchPlan, limit: number): Int32Array[][] {
   const n = graph.n;
   const position = new Int32Array(n);
   plan.order.forEach((v, i) => (position[v] = i));
@@ -169,7 +170,8 @@ function cosetRepresentatives(graph: ArcGraph, colour: Int32Array, plan: SearchP
   const generators: Int32Array[] = []; // found so far; all lie in G_L for the current level L
   const orbitTag = new Int32Array(n).fill(-1); // level whose orbit a node was last put in
   const transversals: Int32Array[][] = [];
-  for (let level = n - 1; level >= 0; level--) {
+  let groupOrder = 1; // |G_L|
+  for (let level = n - 1; level >= 0 && groupOrder <= limit; level--) {
     const candidates = levelCandidates(graph, colour, plan, position, level);
     if (candidates.length < 2) continue; // only v_L itself: G_L = G_{L+1}
     const v = plan.order[level];
@@ -196,6 +198,7 @@ function cosetRepresentatives(graph: ArcGraph, colour: Int32Array, plan: SearchP
       close();
     }
     if (reps.length > 1) transversals.push(reps);
+    groupOrder *= reps.length;
   }
   return transversals;
 }
