@@ -4,7 +4,7 @@ import { UsageError } from './scenario-file.js';
 
 const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson]
-  syncring serve [--port PORT] [--scenario SCENARIO.json]
+  syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json]
 
 SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler).`;
 
@@ -70,7 +70,14 @@ export async function main(argv: string[]): Promise<number> {
         const { serve } = await import('./main.js');
         const parsed = parseArgs(rest, ['port', 'scenario', 'host']);
         onlyFlags(parsed, ['port', 'scenario', 'host']);
-        await serve({ port: numberFlag(parsed, 'port'), scenario: parsed.flags.get('scenario') as string | undefined });
+        const running = await serve({
+          port: numberFlag(parsed, 'port'),
+          scenario: parsed.flags.get('scenario') as string | undefined,
+          host: parsed.flags.get('host') as string | undefined,
+        });
+        const stop = () => void running.close().then(() => process.exit(0));
+        process.once('SIGINT', stop);
+        process.once('SIGTERM', stop);
         return -1;
       }
       case undefined:

@@ -45,9 +45,7 @@ export function simulate(args: SimulateArgs): Record<string, unknown> {
       log?.append({ record: 'event', event });
     }
     if (log && (frame.tick % every === 0 || frame.status === 'halted')) {
-      const { seq, ...sample } = sampleOf(frame, 0);
-      void seq;
-      log.append(sample);
+      log.append(sampleOf(frame));
     }
     progress.update(frame.tau, `tau ${frame.tau.toPrecision(6)}`);
   });

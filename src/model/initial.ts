@@ -7,7 +7,7 @@ import type { ModelParameters } from './parameters.js';
  * The rotating-frame state at tau = 0 for the scenario's initial form.
  * - state: taken as given (x, x' per node and mode);
  * - random: every mode of every node gets a uniformly random phase and a magnitude uniform in
- *   [amplitude/2, amplitude], from the seeded generator (nothing starts exactly at rest);
+ *   [A/2, A] (A = amplitude, or amplitude[j] per mode), from the seeded generator;
  * - pattern: mode `mode` gets a_k = amplitude e^{2 pi i q k / N}, the other mode stays at rest.
  */
 export function initialRotatingState(scenario: Scenario, params: ModelParameters): Float64Array {
@@ -20,7 +20,9 @@ export function initialRotatingState(scenario: Scenario, params: ModelParameters
     const random = new Random(init.random.seed);
     for (let k = 0; k < n; k++) {
       for (let j = 0; j < m; j++) {
-        const magnitude = init.random.amplitude * (0.5 + 0.5 * random.uniform());
+        const amplitude = init.random.amplitude;
+        const scale = Array.isArray(amplitude) ? amplitude[j] : amplitude;
+        const magnitude = scale * (0.5 + 0.5 * random.uniform());
         const phase = 2 * Math.PI * random.uniform();
         addToAmplitude(y, m, k, j, magnitude * Math.cos(phase), magnitude * Math.sin(phase));
       }

@@ -41,7 +41,7 @@ export interface CheckpointRecord {
 
 export type LogRecord = HeaderRecord | EventRecord | SampleRecord | CheckpointRecord | { record: string; seq: number; [key: string]: unknown };
 
-/** A frame as a sample: events are logged on their own, so they are dropped here. */
-export function sampleOf(frame: Frame, seq: number): SampleRecord {
-  return { record: 'sample', seq, frame: { ...frame, events: [] } };
+/** A frame as a sample record (the writer stamps seq): events are logged on their own. */
+export function sampleOf(frame: Frame): Omit<SampleRecord, 'seq'> {
+  return { record: 'sample', frame: { ...frame, events: [] } };
 }

@@ -271,9 +271,16 @@ function parseInitial(value: unknown, nodes: number, modeCount: number): Initial
   if (kind === 'state') return { state: parseInitialState(obj.state, path, nodes, modeCount) };
   if (kind === 'random') {
     const r = expectObject(obj.random, path, ['seed', 'amplitude']);
-    return {
-      random: { seed: numberField(r, path, 'seed', uint32), amplitude: numberField(r, path, 'amplitude', positive) },
-    };
+    const seed = numberField(r, path, 'seed', uint32);
+    const amplitudePath = child(path, 'amplitude');
+    if (Array.isArray(r.amplitude)) {
+      // One amplitude per mode: a spurious mode can start far weaker than the wanted one.
+      expectLength(r.amplitude, amplitudePath, modeCount, modeCount === 1 ? 'entry (one per mode)' : 'entries (one per mode)');
+      const perMode = r.amplitude.map((a, j) => atLeast(finiteNumber(a, item(amplitudePath, j)), item(amplitudePath, j), 0));
+      if (!perMode.some((a) => a > 0)) fail(amplitudePath, 'must have at least one amplitude > 0');
+      return { random: { seed, amplitude: perMode } };
+    }
+    return { random: { seed, amplitude: numberField(r, path, 'amplitude', positive) } };
   }
   const p = expectObject(obj.pattern, path, ['q', 'amplitude', 'mode']);
   const waveNumber: Check = (n, at) => {
@@ -417,6 +424,9 @@ export function scenarioToJSON(s: Scenario): ScenarioJSON {
 
 function copyInitial(initial: InitialSpec): InitialSpec {
   if ('state' in initial) return { state: initial.state.map((row) => row.map((c) => ({ x: c.x, xdot: c.xdot }))) };
-  if ('random' in initial) return { random: { ...initial.random } };
+  if ('random' in initial) {
+    const { seed, amplitude } = initial.random;
+    return { random: { seed, amplitude: Array.isArray(amplitude) ? [...amplitude] : amplitude } };
+  }
   return { pattern: { ...initial.pattern } };
 }

@@ -48,7 +48,8 @@ export interface ModeState {
 
 export type InitialSpec =
   | { state: ModeState[][] }
-  | { random: { seed: number; amplitude: number } }
+  /** Random phases; magnitudes uniform in [A/2, A] with A one number or one per mode. */
+  | { random: { seed: number; amplitude: number | number[] } }
   | { pattern: { q: number; amplitude: number; mode: number } };
 
 export interface IntegratorSpec {

@@ -27,7 +27,7 @@ export interface SessionOptions {
   guideTolerance?: number;
 }
 
-export type SessionEventKind = 'perturbation' | 'lock' | 'unlock' | 'pattern-change' | 'blow-up' | 'guide-failure' | 'warning';
+export type SessionEventKind = 'perturbation' | 'lock' | 'unlock' | 'pattern-change' | 'blow-up' | 'guide-failure' | 'warning' | 'control';
 
 export interface SessionEvent {
   /** Running number of the event within the session. */
@@ -167,6 +167,14 @@ export class CoSimulation {
   /** The full state in the original coordinates (x, x') at the current tau. */
   fullState(): ModeState[][] {
     return originalFromRotating(this.params, this.tau, this.full.state);
+  }
+
+  /**
+   * An event from outside the tick loop (pause, speed, reset ...), numbered in the same sequence
+   * as the session's own events and handed back at once instead of with the next frame.
+   */
+  recordNow(kind: SessionEventKind, message: string, by: string): SessionEvent {
+    return { seq: ++this.eventCount, tau: this.tau, kind, message, by };
   }
 
   private applyQueue(): void {

@@ -28,7 +28,7 @@ describe('built-in scenarios', () => {
     expect(s.detuning[0]).toBeCloseTo(0.012, 14); // 0.12 ppm / 1e-5
     expect(s.detuning[3]).toBeCloseTo(-0.015, 14); // -0.15 ppm / 1e-5
     expect(s.noise).toEqual({ intensity: 1e-9, seed: 2026, detuningWalk: 0 });
-    expect(s.initial).toEqual({ random: { seed: 7, amplitude: 0.2 } });
+    expect(s.initial).toEqual({ random: { seed: 7, amplitude: [1.0, 0.02] } });
     expect(s.integrator.macroPeriods).toBe(159); // round(1 / (2 pi 100 * 1e-5)) by hand
   });
 

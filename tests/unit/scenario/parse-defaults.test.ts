@@ -137,3 +137,27 @@ describe('default micro step follows eps', () => {
     expect(parseScenario(minimal({ epsilon: eps })).integrator.stepsPerPeriod).toBe(expected);
   });
 });
+
+describe('random start with one amplitude per mode', () => {
+  const twoModes = (random: unknown) =>
+    minimal({
+      modes: [
+        { omega: 1, gain: 1, loss: 0 },
+        { omega: 1.5, gain: 1, loss: 0 },
+      ],
+      initial: { random },
+    });
+
+  test('is accepted and kept', () => {
+    const s = parseScenario(twoModes({ seed: 4, amplitude: [1, 0.02] }));
+    expect(s.initial).toEqual({ random: { seed: 4, amplitude: [1, 0.02] } });
+  });
+
+  test.each([
+    [{ seed: 4, amplitude: [1] }, 'initial.random.amplitude: must have 2 entries (one per mode) (got 1)'],
+    [{ seed: 4, amplitude: [1, -0.1] }, 'initial.random.amplitude[1]: must be >= 0 (got -0.1)'],
+    [{ seed: 4, amplitude: [0, 0] }, 'initial.random.amplitude: must have at least one amplitude > 0'],
+  ])('%j is refused: %s', (random, message) => {
+    expect(() => parseScenario(twoModes(random))).toThrow(message);
+  });
+});

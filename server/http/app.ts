@@ -1,0 +1,57 @@
+import { existsSync } from 'node:fs';
+import { basename } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import express, { type Express, type NextFunction, type Request, type Response } from 'express';
+import { builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
+import type { LiveSession } from '../live/live-session.js';
+
+/** Where `vite build` puts the dashboard (dist/web beside dist/server). */
+export const WEB_ROOT = fileURLToPath(new URL('../../web/', import.meta.url));
+
+/**
+ * HTTP side: the built dashboard and a small JSON API.
+ *   GET /api/session    session info and the number of people watching
+ *   GET /api/scenarios  the built-in scenarios
+ *   GET /api/log        the current session log as an NDJSON download
+ *   GET /api/health     liveness
+ */
+export function createApp(live: LiveSession, viewers: () => number): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.get('/api/health', (_req, res) => {
+    res.json({ ok: true });
+  });
+  app.get('/api/session', (_req, res) => {
+    res.json({ ...live.info(), viewers: viewers(), tau: live.session.tau, tick: live.session.tick });
+  });
+  app.get('/api/scenarios', (_req, res) => {
+    res.json(builtInScenarioNames.map((name) => ({ name, title: loadBuiltInScenario(name).name })));
+  });
+  app.get('/api/log', async (_req, res, next) => {
+    const log = live.log;
+    if (!log) {
+      res.status(404).json({ error: 'this server keeps no session log (started without a log folder)' });
+      return;
+    }
+    try {
+      await log.drain();
+      res.download(log.path, basename(log.path), { headers: { 'Content-Type': 'application/x-ndjson' } });
+    } catch (error) {
+      next(error);
+    }
+  });
+  app.use('/api', (_req, res) => {
+    res.status(404).json({ error: 'no such API endpoint' });
+  });
+  if (existsSync(WEB_ROOT)) {
+    app.use(express.static(WEB_ROOT, { index: 'index.html' }));
+  } else {
+    app.get('/', (_req, res) => {
+      res.status(503).type('text/plain').send('The dashboard is not built: run `npm run build` (npm start does it).\n');
+    });
+  }
+  app.use((error: Error, _req: Request, res: Response, _next: NextFunction) => {
+    res.status(500).json({ error: error.message });
+  });
+  return app;
+}
