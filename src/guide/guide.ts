@@ -42,6 +42,16 @@ export class GuideSystem {
     return !this.failed;
   }
 
+  /** The adaptive step the solver will try next (slow time); part of a bit-exact checkpoint. */
+  get nextStep(): number {
+    return this.solver.step;
+  }
+
+  set nextStep(step: number) {
+    this.solver.step = step;
+    this.solver.invalidate();
+  }
+
   /** Tell the solver that the state or the parameters changed outside it. */
   invalidate(): void {
     this.solver.invalidate();

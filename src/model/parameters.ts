@@ -77,6 +77,13 @@ export class ModelParameters {
     return -1;
   }
 
+  /** Set every link's weight at once (scenario order). */
+  setLinkWeights(weights: ArrayLike<number>): void {
+    if (weights.length !== this.linkWeight.length) throw new RangeError(`expected ${this.linkWeight.length} link weights, got ${weights.length}`);
+    this.linkWeight.set(weights);
+    this.refreshWeightSums();
+  }
+
   setLinkWeight(index: number, weight: number): void {
     this.linkWeight[index] = weight;
     this.refreshWeightSums();

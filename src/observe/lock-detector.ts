@@ -44,6 +44,19 @@ export class LockDetector {
     return worst;
   }
 
+  /** Everything needed to continue exactly where it was (for checkpoints). */
+  save(): { history: number[]; count: number; head: number; lockedSince: number | null } {
+    return { history: Array.from(this.history), count: this.count, head: this.head, lockedSince: this.lockedSince };
+  }
+
+  load(saved: ReturnType<LockDetector['save']>): void {
+    if (saved.history.length !== this.history.length) throw new RangeError('lock detector checkpoint does not match this window');
+    this.history.set(saved.history);
+    this.count = saved.count;
+    this.head = saved.head;
+    this.lockedSince = saved.lockedSince;
+  }
+
   private steady(newest: ArrayLike<number>): boolean {
     return this.excursion(newest) < this.tolerance;
   }

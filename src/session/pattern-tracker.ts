@@ -51,6 +51,15 @@ export class PatternTracker {
     this.detector.reset();
   }
 
+  save(): { carryingMode: number; detector: ReturnType<LockDetector['save']> } {
+    return { carryingMode: this.carryingMode, detector: this.detector.save() };
+  }
+
+  load(saved: ReturnType<PatternTracker['save']>): void {
+    this.carryingMode = saved.carryingMode;
+    this.detector.load(saved.detector);
+  }
+
   observe(tau: number, y: Float64Array, observed: SystemObservables, group: Int32Array[]): PatternReport {
     const mode = observed.dominantMode;
     if (mode !== this.carryingMode) {

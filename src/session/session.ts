@@ -11,6 +11,7 @@ import { graphAutomorphisms } from '../pattern/automorphisms.js';
 import { relativeEquilibriumStability, solveRelativeEquilibrium } from '../predict/relative-equilibrium.js';
 import { applyPerturbation, describePerturbation, parsePerturbation, type Perturbation } from './perturbation.js';
 import { PatternTracker, type PatternReport } from './pattern-tracker.js';
+import type { RandomState } from '../util/random.js';
 
 export interface SessionOptions {
   /**
@@ -38,6 +39,37 @@ export interface SessionEvent {
   /** Who caused it (operator name, "schedule", "engine"). */
   by: string;
   perturbation?: Perturbation;
+}
+
+/**
+ * Everything needed to continue a session bit for bit: both states, the clock, the mutable
+ * parameters, the noise generator, the guide's adaptive step, the lock windows and the queue.
+ * Plain JSON (doubles survive JSON.stringify/parse exactly).
+ */
+export interface SessionCheckpoint {
+  version: 1;
+  tick: number;
+  tau: number;
+  full: number[];
+  guide: number[];
+  guideStep: number;
+  guideFailed: boolean;
+  random: RandomState;
+  parameters: {
+    detuning: number[];
+    linkWeight: number[];
+    strength: number;
+    reactive: number;
+    dissipative: number;
+    noiseIntensity: number;
+    detuningWalk: number;
+  };
+  queue: { perturbation: Perturbation; by: string }[];
+  eventCount: number;
+  halted: string | null;
+  trackers: { full: ReturnType<PatternTracker['save']>; guide: ReturnType<PatternTracker['save']> };
+  lastFullKind: string;
+  margin: { stale: boolean; value: { margin: number; rotation: number[] } | null };
 }
 
 export interface GuideReport extends SystemObservables {
@@ -167,6 +199,71 @@ export class CoSimulation {
   /** The full state in the original coordinates (x, x') at the current tau. */
   fullState(): ModeState[][] {
     return originalFromRotating(this.params, this.tau, this.full.state);
+  }
+
+  /** A bit-exact checkpoint (see SessionCheckpoint). Events not yet handed out are not part of it. */
+  checkpoint(): SessionCheckpoint {
+    const p = this.params;
+    return {
+      version: 1,
+      tick: this.tick,
+      tau: this.tau,
+      full: Array.from(this.full.state),
+      guide: Array.from(this.guide.state),
+      guideStep: this.guide.nextStep,
+      guideFailed: this.guide.failed,
+      random: this.full.random.getState(),
+      parameters: {
+        detuning: Array.from(p.detuning),
+        linkWeight: Array.from(p.linkWeight),
+        strength: p.strength,
+        reactive: p.reactive,
+        dissipative: p.dissipative,
+        noiseIntensity: p.noiseIntensity,
+        detuningWalk: p.detuningWalk,
+      },
+      queue: this.queue.map((q) => ({ ...q })),
+      eventCount: this.eventCount,
+      halted: this.halted,
+      trackers: { full: this.fullTracker.save(), guide: this.guideTracker.save() },
+      lastFullKind: this.lastFullKind,
+      margin: { stale: this.marginStale, value: this.margin },
+    };
+  }
+
+  /** A session of `scenario` continued from a checkpoint it wrote. */
+  static fromCheckpoint(scenario: Scenario, saved: SessionCheckpoint, options: SessionOptions = {}): CoSimulation {
+    const session = new CoSimulation(scenario, options);
+    session.pending = [];
+    const p = session.params;
+    if (saved.full.length !== session.full.state.length || saved.parameters.linkWeight.length !== p.linkWeight.length) {
+      throw new RangeError('the checkpoint does not belong to this scenario (state or link count differs)');
+    }
+    session.tick = saved.tick;
+    session.full.state.set(saved.full);
+    session.full.stepper.tau = saved.tau;
+    session.full.random.setState(saved.random);
+    session.guide.state.set(saved.guide);
+    session.guide.tau = saved.tau;
+    session.guide.failed = saved.guideFailed;
+    if (saved.guideStep > 0) session.guide.nextStep = saved.guideStep;
+    p.detuning.set(saved.parameters.detuning);
+    p.setLinkWeights(saved.parameters.linkWeight);
+    p.strength = saved.parameters.strength;
+    p.reactive = saved.parameters.reactive;
+    p.dissipative = saved.parameters.dissipative;
+    p.noiseIntensity = saved.parameters.noiseIntensity;
+    p.detuningWalk = saved.parameters.detuningWalk;
+    session.queue.push(...saved.queue.map((q) => ({ ...q })));
+    session.eventCount = saved.eventCount;
+    session.halted = saved.halted;
+    session.fullTracker.load(saved.trackers.full);
+    session.guideTracker.load(saved.trackers.guide);
+    session.lastFullKind = saved.lastFullKind;
+    session.marginStale = saved.margin.stale;
+    session.margin = saved.margin.value;
+    session.group = session.computeGroup();
+    return session;
   }
 
   /**

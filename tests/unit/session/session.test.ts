@@ -197,3 +197,32 @@ describe('co-simulation session', () => {
     expect(far.warnings).toHaveLength(0);
   });
 });
+
+describe('checkpoints', () => {
+  test('a session restored from a JSON checkpoint continues bit for bit, noise, queue and lock windows included', () => {
+    const scenario = ring({ noise: { intensity: 1e-5, seed: 77, detuningWalk: 1e-7 } });
+    const straight = new CoSimulation(scenario);
+    straight.runUntil(6 / 0.01);
+    straight.submit({ action: 'break-link', from: 1, to: 2 }, 'op');
+    const straightFrames: unknown[] = [];
+    straight.runUntil(12 / 0.01, (f) => straightFrames.push(f));
+
+    const first = new CoSimulation(scenario);
+    first.runUntil(6 / 0.01);
+    first.submit({ action: 'break-link', from: 1, to: 2 }, 'op');
+    const saved = JSON.parse(JSON.stringify(first.checkpoint()));
+    const resumed = CoSimulation.fromCheckpoint(scenario, saved);
+    const resumedFrames: unknown[] = [];
+    resumed.runUntil(12 / 0.01, (f) => resumedFrames.push(f));
+
+    expect(Array.from(resumed.full.state)).toEqual(Array.from(straight.full.state));
+    expect(Array.from(resumed.guide.state)).toEqual(Array.from(straight.guide.state));
+    expect(Array.from(resumed.params.detuning)).toEqual(Array.from(straight.params.detuning));
+    expect(resumedFrames).toEqual(straightFrames);
+  });
+
+  test('a checkpoint of another scenario is refused', () => {
+    const saved = new CoSimulation(ring()).checkpoint();
+    expect(() => CoSimulation.fromCheckpoint(ring({ nodes: 5, initial: { random: { seed: 1, amplitude: 1 } } }), saved)).toThrow(/does not belong/);
+  });
+});
