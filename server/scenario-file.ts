@@ -2,6 +2,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { parseScenario } from '../src/scenario/parse.js';
 import type { Scenario } from '../src/scenario/types.js';
 import { builtInScenarioNames, builtInScenarioRaw } from '../src/scenarios/index.js';
+import { jsonErrorOffset } from './json-error-offset.js';
 
 /** Thrown for input the user must fix; the CLI prints the message and exits non-zero. */
 export class UsageError extends Error {
@@ -14,9 +15,8 @@ export function parseJsonText(text: string, source: string): unknown {
     return JSON.parse(text);
   } catch (error) {
     const message = (error as Error).message;
-    const at = /position (\d+)/.exec(message);
-    if (at) {
-      const offset = Number(at[1]);
+    const offset = jsonErrorOffset(text);
+    if (offset >= 0) {
       const before = text.slice(0, offset);
       const line = before.split('\n').length;
       const column = offset - before.lastIndexOf('\n');
