@@ -10,7 +10,12 @@ export default defineConfig({
       },
       {
         extends: true,
-        test: { name: 'server', include: ['tests/integration/**/*.test.ts'], testTimeout: 120_000 },
+        test: {
+          name: 'server',
+          include: ['tests/integration/**/*.test.ts'],
+          globalSetup: ['tests/support/build-dist.ts'],
+          testTimeout: 120_000,
+        },
       },
       {
         extends: true,

@@ -29,6 +29,8 @@ export interface ServeOptions {
   allowedOrigins?: string[];
   /** Frames per second sent to each browser at most; default 20. */
   frameRate?: number;
+  /** Where the run steps: a worker thread (default) or the main thread. */
+  thread?: 'worker' | 'main';
   /** Backpressure and flood limits of the WebSocket hub (defaults in hub.ts). */
   limits?: Pick<HubOptions, 'frameBacklogBytes' | 'cutoffBytes' | 'stallMs' | 'burst' | 'ratePerSecond' | 'heartbeatMs'>;
 }
@@ -50,7 +52,8 @@ export async function serve(options: ServeOptions = {}): Promise<RunningServer> 
   const token = options.token ?? process.env.SYNCRING_TOKEN ?? randomBytes(12).toString('base64url');
   const host = options.host ?? '127.0.0.1';
   const logDir = options.logDir === undefined ? resolve('logs') : options.logDir;
-  const live = new LiveSession({ scenario, speed: options.speed ?? 2, logDir, frameRate: options.frameRate });
+  const live = new LiveSession({ scenario, speed: options.speed ?? 2, logDir, frameRate: options.frameRate, thread: options.thread });
+  await live.ready;
   live.on('log-error', (error: Error) => process.stderr.write(`syncring: ${error.message}\n`));
   let port = 0;
   const policy: OriginPolicy = { allowedHosts: [], allowedOrigins: options.allowedOrigins ?? [], anyHost: host === '0.0.0.0' || host === '::' };

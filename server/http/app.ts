@@ -22,7 +22,7 @@ export function createApp(live: LiveSession, viewers: () => number): Express {
     res.json({ ok: true });
   });
   app.get('/api/session', (_req, res) => {
-    res.json({ ...live.info(), viewers: viewers(), tau: live.session.tau, tick: live.session.tick });
+    res.json({ ...live.info(), viewers: viewers(), tau: live.tau, tick: live.tick });
   });
   app.get('/api/scenarios', (_req, res) => {
     res.json(builtInScenarioNames.map((name) => ({ name, title: loadBuiltInScenario(name).name })));

@@ -1,24 +1,16 @@
 import { EventEmitter } from 'node:events';
-import { CoSimulation, type Frame, type SessionEvent } from '../../src/session/session.js';
-import { parseScenario, scenarioToJSON } from '../../src/scenario/parse.js';
+import { Worker } from 'node:worker_threads';
+import { ModelParameters } from '../../src/model/parameters.js';
+import { parseScenario } from '../../src/scenario/parse.js';
+import { scenarioToJSON } from '../../src/scenario/parse.js';
 import type { Scenario } from '../../src/scenario/types.js';
-import { deltaToPpm } from '../../src/scenario/units.js';
-import { builtInScenarioNames, builtInScenarioRaw } from '../../src/scenarios/index.js';
+import type { SessionCheckpoint, SessionEvent } from '../../src/session/session.js';
 import { DecimatingHistory } from '../../src/observe/decimating-history.js';
-import { LOG_FORMAT_VERSION, sampleOf } from '../../src/protocol/log-records.js';
-import {
-  ProtocolError,
-  historyPointOf,
-  type ClientCommand,
-  type HistoryPoint,
-  type SessionInfo,
-  type Speed,
-  type WireFrame,
-  type RunStatus,
-} from '../../src/protocol/messages.js';
-import { ScenarioError } from '../../src/scenario/errors.js';
+import { LOG_FORMAT_VERSION } from '../../src/protocol/log-records.js';
+import { ProtocolError, type ClientCommand, type HistoryPoint, type RunStatus, type SessionInfo, type Speed, type WireFrame } from '../../src/protocol/messages.js';
 import { SessionLog } from '../log/session-log.js';
 import { SOFTWARE_VERSION } from '../version.js';
+import { SessionRunner, type RunnerOptions, type RunnerOutput } from './session-runner.js';
 
 export interface LiveSessionOptions {
   scenario: Scenario;
@@ -28,276 +20,181 @@ export interface LiveSessionOptions {
   logDir: string | null;
   /** Frames per second sent to browsers at most. */
   frameRate?: number;
-  /** Wall milliseconds of stepping per turn of the event loop. */
+  /** Wall milliseconds of stepping per slice. */
   sliceMs?: number;
+  /** Where the run steps: a worker thread (default) or the main thread. */
+  thread?: 'worker' | 'main';
 }
 
 const RECENT_EVENTS = 200;
-/** Samples logged per slow time unit (ticks are decimated to this). */
-const SAMPLES_PER_SLOW_UNIT = 10;
-/** A checkpoint of the full state every this many samples. */
-const CHECKPOINT_EVERY = 50;
+
+type ReplyMessage = { kind: 'reply'; id: number; error?: { path: string; reason: string }; checkpoint?: SessionCheckpoint };
 
 /**
- * The one running co-simulation of a server process. It paces the session's ticks to the
- * operator's speed in short slices of the event loop, so socket traffic is served between
- * slices; it emits 'frame' (the newest frame, at most frameRate per second), 'event' (every
- * session event, never dropped) and 'status' (run status or parameters changed), and keeps the
- * session log and a decimated history for late joiners.
+ * The server's one live run, as the rest of the server sees it. The stepping itself happens in
+ * a SessionRunner, by default in a worker thread; this side keeps what needs I/O or serves
+ * clients: the session log, the decimated history for late joiners, recent events, the latest
+ * frame and status, and a copy of the network for validating commands before they are sent on.
  *
  * Events: 'frame' (WireFrame), 'event' (SessionEvent), 'status' (), 'log-error' (Error).
  */
 export class LiveSession extends EventEmitter {
-  session!: CoSimulation;
-  scenario: Scenario;
-  status: RunStatus = 'running';
-  speed: Speed;
   readonly history = new DecimatingHistory<HistoryPoint>(1200);
   readonly recentEvents: SessionEvent[] = [];
-  log: SessionLog | null = null;
   latestFrame: WireFrame | null = null;
+  log: SessionLog | null = null;
+  /** The network as last started, for validating commands (sizes and links never change in a run). */
+  params: ModelParameters;
+  tau = 0;
+  tick = 0;
+  readonly ready: Promise<void>;
 
-  private readonly frameInterval: number;
-  private readonly sliceMs: number;
-  private timer: NodeJS.Timeout | null = null;
-  private stopped = false;
-  private lastFrameSent = 0;
-  private pendingFrame: WireFrame | null = null;
-  private paceOrigin = { wall: 0, slow: 0 };
-  private sampleEveryTicks = 1;
-  private samplesLogged = 0;
+  private current: SessionInfo | null = null;
+  private readonly worker: Worker | null = null;
+  private readonly inThread: SessionRunner | null = null;
+  private readonly replies = new Map<number, { resolve: (m: ReplyMessage) => void; reject: (e: Error) => void }>();
+  private nextId = 1;
+  private markReady!: () => void;
+  private closed = false;
 
   constructor(private readonly options: LiveSessionOptions) {
     super();
-    this.scenario = options.scenario;
-    this.speed = options.speed ?? 1;
-    this.frameInterval = 1000 / (options.frameRate ?? 20);
-    this.sliceMs = options.sliceMs ?? 25;
-    this.start();
-  }
-
-  /** Session info for hello and status messages. */
-  info(): SessionInfo {
-    const p = this.session.params;
-    const s = this.scenario;
-    return {
-      scenarioName: s.name,
-      scenario: scenarioToJSON(s),
-      nodes: p.nodes,
-      modes: p.modes,
-      epsilon: p.epsilon,
-      nominalFrequencyHz: s.units.nominalFrequencyHz,
-      omega: Array.from(p.omega),
-      links: Array.from(p.linkFrom, (from, e) => ({ from, to: p.linkTo[e], weight: p.linkWeight[e], nominal: p.linkNominal[e] })),
-      detuning: Array.from(p.detuning),
-      detuningPpm: p.epsilon > 0 ? Array.from(p.detuning, (d) => deltaToPpm(d, p.epsilon)) : Array.from(p.detuning, () => 0),
-      coupling: { strength: p.strength, reactive: p.reactive, dissipative: p.dissipative },
-      noise: { intensity: p.noiseIntensity, detuningWalk: p.detuningWalk, seed: s.noise.seed },
-      macroStep: this.session.macroStep,
-      integrator: { mode: 'micro', ...s.integrator },
-      status: this.status,
-      speed: this.speed,
-      warnings: this.session.warnings.map((w) => w.message),
-      logFile: this.log?.path ?? null,
+    this.params = new ModelParameters(options.scenario);
+    this.ready = new Promise((resolve) => (this.markReady = resolve));
+    const runnerOptions: RunnerOptions = {
+      scenario: scenarioToJSON(options.scenario),
+      speed: options.speed ?? 1,
+      frameRate: options.frameRate ?? 20,
+      sliceMs: options.sliceMs ?? 25,
     };
+    if ((options.thread ?? 'worker') === 'worker') {
+      this.worker = new Worker(workerUrl(), { workerData: runnerOptions });
+      this.worker.on('message', (message: RunnerOutput | ReplyMessage) => (message.kind === 'reply' ? this.settle(message) : this.receive(message)));
+      this.worker.on('error', (error) => this.emit('log-error', new Error(`simulation worker failed: ${error.message}`)));
+    } else {
+      this.inThread = new SessionRunner(runnerOptions, (output) => this.receive(output));
+      this.receive({ kind: 'status', info: this.inThread.info(), tau: 0, tick: 0 });
+    }
   }
 
-  /** Carry out a validated command from `by`; throws ProtocolError when it cannot be done now. */
-  command(command: ClientCommand, by: string): void {
-    if (command.kind === 'perturbation') {
-      if (this.status === 'halted') throw new ProtocolError('action', 'the run is halted after a blow-up; reset or load a scenario first', command.id);
-      this.session.enqueue(command.perturbation, by);
-      // a paused run applies it at once, so everyone sees the change without resuming
-      if (this.status === 'paused') this.flushPaused();
+  info(): SessionInfo {
+    if (!this.current) throw new Error('the live session has not started yet');
+    return { ...this.current, logFile: this.log?.path ?? null };
+  }
+
+  get status(): RunStatus {
+    return this.current?.status ?? 'running';
+  }
+
+  /** Carry out a validated command; rejects with ProtocolError when the run cannot do it. */
+  async command(command: ClientCommand, by: string): Promise<void> {
+    if (this.inThread) {
+      this.inThread.command(command, by);
       return;
     }
-    switch (command.action) {
-      case 'pause':
-        if (this.status === 'running') this.setStatus('paused', by);
-        return;
-      case 'resume':
-        if (this.status === 'halted') throw new ProtocolError('action', 'the run is halted after a blow-up; reset it first', command.id);
-        if (this.status === 'paused') this.setStatus('running', by);
-        return;
-      case 'set-speed':
-        this.speed = command.speed;
-        this.resetPace();
-        this.announce(`speed set to ${command.speed === 'max' ? 'as fast as possible' : `${command.speed} slow-time units per second`}`, by);
-        return;
-      case 'reset':
-        this.restart(this.scenario, by, 'run reset to its start');
-        return;
-      case 'load-scenario': {
-        let scenario: Scenario;
-        try {
-          if (command.name !== undefined) {
-            if (!builtInScenarioNames.includes(command.name)) {
-              throw new ProtocolError('name', `no built-in scenario ${JSON.stringify(command.name)} (available: ${builtInScenarioNames.join(', ')})`, command.id);
-            }
-            scenario = parseScenario(builtInScenarioRaw(command.name), `built-in scenario ${command.name}`);
-          } else {
-            scenario = parseScenario(command.scenario, 'scenario');
-          }
-        } catch (error) {
-          if (error instanceof ScenarioError) throw new ProtocolError(error.path ? `scenario.${error.path}` : 'scenario', error.reason, command.id);
-          throw error;
-        }
-        this.restart(scenario, by, `scenario "${scenario.name}" loaded`);
-        return;
-      }
+    const reply = await this.request({ kind: 'command', command, by });
+    if (reply.error) throw new ProtocolError(reply.error.path, reply.error.reason, command.id);
+  }
+
+  /** Step at once until the run has done `tick` ticks; returns the session's checkpoint (tests, tools). */
+  async runToTick(tick: number): Promise<SessionCheckpoint> {
+    if (this.inThread) {
+      this.inThread.runToTick(tick);
+      return this.inThread.session.checkpoint();
     }
+    return (await this.request({ kind: 'run-to-tick', tick })).checkpoint!;
   }
 
   async close(): Promise<void> {
-    this.stopped = true;
-    if (this.timer) clearTimeout(this.timer);
-    this.timer = null;
+    if (this.closed) return;
+    this.closed = true;
+    this.inThread?.stop();
+    if (this.worker) {
+      this.worker.postMessage({ kind: 'stop' });
+      await this.worker.terminate();
+    }
+    for (const pending of this.replies.values()) pending.reject(new Error('the live session was closed'));
+    this.replies.clear();
     await this.log?.close();
   }
 
-  private start(): void {
-    this.session = new CoSimulation(this.scenario);
-    const ticksPerSlowUnit = this.session.params.epsilon > 0 ? 1 / (this.session.params.epsilon * this.session.macroStep) : 1;
-    this.sampleEveryTicks = Math.max(1, Math.round(ticksPerSlowUnit / SAMPLES_PER_SLOW_UNIT));
-    this.samplesLogged = 0;
+  private request(message: { kind: 'command'; command: ClientCommand; by: string } | { kind: 'run-to-tick'; tick: number }): Promise<ReplyMessage> {
+    const id = this.nextId++;
+    return new Promise((resolve, reject) => {
+      this.replies.set(id, { resolve, reject });
+      this.worker!.postMessage({ ...message, id });
+    });
+  }
+
+  private settle(reply: ReplyMessage): void {
+    const pending = this.replies.get(reply.id);
+    this.replies.delete(reply.id);
+    pending?.resolve(reply);
+  }
+
+  private receive(output: RunnerOutput): void {
+    switch (output.kind) {
+      case 'started':
+        this.start(output.scenario, output.label);
+        return;
+      case 'frame':
+        this.latestFrame = output.frame;
+        this.tau = output.frame.tau;
+        this.tick = output.frame.tick;
+        this.emit('frame', output.frame);
+        return;
+      case 'history':
+        for (const point of output.points) this.history.push(point);
+        return;
+      case 'event':
+        this.recentEvents.push(output.event);
+        if (this.recentEvents.length > RECENT_EVENTS) this.recentEvents.shift();
+        this.emit('event', output.event);
+        return;
+      case 'log':
+        void this.log?.append(output.record).catch(() => undefined);
+        return;
+      case 'status':
+        this.current = output.info;
+        this.tau = output.tau;
+        this.tick = output.tick;
+        this.markReady();
+        this.emit('status');
+        return;
+    }
+  }
+
+  /** A run (re)started: fresh history and a new log file with its header. */
+  private start(scenarioJson: unknown, label: string): void {
+    const scenario = parseScenario(scenarioJson, 'scenario');
+    this.params = new ModelParameters(scenario);
     this.history.clear();
     this.recentEvents.length = 0;
     this.latestFrame = null;
-    this.pendingFrame = null;
-    this.status = 'running';
-    this.openLog();
-    this.resetPace();
-    this.schedule(0);
-  }
-
-  private restart(scenario: Scenario, by: string, message: string): void {
+    this.tau = 0;
+    this.tick = 0;
     const previous = this.log;
-    this.scenario = scenario;
-    this.start();
-    void previous?.close();
-    this.announce(message, by);
-  }
-
-  private openLog(): void {
     this.log = null;
-    if (!this.options.logDir) return;
-    const log = new SessionLog(SessionLog.fileFor(this.options.logDir, this.scenario.name), (error) => this.emit('log-error', error));
-    this.log = log;
-    void log
+    void previous?.close();
+    if (!this.options.logDir || this.closed) return;
+    this.log = new SessionLog(SessionLog.fileFor(this.options.logDir, label), (error) => this.emit('log-error', error));
+    void this.log
       .append({
         record: 'header',
         format: 'syncring-log',
         formatVersion: LOG_FORMAT_VERSION,
         software: { name: 'syncring', version: SOFTWARE_VERSION },
         createdAt: new Date().toISOString(),
-        scenario: scenarioToJSON(this.scenario),
-        seeds: { noise: this.scenario.noise.seed, initial: 'random' in this.scenario.initial ? this.scenario.initial.random.seed : null },
+        scenario: scenarioJson,
+        seeds: { noise: scenario.noise.seed, initial: 'random' in scenario.initial ? scenario.initial.random.seed : null },
       })
       .catch(() => undefined);
   }
+}
 
-  private logRecord(record: { record: string; [key: string]: unknown }): void {
-    void this.log?.append(record).catch(() => undefined);
-  }
-
-  private resetPace(): void {
-    this.paceOrigin = { wall: performance.now(), slow: this.session.params.epsilon * this.session.tau };
-  }
-
-  private schedule(delay: number): void {
-    if (this.stopped) return;
-    if (this.timer) clearTimeout(this.timer);
-    this.timer = setTimeout(() => this.turn(), delay);
-  }
-
-  /** One slice of stepping, then give the event loop back. */
-  private turn(): void {
-    this.timer = null;
-    if (this.stopped) return;
-    if (this.status !== 'running') return;
-    const eps = this.session.params.epsilon;
-    const sliceEnd = performance.now() + this.sliceMs;
-    let delay = 0;
-    while (performance.now() < sliceEnd && this.status === 'running') {
-      if (this.speed !== 'max' && eps > 0) {
-        const target = this.paceOrigin.slow + ((performance.now() - this.paceOrigin.wall) / 1000) * this.speed;
-        if (eps * this.session.tau >= target) {
-          // ahead of the clock: sleep until the next tick is due
-          delay = Math.min(50, Math.max(1, ((eps * this.session.macroStep) / this.speed) * 1000));
-          break;
-        }
-      }
-      const frame = this.session.step();
-      if (!frame) break;
-      this.absorb(frame);
-    }
-    this.flushFrame(false);
-    if (this.status === 'running') this.schedule(delay);
-  }
-
-  private absorb(frame: Frame): void {
-    const { events, ...wire } = frame;
-    for (const event of events) this.publishEvent(event);
-    // a perturbation changed the parameters: tell everyone once it has taken effect
-    if (events.some((e) => e.kind === 'perturbation')) this.emit('status');
-    this.latestFrame = wire;
-    this.pendingFrame = wire;
-    this.history.push(historyPointOf(wire));
-    if (frame.tick % this.sampleEveryTicks === 0 || frame.status === 'halted') {
-      this.logRecord(sampleOf(frame));
-      if (++this.samplesLogged % CHECKPOINT_EVERY === 0) this.logCheckpoint();
-    }
-    if (frame.status === 'halted' && this.status !== 'halted') {
-      this.status = 'halted';
-      this.flushFrame(true);
-      this.logCheckpoint();
-      this.emit('status');
-    }
-  }
-
-  private logCheckpoint(): void {
-    this.logRecord({ record: 'checkpoint', tau: this.session.tau, tick: this.session.tick, state: this.session.fullState() });
-  }
-
-  private publishEvent(event: SessionEvent): void {
-    this.recentEvents.push(event);
-    if (this.recentEvents.length > RECENT_EVENTS) this.recentEvents.shift();
-    this.logRecord({ record: 'event', event });
-    this.emit('event', event);
-  }
-
-  private flushFrame(force: boolean): void {
-    const now = performance.now();
-    if (!this.pendingFrame || (!force && now - this.lastFrameSent < this.frameInterval)) return;
-    this.lastFrameSent = now;
-    const frame = this.pendingFrame;
-    this.pendingFrame = null;
-    this.emit('frame', frame);
-  }
-
-  /** While paused, apply queued perturbations with a zero-length tick so everyone sees them. */
-  private flushPaused(): void {
-    setImmediate(() => {
-      if (this.status !== 'paused') return;
-      const frame = this.session.step(this.session.tau);
-      if (frame) this.absorb(frame);
-      this.flushFrame(true);
-      this.emit('status');
-    });
-  }
-
-  private setStatus(status: RunStatus, by: string): void {
-    this.status = status;
-    this.announce(status === 'paused' ? 'run paused' : 'run resumed', by);
-    if (status === 'running') {
-      this.resetPace();
-      this.schedule(0);
-    }
-  }
-
-  /** A control event (not a perturbation): logged, broadcast, and followed by a status update. */
-  private announce(message: string, by: string): void {
-    this.publishEvent(this.session.recordNow('control', message, by));
-    this.emit('status');
-  }
+/** The compiled worker beside this module, or in dist/ when the server runs from TypeScript sources (tests). */
+function workerUrl(): URL {
+  const here = new URL(import.meta.url);
+  if (here.pathname.endsWith('.js')) return new URL('./session-worker.js', here);
+  return new URL('../../dist/server/live/session-worker.js', here);
 }

@@ -149,19 +149,27 @@ export class Hub {
       return;
     }
     client.refused = 0;
+    void this.dispatch(client, data, isBinary);
+  }
+
+  /** Validate one message, hand it to the live run, and answer the sender with ack or error. */
+  private async dispatch(client: Client, data: Buffer, isBinary: boolean): Promise<void> {
     let id: string | number | null = null;
     try {
       if (isBinary) throw new ProtocolError('', 'binary messages are not accepted; send JSON text');
-      const command = parseClientMessage(data.toString('utf8'), this.live.session.params);
+      const command = parseClientMessage(data.toString('utf8'), this.live.params);
       id = command.id;
       if (client.role !== 'operator') {
         throw new ProtocolError('', 'viewers cannot send commands: open the operator URL (it carries the token)', id);
       }
       const action = command.kind === 'perturbation' ? command.perturbation.action : command.action;
-      this.live.command(command, client.name);
+      await this.live.command(command, client.name);
       this.send(client, { type: 'ack', id, action });
     } catch (error) {
-      if (!(error instanceof ProtocolError)) throw error;
+      if (!(error instanceof ProtocolError)) {
+        this.send(client, { type: 'error', reason: `internal error: ${(error as Error).message}`, id });
+        return;
+      }
       this.send(client, { type: 'error', reason: error.reason, ...(error.path ? { path: error.path } : {}), id: error.id ?? id });
     }
   }

@@ -31,27 +31,27 @@ describe('run control over the WebSocket', () => {
     operator.command({ action: 'pause', id: 1 });
     await operator.next('ack', (m) => m.id === 1);
     await viewer.next('status', (m) => m.session.status === 'paused');
-    const tau = server.live.session.tau;
+    const tau = server.live.tau;
     await sleep(300);
-    expect(server.live.session.tau).toBe(tau);
+    expect(server.live.tau).toBe(tau);
     operator.command({ action: 'set-detuning', node: 2, delta: 0.05, id: 2 });
     await viewer.next('event', (m) => m.event.message.startsWith('detuning of node 2'));
     await viewer.next('status', (m) => Math.abs(m.session.detuning[2] - 0.05) < 1e-12);
-    expect(server.live.session.tau).toBe(tau);
+    expect(server.live.tau).toBe(tau);
     operator.command({ action: 'resume', id: 3 });
     await viewer.next('status', (m) => m.session.status === 'running');
     await sleep(300);
-    expect(server.live.session.tau).toBeGreaterThan(tau);
+    expect(server.live.tau).toBeGreaterThan(tau);
   });
 
   test('set-speed paces the run in slow-time units per wall second', async () => {
     operator.command({ action: 'set-speed', speed: 5, id: 4 });
     await operator.next('ack', (m) => m.id === 4);
-    const eps = server.live.session.params.epsilon;
-    const s0 = eps * server.live.session.tau;
+    const eps = server.live.info().epsilon;
+    const s0 = eps * server.live.tau;
     const t0 = performance.now();
     await sleep(1500);
-    const rate = (eps * server.live.session.tau - s0) / ((performance.now() - t0) / 1000);
+    const rate = (eps * server.live.tau - s0) / ((performance.now() - t0) / 1000);
     // paced to 5 per second within a tick's worth of jitter
     expect(rate).toBeGreaterThan(3.5);
     expect(rate).toBeLessThan(6.5);
@@ -63,7 +63,7 @@ describe('run control over the WebSocket', () => {
     const firstLog = server.live.log!.path;
     operator.command({ action: 'reset', id: 6 });
     await viewer.next('event', (m) => m.event.message === 'run reset to its start');
-    expect(server.live.session.tau).toBeLessThan(50);
+    expect(server.live.tau).toBeLessThan(50);
     expect(server.live.log!.path).not.toBe(firstLog);
     operator.command({ action: 'load-scenario', name: 'pair-adler', id: 7 });
     await viewer.next('status', (m) => m.session.nodes === 2);
@@ -72,7 +72,7 @@ describe('run control over the WebSocket', () => {
     operator.command({ action: 'load-scenario', scenario: { nodes: 2 }, id: 9 });
     const bad = await operator.next('error', (m) => m.id === 9);
     expect(bad.path).toBe('scenario.topology');
-    expect(server.live.session.params.nodes).toBe(2);
+    expect(server.live.info().nodes).toBe(2);
     // the earlier log is complete and readable
     await sleep(100);
     const parsed = parseLog(readFileSync(firstLog, 'utf8'), { firstSeq: 0 });
@@ -96,6 +96,26 @@ describe('heartbeat', () => {
       lively.close();
     } finally {
       await server.close();
+    }
+  });
+});
+
+describe('worker thread', () => {
+  test('the worker-thread session gives bit-identical results to the in-thread one for the same seed', async () => {
+    const { LiveSession } = await import('../../server/live/live-session.js');
+    const { loadScenario } = await import('../../server/scenario-file.js');
+    const { scenario } = loadScenario('timing-board-8');
+    const sessions = (['worker', 'main'] as const).map((thread) => new LiveSession({ scenario, logDir: null, speed: 1e-9, thread }));
+    try {
+      await Promise.all(sessions.map((s) => s.ready));
+      const [fromWorker, inThread] = await Promise.all(sessions.map((s) => s.runToTick(400)));
+      expect(fromWorker.tick).toBe(400);
+      expect(inThread.tick).toBe(400);
+      expect(fromWorker.full).toEqual(inThread.full);
+      expect(fromWorker.guide).toEqual(inThread.guide);
+      expect(fromWorker.random).toEqual(inThread.random);
+    } finally {
+      await Promise.all(sessions.map((s) => s.close()));
     }
   });
 });

@@ -61,14 +61,14 @@ describe('live server with real WebSocket clients', () => {
     viewer.command({ action: 'set-coupling', strength: 5, id: 'v1' });
     const error = await viewer.next('error', (m) => m.id === 'v1');
     expect(error.reason).toMatch(/viewers cannot send commands/);
-    expect(server.live.session.params.strength).toBe(0.2);
+    expect(server.live.info().coupling.strength).toBe(0.2);
     viewer.close();
   });
 
   test('malformed JSON, a wrong type, a bad field and an unknown action each get their own error while the run goes on', async () => {
     const operator = await TestClient.connect(`${wsUrl}?token=op-secret`);
     await operator.next('hello');
-    const tauBefore = server.live.session.tau;
+    const tauBefore = server.live.tau;
     operator.ws.send('{"type": "command", "action": ');
     await operator.next('error', (m) => /not valid JSON/.test(m.reason));
     operator.ws.send(JSON.stringify({ type: 'chat', text: 'hi' }));
@@ -81,7 +81,7 @@ describe('live server with real WebSocket clients', () => {
     operator.ws.send(Buffer.from([1, 2, 3]));
     await operator.next('error', (m) => /binary/.test(m.reason));
     await sleep(300);
-    expect(server.live.session.tau).toBeGreaterThan(tauBefore);
+    expect(server.live.tau).toBeGreaterThan(tauBefore);
     expect(operator.closed).toBeNull();
     operator.close();
   });
