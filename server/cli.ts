@@ -4,7 +4,7 @@ import { UsageError } from './scenario-file.js';
 
 const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson]
-  syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json]
+  syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max]
 
 SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler).`;
 
@@ -68,9 +68,12 @@ export async function main(argv: string[]): Promise<number> {
       }
       case 'serve': {
         const { serve } = await import('./main.js');
-        const parsed = parseArgs(rest, ['port', 'scenario', 'host']);
-        onlyFlags(parsed, ['port', 'scenario', 'host']);
+        const parsed = parseArgs(rest, ['port', 'scenario', 'host', 'speed']);
+        onlyFlags(parsed, ['port', 'scenario', 'host', 'speed']);
+        const speed = parsed.flags.get('speed') === 'max' ? 'max' : numberFlag(parsed, 'speed');
+        if (typeof speed === 'number' && !(speed > 0)) throw new UsageError(`--speed must be > 0 or "max" (got ${speed})`);
         const running = await serve({
+          speed,
           port: numberFlag(parsed, 'port'),
           scenario: parsed.flags.get('scenario') as string | undefined,
           host: parsed.flags.get('host') as string | undefined,

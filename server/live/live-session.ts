@@ -36,12 +36,13 @@ type ReplyMessage = { kind: 'reply'; id: number; error?: { path: string; reason:
  * clients: the session log, the decimated history for late joiners, recent events, the latest
  * frame and status, and a copy of the network for validating commands before they are sent on.
  *
- * Events: 'frame' (WireFrame), 'event' (SessionEvent), 'status' (), 'log-error' (Error).
+ * Events: 'frame' (WireFrame, emittedAt), 'event' (SessionEvent), 'status' (), 'log-error' (Error).
  */
 export class LiveSession extends EventEmitter {
   readonly history = new DecimatingHistory<HistoryPoint>(1200);
   readonly recentEvents: SessionEvent[] = [];
   latestFrame: WireFrame | null = null;
+  latestEmittedAt = 0;
   log: SessionLog | null = null;
   /** The network as last started, for validating commands (sizes and links never change in a run). */
   params: ModelParameters;
@@ -139,9 +140,10 @@ export class LiveSession extends EventEmitter {
         return;
       case 'frame':
         this.latestFrame = output.frame;
+        this.latestEmittedAt = output.emittedAt;
         this.tau = output.frame.tau;
         this.tick = output.frame.tick;
-        this.emit('frame', output.frame);
+        this.emit('frame', output.frame, output.emittedAt);
         return;
       case 'history':
         for (const point of output.points) this.history.push(point);

@@ -10,7 +10,7 @@ import { ProtocolError, historyPointOf, type ClientCommand, type HistoryPoint, t
 
 /** What a runner reports; the same stream whether it runs in a worker or in the main thread. */
 export type RunnerOutput =
-  | { kind: 'frame'; frame: WireFrame }
+  | { kind: 'frame'; frame: WireFrame; emittedAt: number }
   | { kind: 'event'; event: SessionEvent }
   | { kind: 'history'; points: HistoryPoint[] }
   | { kind: 'log'; record: { record: string; [key: string]: unknown } }
@@ -237,7 +237,7 @@ export class SessionRunner {
     this.lastFrameSent = now;
     const frame = this.pendingFrame;
     this.pendingFrame = null;
-    this.emit({ kind: 'frame', frame });
+    this.emit({ kind: 'frame', frame, emittedAt: Date.now() });
   }
 
   private emitStatus(): void {

@@ -72,7 +72,7 @@ export class Hub {
     this.rate = options.ratePerSecond ?? 20;
     this.heartbeat = setInterval(() => this.beat(), options.heartbeatMs ?? 15_000);
     this.heartbeat.unref();
-    live.on('frame', (frame: WireFrame) => this.broadcastFrame(frame));
+    live.on('frame', (frame: WireFrame, emittedAt: number) => this.broadcastFrame(frame, emittedAt));
     live.on('event', (event: SessionEvent) => this.broadcast({ type: 'event', event }));
     live.on('status', () => this.broadcastStatus());
   }
@@ -133,7 +133,7 @@ export class Hub {
       events: this.live.recentEvents.slice(),
       viewers: this.clients.size,
     });
-    if (this.live.latestFrame) this.send(client, { type: 'frame', frame: this.live.latestFrame });
+    if (this.live.latestFrame) this.send(client, { type: 'frame', frame: this.live.latestFrame, emittedAt: this.live.latestEmittedAt });
     this.broadcastStatus();
   }
 
@@ -183,8 +183,8 @@ export class Hub {
     return true;
   }
 
-  private broadcastFrame(frame: WireFrame): void {
-    const text = JSON.stringify({ type: 'frame', frame } satisfies ServerMessage);
+  private broadcastFrame(frame: WireFrame, emittedAt: number): void {
+    const text = JSON.stringify({ type: 'frame', frame, emittedAt } satisfies ServerMessage);
     for (const client of this.clients) {
       if (client.ws.readyState !== client.ws.OPEN) continue;
       const backlog = client.ws.bufferedAmount;

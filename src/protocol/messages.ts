@@ -66,7 +66,8 @@ export type WireFrame = Omit<Frame, 'events'>;
 
 export type ServerMessage =
   | { type: 'hello'; protocol: number; software: string; role: Role; session: SessionInfo; history: HistoryPoint[]; events: SessionEvent[]; viewers: number }
-  | { type: 'frame'; frame: WireFrame }
+  /** emittedAt: wall clock (ms since 1970) when the simulation handed the frame out, for frame-age measurements. */
+  | { type: 'frame'; frame: WireFrame; emittedAt: number }
   | { type: 'event'; event: SessionEvent }
   | { type: 'status'; session: SessionInfo; viewers: number }
   | { type: 'ack'; id: string | number | null; action: string }
