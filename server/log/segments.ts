@@ -31,6 +31,8 @@ export interface SegmentedLogOptions {
   /** Index of the first segment this writer creates; default 0. */
   firstSegment?: number;
   onError?: (error: Error) => void;
+  /** Names the writer in error messages; default "log". */
+  label?: string;
 }
 
 /** Sync a directory so a file just created (or removed) in it survives a crash. */
@@ -160,7 +162,7 @@ export class SegmentedLog {
 
   private fail(error: Error): void {
     if (this.failure) return;
-    this.failure = new Error(`log ${this.path}: ${error.message}`);
+    this.failure = new Error(`${this.options.label ?? 'log'} ${this.path}: ${error.message}`);
     this.options.onError?.(this.failure);
   }
 }

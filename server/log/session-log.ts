@@ -12,7 +12,7 @@ export class SessionLog {
   private readonly writer: SegmentedLog;
 
   constructor(readonly path: string, onError: (error: Error) => void = () => {}) {
-    this.writer = new SegmentedLog({ segmentPath: () => path, segmentBytes: Infinity, onError });
+    this.writer = new SegmentedLog({ segmentPath: () => path, segmentBytes: Infinity, onError, label: 'session log' });
   }
 
   /** A fresh file name in `dir` for a run of `label`. */

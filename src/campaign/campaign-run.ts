@@ -1,0 +1,149 @@
+import type { ModelParameters } from '../model/parameters.js';
+import type { Perturbation } from '../session/perturbation.js';
+import { FaultGenerator, type GeneratorState } from './generator.js';
+import { applyToView, appliesToUncoupled, previousValuesOf, viewOf } from './restore.js';
+import type { TickView } from './tick-view.js';
+import type { Campaign, FaultPlan } from './types.js';
+import { FaultEvaluation, type EvaluationState, type FaultVerdict, type TimeBase } from './verdict.js';
+
+/** A perturbation to queue before the next tick; `uncoupled` says whether the reference twin gets it too. */
+export interface QueuedPerturbation {
+  perturbation: Perturbation;
+  by: string;
+  uncoupled: boolean;
+}
+
+export interface CampaignRunState {
+  nextExplicit: number;
+  pendingRandom: FaultPlan | null;
+  generator: GeneratorState | null;
+  open: EvaluationState[];
+  lastView: TickView | null;
+  started: number;
+  finished: number;
+  failed: number;
+}
+
+/**
+ * A campaign running against one session, without any I/O: before each tick it says which
+ * faults and restores to queue; after each tick it updates the open evaluations and hands back
+ * the verdicts whose windows have closed. Its whole state is plain JSON (save/load), so a soak
+ * resumed from a checkpoint continues the campaign exactly.
+ */
+export class CampaignRun {
+  private nextExplicit = 0;
+  private pendingRandom: FaultPlan | null = null;
+  private readonly generator: FaultGenerator | null;
+  private open: FaultEvaluation[] = [];
+  private lastView: TickView | null = null;
+  started = 0;
+  finished = 0;
+  failed = 0;
+
+  /**
+   * @param params the live parameters of the session (read for "previous" restore values)
+   * @param until end of the soak (tau); random faults whose window would pass it are not drawn
+   * @param hold how long a re-lock must last to count (tau; one lock window)
+   */
+  constructor(readonly campaign: Campaign, private readonly params: ModelParameters, readonly until: number, readonly hold: number, readonly base: TimeBase) {
+    this.generator = campaign.random ? new FaultGenerator(campaign.random, params, until) : null;
+    this.pendingRandom = this.generator?.next() ?? null;
+  }
+
+  /** Faults of the schedule that start at or after the end of the soak (never run). */
+  get notStarted(): string[] {
+    return this.campaign.faults.filter((f) => f.start >= this.until).map((f) => f.id);
+  }
+
+  /** The perturbations to queue before the tick that starts at `tau`: restores first, then new faults. */
+  beforeTick(tau: number): QueuedPerturbation[] {
+    const due = (start: number) => start <= tau * (1 + 1e-12) && start < this.until;
+    const queued: QueuedPerturbation[] = [];
+    const view = viewOf(this.params);
+    for (const evaluation of this.open) {
+      if (!evaluation.restoreDue(tau)) continue;
+      evaluation.markRestored(tau);
+      const restore = evaluation.state.restore;
+      if (!restore) continue;
+      applyToView(restore, view, this.params);
+      queued.push({ perturbation: restore, by: `campaign:${evaluation.id} (restore)`, uncoupled: appliesToUncoupled(restore) });
+    }
+    const starting: FaultPlan[] = [];
+    while (this.nextExplicit < this.campaign.faults.length && due(this.campaign.faults[this.nextExplicit].start)) {
+      starting.push(this.campaign.faults[this.nextExplicit++]);
+    }
+    while (this.pendingRandom && due(this.pendingRandom.start)) {
+      starting.push(this.pendingRandom);
+      this.pendingRandom = this.generator!.next();
+    }
+    for (const plan of starting) {
+      const p = plan.perturbation;
+      const restore = plan.restore === 'previous' ? previousValuesOf(p, view, this.params) : plan.restore === 'none' ? null : plan.restore;
+      applyToView(p, view, this.params);
+      const evaluation = FaultEvaluation.begin(plan, tau, restore, this.lastView);
+      for (const other of this.open) {
+        other.state.overlaps.push(plan.id);
+        evaluation.state.overlaps.push(other.id);
+      }
+      this.open.push(evaluation);
+      this.started++;
+      queued.push({ perturbation: p, by: `campaign:${plan.id}`, uncoupled: appliesToUncoupled(p) });
+    }
+    return queued;
+  }
+
+  /** After a tick: verdicts whose evaluation window closed with it. */
+  afterTick(view: TickView): FaultVerdict[] {
+    const closed: FaultVerdict[] = [];
+    this.open = this.open.filter((evaluation) => {
+      evaluation.observe(view, this.hold);
+      if (!evaluation.windowClosed(view.tau)) return true;
+      closed.push(this.count(evaluation.finish(true, this.base)));
+      return false;
+    });
+    this.lastView = view;
+    return closed;
+  }
+
+  /** Verdicts of the windows still open when the soak ends or halts. */
+  finishAll(reason?: string): FaultVerdict[] {
+    const verdicts = this.open.map((evaluation) => this.count(evaluation.finish(false, this.base, reason)));
+    this.open = [];
+    return verdicts;
+  }
+
+  get openCount(): number {
+    return this.open.length;
+  }
+
+  /** A deep copy: the live evaluations go on changing after a checkpoint is taken. */
+  save(): CampaignRunState {
+    return structuredClone({
+      nextExplicit: this.nextExplicit,
+      pendingRandom: this.pendingRandom,
+      generator: this.generator?.save() ?? null,
+      open: this.open.map((e) => e.state),
+      lastView: this.lastView,
+      started: this.started,
+      finished: this.finished,
+      failed: this.failed,
+    });
+  }
+
+  load(state: CampaignRunState): void {
+    this.nextExplicit = state.nextExplicit;
+    this.pendingRandom = state.pendingRandom;
+    if (this.generator && state.generator) this.generator.load(state.generator);
+    this.open = state.open.map((s) => new FaultEvaluation(s));
+    this.lastView = state.lastView;
+    this.started = state.started;
+    this.finished = state.finished;
+    this.failed = state.failed;
+  }
+
+  private count(verdict: FaultVerdict): FaultVerdict {
+    this.finished++;
+    if (!verdict.pass) this.failed++;
+    return verdict;
+  }
+}
