@@ -1,0 +1,71 @@
+/**
+ * A private copy of the guiding system for prediction: its own parameters (copied from a live
+ * session or taken from a scenario) and its own torus average, so Newton probes, continuation
+ * sweeps and look-ahead integrations never touch the parameters a running session reads.
+ */
+import { ModelParameters } from '../model/parameters.js';
+import { TorusAverage } from '../guide/torus-average.js';
+import type { Scenario } from '../scenario/types.js';
+import type { Field } from './relative-equilibrium.js';
+import { couplingComponents } from './phase-orbits.js';
+
+export class GuideModel {
+  readonly params: ModelParameters;
+  readonly average: TorusAverage;
+  readonly field: Field;
+
+  constructor(readonly scenario: Scenario, source?: ModelParameters) {
+    this.params = new ModelParameters(scenario);
+    if (source) copyParameters(source, this.params);
+    this.average = new TorusAverage(this.params, scenario.integrator.averagingGrid);
+    this.field = (y, out) => this.average.evaluate(y, out);
+  }
+
+  get nodes(): number {
+    return this.params.nodes;
+  }
+
+  get modes(): number {
+    return this.params.modes;
+  }
+
+  get size(): number {
+    return 2 * this.params.nodes * this.params.modes;
+  }
+
+  /** Connected parts of the graph with the current link weights. */
+  parts(): Int32Array[] {
+    return couplingComponents(this.params);
+  }
+
+  /** What the marginal band needs: eps and the slowest carrier. */
+  get accuracy(): { epsilon: number; omegaMin: number } {
+    return { epsilon: this.params.epsilon, omegaMin: Math.min(...this.params.omega) };
+  }
+
+  get nominalFrequencyHz(): number {
+    return this.scenario.units.nominalFrequencyHz;
+  }
+}
+
+/** Copies every mutable model parameter (detuning, link weights, coupling, noise) from `from` to `to`. */
+export function copyParameters(from: ModelParameters, to: ModelParameters): void {
+  if (from.nodes !== to.nodes || from.modes !== to.modes || from.linkWeight.length !== to.linkWeight.length) {
+    throw new RangeError('copyParameters: the two parameter sets describe different networks');
+  }
+  to.detuning.set(from.detuning);
+  to.setLinkWeights(from.linkWeight);
+  to.strength = from.strength;
+  to.reactive = from.reactive;
+  to.dissipative = from.dissipative;
+  to.noiseIntensity = from.noiseIntensity;
+  to.detuningWalk = from.detuningWalk;
+}
+
+/**
+ * Text that changes whenever anything the guiding system's locked states depend on changes
+ * (detuning, link weights, coupling constants); noise is left out.
+ */
+export function parameterFingerprint(params: ModelParameters): string {
+  return [Array.from(params.detuning).join(','), Array.from(params.linkWeight).join(','), params.strength, params.reactive, params.dissipative].join('|');
+}

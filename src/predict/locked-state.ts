@@ -1,0 +1,270 @@
+/**
+ * Locked states of the guiding system as relative equilibria, generalising
+ * relative-equilibrium.ts in two ways the catalogue and the continuation need:
+ * - the unknowns may be restricted to a linear subspace y = B z (a fixed-point subspace of a
+ *   spatio-temporal symmetry, which the averaged flow leaves invariant), so Newton works with
+ *   fewer unknowns and cannot slide off into a less symmetric state;
+ * - one rotation rate per phase generator (per mode and per connected part of the graph).
+ * Equations: fbar(y) - sum_c Omega_c G_c y = 0 and one phase condition <G_c y0, y - y0> = 0 per
+ * generator. Stability uses the Jacobian restricted to the orthogonal complement of the group
+ * orbit's tangents G_c y (complementBasis of relative-equilibrium.ts), so the zero eigenvalues
+ * forced by the phase symmetry are removed by construction.
+ */
+import { EigenvalueDecomposition, Matrix, solve } from 'ml-matrix';
+import { complementBasis, type Field } from './relative-equilibrium.js';
+import { activePhaseGenerators, applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
+
+export interface LockedState {
+  /** The state on the orbit (rotating-frame layout, node-major, mode-minor). */
+  state: Float64Array;
+  generators: PhaseGenerator[];
+  /** Rotation rate per generator in slow time (rad per unit eps tau): the collective frequency shift. */
+  rates: number[];
+  residual: number;
+  iterations: number;
+  converged: boolean;
+}
+
+export interface LockedStateOptions {
+  /** Connected parts of the coupling graph (couplingComponents); default: one part, every node. */
+  parts?: readonly Int32Array[];
+  /** Generators to use instead of the ones active in the guess. */
+  generators?: readonly PhaseGenerator[];
+  /** Orthonormal columns spanning an invariant subspace that contains the guess: solve in it. */
+  basis?: Matrix;
+  /** Absolute residual norm that counts as solved; default 1e-10. */
+  tolerance?: number;
+  maxIterations?: number;
+}
+
+export type Verdict = 'stable' | 'unstable' | 'marginal';
+
+export interface LockedStability {
+  /** Eigenvalues of the reduced Jacobian (slow time), sorted by decreasing real part. */
+  eigenvalues: { re: number; im: number }[];
+  /** Largest real part (slow time); negative is linearly stable. */
+  margin: number;
+  /** Largest |eigenvalue|: the fastest rate of the linearised flow. */
+  rateScale: number;
+  /** |margin| at or below this is reported as marginal (see marginTolerance). */
+  tolerance: number;
+  verdict: Verdict;
+}
+
+const norm = (v: ArrayLike<number>): number => {
+  let s = 0;
+  for (let i = 0; i < v.length; i++) s += v[i] * v[i];
+  return Math.sqrt(s);
+};
+
+const dot = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
+  let s = 0;
+  for (let i = 0; i < a.length; i++) s += a[i] * b[i];
+  return s;
+};
+
+/** One part holding every node. */
+export function wholeGraph(nodes: number): Int32Array[] {
+  return [Int32Array.from({ length: nodes }, (_, k) => k)];
+}
+
+/** r = fbar(y) - sum_c rate_c G_c y. */
+function rotatingResidual(field: Field, y: Float64Array, generators: readonly PhaseGenerator[], rates: ArrayLike<number>, modes: number, out: Float64Array, scratch: Float64Array): Float64Array {
+  field(y, out);
+  generators.forEach((g, c) => {
+    applyPhaseGenerator(g, modes, y, scratch);
+    for (let i = 0; i < out.length; i++) out[i] -= rates[c] * scratch[i];
+  });
+  return out;
+}
+
+/**
+ * Central-difference Jacobian of fbar at y, as an n x n matrix, or (with `basis`) its action on
+ * the basis columns, D fbar(y) B (n x p). The step is 1e-6 relative: the field is a cubic
+ * polynomial, so the truncation error (h^2 f''' / 6) is about 1e-12 and rounding about 1e-10.
+ */
+export function fieldJacobian(field: Field, y: Float64Array, basis?: Matrix): Matrix {
+  const n = y.length;
+  const columns = basis ? basis.columns : n;
+  const jac = new Matrix(n, columns);
+  const plus = new Float64Array(n);
+  const minus = new Float64Array(n);
+  const probe = Float64Array.from(y);
+  let size = 1;
+  for (let i = 0; i < n; i++) size = Math.max(size, Math.abs(y[i]));
+  for (let c = 0; c < columns; c++) {
+    const h = 1e-6 * size;
+    if (basis) {
+      for (let i = 0; i < n; i++) probe[i] = y[i] + h * basis.get(i, c);
+      field(probe, plus);
+      for (let i = 0; i < n; i++) probe[i] = y[i] - h * basis.get(i, c);
+      field(probe, minus);
+      probe.set(y);
+    } else {
+      probe[c] = y[c] + h;
+      field(probe, plus);
+      probe[c] = y[c] - h;
+      field(probe, minus);
+      probe[c] = y[c];
+    }
+    for (let r = 0; r < n; r++) jac.set(r, c, (plus[r] - minus[r]) / (2 * h));
+  }
+  return jac;
+}
+
+/**
+ * Newton's method for a locked state near `guess` (see the module header). A step that does not
+ * lower the residual is halved up to six times, which keeps far seeds from running away.
+ */
+export function solveLockedState(field: Field, guess: Float64Array, modes: number, options: LockedStateOptions = {}): LockedState {
+  const tolerance = options.tolerance ?? 1e-10;
+  const maxIterations = options.maxIterations ?? 40;
+  const n = guess.length;
+  const parts = options.parts ?? wholeGraph(n / (2 * modes));
+  const generators = options.generators ? [...options.generators] : activePhaseGenerators(guess, modes, parts);
+  const basis = options.basis;
+  const p = basis ? basis.columns : n;
+  const y = Float64Array.from(guess);
+  const scratch = new Float64Array(n);
+  const residualVector = new Float64Array(n);
+
+  // Anchors of the phase conditions, in the unknowns' coordinates.
+  const anchors = generators.map((g) => {
+    const t = applyPhaseGenerator(g, modes, guess, new Float64Array(n));
+    return basis ? Float64Array.from({ length: p }, (_, i) => { let s = 0; for (let r = 0; r < n; r++) s += basis.get(r, i) * t[r]; return s; }) : t;
+  });
+  const rates = generators.map((g) => {
+    const t = applyPhaseGenerator(g, modes, guess, new Float64Array(n));
+    field(guess, scratch);
+    return dot(t, scratch) / Math.max(dot(t, t), 1e-300);
+  });
+
+  const residualNorm = (): number => norm(rotatingResidual(field, y, generators, rates, modes, residualVector, scratch));
+  let residual = residualNorm();
+  let iterations = 0;
+  let offset = new Float64Array(p); // z - z0 (or y - y0)
+  while (residual > tolerance && iterations < maxIterations && Number.isFinite(residual)) {
+    iterations++;
+    const size = p + generators.length;
+    const system = new Matrix(size, size);
+    const rhs = new Matrix(size, 1);
+    const jac = fieldJacobian(field, y, basis); // n x p
+    const r = Float64Array.from(residualVector);
+    const tangents = generators.map((g) => applyPhaseGenerator(g, modes, y, new Float64Array(n)));
+    if (basis) {
+      // Project rows onto the subspace: B^T (D fbar B - sum Omega G B) and B^T r.
+      const bt = basis.transpose();
+      const reduced = bt.mmul(jac);
+      const rotated = new Matrix(n, p);
+      for (let c = 0; c < p; c++) {
+        const column = Float64Array.from({ length: n }, (_, i) => basis.get(i, c));
+        generators.forEach((g, gi) => {
+          applyPhaseGenerator(g, modes, column, scratch);
+          for (let i = 0; i < n; i++) rotated.set(i, c, rotated.get(i, c) - rates[gi] * scratch[i]);
+        });
+      }
+      const reducedRotation = bt.mmul(rotated);
+      for (let i = 0; i < p; i++) {
+        let ri = 0;
+        for (let k = 0; k < n; k++) ri += basis.get(k, i) * r[k];
+        rhs.set(i, 0, -ri);
+        for (let c = 0; c < p; c++) system.set(i, c, reduced.get(i, c) + reducedRotation.get(i, c));
+        tangents.forEach((t, gi) => {
+          let s = 0;
+          for (let k = 0; k < n; k++) s += basis.get(k, i) * t[k];
+          system.set(i, p + gi, -s);
+        });
+      }
+    } else {
+      subtractRotation(jac, generators, rates, modes);
+      for (let i = 0; i < n; i++) {
+        rhs.set(i, 0, -r[i]);
+        for (let c = 0; c < n; c++) system.set(i, c, jac.get(i, c));
+      }
+      tangents.forEach((t, gi) => {
+        for (let i = 0; i < n; i++) system.set(i, n + gi, -t[i]);
+      });
+    }
+    anchors.forEach((a, gi) => {
+      for (let i = 0; i < p; i++) system.set(p + gi, i, a[i]);
+      rhs.set(p + gi, 0, -dot(a, offset));
+    });
+    let step: Matrix;
+    try {
+      step = solve(system, rhs);
+    } catch {
+      break;
+    }
+    if (!step.to1DArray().every(Number.isFinite)) break;
+    const y0 = Float64Array.from(y);
+    const rates0 = [...rates];
+    const offset0 = Float64Array.from(offset);
+    let scale = 1;
+    let next = Number.POSITIVE_INFINITY;
+    for (let attempt = 0; attempt < 7; attempt++) {
+      for (let i = 0; i < p; i++) offset[i] = offset0[i] + scale * step.get(i, 0);
+      if (basis) {
+        for (let k = 0; k < n; k++) {
+          let s = 0;
+          for (let i = 0; i < p; i++) s += basis.get(k, i) * step.get(i, 0);
+          y[k] = y0[k] + scale * s;
+        }
+      } else {
+        for (let k = 0; k < n; k++) y[k] = y0[k] + scale * step.get(k, 0);
+      }
+      generators.forEach((_, gi) => (rates[gi] = rates0[gi] + scale * step.get(p + gi, 0)));
+      next = residualNorm();
+      if (next < residual) break;
+      scale /= 2;
+    }
+    if (!Number.isFinite(next)) break;
+    residual = next;
+  }
+  return { state: y, generators, rates, residual, iterations, converged: residual <= tolerance };
+}
+
+/**
+ * Margins this close to zero are not resolved. The guiding system is the first-order average:
+ * its eigenvalues approximate the full system's Floquet exponents (divided by eps) with an error
+ * of order eps lambda^2 / omega, the size of the second-order averaged term eps <Df u> whose
+ * Jacobian scales as |Df|^2 / omega (Sanders, Verhulst, Murdock 2007, second-order averaging;
+ * design section 5). With lambda the largest |eigenvalue| that bound is eps rateScale^2 / omega.
+ * A floor of 1e-8 max(1, rateScale) covers the finite-difference Jacobian's rounding. A margin
+ * inside the band would be decided by terms the model does not contain: call it marginal.
+ */
+export function marginTolerance(rateScale: number, epsilon: number, omegaMin: number): number {
+  return (epsilon * rateScale * rateScale) / omegaMin + 1e-8 * Math.max(1, rateScale);
+}
+
+/** Reduced Jacobian (orthonormal coordinates on the complement of the orbit tangents) at a locked state. */
+export function reducedJacobian(field: Field, locked: LockedState, modes: number): Matrix {
+  const n = locked.state.length;
+  const jac = fieldJacobian(field, locked.state);
+  subtractRotation(jac, locked.generators, locked.rates, modes);
+  const tangents = locked.generators.map((g) => applyPhaseGenerator(g, modes, locked.state, new Float64Array(n)));
+  const q = complementBasis(tangents, n);
+  return q.transpose().mmul(jac).mmul(q);
+}
+
+/** Eigenvalues of a real square matrix, sorted by decreasing real part (then imaginary part). */
+export function sortedEigenvalues(matrix: Matrix): { re: number; im: number }[] {
+  if (matrix.rows === 0) return [];
+  const decomposition = new EigenvalueDecomposition(matrix);
+  return decomposition.realEigenvalues
+    .map((re, i) => ({ re, im: decomposition.imaginaryEigenvalues[i] }))
+    .sort((a, b) => b.re - a.re || b.im - a.im);
+}
+
+/** Linear stability with the symmetry directions removed and a marginal band (marginTolerance). */
+export function lockedStateStability(field: Field, locked: LockedState, modes: number, accuracy: { epsilon: number; omegaMin: number }): LockedStability {
+  return stabilityOf(sortedEigenvalues(reducedJacobian(field, locked, modes)), accuracy);
+}
+
+/** Margin, scale and verdict from eigenvalues already computed. */
+export function stabilityOf(eigenvalues: { re: number; im: number }[], accuracy: { epsilon: number; omegaMin: number }): LockedStability {
+  const margin = eigenvalues.length > 0 ? eigenvalues[0].re : Number.NEGATIVE_INFINITY;
+  const rateScale = eigenvalues.reduce((m, e) => Math.max(m, Math.hypot(e.re, e.im)), 0);
+  const tolerance = marginTolerance(rateScale, accuracy.epsilon, accuracy.omegaMin);
+  const verdict: Verdict = Math.abs(margin) <= tolerance ? 'marginal' : margin < 0 ? 'stable' : 'unstable';
+  return { eigenvalues, margin, rateScale, tolerance, verdict };
+}
