@@ -3,8 +3,10 @@ import { wrapAngle } from '../util/angles.js';
 /**
  * Lock detection over a sliding window: the pattern counts as locked when every neighbour
  * phase difference has stayed within `tolerance` radians of its newest value over the last
- * `window` ticks, and the carrying mode is actually oscillating. The window is in ticks; the
- * session sizes it in slow time so the test means the same thing at every eps.
+ * `window` ticks, and the carrying mode is actually oscillating. Once locked, it counts as
+ * unlocked only when the excursion exceeds `hysteresis` times the tolerance, so noise near the
+ * threshold does not make the verdict flap. The window is in ticks; the session sizes it in
+ * slow time so the test means the same thing at every eps.
  */
 export class LockDetector {
   private readonly history: Float64Array;
@@ -13,7 +15,13 @@ export class LockDetector {
   /** tau at which the current locked stretch began, or null when unlocked. */
   lockedSince: number | null = null;
 
-  constructor(readonly size: number, readonly window: number, readonly tolerance = 0.05, readonly amplitudeFloor = 1e-3) {
+  constructor(
+    readonly size: number,
+    readonly window: number,
+    readonly tolerance = 0.05,
+    readonly amplitudeFloor = 1e-3,
+    readonly hysteresis = 2,
+  ) {
     this.history = new Float64Array(size * window);
   }
 
@@ -28,7 +36,8 @@ export class LockDetector {
     this.history.set(phaseDifferences, this.head * this.size);
     this.head = (this.head + 1) % this.window;
     this.count = Math.min(this.count + 1, this.window);
-    const locked = meanAmplitude > this.amplitudeFloor && this.count === this.window && this.steady(phaseDifferences);
+    const limit = this.lockedSince === null ? this.tolerance : this.hysteresis * this.tolerance;
+    const locked = meanAmplitude > this.amplitudeFloor && this.count === this.window && this.excursion(phaseDifferences) < limit;
     if (!locked) this.lockedSince = null;
     else if (this.lockedSince === null) this.lockedSince = tau;
     return locked;
@@ -57,7 +66,4 @@ export class LockDetector {
     this.lockedSince = saved.lockedSince;
   }
 
-  private steady(newest: ArrayLike<number>): boolean {
-    return this.excursion(newest) < this.tolerance;
-  }
 }
