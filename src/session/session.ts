@@ -6,7 +6,7 @@ import { initialRotatingState } from '../model/initial.js';
 import { FullSystem } from '../integrate/full-system.js';
 import { GuideSystem } from '../guide/guide.js';
 import { nearResonances, type ResonanceWarning } from '../guide/resonance.js';
-import { divergence, readObservables, type SystemObservables } from '../observe/amplitudes.js';
+import { divergence, readObservables, type Divergence, type SystemObservables } from '../observe/amplitudes.js';
 import { graphAutomorphisms } from '../pattern/automorphisms.js';
 import { relativeEquilibriumStability, solveRelativeEquilibrium } from '../predict/relative-equilibrium.js';
 import { applyPerturbation, describePerturbation, parsePerturbation, type Perturbation } from './perturbation.js';
@@ -91,7 +91,7 @@ export interface Frame {
   status: 'running' | 'halted';
   full: SystemObservables & { pattern: PatternReport };
   guide: GuideReport;
-  divergence: { max: number; relative: number };
+  divergence: Divergence;
   events: SessionEvent[];
 }
 
@@ -321,7 +321,7 @@ export class CoSimulation {
       status: this.halted ? 'halted' : 'running',
       full: { ...fullObserved, pattern: fullPattern },
       guide: { ...guideObserved, pattern: guidePattern, margin: margin?.margin ?? null, rotation: margin?.rotation ?? null },
-      divergence: divergence(this.full.state, this.guide.state),
+      divergence: divergence(this.full.state, this.guide.state, this.params.modes),
       events,
     };
   }
