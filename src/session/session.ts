@@ -9,6 +9,7 @@ import { nearResonances, type ResonanceWarning } from '../guide/resonance.js';
 import { divergence, readObservables, type Divergence, type SystemObservables } from '../observe/amplitudes.js';
 import { graphAutomorphisms } from '../pattern/automorphisms.js';
 import { relativeEquilibriumStability, solveRelativeEquilibrium } from '../predict/relative-equilibrium.js';
+import { LivePredictor, type LivePrediction, type LivePredictorState } from '../predict/live.js';
 import { applyPerturbation, describePerturbation, parsePerturbation, type Perturbation } from './perturbation.js';
 import { PatternTracker, type PatternReport } from './pattern-tracker.js';
 import type { RandomState } from '../util/random.js';
@@ -70,6 +71,8 @@ export interface SessionCheckpoint {
   trackers: { full: ReturnType<PatternTracker['save']>; guide: ReturnType<PatternTracker['save']> };
   lastFullKind: string;
   margin: { stale: boolean; value: { margin: number; rotation: number[] } | null };
+  /** Live prediction state (absent in checkpoints written before it existed). */
+  prediction?: { stale: boolean; kicked: boolean; value: LivePrediction | null; predictor: LivePredictorState };
 }
 
 export interface GuideReport extends SystemObservables {
@@ -92,6 +95,12 @@ export interface Frame {
   full: SystemObservables & { pattern: PatternReport };
   guide: GuideReport;
   divergence: Divergence;
+  /**
+   * The guide's predicted fate after the latest perturbation batch (does the current pattern
+   * persist, with what margin, or what does it become); null until the first perturbation.
+   * Computed once per batch and then repeated, so ordinary ticks cost nothing.
+   */
+  prediction: LivePrediction | null;
   events: SessionEvent[];
 }
 
@@ -131,6 +140,10 @@ export class CoSimulation {
   private marginStale = true;
   private margin: { margin: number; rotation: number[] } | null = null;
   private lastFullKind = '';
+  private readonly predictor: LivePredictor;
+  private prediction: LivePrediction | null = null;
+  private predictionStale = false;
+  private predictionKicked = false;
 
   constructor(readonly scenario: Scenario, readonly options: SessionOptions = {}) {
     this.params = new ModelParameters(scenario);
@@ -146,6 +159,7 @@ export class CoSimulation {
     this.fullTracker = new PatternTracker(this.params.nodes, this.params.modes, windowTicks, lockTolerance, symmetryTolerance);
     this.guideTracker = new PatternTracker(this.params.nodes, this.params.modes, windowTicks, lockTolerance, symmetryTolerance);
     this.group = this.computeGroup();
+    this.predictor = new LivePredictor(scenario, this.params);
     this.warnings = nearResonances(this.params.omega, eps);
     for (const w of this.warnings) this.record('warning', w.message, 'engine');
   }
@@ -228,6 +242,7 @@ export class CoSimulation {
       trackers: { full: this.fullTracker.save(), guide: this.guideTracker.save() },
       lastFullKind: this.lastFullKind,
       margin: { stale: this.marginStale, value: this.margin },
+      prediction: { stale: this.predictionStale, kicked: this.predictionKicked, value: this.prediction, predictor: this.predictor.save() },
     };
   }
 
@@ -262,6 +277,14 @@ export class CoSimulation {
     session.lastFullKind = saved.lastFullKind;
     session.marginStale = saved.margin.stale;
     session.margin = saved.margin.value;
+    if (saved.prediction) {
+      session.predictionStale = saved.prediction.stale;
+      session.predictionKicked = saved.prediction.kicked;
+      session.prediction = saved.prediction.value;
+      session.predictor.load(saved.prediction.predictor);
+    } else {
+      session.predictor.rememberParameters(p);
+    }
     session.group = session.computeGroup();
     return session;
   }
@@ -284,6 +307,8 @@ export class CoSimulation {
         addToAmplitude(this.guide.state, m, node, mode, re, im);
       });
       if (perturbation.action.endsWith('link') || perturbation.action === 'set-link-weight') linksChanged = true;
+      if (perturbation.action !== 'set-noise') this.predictionStale = true;
+      if (perturbation.action === 'kick-mode') this.predictionKicked = true;
       this.record('perturbation', describePerturbation(perturbation), by, perturbation);
     }
     if (linksChanged) this.group = this.computeGroup();
@@ -310,6 +335,7 @@ export class CoSimulation {
     this.trackFullPattern(fullPattern);
     const margin = guidePattern.locked ? this.guideMargin() : null;
     if (!guidePattern.locked) this.marginStale = true;
+    if (this.predictionStale) this.predictAfterPerturbations(guidePattern);
     const eps = this.params.epsilon;
     const events = this.pending;
     this.pending = [];
@@ -322,6 +348,7 @@ export class CoSimulation {
       full: { ...fullObserved, pattern: fullPattern },
       guide: { ...guideObserved, pattern: guidePattern, margin: margin?.margin ?? null, rotation: margin?.rotation ?? null },
       divergence: divergence(this.full.state, this.guide.state, this.params.modes),
+      prediction: this.prediction,
       events,
     };
   }
@@ -335,6 +362,19 @@ export class CoSimulation {
     if (was === 'unlocked') this.record('lock', `locked into ${label}`, 'engine');
     else if (label === 'unlocked') this.record('unlock', `lost lock (was ${was})`, 'engine');
     else this.record('pattern-change', `pattern changed from ${was} to ${label}`, 'engine');
+  }
+
+  /** Once per perturbation batch: the live prediction from the guide's current state and pattern. */
+  private predictAfterPerturbations(guidePattern: PatternReport): void {
+    this.predictionStale = false;
+    const kicked = this.predictionKicked;
+    this.predictionKicked = false;
+    if (this.halted || this.guide.failed) {
+      this.prediction = null;
+      return;
+    }
+    const current = { kind: guidePattern.kind, mode: guidePattern.mode, locked: guidePattern.locked, ...(guidePattern.locked && guidePattern.q !== undefined ? { q: guidePattern.q } : {}) };
+    this.prediction = this.predictor.predict(this.params, this.guide.state, current, this.tau, kicked);
   }
 
   private guideMargin(): { margin: number; rotation: number[] } | null {

@@ -1,0 +1,410 @@
+/**
+ * Pseudo-arclength continuation of a locked state of the guiding system in one parameter
+ * (Keller's method; Allgower and Georg, Introduction to Numerical Continuation Methods, 1990,
+ * ch. 2-3; Kuznetsov, Elements of Applied Bifurcation Theory, 3rd ed. 2004, ch. 10).
+ *
+ * Unknowns X = (y, Omega_c, mu) with the parameter lambda = lambda_0 + scale * mu; equations
+ *     fbar(y; lambda) - sum_c Omega_c G_c y = 0,   <G_c y_ref, y - y_ref> = 0   (one per generator),
+ * which leave a curve. Each step predicts along the unit tangent t (null vector of the
+ * equations' Jacobian, oriented like the previous one) and corrects with Newton on the
+ * hyperplane <t, X - X_pred> = 0, so it passes turning points of lambda.
+ *
+ * Test functions between consecutive points, located by bisection on the step:
+ * - fold: the parameter component of the tangent changes sign (a turning point: the locked state
+ *   meets another branch and both disappear; for a detuning this is the edge of the locking range);
+ * - the number of eigenvalues of the reduced Jacobian (symmetry zeros removed by construction)
+ *   with positive real part changes: a complex pair crossing is a Hopf point, a real eigenvalue
+ *   crossing without a turning point a branch point (symmetry-breaking steady bifurcation).
+ * The continuation stops at the first of them in each direction, or at a bound of the parameter.
+ */
+import { Matrix, solve } from 'ml-matrix';
+import { complementBasis } from './relative-equilibrium.js';
+import { applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
+import { fieldJacobian, sortedEigenvalues, stabilityOf, solveLockedState, type LockedStability, type Verdict } from './locked-state.js';
+import type { GuideModel } from './guide-model.js';
+import { describeLockedState } from './describe.js';
+import {
+  describeContinuationParameter,
+  getParameter,
+  parameterLowerBound,
+  parameterScale,
+  setParameter,
+  type ContinuationParameter,
+} from './continuation-parameter.js';
+import { deltaToPpm } from '../scenario/units.js';
+
+export interface ContinuationOptions {
+  /** Which ways to go from the start; default both. */
+  directions?: readonly ('decreasing' | 'increasing')[];
+  /** Accepted steps per direction; default 400. */
+  maxSteps?: number;
+  /** First and largest arclength step (scaled units); defaults 0.02 and 0.15. */
+  initialStep?: number;
+  maxStep?: number;
+  /** Give up when the step falls below this; default 1e-7. */
+  minStep?: number;
+  /** Stop when the parameter leaves [min, max]. */
+  range?: { min?: number; max?: number };
+  /** Keep each point's state (rotating frame) in the branch data; default false. */
+  keepStates?: boolean;
+}
+
+export interface BranchPoint {
+  parameter: number;
+  /** The parameter in ppm (detuning only). */
+  ppm: number | null;
+  amplitudes: number[][];
+  meanAmplitude: number[];
+  phaseDifferences: number[];
+  rotation: number[];
+  stability: Verdict;
+  stable: boolean | null;
+  margin: number;
+  /** Eigenvalues of the reduced Jacobian with positive real part. */
+  unstableCount: number;
+  /** Locked state (rotating frame), only with options.keepStates. */
+  state?: number[];
+}
+
+export type LimitKind = 'fold' | 'hopf' | 'branch-point' | 'bound' | 'range' | 'max-steps' | 'step-failure';
+
+export interface BranchLimit {
+  kind: LimitKind;
+  parameter: number;
+  ppm: number | null;
+  /** parameter - start value, and the same in ppm for a detuning. */
+  distance: number;
+  distancePpm: number | null;
+  /** For a Hopf point: the crossing pair's imaginary part (slow time). */
+  frequency?: number;
+  point: BranchPoint;
+  message: string;
+}
+
+export interface Branch {
+  parameter: { name: string; start: number; startPpm: number | null; scale: number };
+  /** Points from the decreasing end to the increasing end (the start among them). */
+  points: BranchPoint[];
+  startIndex: number;
+  limits: { decreasing: BranchLimit | null; increasing: BranchLimit | null };
+  steps: number;
+}
+
+interface Node {
+  x: Float64Array; // [y, rates, mu]
+  tangent: Float64Array;
+  stability: LockedStability;
+  unstable: number;
+}
+
+/** Follows the locked state near `start` (see the module header). The model's parameters are restored afterwards. */
+export function continueBranch(model: GuideModel, start: Float64Array, parameter: ContinuationParameter, options: ContinuationOptions = {}): Branch {
+  const params = model.params;
+  const lambda0 = getParameter(params, parameter);
+  try {
+    return new Continuation(model, parameter, lambda0, options).run(start);
+  } finally {
+    setParameter(params, parameter, lambda0);
+  }
+}
+
+class Continuation {
+  private readonly n: number;
+  private readonly modes: number;
+  private readonly scale: number;
+  private generators: PhaseGenerator[] = [];
+  private g = 0;
+  private reference = new Float64Array(0);
+  private readonly ppm: (value: number) => number | null;
+  private steps = 0;
+
+  constructor(private readonly model: GuideModel, private readonly parameter: ContinuationParameter, private readonly lambda0: number, private readonly options: ContinuationOptions) {
+    this.n = model.size;
+    this.modes = model.modes;
+    this.scale = parameterScale(model.params, parameter);
+    const eps = model.params.epsilon;
+    this.ppm = (value) => (parameter.kind === 'detuning' && eps > 0 ? deltaToPpm(value, eps) : null);
+  }
+
+  run(start: Float64Array): Branch {
+    const { model, n } = this;
+    setParameter(model.params, this.parameter, this.lambda0);
+    const parts = model.parts();
+    const first = solveLockedState(model.field, start, this.modes, { parts });
+    if (!first.converged) throw new RangeError(`continuation: no locked state near the start (Newton residual ${first.residual.toExponential(2)})`);
+    this.generators = first.generators;
+    this.g = this.generators.length;
+    const x0 = new Float64Array(n + this.g + 1);
+    x0.set(first.state);
+    first.rates.forEach((r, c) => (x0[n + c] = r));
+    const directions = this.options.directions ?? ['decreasing', 'increasing'];
+    const startNode = this.evaluateNode(x0, null, 1);
+    const sides: Record<'decreasing' | 'increasing', { points: Node[]; limit: BranchLimit | null }> = {
+      decreasing: { points: [], limit: null },
+      increasing: { points: [], limit: null },
+    };
+    for (const direction of directions) {
+      const sign = direction === 'decreasing' ? -1 : 1;
+      const oriented = this.evaluateNode(x0, null, sign);
+      sides[direction] = this.follow(oriented);
+    }
+    const down = sides.decreasing.points.map((p) => this.point(p)).reverse();
+    const up = sides.increasing.points.map((p) => this.point(p));
+    return {
+      parameter: { name: describeContinuationParameter(this.parameter), start: this.lambda0, startPpm: this.ppm(this.lambda0), scale: this.scale },
+      points: [...down, this.point(startNode), ...up],
+      startIndex: down.length,
+      limits: { decreasing: sides.decreasing.limit, increasing: sides.increasing.limit },
+      steps: this.steps,
+    };
+  }
+
+  private lambda(x: Float64Array): number {
+    return this.lambda0 + this.scale * x[this.n + this.g];
+  }
+
+  /** H(X): rotating-frame residual and phase conditions. */
+  private residual(x: Float64Array): Float64Array {
+    const { n, g, modes } = this;
+    setParameter(this.model.params, this.parameter, this.lambda(x));
+    const y = x.subarray(0, n);
+    const out = new Float64Array(n + g);
+    const f = out.subarray(0, n);
+    this.model.field(y, f);
+    const scratch = new Float64Array(n);
+    this.generators.forEach((gen, c) => {
+      applyPhaseGenerator(gen, modes, y, scratch);
+      for (let i = 0; i < n; i++) f[i] -= x[n + c] * scratch[i];
+      applyPhaseGenerator(gen, modes, this.reference, scratch);
+      let s = 0;
+      for (let i = 0; i < n; i++) s += scratch[i] * (y[i] - this.reference[i]);
+      out[n + c] = s;
+    });
+    return out;
+  }
+
+  /** DH(X), (n + g) x (n + g + 1); also returns the rotating-frame state Jacobian block. */
+  private jacobian(x: Float64Array): { full: Matrix; state: Matrix } {
+    const { n, g, modes } = this;
+    const y = Float64Array.from(x.subarray(0, n));
+    const rates = Array.from(x.subarray(n, n + g));
+    const lambda = this.lambda(x);
+    setParameter(this.model.params, this.parameter, lambda);
+    const state = fieldJacobian(this.model.field, y);
+    subtractRotation(state, this.generators, rates, modes);
+    const full = new Matrix(n + g, n + g + 1);
+    for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) full.set(r, c, state.get(r, c));
+    const scratch = new Float64Array(n);
+    this.generators.forEach((gen, c) => {
+      applyPhaseGenerator(gen, modes, y, scratch);
+      for (let i = 0; i < n; i++) full.set(i, n + c, -scratch[i]);
+      applyPhaseGenerator(gen, modes, this.reference, scratch);
+      for (let i = 0; i < n; i++) full.set(n + c, i, scratch[i]);
+    });
+    const h = 1e-6 * Math.max(1, Math.abs(x[n + g]));
+    const plus = new Float64Array(n);
+    const minus = new Float64Array(n);
+    setParameter(this.model.params, this.parameter, lambda + h * this.scale);
+    this.model.field(y, plus);
+    setParameter(this.model.params, this.parameter, lambda - h * this.scale);
+    this.model.field(y, minus);
+    setParameter(this.model.params, this.parameter, lambda);
+    for (let i = 0; i < n; i++) full.set(i, n + g, (plus[i] - minus[i]) / (2 * h));
+    return { full, state };
+  }
+
+  /** Unit tangent at X oriented like `previous` (or along +-mu when there is none). */
+  private tangent(full: Matrix, previous: Float64Array | null, sign: number): Float64Array {
+    const size = full.columns;
+    const guide = previous ?? Float64Array.from({ length: size }, (_, i) => (i === size - 1 ? sign : 0));
+    const system = new Matrix(size, size);
+    for (let r = 0; r < full.rows; r++) for (let c = 0; c < size; c++) system.set(r, c, full.get(r, c));
+    for (let c = 0; c < size; c++) system.set(size - 1, c, guide[c]);
+    const rhs = new Matrix(size, 1);
+    rhs.set(size - 1, 0, 1);
+    const t = Float64Array.from(solve(system, rhs).to1DArray());
+    let len = 0;
+    for (const v of t) len += v * v;
+    len = Math.sqrt(len);
+    let along = 0;
+    for (let i = 0; i < size; i++) along += t[i] * guide[i];
+    const orient = along < 0 ? -1 : 1;
+    return t.map((v) => (orient * v) / len);
+  }
+
+  /** Tangent and stability at a solved X. */
+  private evaluateNode(x: Float64Array, previousTangent: Float64Array | null, sign: number): Node {
+    const { n, modes } = this;
+    this.reference = Float64Array.from(x.subarray(0, n));
+    const { full, state } = this.jacobian(x);
+    const tangent = this.tangent(full, previousTangent, sign);
+    const y = x.subarray(0, n);
+    const tangents = this.generators.map((gen) => applyPhaseGenerator(gen, modes, Float64Array.from(y), new Float64Array(n)));
+    const q = complementBasis(tangents, n);
+    const eigenvalues = sortedEigenvalues(q.transpose().mmul(state).mmul(q));
+    const stability = stabilityOf(eigenvalues, this.model.accuracy);
+    return { x: Float64Array.from(x), tangent, stability, unstable: eigenvalues.filter((e) => e.re > 0).length };
+  }
+
+  /** Newton on the hyperplane through `predicted` normal to `t`; null when it fails. */
+  private correct(predicted: Float64Array, t: Float64Array): { x: Float64Array; iterations: number } | null {
+    const size = predicted.length;
+    const x = Float64Array.from(predicted);
+    for (let iteration = 1; iteration <= 8; iteration++) {
+      const h = this.residual(x);
+      let along = 0;
+      for (let i = 0; i < size; i++) along += t[i] * (x[i] - predicted[i]);
+      const { full } = this.jacobian(x);
+      const system = new Matrix(size, size);
+      for (let r = 0; r < full.rows; r++) for (let c = 0; c < size; c++) system.set(r, c, full.get(r, c));
+      for (let c = 0; c < size; c++) system.set(size - 1, c, t[c]);
+      const rhs = new Matrix(size, 1);
+      for (let r = 0; r < h.length; r++) rhs.set(r, 0, -h[r]);
+      rhs.set(size - 1, 0, -along);
+      let step: number[];
+      try {
+        step = solve(system, rhs).to1DArray();
+      } catch {
+        return null;
+      }
+      let stepNorm = 0;
+      for (let i = 0; i < size; i++) {
+        x[i] += step[i];
+        stepNorm += step[i] * step[i];
+      }
+      if (!x.every(Number.isFinite)) return null;
+      let residualNorm = 0;
+      for (const v of this.residual(x)) residualNorm += v * v;
+      if (Math.sqrt(residualNorm) < 1e-10 && Math.sqrt(stepNorm) < 1e-6) return { x, iterations: iteration };
+    }
+    return null;
+  }
+
+  /** One predictor-corrector step of length h from `from`; null when the corrector fails or turns back. */
+  private step(from: Node, h: number): Node | null {
+    const predicted = from.x.map((v, i) => v + h * from.tangent[i]);
+    this.reference = Float64Array.from(from.x.subarray(0, this.n));
+    const corrected = this.correct(predicted, from.tangent);
+    if (!corrected) return null;
+    const node = this.evaluateNode(corrected.x, from.tangent, 1);
+    let cosine = 0;
+    for (let i = 0; i < node.tangent.length; i++) cosine += node.tangent[i] * from.tangent[i];
+    if (cosine < 0.95) return null; // too sharp a turn: the step may have jumped to another branch
+    return node;
+  }
+
+  private follow(startNode: Node): { points: Node[]; limit: BranchLimit | null } {
+    const maxSteps = this.options.maxSteps ?? 400;
+    const maxStep = this.options.maxStep ?? 0.15;
+    const minStep = this.options.minStep ?? 1e-7;
+    const bound = Math.max(parameterLowerBound(this.parameter), this.options.range?.min ?? Number.NEGATIVE_INFINITY);
+    const upper = this.options.range?.max ?? Number.POSITIVE_INFINITY;
+    let h = this.options.initialStep ?? 0.02;
+    const points: Node[] = [];
+    let current = startNode;
+    for (let accepted = 0; accepted < maxSteps; ) {
+      const next = this.step(current, h);
+      if (!next) {
+        h /= 2;
+        if (h < minStep) return { points, limit: this.limit('step-failure', current, undefined, `the corrector failed with steps down to ${minStep}`) };
+        continue;
+      }
+      this.steps++;
+      const lambda = this.lambda(next.x);
+      const turned = Math.sign(next.tangent[next.tangent.length - 1]) !== Math.sign(current.tangent[current.tangent.length - 1]);
+      if (turned || next.unstable !== current.unstable) {
+        const event = this.locate(current, h, turned);
+        points.push(event.node);
+        return { points, limit: event.limit };
+      }
+      if (lambda < bound || lambda > upper) {
+        const edge = lambda < bound ? bound : upper;
+        const landed = this.landOn(current, edge);
+        if (landed) points.push(landed);
+        const kind: LimitKind = edge === parameterLowerBound(this.parameter) ? 'bound' : 'range';
+        return { points, limit: this.limit(kind, landed ?? current, undefined, kind === 'bound' ? 'the parameter reached its physical bound' : 'the parameter left the requested range') };
+      }
+      points.push(next);
+      current = next;
+      accepted++;
+      h = Math.min(maxStep, h * 1.4);
+    }
+    return { points, limit: this.limit('max-steps', current, undefined, `stopped after ${maxSteps} steps without a bifurcation`) };
+  }
+
+  /** Bisection on the step from `from` for the first change of the test functions. */
+  private locate(from: Node, h: number, fold: boolean): { node: Node; limit: BranchLimit } {
+    const foldSign = Math.sign(from.tangent[from.tangent.length - 1]);
+    let lo = 0;
+    let hi = h;
+    let hiNode: Node | null = null;
+    for (let i = 0; i < 40 && hi - lo > 1e-10 * h; i++) {
+      const mid = (lo + hi) / 2;
+      const node = this.step(from, mid);
+      const changed = node && (fold ? Math.sign(node.tangent[node.tangent.length - 1]) !== foldSign : node.unstable !== from.unstable);
+      if (node && !changed) lo = mid;
+      else {
+        hi = mid;
+        if (node) hiNode = node;
+      }
+    }
+    const node = hiNode ?? this.step(from, h) ?? from;
+    if (fold) return { node, limit: this.limit('fold', node, undefined, 'turning point of the parameter: the locked state disappears (saddle-node)') };
+    const critical = node.stability.eigenvalues.reduce((best, e) => (Math.abs(e.re) < Math.abs(best.re) ? e : best), node.stability.eigenvalues[0]);
+    const hopf = Math.abs(critical.im) > 1e-6 * Math.max(node.stability.rateScale, 1e-12);
+    return hopf
+      ? { node, limit: this.limit('hopf', node, Math.abs(critical.im), 'a complex pair of eigenvalues crosses the imaginary axis (Hopf): the lock turns into a modulated state') }
+      : { node, limit: this.limit('branch-point', node, undefined, 'a real eigenvalue crosses zero without a turning point (symmetry-breaking branch point)') };
+  }
+
+  /** Fixed-parameter solve at lambda = edge starting from a node. */
+  private landOn(from: Node, edge: number): Node | null {
+    setParameter(this.model.params, this.parameter, edge);
+    const locked = solveLockedState(this.model.field, Float64Array.from(from.x.subarray(0, this.n)), this.modes, { generators: this.generators });
+    if (!locked.converged) return null;
+    const x = new Float64Array(this.n + this.g + 1);
+    x.set(locked.state);
+    locked.rates.forEach((r, c) => (x[this.n + c] = r));
+    x[this.n + this.g] = (edge - this.lambda0) / this.scale;
+    return this.evaluateNode(x, from.tangent, 1);
+  }
+
+  private limit(kind: LimitKind, node: Node, frequency: number | undefined, message: string): BranchLimit {
+    const parameter = this.lambda(node.x);
+    const distance = parameter - this.lambda0;
+    const limit: BranchLimit = {
+      kind,
+      parameter,
+      ppm: this.ppm(parameter),
+      distance,
+      distancePpm: this.ppm(distance),
+      point: this.point(node),
+      message,
+    };
+    if (frequency !== undefined) limit.frequency = frequency;
+    return limit;
+  }
+
+  private point(node: Node): BranchPoint {
+    const parameter = this.lambda(node.x);
+    setParameter(this.model.params, this.parameter, parameter);
+    const y = Float64Array.from(node.x.subarray(0, this.n));
+    const rates = Array.from(node.x.subarray(this.n, this.n + this.g));
+    const described = describeLockedState(this.model, { state: y, generators: this.generators, rates, residual: 0, iterations: 0, converged: true }, node.stability, []);
+    const point: BranchPoint = {
+      parameter,
+      ppm: this.ppm(parameter),
+      amplitudes: described.amplitudes,
+      meanAmplitude: described.meanAmplitude,
+      phaseDifferences: described.phaseDifferences,
+      rotation: described.rotation,
+      stability: node.stability.verdict,
+      stable: described.stable,
+      margin: node.stability.margin,
+      unstableCount: node.unstable,
+    };
+    if (this.options.keepStates) point.state = Array.from(y);
+    return point;
+  }
+}
+

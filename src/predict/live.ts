@@ -1,0 +1,255 @@
+/**
+ * Live prediction after a perturbation: does the guiding system's current locked pattern persist
+ * under the new parameters, with what margin, and if not, what does it become?
+ *
+ * 1. Persistence: the current locked state is continued (pseudo-arclength, continuation.ts) along
+ *    the straight line from the previous parameters (h = 0) to the new ones (h = 1). Reaching
+ *    h = 1 with a stable state means the pattern persists, deformed; a fold, Hopf or branch point
+ *    on the way means it is lost there (the fraction h says how far the change could have gone).
+ *    At h = 1 the state is solved once more with the new graph's connected parts, so a link break
+ *    that splits the graph gets its extra phase freedom.
+ * 2. Destination: when the pattern is lost (or the state was kicked, or was not locked), a private
+ *    copy of the guiding system is integrated forward from the current state until it settles on
+ *    a stable locked state (look-ahead.ts).
+ * Each result is cached by the new parameter set and the current pattern's label, so toggling a
+ * fault back and forth costs nothing the second time. The predictor owns its own parameters and
+ * never writes to a session's.
+ */
+import type { ModelParameters } from '../model/parameters.js';
+import type { Scenario } from '../scenario/types.js';
+import type { PatternKind } from '../pattern/classify.js';
+import { modeAmplitudes } from '../observe/amplitudes.js';
+import { GuideModel, copyParameters, parameterFingerprint } from './guide-model.js';
+import { homotopy, setParameter, snapshotParameters, type ParameterSnapshot } from './continuation-parameter.js';
+import { continueBranch, type LimitKind } from './continuation.js';
+import { lockedStateStability, solveLockedState, type LockedStability, type LockedState, type Verdict } from './locked-state.js';
+import { describeLockedState, type TimeConstant } from './describe.js';
+import { lookAhead } from './look-ahead.js';
+
+export type LiveVerdict = 'persists' | 'lost' | 'marginal' | 'not-locked' | 'unknown';
+
+export interface PatternLabel {
+  kind: PatternKind | 'unlocked';
+  q?: number;
+  mode: number;
+  locked: boolean;
+}
+
+export interface PredictedPattern {
+  kind: PatternKind | 'unlocked';
+  q?: number;
+  mode: number;
+  /** False when the look-ahead did not settle on a locked state within its budget. */
+  locked: boolean;
+  stability: Verdict | null;
+  stable: boolean | null;
+  margin: number | null;
+  timeConstant: TimeConstant | null;
+  phaseDifferences: number[];
+  meanAmplitude: number[];
+  frequencyShiftPpm: (number | null)[];
+}
+
+/** A type alias rather than an interface, so readers may treat it as a plain record. */
+export type LivePrediction = {
+  /** tau at which the prediction was made. */
+  tau: number;
+  verdict: LiveVerdict;
+  /** The guide's pattern when the perturbation arrived. */
+  current: PatternLabel;
+  /** The predicted pattern under the new parameters: the current one continued, or its successor. */
+  pattern: PredictedPattern | null;
+  /** Margin of the predicted pattern (slow time), null when unknown. */
+  margin: number | null;
+  /** Where on the way from the previous to the new parameters the current pattern was lost. */
+  lostAt: { fraction: number; kind: LimitKind } | null;
+  /** The look-ahead used to find the successor, when one ran. */
+  lookAhead: { slowTime: number; settled: boolean } | null;
+  fromCache: boolean;
+  message: string;
+};
+
+/** Above this many slow variables no live prediction is made (dense Jacobians, like the session's margin). */
+export const LIVE_PREDICTION_SIZE_LIMIT = 160;
+const CACHE_SIZE = 16;
+
+export interface LivePredictorState {
+  previous: { detuning: number[]; linkWeight: number[]; strength: number; reactive: number; dissipative: number };
+  cache: [string, LivePrediction][];
+}
+
+const labelText = (l: PatternLabel): string => `${l.locked ? l.kind : 'unlocked'}:${l.q ?? ''}:${l.mode}`;
+
+export class LivePredictor {
+  private readonly model: GuideModel;
+  private previous: ParameterSnapshot;
+  private readonly cache = new Map<string, LivePrediction>();
+
+  constructor(scenario: Scenario, params: ModelParameters) {
+    this.model = new GuideModel(scenario, params);
+    this.previous = snapshotParameters(params);
+  }
+
+  /** The parameters the next prediction starts from (set after each prediction). */
+  rememberParameters(params: ModelParameters): void {
+    this.previous = snapshotParameters(params);
+  }
+
+  /**
+   * Prediction for the guiding system at `state` under `params` (the new parameters), given the
+   * pattern it was in. `kicked` means the state itself was disturbed, so only a look-ahead can say
+   * where it goes.
+   */
+  predict(params: ModelParameters, state: Float64Array, current: PatternLabel, tau: number, kicked = false): LivePrediction {
+    const from = this.previous;
+    const to = snapshotParameters(params);
+    this.previous = to;
+    const key = `${parameterFingerprint(params)}|${labelText(current)}`;
+    const cached = kicked ? undefined : this.cache.get(key);
+    if (cached) {
+      this.cache.delete(key);
+      this.cache.set(key, cached);
+      return { ...cached, tau, fromCache: true };
+    }
+    const prediction = this.compute(params, from, to, state, current, tau, kicked);
+    if (!kicked) {
+      this.cache.set(key, prediction);
+      if (this.cache.size > CACHE_SIZE) this.cache.delete(this.cache.keys().next().value!);
+    }
+    return prediction;
+  }
+
+  save(): LivePredictorState {
+    const p = this.previous;
+    return {
+      previous: { detuning: Array.from(p.detuning), linkWeight: Array.from(p.linkWeight), strength: p.strength, reactive: p.reactive, dissipative: p.dissipative },
+      cache: [...this.cache.entries()].map(([k, v]) => [k, structuredClone(v)]),
+    };
+  }
+
+  load(saved: LivePredictorState): void {
+    const p = saved.previous;
+    this.previous = { detuning: Float64Array.from(p.detuning), linkWeight: Float64Array.from(p.linkWeight), strength: p.strength, reactive: p.reactive, dissipative: p.dissipative };
+    this.cache.clear();
+    for (const [k, v] of saved.cache) this.cache.set(k, structuredClone(v));
+  }
+
+  private compute(params: ModelParameters, from: ParameterSnapshot, to: ParameterSnapshot, state: Float64Array, current: PatternLabel, tau: number, kicked: boolean): LivePrediction {
+    const model = this.model;
+    const base = { tau, current, lostAt: null, lookAhead: null, fromCache: false };
+    if (model.size > LIVE_PREDICTION_SIZE_LIMIT) {
+      return { ...base, verdict: 'unknown', pattern: null, margin: null, message: `not predicted: ${model.size} slow variables is above the live limit of ${LIVE_PREDICTION_SIZE_LIMIT}` };
+    }
+    copyParameters(params, model.params);
+    let lostAt: LivePrediction['lostAt'] = null;
+    if (current.locked && !kicked) {
+      const outcome = this.continueToNewParameters(from, to, state);
+      if (outcome.kind === 'reached') {
+        const pattern = this.predictedPattern(outcome.locked, outcome.stability);
+        const verdict: LiveVerdict = outcome.stability.verdict === 'stable' ? 'persists' : outcome.stability.verdict === 'marginal' ? 'marginal' : 'lost';
+        if (verdict !== 'lost') {
+          const message = verdict === 'persists'
+            ? `the ${describeLabel(current)} pattern persists (margin ${outcome.stability.margin.toPrecision(3)} in slow time)`
+            : `the ${describeLabel(current)} pattern continues but its stability is not resolved (|margin| <= ${outcome.stability.tolerance.toPrecision(2)})`;
+          return { ...base, verdict, pattern, margin: pattern.margin, message };
+        }
+        lostAt = { fraction: 1, kind: 'branch-point' };
+      } else {
+        lostAt = { fraction: outcome.fraction, kind: outcome.limit };
+      }
+    }
+    copyParameters(params, model.params);
+    const ahead = lookAhead(model, state);
+    const pattern = ahead.settled && ahead.locked && ahead.stability ? this.predictedPattern(ahead.locked, ahead.stability) : this.unsettledPattern(ahead.state);
+    const lookAheadInfo = { slowTime: ahead.slowTime, settled: ahead.settled };
+    const becomes = ahead.settled ? `becomes ${describeLabel(pattern)} (margin ${pattern.margin?.toPrecision(3)})` : `does not settle within ${ahead.slowTime.toPrecision(3)} slow time units (predicted unlocked)`;
+    if (!current.locked) {
+      return { ...base, verdict: 'not-locked', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `the guide was not locked; it ${becomes}` };
+    }
+    const same = pattern.locked && pattern.kind === current.kind && pattern.q === current.q && pattern.mode === current.mode;
+    if (kicked && same) {
+      return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `after the kick the ${describeLabel(current)} pattern returns (margin ${pattern.margin?.toPrecision(3)})` };
+    }
+    const where = lostAt && lostAt.fraction < 1 ? ` at ${(100 * lostAt.fraction).toFixed(1)}% of the change (${lostAt.kind})` : '';
+    return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lostAt, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern is lost${where}; it ${becomes}` };
+  }
+
+  /** Continues the current state from the previous to the new parameters (see the module header). */
+  private continueToNewParameters(from: ParameterSnapshot, to: ParameterSnapshot, state: Float64Array):
+    | { kind: 'reached'; locked: LockedState; stability: LockedStability }
+    | { kind: 'lost'; fraction: number; limit: LimitKind } {
+    const model = this.model;
+    const spec = homotopy(from, to);
+    setParameter(model.params, spec, 0);
+    let end: Float64Array;
+    try {
+      const branch = continueBranch(model, state, spec, { directions: ['increasing'], range: { max: 1 }, maxSteps: 80, initialStep: 0.2, maxStep: 0.5, keepStates: true });
+      const limit = branch.limits.increasing!;
+      if (limit.kind !== 'range') return { kind: 'lost', fraction: Math.min(1, Math.max(0, limit.parameter)), limit: limit.kind };
+      const last = branch.points[branch.points.length - 1];
+      if (!last.state || Math.abs(last.parameter - 1) > 1e-9) return { kind: 'lost', fraction: last.parameter, limit: 'step-failure' };
+      end = Float64Array.from(last.state);
+    } catch (error) {
+      if (error instanceof RangeError) return { kind: 'lost', fraction: 0, limit: 'step-failure' };
+      throw error;
+    }
+    setParameter(model.params, spec, 1);
+    const locked = solveLockedState(model.field, end, model.modes, { parts: model.parts() });
+    if (!locked.converged) return { kind: 'lost', fraction: 1, limit: 'step-failure' };
+    return { kind: 'reached', locked, stability: lockedStateStability(model.field, locked, model.modes, model.accuracy) };
+  }
+
+  private predictedPattern(locked: LockedState, stability: LockedStability): PredictedPattern {
+    const d = describeLockedState(this.model, locked, stability, []);
+    const pattern: PredictedPattern = {
+      kind: d.kind,
+      mode: d.mode,
+      locked: true,
+      stability: d.stability,
+      stable: d.stable,
+      margin: d.margin,
+      timeConstant: d.timeConstant,
+      phaseDifferences: d.phaseDifferences,
+      meanAmplitude: d.meanAmplitude,
+      frequencyShiftPpm: d.frequencyShiftPpm,
+    };
+    if (d.q !== undefined) pattern.q = d.q;
+    return pattern;
+  }
+
+  private unsettledPattern(state: Float64Array): PredictedPattern {
+    const { nodes, modes } = this.model.params;
+    let mode = 0;
+    let best = -1;
+    for (let j = 0; j < modes; j++) {
+      let e = 0;
+      for (let k = 0; k < nodes; k++) e += state[2 * (k * modes + j)] ** 2 + state[2 * (k * modes + j) + 1] ** 2;
+      if (e > best) [mode, best] = [j, e];
+    }
+    const { re, im } = modeAmplitudes(state, nodes, modes, mode);
+    const phases = Array.from(re, (r, k) => Math.atan2(im[k], r));
+    return {
+      kind: 'unlocked',
+      mode,
+      locked: false,
+      stability: null,
+      stable: null,
+      margin: null,
+      timeConstant: null,
+      phaseDifferences: phases.map((p, k) => {
+        const d = phases[(k + 1) % nodes] - p;
+        return Math.atan2(Math.sin(d), Math.cos(d));
+      }),
+      meanAmplitude: Array.from({ length: modes }, (_, j) => {
+        let s = 0;
+        for (let k = 0; k < nodes; k++) s += Math.hypot(state[2 * (k * modes + j)], state[2 * (k * modes + j) + 1]);
+        return s / nodes;
+      }),
+      frequencyShiftPpm: new Array(modes).fill(null),
+    };
+  }
+}
+
+function describeLabel(l: { kind: string; q?: number; mode: number }): string {
+  return `${l.kind}${l.q !== undefined ? ` q=${l.q}` : ''} (mode ${l.mode})`;
+}
