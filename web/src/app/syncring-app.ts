@@ -1,0 +1,283 @@
+import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
+import type { Role, ServerMessage } from '../../../src/protocol/messages.js';
+import { ConnectionClient, socketUrl, type ConnectionState } from '../data/connection.js';
+import { FrameStore } from '../data/frame-store.js';
+import { apiUrl, tokenFrom } from '../data/page-address.js';
+import { ReplayError, ReplayLog } from '../replay/replay-log.js';
+import type { CommandDetail, NoticeDetail } from '../panels/commands.js';
+import type { ScenarioChoice } from '../panels/control-panel.js';
+import type { ToastStack } from '../panels/toast-stack.js';
+import { MUTED } from '../theme.js';
+import '../panels/status-header.js';
+import '../panels/connection-banner.js';
+import '../panels/ring-view.js';
+import '../panels/pattern-panel.js';
+import '../panels/control-panel.js';
+import '../panels/event-timeline.js';
+import '../panels/toast-stack.js';
+import '../charts/phase-chart.js';
+import '../charts/amplitude-chart.js';
+import '../charts/lock-chart.js';
+import '../replay/replay-bar.js';
+
+/**
+ * The dashboard: lays the panels out and routes data. Live messages go into the live store;
+ * an opened log goes into a separate replay store, so the live run keeps streaming underneath
+ * and "back to live" is instant. Panels fire sr-command; only this element sends.
+ */
+export class SyncringApp extends LitElement {
+  static override properties = {
+    role: { state: true },
+    connection: { state: true },
+    viewers: { state: true },
+    scenarios: { state: true },
+    replay: { state: true },
+    replayIndex: { state: true },
+    lastCommand: { state: true },
+  };
+  static override styles = css`
+    :host {
+      display: flex;
+      flex-direction: column;
+      height: 100vh;
+      background: #e9edf1;
+    }
+    main {
+      flex: 1;
+      min-height: 0;
+      display: grid;
+      grid-template-columns: minmax(400px, 33fr) minmax(0, 42fr) minmax(380px, 25fr);
+      gap: 12px;
+      padding: 12px;
+      align-items: stretch;
+    }
+    .column {
+      display: flex;
+      flex-direction: column;
+      gap: 12px;
+      min-width: 0;
+      min-height: 0;
+      overflow-y: auto;
+    }
+    sr-event-timeline {
+      flex: 1 1 0;
+      min-height: 180px;
+    }
+    main.replaying sr-ring-view,
+    main.replaying sr-pattern-panel {
+      outline: 3px solid #7b2fbf;
+      outline-offset: -1px;
+    }
+    footer {
+      padding: 8px 18px 12px;
+      color: ${unsafeCSS(MUTED)};
+      font-size: 14px;
+      display: flex;
+      justify-content: space-between;
+      gap: 20px;
+      flex-wrap: wrap;
+    }
+    footer .caution {
+      font-weight: 600;
+      color: #3a4754;
+    }
+    @media (max-width: 1250px), (max-height: 800px) {
+      :host {
+        height: auto;
+        min-height: 100vh;
+      }
+      .column {
+        overflow: visible;
+      }
+    }
+    @media (max-width: 1250px) {
+      main {
+        grid-template-columns: 1fr 1fr;
+      }
+      .column.side {
+        grid-column: 1 / -1;
+      }
+    }
+  `;
+
+  declare role: Role | null;
+  declare connection: ConnectionState | null;
+  declare viewers: number;
+  declare scenarios: ScenarioChoice[];
+  declare replay: ReplayLog | null;
+  declare replayIndex: number;
+  declare lastCommand: string;
+
+  private readonly live = new FrameStore();
+  private readonly replayStore = new FrameStore();
+  private readonly client: ConnectionClient;
+  private readonly pending = new Map<number, string>();
+
+  constructor() {
+    super();
+    this.role = null;
+    this.connection = null;
+    this.viewers = 0;
+    this.scenarios = [];
+    this.replay = null;
+    this.replayIndex = 0;
+    this.lastCommand = '';
+    this.client = new ConnectionClient(socketUrl(location, tokenFrom(location.search)), {
+      onMessage: (m) => this.receive(m),
+      onState: (s) => (this.connection = s),
+    });
+    this.addEventListener('sr-command', (e) => this.command((e as CustomEvent<CommandDetail>).detail));
+    this.addEventListener('sr-notice', (e) => this.toast((e as CustomEvent<NoticeDetail>).detail.kind, (e as CustomEvent<NoticeDetail>).detail.text));
+    this.addEventListener('sr-retry', () => this.client.retryNow());
+    this.addEventListener('sr-open-log', (e) => void this.openLog((e as CustomEvent<File>).detail));
+    this.addEventListener('sr-scrub', (e) => this.showReplayAt((e as CustomEvent<number>).detail));
+    this.addEventListener('sr-leave-replay', () => this.leaveReplay());
+  }
+
+  override connectedCallback(): void {
+    super.connectedCallback();
+    this.client.start();
+    void this.loadScenarios();
+  }
+
+  override disconnectedCallback(): void {
+    super.disconnectedCallback();
+    this.client.stop();
+  }
+
+  private get canEdit(): boolean {
+    return this.replay === null && this.role === 'operator' && this.connection?.phase === 'open';
+  }
+
+  private get readOnlyReason(): string {
+    if (this.replay) return 'Replay is read-only — go back to live to change the run';
+    if (this.connection?.phase !== 'open') return 'Not connected to the live run';
+    if (this.role !== 'operator') return 'View only — changes need the operator link (page opened with ?token=…)';
+    return '';
+  }
+
+  private receive(message: ServerMessage): void {
+    switch (message.type) {
+      case 'hello':
+        this.role = message.role;
+        this.viewers = message.viewers;
+        this.live.reset(message.session, message.history, message.events);
+        return;
+      case 'frame':
+        this.live.pushFrame(message.frame);
+        return;
+      case 'event':
+        this.live.pushEvent(message.event);
+        return;
+      case 'status':
+        this.live.setSession(message.session);
+        this.viewers = message.viewers;
+        return;
+      case 'ack': {
+        const action = typeof message.id === 'number' ? (this.pending.get(message.id) ?? message.action) : message.action;
+        if (typeof message.id === 'number') this.pending.delete(message.id);
+        this.lastCommand = `✓ ${action} accepted`;
+        return;
+      }
+      case 'error': {
+        const action = typeof message.id === 'number' ? this.pending.get(message.id) : undefined;
+        if (typeof message.id === 'number') this.pending.delete(message.id);
+        const where = message.path ? ` (${message.path})` : '';
+        this.toast('error', `${action ? `${action} refused` : 'Server error'}: ${message.reason}${where}`);
+        if (action) this.lastCommand = `✗ ${action} refused`;
+        return;
+      }
+    }
+  }
+
+  private command({ action, fields }: CommandDetail): void {
+    if (this.replay) {
+      this.toast('info', 'Replay is read-only: go back to live to send commands.');
+      return;
+    }
+    const id = this.client.send(action, fields ?? {});
+    if (id === null) {
+      this.toast('error', `${action} not sent: not connected to the live run.`);
+      return;
+    }
+    this.pending.set(id, action);
+    this.lastCommand = `… ${action} sent`;
+  }
+
+  private toast(kind: 'info' | 'error', text: string): void {
+    (this.renderRoot.querySelector('sr-toast-stack') as ToastStack | null)?.show(kind, text);
+  }
+
+  private async loadScenarios(): Promise<void> {
+    try {
+      const response = await fetch(apiUrl('/api/scenarios'));
+      if (!response.ok) throw new Error(`HTTP ${response.status}`);
+      const list = (await response.json()) as ScenarioChoice[];
+      this.scenarios = Array.isArray(list) ? list.filter((c) => typeof c?.name === 'string').map((c) => ({ name: c.name, title: c.title ?? c.name })) : [];
+    } catch (error) {
+      console.warn('syncring: could not list the built-in scenarios', error);
+    }
+  }
+
+  private async openLog(file: File): Promise<void> {
+    try {
+      const replay = ReplayLog.fromText(await file.text(), file.name);
+      this.replay = replay;
+      this.showReplayAt(replay.frames.length - 1);
+      const problems = replay.problems.length ? ` (${replay.problems.length} problem${replay.problems.length > 1 ? 's' : ''} in the file, intact records used)` : '';
+      this.toast('info', `Replaying ${file.name}: ${replay.frames.length} samples, ${replay.events.length} events${problems}.`);
+    } catch (error) {
+      this.toast('error', error instanceof ReplayError ? error.message : `Could not open ${file.name}: ${(error as Error).message}`);
+    }
+  }
+
+  private showReplayAt(index: number): void {
+    const r = this.replay;
+    if (!r) return;
+    const i = Math.max(0, Math.min(r.frames.length - 1, Math.round(index)));
+    this.replayIndex = i;
+    const frame = r.frames[i];
+    this.replayStore.reset(r.sessionAt(i), r.points.slice(0, i + 1), r.eventsUntil(frame.tau), frame);
+    this.replayStore.frameCount = i + 1;
+  }
+
+  private leaveReplay(): void {
+    this.replay = null;
+  }
+
+  override render() {
+    const store = this.replay ? this.replayStore : this.live;
+    const canEdit = this.canEdit;
+    const reason = this.readOnlyReason;
+    return html`
+      <sr-status-header .store=${store} .role=${this.role} .connection=${this.connection} .viewers=${this.viewers} ?replaying=${this.replay !== null}></sr-status-header>
+      ${this.replay ? nothing : html`<sr-connection-banner .state=${this.connection}></sr-connection-banner>`}
+      ${this.replay ? html`<sr-replay-bar .replay=${this.replay} .index=${this.replayIndex}></sr-replay-bar>` : nothing}
+      <main class=${this.replay ? 'replaying' : ''}>
+        <div class="column">
+          <sr-ring-view .store=${store} ?canEdit=${canEdit} .readOnlyReason=${reason}></sr-ring-view>
+          <sr-pattern-panel .store=${store}></sr-pattern-panel>
+        </div>
+        <div class="column">
+          <sr-phase-chart .store=${store}></sr-phase-chart>
+          <sr-amplitude-chart .store=${store}></sr-amplitude-chart>
+          <sr-lock-chart .store=${store}></sr-lock-chart>
+        </div>
+        <div class="column side">
+          <sr-control-panel .store=${store} .scenarios=${this.scenarios} ?canEdit=${canEdit} ?replaying=${this.replay !== null} .readOnlyReason=${reason} .lastCommand=${this.lastCommand}></sr-control-panel>
+          <sr-event-timeline .store=${store}></sr-event-timeline>
+        </div>
+      </main>
+      <footer>
+        <span class="caution" data-testid="caution">
+          Simulation does not replace qualification of real hardware. Timing equipment in telecom, power or navigation service follows its own
+          standards and licensed practice.
+        </span>
+        <span>syncring · full equations beside the averaged guiding system, one clock</span>
+      </footer>
+      <sr-toast-stack></sr-toast-stack>
+    `;
+  }
+}
+
+customElements.define('syncring-app', SyncringApp);

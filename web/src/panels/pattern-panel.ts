@@ -1,0 +1,181 @@
+import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
+import type { FrameStore } from '../data/frame-store.js';
+import { StoreController } from '../data/store-controller.js';
+import { formatHz, formatNumber, formatSeconds, marginTimeConstant } from '../data/engineering.js';
+import { tauToSeconds } from '../../../src/scenario/units.js';
+import { CAUTION, FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
+import { modeName, patternLabel, symmetryPhase } from './pattern-text.js';
+
+const MAX_ELEMENTS_SHOWN = 8;
+
+/**
+ * The read-out of what the ring is doing: the full system's pattern and its symmetry, the
+ * guiding system's pattern and stability margin (also as a time constant in physical units),
+ * how far the two have drifted apart, and every warning that limits what the numbers mean.
+ */
+export class PatternPanel extends LitElement {
+  static override properties = { store: { attribute: false } };
+  static override styles = [
+    panelStyles,
+    css`
+      .headline {
+        font-size: 26px;
+        font-weight: 800;
+        letter-spacing: 0.02em;
+      }
+      .sub {
+        font-size: 16px;
+      }
+      dl {
+        display: grid;
+        grid-template-columns: max-content 1fr;
+        gap: 3px 12px;
+        margin: 6px 0 0;
+      }
+      dt {
+        color: ${unsafeCSS(MUTED)};
+        font-size: 14px;
+      }
+      dd {
+        margin: 0;
+        font-variant-numeric: tabular-nums;
+      }
+      section + section {
+        margin-top: 10px;
+        padding-top: 8px;
+        border-top: 1px solid #e3e8ec;
+      }
+      .chips {
+        display: flex;
+        flex-wrap: wrap;
+        gap: 4px;
+        margin-top: 4px;
+      }
+      .chip {
+        font-size: 13px;
+        background: #eef3f6;
+        border: 1px solid #d3dce3;
+        border-radius: 12px;
+        padding: 1px 8px;
+        white-space: nowrap;
+      }
+      ul.warnings {
+        margin: 4px 0 0;
+        padding-left: 18px;
+        color: ${unsafeCSS(CAUTION)};
+        font-weight: 600;
+      }
+      ul.warnings li.fault {
+        color: ${unsafeCSS(FAULT)};
+      }
+      .stable {
+        color: ${unsafeCSS(LOCKED)};
+        font-weight: 700;
+      }
+      .unstable {
+        color: ${unsafeCSS(FAULT)};
+        font-weight: 700;
+      }
+      h3 {
+        margin: 0;
+        font-size: 14px;
+        color: ${unsafeCSS(MUTED)};
+        font-weight: 700;
+      }
+    `,
+  ];
+
+  declare store: FrameStore | null;
+
+  constructor() {
+    super();
+    this.store = null;
+    new StoreController(this, () => this.store, () => this.requestUpdate(), 250);
+  }
+
+  override render() {
+    const session = this.store?.session;
+    const frame = this.store?.latest;
+    if (!session || !frame) return html`<h2>Pattern</h2><p class="muted">No frame yet.</p>`;
+    const p = frame.full.pattern;
+    const g = frame.guide.pattern;
+    const scales = { epsilon: session.epsilon, nominalFrequencyHz: session.nominalFrequencyHz, omega0: session.omega[0] };
+    const seconds = (tau: number) => formatSeconds(tauToSeconds(tau, scales.nominalFrequencyHz, scales.omega0));
+    const margin = frame.guide.margin;
+    const constant = margin === null ? null : marginTimeConstant(margin, scales);
+    const colour = frame.status === 'halted' ? FAULT : p.locked ? LOCKED : CAUTION;
+    const warnings = this.warnings();
+    return html`
+      <h2>Pattern</h2>
+      <section data-testid="pattern-full">
+        <div class="headline" style="color:${colour}">${frame.status === 'halted' ? 'halted' : p.locked ? p.kind : 'not locked'}</div>
+        <div class="sub">${patternLabel(p)}</div>
+        <dl>
+          <dt>carrying mode</dt>
+          <dd>${modeName(p.mode)}</dd>
+          <dt>locked since</dt>
+          <dd>${p.locked && p.lockedSince !== null ? html`τ = ${formatNumber(p.lockedSince, 4)} (${seconds(p.lockedSince)})` : '—'}</dd>
+          <dt>phase wander</dt>
+          <dd>${formatNumber(p.excursion, 2)} rad over the lock window</dd>
+        </dl>
+      </section>
+      <section data-testid="pattern-symmetry">
+        <h3>Symmetry (${p.symmetry.length} element${p.symmetry.length === 1 ? '' : 's'} γ with γ·a = e^{iφ}·a)</h3>
+        <div class="chips">
+          ${p.symmetry.slice(0, MAX_ELEMENTS_SHOWN).map((s) => html`<span class="chip">${s.element} · ${symmetryPhase(s, session.nodes)}</span>`)}
+          ${p.symmetry.length > MAX_ELEMENTS_SHOWN ? html`<span class="chip">+${p.symmetry.length - MAX_ELEMENTS_SHOWN} more</span>` : nothing}
+          ${p.symmetry.length === 0 ? html`<span class="muted">none (amplitudes too small)</span>` : nothing}
+        </div>
+      </section>
+      <section data-testid="pattern-guide">
+        <h3>Guiding system (averaged prediction)</h3>
+        <dl>
+          <dt>pattern</dt>
+          <dd>${patternLabel(g)}</dd>
+          <dt>stability margin</dt>
+          <dd>
+            ${margin === null
+              ? html`<span class="muted">${g.locked ? 'not computed' : 'needs a locked guide'}</span>`
+              : html`${formatNumber(margin, 3)} per slow unit
+                  <span class=${margin < 0 ? 'stable' : 'unstable'}>${margin < 0 ? 'stable' : 'unstable'}</span>`}
+          </dd>
+          ${constant
+            ? html`<dt>time constant</dt>
+                <dd>
+                  ${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈ ${formatSeconds(constant.seconds)} at
+                  ${formatHz(scales.nominalFrequencyHz)}
+                </dd>`
+            : nothing}
+          <dt>full − guide</dt>
+          <dd>max |Δa| = ${formatNumber(frame.divergence.max, 3)} (${formatNumber(100 * frame.divergence.relative, 2)} % of mean |a|)</dd>
+        </dl>
+      </section>
+      ${warnings.length
+        ? html`<section data-testid="pattern-warnings">
+            <h3>Warnings</h3>
+            <ul class="warnings">
+              ${warnings.map((w) => html`<li class=${w.fault ? 'fault' : ''}>${w.text}</li>`)}
+            </ul>
+          </section>`
+        : nothing}
+    `;
+  }
+
+  private warnings(): { text: string; fault: boolean }[] {
+    const session = this.store?.session;
+    const frame = this.store?.latest;
+    const events = this.store?.events ?? [];
+    const out: { text: string; fault: boolean }[] = [];
+    if (!session || !frame) return out;
+    if (frame.status === 'halted' || session.status === 'halted') {
+      const blowUp = [...events].reverse().find((e) => e.kind === 'blow-up');
+      out.push({ text: blowUp ? blowUp.message : 'the run halted (blow-up); the last good state is kept', fault: true });
+    }
+    for (const w of session.warnings) out.push({ text: w, fault: false });
+    if (events.some((e) => e.kind === 'guide-failure')) out.push({ text: 'the guiding system failed; its prediction is stale', fault: true });
+    if (frame.full.dominantMode !== 0) out.push({ text: `${modeName(frame.full.dominantMode)} carries most of the energy`, fault: true });
+    return out;
+  }
+}
+
+customElements.define('sr-pattern-panel', PatternPanel);

@@ -1,0 +1,184 @@
+import { LitElement, css, html, nothing } from 'lit';
+import type { Role } from '../../../src/protocol/messages.js';
+import type { ConnectionState } from '../data/connection.js';
+import type { FrameStore } from '../data/frame-store.js';
+import { StoreController } from '../data/store-controller.js';
+import { formatHz, formatNumber, formatSeconds } from '../data/engineering.js';
+import { BRAND, CAUTION, FAULT, LOCKED, UNWANTED } from '../theme.js';
+
+/**
+ * The top bar: what run this is, who I am in it (operator, viewer, replay), whether the live
+ * link is up, how many people watch, the run clock, and the log links (save / open for replay).
+ */
+export class StatusHeader extends LitElement {
+  static override properties = {
+    store: { attribute: false },
+    role: { type: String },
+    replaying: { type: Boolean },
+    connection: { attribute: false },
+    viewers: { type: Number },
+  };
+  static override styles = css`
+    :host {
+      display: block;
+      background: #15202b;
+      color: #fff;
+    }
+    .bar {
+      display: flex;
+      align-items: center;
+      gap: 18px;
+      padding: 8px 18px;
+      flex-wrap: wrap;
+    }
+    .brand {
+      display: flex;
+      align-items: center;
+      gap: 8px;
+      font-size: 24px;
+      font-weight: 800;
+      letter-spacing: 0.02em;
+    }
+    .scenario {
+      font-size: 17px;
+      font-weight: 600;
+    }
+    .scenario small {
+      display: block;
+      font-size: 13px;
+      font-weight: 400;
+      opacity: 0.75;
+    }
+    .badge {
+      font-size: 13px;
+      font-weight: 800;
+      letter-spacing: 0.1em;
+      padding: 3px 10px;
+      border-radius: 4px;
+      background: #3c4a57;
+    }
+    .clock {
+      font-variant-numeric: tabular-nums;
+      font-size: 16px;
+      display: flex;
+      gap: 14px;
+    }
+    .clock b {
+      font-weight: 700;
+    }
+    .clock span {
+      opacity: 0.95;
+    }
+    .spacer {
+      flex: 1;
+    }
+    .pill {
+      display: inline-flex;
+      align-items: center;
+      gap: 6px;
+      font-size: 15px;
+    }
+    .dot {
+      width: 11px;
+      height: 11px;
+      border-radius: 50%;
+      display: inline-block;
+    }
+    a,
+    label.open {
+      color: #fff;
+      font-size: 14px;
+      border: 1px solid #6b7a88;
+      border-radius: 6px;
+      padding: 4px 10px;
+      text-decoration: none;
+      cursor: pointer;
+    }
+    a:hover,
+    label.open:hover {
+      background: #2b3946;
+    }
+    input[type='file'] {
+      display: none;
+    }
+  `;
+
+  declare store: FrameStore | null;
+  declare role: Role | null;
+  declare replaying: boolean;
+  declare connection: ConnectionState | null;
+  declare viewers: number;
+
+  constructor() {
+    super();
+    this.store = null;
+    this.role = null;
+    this.replaying = false;
+    this.connection = null;
+    this.viewers = 0;
+    new StoreController(this, () => this.store, () => this.requestUpdate(), 100);
+  }
+
+  private onFile(event: Event): void {
+    const input = event.target as HTMLInputElement;
+    const file = input.files?.[0];
+    input.value = '';
+    if (file) this.dispatchEvent(new CustomEvent<File>('sr-open-log', { detail: file, bubbles: true, composed: true }));
+  }
+
+  override render() {
+    const s = this.store?.session;
+    const f = this.store?.latest;
+    const live = this.connection?.phase === 'open';
+    const badge = this.replaying
+      ? html`<span class="badge" style="background:${UNWANTED}" data-testid="role">REPLAY · READ-ONLY</span>`
+      : this.role === 'operator'
+        ? html`<span class="badge" style="background:${BRAND}" data-testid="role">OPERATOR</span>`
+        : this.role === 'viewer'
+          ? html`<span class="badge" data-testid="role">VIEWER</span>`
+          : nothing;
+    const status = f?.status === 'halted' ? 'halted' : (s?.status ?? '');
+    const statusColour = status === 'running' ? LOCKED : status === 'halted' ? FAULT : CAUTION;
+    return html`<div class="bar">
+      <div class="brand">
+        <svg width="30" height="30" viewBox="0 0 32 32" aria-hidden="true">
+          <circle cx="16" cy="16" r="11" fill="none" stroke="#4fd1c5" stroke-width="3.5"></circle>
+          <circle cx="16" cy="5" r="4" fill="#ff9d3d"></circle>
+          <circle cx="25.5" cy="21.5" r="4" fill="#7cb7ff"></circle>
+          <circle cx="6.5" cy="21.5" r="4" fill="#b2f28c"></circle>
+        </svg>
+        syncring
+      </div>
+      ${s
+        ? html`<div class="scenario" data-testid="scenario">
+            ${s.scenarioName}
+            <small>${s.nodes} nodes · ${s.modes} mode${s.modes > 1 ? 's' : ''} · ε = ${formatNumber(s.epsilon)} · f₀ = ${formatHz(s.nominalFrequencyHz)}</small>
+          </div>`
+        : nothing}
+      ${badge}
+      ${status && !this.replaying ? html`<span class="pill" data-testid="run-status"><span class="dot" style="background:${statusColour}"></span>${status}</span>` : nothing}
+      <div class="clock">
+        ${f
+          ? html`<span>τ <b data-testid="tau">${formatNumber(f.tau, 6)}</b></span>
+              <span>ε·τ <b>${formatNumber(f.slowTime, 4)}</b></span>
+              <span>t <b>${formatSeconds(f.seconds)}</b></span>
+              <span>${this.replaying ? 'sample' : 'frame'} <b data-testid="frame-count">${this.store?.frameCount ?? 0}</b></span>`
+          : nothing}
+      </div>
+      <div class="spacer"></div>
+      ${this.replaying
+        ? nothing
+        : html`<span class="pill" title="connection to the live run"
+              ><span class="dot" style="background:${live ? LOCKED : FAULT}"></span><span data-testid="connection">${live ? 'live' : 'offline'}</span></span
+            >
+            <span class="pill" title="browsers connected to this run" data-testid="viewers">
+              <svg width="20" height="14" viewBox="0 0 20 14" aria-hidden="true"><path d="M1 7 Q10 -3 19 7 Q10 17 1 7 Z" fill="none" stroke="#fff" stroke-width="1.8"></path><circle cx="10" cy="7" r="3" fill="#fff"></circle></svg>
+              ${this.viewers} watching
+            </span>`}
+      ${this.replaying ? nothing : html`<a href="./api/log" download="syncring-session.ndjson" data-testid="save-log" title="download the live run's session log (NDJSON)">⤓ Save log</a>`}
+      <label class="open" data-testid="open-log">⤒ Open log…<input type="file" accept=".ndjson,.jsonl,.log,.json,application/x-ndjson,text/plain" @change=${this.onFile} /></label>
+    </div>`;
+  }
+}
+
+customElements.define('sr-status-header', StatusHeader);
