@@ -5,8 +5,12 @@ import { UsageError } from './scenario-file.js';
 const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson]
   syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max]
+  syncring soak SCENARIO.json --campaign CAMPAIGN.json --until TAU --out DIR [--resume] [--pace SLOW_UNITS_PER_SECOND]
+                [--segment-bytes BYTES] [--checkpoint-every TAU]
+  syncring report DIR [--out FILE.html]
 
-SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler).`;
+SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler),
+CAMPAIGN a built-in campaign (timing-board-8-campaign).`;
 
 interface Parsed {
   positional: string[];
@@ -82,6 +86,40 @@ export async function main(argv: string[]): Promise<number> {
         process.once('SIGINT', stop);
         process.once('SIGTERM', stop);
         return -1;
+      }
+      case 'soak': {
+        const valued = ['campaign', 'until', 'out', 'pace', 'segment-bytes', 'checkpoint-every'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, [...valued, 'resume']);
+        if (parsed.positional.length !== 1) throw new UsageError('soak needs exactly one SCENARIO');
+        const campaign = parsed.flags.get('campaign');
+        const out = parsed.flags.get('out');
+        if (typeof campaign !== 'string') throw new UsageError('soak needs --campaign CAMPAIGN.json');
+        if (typeof out !== 'string') throw new UsageError('soak needs --out DIR');
+        const resume = parsed.flags.get('resume') === true;
+        const until = numberFlag(parsed, 'until');
+        if (until === undefined && !resume) throw new UsageError('soak needs --until TAU');
+        const { soak } = await import('./commands/soak.js');
+        return await soak({
+          scenario: parsed.positional[0],
+          campaign,
+          until,
+          out,
+          resume,
+          pace: numberFlag(parsed, 'pace'),
+          segmentBytes: numberFlag(parsed, 'segment-bytes'),
+          checkpointEvery: numberFlag(parsed, 'checkpoint-every'),
+        });
+      }
+      case 'report': {
+        const parsed = parseArgs(rest, ['out']);
+        onlyFlags(parsed, ['out']);
+        if (parsed.positional.length !== 1) throw new UsageError('report needs exactly one DIR (the --out folder of a soak)');
+        const out = parsed.flags.get('out');
+        const { report } = await import('./commands/report.js');
+        const written = report(parsed.positional[0], typeof out === 'string' ? out : undefined);
+        process.stdout.write(`${JSON.stringify({ report: written })}\n`);
+        return 0;
       }
       case undefined:
       case 'help':

@@ -9,8 +9,9 @@ import type { SystemView } from './tick-view.js';
  *   pre-fault value; the excursion is the largest |change|. Reaching pi means the lock was
  *   left (past the unstable equilibrium of sine-like coupling, i.e. a cycle slip under way).
  * - Pattern: the lock detector's labels other than the pre-fault one, in order of first
- *   appearance. A brief "unlocked" while the phases settle to a shifted equilibrium is not a
- *   loss; another locked pattern or a change of the carrying mode is.
+ *   appearance. While the fault lasts the ring may show a deformed pattern (a strained in-phase
+ *   state can classify as a cluster) or "unlocked" while the phases settle; neither is a loss.
+ *   Settling into another locked pattern after the restore (for at least `hold`) is.
  * - Re-lock: the first stretch of the pre-fault label that begins at or after the reference
  *   time (the restore, or the fault itself when nothing is restored) and lasts at least `hold`
  *   (one lock window) or reaches the end of the window.
@@ -26,6 +27,7 @@ export interface SystemTrackState {
   lockedOther: boolean;
   modeChanged: boolean;
   stretchStart: number | null;
+  otherStart: number | null;
   relockedAt: number | null;
   final: string;
 }
@@ -42,6 +44,7 @@ export function startTrack(before: SystemView): SystemTrackState {
     lockedOther: false,
     modeChanged: false,
     stretchStart: null,
+    otherStart: null,
     relockedAt: null,
     final: before.label,
   };
@@ -65,10 +68,16 @@ export function observeTrack(track: SystemTrackState, view: SystemView, tau: num
   if (view.label !== track.baseline) {
     if (!track.became.includes(view.label)) track.became.push(view.label);
     track.lostAt ??= tau;
-    if (view.label !== 'unlocked') track.lockedOther = true;
     track.stretchStart = null;
+    if (reference === null || view.label === 'unlocked') {
+      track.otherStart = null;
+      return;
+    }
+    track.otherStart = track.otherStart === null ? tau : Math.max(track.otherStart, reference);
+    if (tau - track.otherStart >= hold) track.lockedOther = true;
     return;
   }
+  track.otherStart = null;
   if (reference === null) return;
   track.stretchStart = track.stretchStart === null ? tau : Math.max(track.stretchStart, reference);
   if (track.relockedAt === null && tau - track.stretchStart >= hold) track.relockedAt = track.stretchStart;
@@ -77,13 +86,15 @@ export function observeTrack(track: SystemTrackState, view: SystemView, tau: num
 /** Close the track at the end of the window: an ongoing stretch of the pre-fault label counts. */
 export function closeTrack(track: SystemTrackState): void {
   if (track.relockedAt === null && track.stretchStart !== null) track.relockedAt = track.stretchStart;
+  // an ongoing other locked pattern at the end counts too (once the fault is over)
+  if (track.otherStart !== null && track.relockedAt === null) track.lockedOther = true;
 }
 
 export function slipped(track: SystemTrackState): boolean {
   return track.maxExcursion >= Math.PI;
 }
 
-/** The locked pattern persisted: it was locked before, no slip, no other pattern, same mode. */
+/** The locked pattern persisted: locked before, no slip, no change of carrying mode, no other pattern once the fault is over. */
 export function persisted(track: SystemTrackState): boolean {
   return track.baseline !== 'unlocked' && !slipped(track) && !track.lockedOther && !track.modeChanged;
 }

@@ -50,7 +50,8 @@ export interface FaultVerdict {
   final: string;
   divergence: { before: number; max: number };
   guide: { before: string; persisted: boolean; slipped: boolean; maxPhaseExcursion: number; became: string[] };
-  prediction: { source: 'guide' | 'frame'; persists: boolean | null; agreed: boolean | null };
+  /** The frame's live prediction when there was one, else the guiding system's own behaviour. */
+  prediction: { source: 'guide' | 'frame'; persists: boolean | null; agreed: boolean | null; message: string | null };
   overlaps: string[];
   /** False when the soak ended (or halted) before the window closed. */
   complete: boolean;
@@ -69,7 +70,8 @@ export interface EvaluationState {
   guide: SystemTrackState;
   divergenceBefore: number;
   maxDivergence: number;
-  predictedDuring: boolean | null;
+  /** The first frame prediction made at or after the fault's application and before its restore. */
+  predictedDuring: { persists: boolean; message: string | null } | null;
   overlaps: string[];
 }
 
@@ -121,7 +123,10 @@ export class FaultEvaluation {
     observeTrack(s.full, view.full, view.tau, reference, hold);
     observeTrack(s.guide, view.guide, view.tau, reference, hold);
     s.maxDivergence = Math.max(s.maxDivergence, view.divergence);
-    if (s.restoredAt === null && view.predictedLocked !== null) s.predictedDuring = view.predictedLocked;
+    const p = view.prediction;
+    if (s.restoredAt === null && s.predictedDuring === null && p && (p.tau === null || p.tau >= s.appliedAt * (1 - 1e-12))) {
+      s.predictedDuring = { persists: p.persists, message: p.message };
+    }
   }
 
   windowClosed(tau: number): boolean {
@@ -140,14 +145,15 @@ export class FaultEvaluation {
     const relockTau = recovered && reference !== null ? Math.max(0, s.full.relockedAt! - reference) : null;
     const prediction: FaultVerdict['prediction'] =
       s.predictedDuring !== null
-        ? { source: 'frame', persists: s.predictedDuring, agreed: s.predictedDuring === fullPersisted }
-        : { source: 'guide', persists: guidePersisted, agreed: guidePersisted === fullPersisted };
+        ? { source: 'frame', persists: s.predictedDuring.persists, agreed: s.predictedDuring.persists === fullPersisted, message: s.predictedDuring.message }
+        : { source: 'guide', persists: guidePersisted, agreed: guidePersisted === fullPersisted, message: null };
 
     const reasons: string[] = [];
     if (s.full.baseline === 'unlocked') reasons.push('the ring was not locked when the fault began; schedule faults after the first lock');
     else {
       if (c.mustPersist && !fullPersisted) reasons.push(`the locked pattern did not persist: ${lossDescription(s.full)}`);
-      if (c.mustRelock && (relockTau === null || relockTau > c.relockWithin)) {
+      // a window cut short by the end of the soak cannot judge a re-lock that was still due
+      if (c.mustRelock && (relockTau === null ? complete : relockTau > c.relockWithin)) {
         reasons.push(`did not re-lock into ${s.full.baseline} within ${spanText(c.relockWithin, base)} of the ${s.restoreAt === null ? 'fault' : 'restore'}`);
       }
     }
@@ -202,8 +208,7 @@ function lossDescription(track: SystemTrackState): string {
   const parts: string[] = [];
   if (track.maxExcursion >= Math.PI) parts.push(`a phase difference moved ${track.maxExcursion.toFixed(2)} rad (cycle slip)`);
   if (track.modeChanged) parts.push('the carrying mode changed');
-  const others = track.became.filter((label) => label !== 'unlocked');
-  if (others.length > 0) parts.push(`became ${others.join(', then ')}`);
+  if (track.lockedOther) parts.push(`settled into ${track.final !== 'unlocked' && track.final !== track.baseline ? track.final : track.became.filter((l) => l !== 'unlocked').join(', then ')}`);
   return parts.join('; ') || 'lost';
 }
 

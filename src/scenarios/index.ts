@@ -7,6 +7,7 @@ import type { Scenario } from '../scenario/types.js';
 import pairAdler from './pair-adler.json' with { type: 'json' };
 import ringOneWay5 from './ring-one-way-5.json' with { type: 'json' };
 import timingBoard8 from './timing-board-8.json' with { type: 'json' };
+import timingBoard8Campaign from './timing-board-8-campaign.json' with { type: 'json' };
 
 const RAW_BY_NAME: ReadonlyMap<string, unknown> = new Map<string, unknown>([
   ['timing-board-8', timingBoard8],
@@ -31,4 +32,18 @@ export function builtInScenarioRaw(name: string): unknown {
 /** A built-in scenario, parsed and normalized. */
 export function loadBuiltInScenario(name: string): Scenario {
   return parseScenario(builtInScenarioRaw(name), `built-in scenario ${name}`);
+}
+
+/** Fault campaigns shipped beside the scenarios (`<scenario>-campaign.json`), by name. */
+const CAMPAIGN_BY_NAME: ReadonlyMap<string, unknown> = new Map<string, unknown>([['timing-board-8-campaign', timingBoard8Campaign]]);
+
+export const builtInCampaignNames: string[] = [...CAMPAIGN_BY_NAME.keys()];
+
+/** A fresh copy of a built-in campaign's raw JSON (validate it with parseCampaign against its scenario). */
+export function builtInCampaignRaw(name: string): unknown {
+  const raw = CAMPAIGN_BY_NAME.get(name);
+  if (raw === undefined) {
+    throw new Error(`unknown built-in campaign ${JSON.stringify(name)}; available: ${builtInCampaignNames.join(', ')}`);
+  }
+  return structuredClone(raw);
 }
