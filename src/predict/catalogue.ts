@@ -50,6 +50,11 @@ export interface CandidateInfo {
   symmetryOrder: number;
   /** Number of conjugate copies (the same pattern moved by the group), 1 for a full-space seed. */
   conjugates: number;
+  /**
+   * True when solved inside the type's fixed-point subspace (the symmetry is exact); false for a
+   * full-space solve from the shape, as when detuning or a broken link has removed the symmetry.
+   */
+  exact: boolean;
 }
 
 export interface CataloguePattern extends LockedPatternDescription {
@@ -59,7 +64,8 @@ export interface CataloguePattern extends LockedPatternDescription {
 export interface PatternCatalogue {
   nodes: number;
   modes: number;
-  group: { order: number; truncated: boolean; elements: string[] };
+  /** Symmetries of the guiding system (graph automorphisms keeping the detuning); graphOrder counts the graph's alone. */
+  group: { order: number; graphOrder: number; truncated: boolean; elements: string[] };
   /** Connected parts of the coupling graph (each keeps its own phase and frequency). */
   parts: number[][];
   /** Isotropy classes examined and Newton solves run. */
@@ -87,6 +93,19 @@ export interface CatalogueOptions {
 export const CATALOGUE_SIZE_LIMIT = 256;
 
 const TYPE_ORDER: CandidateType[] = ['in-phase', 'anti-phase', 'rotating-wave', 'standing-wave', 'cluster', 'seed'];
+
+/**
+ * The symmetry group of the guiding system: automorphisms of the coupling graph (current link
+ * weights) that also keep every node's detuning (the other parameters are the same at every
+ * node). A detuned node breaks the symmetries that move it.
+ */
+export function dynamicalSymmetries(model: GuideModel, limit = 512): { elements: Int32Array[]; truncated: boolean; graphOrder: number } {
+  const { nodes, detuning } = model.params;
+  const graph = graphAutomorphisms(nodes, model.params.currentLinks(), { limit });
+  const same = (a: number, b: number): boolean => Math.abs(a - b) <= 1e-12 * Math.max(1, Math.abs(a), Math.abs(b));
+  const elements = graph.elements.filter((g) => g.every((image, k) => same(detuning[image], detuning[k])));
+  return { elements, truncated: graph.truncated, graphOrder: graph.elements.length };
+}
 
 /** Amplitude of a lone oscillating mode: g (1 - r^2/4) = d, so r = 2 sqrt(1 - d/g). */
 export function loneAmplitude(gain: number, loss: number): number {
@@ -224,7 +243,7 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
   const maxFixDimension = options.maxFixDimension ?? (large ? 1 : 4);
   const randomSeeds = options.randomSeeds ?? (large ? 0 : 2);
   const allowed = (type: CandidateType): boolean => !options.types || options.types.includes(type);
-  const listed = graphAutomorphisms(nodes, model.params.currentLinks(), { limit: options.groupLimit ?? 512 });
+  const listed = dynamicalSymmetries(model, options.groupLimit ?? 512);
   const table = groupTable(listed.elements);
   const rotation = unitRotation(table);
   const parts = model.parts();
@@ -281,7 +300,7 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
       for (const v of seeds) {
         const locked = solveIn(basis, stiffSeed(v, nodes, modes, j, r0), symmetryParts);
         if (locked) {
-          const candidate: CandidateInfo = { type, mode: j, fixDimension: cls.fixDimension, symmetryOrder: cls.subgroup.elements.length, conjugates: cls.conjugates };
+          const candidate: CandidateInfo = { type, mode: j, fixDimension: cls.fixDimension, symmetryOrder: cls.subgroup.elements.length, conjugates: cls.conjugates, exact: true };
           if (q !== undefined) candidate.q = q;
           record(locked, candidate);
         }
@@ -289,21 +308,24 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
     }
   }
 
-  if (allowed('seed')) {
-    const fullSeeds: { y: Float64Array; q?: number; mode: number }[] = (options.seeds ?? []).map((y) => ({ y: Float64Array.from(y), mode: dominantMode(y, nodes, modes) }));
-    if (rotation < 0 && nodes > 1) {
-      for (const j of seedModes) {
-        const r0 = loneAmplitude(model.params.gain[j], model.params.loss[j]);
-        for (let q = 0; q < nodes; q++) fullSeeds.push({ y: stiffSeed(fourierVector(nodes, q), nodes, modes, j, r0), q, mode: j });
+  const fullSeeds: { y: Float64Array; type: CandidateType; q?: number; mode: number }[] = [];
+  if (rotation < 0 && nodes > 1) {
+    // The ring order is broken (a link, or detuning): the intact ring's waves, solved in full.
+    for (const j of seedModes) {
+      const r0 = loneAmplitude(model.params.gain[j], model.params.loss[j]);
+      for (let q = 0; q < nodes; q++) {
+        const type: CandidateType = q === 0 ? 'in-phase' : 2 * q === nodes ? 'anti-phase' : 'rotating-wave';
+        if (allowed(type)) fullSeeds.push({ y: stiffSeed(fourierVector(nodes, q), nodes, modes, j, r0), type, q, mode: j });
       }
     }
-    for (const seed of fullSeeds) {
-      const locked = solveIn(undefined, seed.y, parts);
-      if (locked) {
-        const candidate: CandidateInfo = { type: 'seed', mode: seed.mode, fixDimension: nodes, symmetryOrder: 1, conjugates: 1 };
-        if (seed.q !== undefined) candidate.q = seed.q;
-        record(locked, candidate);
-      }
+  }
+  if (allowed('seed')) for (const y of options.seeds ?? []) fullSeeds.push({ y: Float64Array.from(y), type: 'seed', mode: dominantMode(y, nodes, modes) });
+  for (const seed of fullSeeds) {
+    const locked = solveIn(undefined, seed.y, parts);
+    if (locked) {
+      const candidate: CandidateInfo = { type: seed.type, mode: seed.mode, fixDimension: nodes, symmetryOrder: 1, conjugates: 1, exact: false };
+      if (seed.q !== undefined) candidate.q = seed.q;
+      record(locked, candidate);
     }
   }
 
@@ -311,7 +333,7 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
   return {
     nodes,
     modes,
-    group: { order: listed.elements.length, truncated: listed.truncated, elements: listed.elements.map((g) => describeElement(g).text) },
+    group: { order: listed.elements.length, graphOrder: listed.graphOrder, truncated: listed.truncated, elements: listed.elements.map((g) => describeElement(g).text) },
     parts: parts.map((p) => Array.from(p)),
     classesExamined: classes.length,
     solves,

@@ -36,9 +36,9 @@ import { deltaToPpm } from '../scenario/units.js';
 export interface ContinuationOptions {
   /** Which ways to go from the start; default both. */
   directions?: readonly ('decreasing' | 'increasing')[];
-  /** Accepted steps per direction; default 400. */
+  /** Accepted steps per direction; default 200. */
   maxSteps?: number;
-  /** First and largest arclength step (scaled units); defaults 0.02 and 0.15. */
+  /** First and largest arclength step (scaled units); defaults 0.02 and 0.5. */
   initialStep?: number;
   maxStep?: number;
   /** Give up when the step falls below this; default 1e-7. */
@@ -246,18 +246,22 @@ class Continuation {
     return { x: Float64Array.from(x), tangent, stability, unstable: eigenvalues.filter((e) => e.re > 0).length };
   }
 
-  /** Newton on the hyperplane through `predicted` normal to `t`; null when it fails. */
+  /**
+   * Chord-Newton on the hyperplane through `predicted` normal to `t` (the Jacobian is taken once,
+   * at the predicted point: the predictor lands close, so the chord converges fast); null when it
+   * fails.
+   */
   private correct(predicted: Float64Array, t: Float64Array): { x: Float64Array; iterations: number } | null {
     const size = predicted.length;
     const x = Float64Array.from(predicted);
-    for (let iteration = 1; iteration <= 8; iteration++) {
+    const { full } = this.jacobian(x);
+    const system = new Matrix(size, size);
+    for (let r = 0; r < full.rows; r++) for (let c = 0; c < size; c++) system.set(r, c, full.get(r, c));
+    for (let c = 0; c < size; c++) system.set(size - 1, c, t[c]);
+    for (let iteration = 1; iteration <= 10; iteration++) {
       const h = this.residual(x);
       let along = 0;
       for (let i = 0; i < size; i++) along += t[i] * (x[i] - predicted[i]);
-      const { full } = this.jacobian(x);
-      const system = new Matrix(size, size);
-      for (let r = 0; r < full.rows; r++) for (let c = 0; c < size; c++) system.set(r, c, full.get(r, c));
-      for (let c = 0; c < size; c++) system.set(size - 1, c, t[c]);
       const rhs = new Matrix(size, 1);
       for (let r = 0; r < h.length; r++) rhs.set(r, 0, -h[r]);
       rhs.set(size - 1, 0, -along);
@@ -294,8 +298,8 @@ class Continuation {
   }
 
   private follow(startNode: Node): { points: Node[]; limit: BranchLimit | null } {
-    const maxSteps = this.options.maxSteps ?? 400;
-    const maxStep = this.options.maxStep ?? 0.15;
+    const maxSteps = this.options.maxSteps ?? 200;
+    const maxStep = this.options.maxStep ?? 0.5;
     const minStep = this.options.minStep ?? 1e-7;
     const bound = Math.max(parameterLowerBound(this.parameter), this.options.range?.min ?? Number.NEGATIVE_INFINITY);
     const upper = this.options.range?.max ?? Number.POSITIVE_INFINITY;
@@ -312,12 +316,17 @@ class Continuation {
       this.steps++;
       const lambda = this.lambda(next.x);
       const turned = Math.sign(next.tangent[next.tangent.length - 1]) !== Math.sign(current.tangent[current.tangent.length - 1]);
+      const outside = lambda < bound || lambda > upper;
       if (turned || next.unstable !== current.unstable) {
         const event = this.locate(current, h, turned);
-        points.push(event.node);
-        return { points, limit: event.limit };
+        const at = this.lambda(event.node.x);
+        const inside = at > bound + 1e-9 * this.scale && at < upper - 1e-9 * this.scale;
+        if (inside || !outside) {
+          points.push(event.node);
+          return { points, limit: event.limit };
+        }
       }
-      if (lambda < bound || lambda > upper) {
+      if (outside) {
         const edge = lambda < bound ? bound : upper;
         const landed = this.landOn(current, edge);
         if (landed) points.push(landed);
@@ -338,7 +347,7 @@ class Continuation {
     let lo = 0;
     let hi = h;
     let hiNode: Node | null = null;
-    for (let i = 0; i < 40 && hi - lo > 1e-10 * h; i++) {
+    for (let i = 0; i < 30 && hi - lo > 1e-9 * h; i++) {
       const mid = (lo + hi) / 2;
       const node = this.step(from, mid);
       const changed = node && (fold ? Math.sign(node.tangent[node.tangent.length - 1]) !== foldSign : node.unstable !== from.unstable);

@@ -118,7 +118,7 @@ export function fieldJacobian(field: Field, y: Float64Array, basis?: Matrix): Ma
  */
 export function solveLockedState(field: Field, guess: Float64Array, modes: number, options: LockedStateOptions = {}): LockedState {
   const tolerance = options.tolerance ?? 1e-10;
-  const maxIterations = options.maxIterations ?? 40;
+  const maxIterations = options.maxIterations ?? 30;
   const n = guess.length;
   const parts = options.parts ?? wholeGraph(n / (2 * modes));
   const generators = options.generators ? [...options.generators] : activePhaseGenerators(guess, modes, parts);
@@ -142,7 +142,7 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
   const residualNorm = (): number => norm(rotatingResidual(field, y, generators, rates, modes, residualVector, scratch));
   let residual = residualNorm();
   let iterations = 0;
-  let offset = new Float64Array(p); // z - z0 (or y - y0)
+  const offset = new Float64Array(p); // z - z0 (or y - y0)
   while (residual > tolerance && iterations < maxIterations && Number.isFinite(residual)) {
     iterations++;
     const size = p + generators.length;
@@ -218,6 +218,14 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
       scale /= 2;
     }
     if (!Number.isFinite(next)) break;
+    if (!(next < residual)) {
+      // No descent even for a short step: Newton has stalled far from a solution.
+      y.set(y0);
+      generators.forEach((_, gi) => (rates[gi] = rates0[gi]));
+      offset.set(offset0);
+      residualNorm();
+      break;
+    }
     residual = next;
   }
   return { state: y, generators, rates, residual, iterations, converged: residual <= tolerance };

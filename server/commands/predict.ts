@@ -1,0 +1,147 @@
+import { initialRotatingState } from '../../src/model/initial.js';
+import { nearResonances } from '../../src/guide/resonance.js';
+import { GuideModel } from '../../src/predict/guide-model.js';
+import { CATALOGUE_SIZE_LIMIT, dynamicalSymmetries, patternCatalogue, sameUpToSymmetry, type CataloguePattern } from '../../src/predict/catalogue.js';
+import { continueBranch, type Branch } from '../../src/predict/continuation.js';
+import { CONTINUATION_SYNTAX, parseContinuationParameter } from '../../src/predict/continuation-parameter.js';
+import { lookAhead } from '../../src/predict/look-ahead.js';
+import { UsageError, loadScenario } from '../scenario-file.js';
+
+export interface PredictArgs {
+  scenario: string;
+  /** Parameter to continue in (see CONTINUATION_SYNTAX). */
+  continueIn?: string;
+  /** Index into `patterns` of the pattern to continue; default the one the initial state settles into. */
+  pattern?: number;
+  /** "MIN:MAX" bounds for the continued parameter. */
+  range?: string;
+  /** Accepted continuation steps per direction. */
+  maxSteps?: number;
+}
+
+/** "MIN:MAX" with either side optional ("0:", ":0.3"). */
+function parseRange(text: string): { min?: number; max?: number } {
+  const match = /^\s*([^:]*):([^:]*)\s*$/.exec(text);
+  if (!match) throw new UsageError(`--range must look like MIN:MAX, e.g. -0.1:0.1 (got ${JSON.stringify(text)})`);
+  const side = (word: string, name: string): number | undefined => {
+    if (word.trim() === '') return undefined;
+    const value = Number(word);
+    if (!Number.isFinite(value)) throw new UsageError(`--range: ${name} ${JSON.stringify(word)} is not a number`);
+    return value;
+  };
+  const range = { min: side(match[1], 'MIN'), max: side(match[2], 'MAX') };
+  if (range.min !== undefined && range.max !== undefined && !(range.min < range.max)) throw new UsageError(`--range: MIN must be below MAX (got ${text})`);
+  return range;
+}
+
+/**
+ * `syncring predict`: the catalogue of locked patterns of the guiding system with their
+ * stability, what the scenario's initial state settles into, and with --continue the branch of
+ * one pattern in one parameter with its limits (also in ppm for a detuning).
+ */
+export function predict(args: PredictArgs): Record<string, unknown> {
+  const { scenario } = loadScenario(args.scenario);
+  const model = new GuideModel(scenario);
+  if (model.size > CATALOGUE_SIZE_LIMIT) {
+    throw new UsageError(`${args.scenario}: ${scenario.nodes} nodes x ${model.modes} modes give ${model.size} slow variables; predict handles at most ${CATALOGUE_SIZE_LIMIT}`);
+  }
+  let parameter = null;
+  if (args.continueIn !== undefined) {
+    try {
+      parameter = parseContinuationParameter(args.continueIn, model.params);
+    } catch (error) {
+      if (error instanceof RangeError) throw new UsageError(error.message);
+      throw error;
+    }
+  }
+  const range = args.range !== undefined ? parseRange(args.range) : undefined;
+  if (range && !parameter) throw new UsageError('--range needs --continue PARAM');
+  if (args.pattern !== undefined && !parameter) throw new UsageError('--pattern needs --continue PARAM');
+  if (args.maxSteps !== undefined && (!Number.isInteger(args.maxSteps) || args.maxSteps < 1)) throw new UsageError(`--max-steps must be a positive integer (got ${args.maxSteps})`);
+
+  const started = Date.now();
+  const initial = initialRotatingState(scenario, model.params);
+  const destination = lookAhead(model, initial);
+  const catalogue = patternCatalogue(model, destination.settled ? { seeds: [destination.state] } : {});
+  const group = dynamicalSymmetries(model).elements;
+  const parts = model.parts();
+  const settledIndex = destination.settled
+    ? catalogue.patterns.findIndex((p) => sameUpToSymmetry(Float64Array.from(p.state), destination.state, group, model.nodes, model.modes, parts, 1e-4))
+    : -1;
+
+  const result: Record<string, unknown> = {
+    scenario: scenario.name,
+    nodes: model.nodes,
+    modes: model.modes,
+    epsilon: model.params.epsilon,
+    group: catalogue.group,
+    parts: catalogue.parts,
+    notes: {
+      units: 'eigenvalues, margins and rotation rates are in slow time (per unit eps tau); timeConstant = 1/|margin| in slow time, tau, carrier periods and seconds',
+      marginal: 'a pattern is marginal when |margin| <= marginTolerance = eps rateScale^2 / omega_min + 1e-8 max(1, rateScale): the first-order guiding system cannot resolve its sign',
+    },
+    patterns: catalogue.patterns.map((p, index) => ({ index, ...p })),
+    initial: {
+      settled: destination.settled,
+      slowTime: destination.slowTime,
+      pattern: settledIndex >= 0 ? settledIndex : null,
+    },
+    warnings: nearResonances(model.params.omega, model.params.epsilon).map((w) => w.message),
+    classesExamined: catalogue.classesExamined,
+    solves: catalogue.solves,
+  };
+
+  if (parameter) {
+    const chosen = choosePattern(catalogue.patterns, args.pattern, settledIndex);
+    const branch = continueBranch(model, Float64Array.from(catalogue.patterns[chosen].state), parameter, {
+      ...(range ? { range } : {}),
+      ...(args.maxSteps !== undefined ? { maxSteps: args.maxSteps } : {}),
+    });
+    result.continuation = {
+      parameter: args.continueIn,
+      syntax: CONTINUATION_SYNTAX,
+      pattern: { index: chosen, kind: catalogue.patterns[chosen].kind, q: catalogue.patterns[chosen].q ?? null, mode: catalogue.patterns[chosen].mode },
+      ...summariseBranch(branch),
+    };
+  }
+  result.wallSeconds = (Date.now() - started) / 1000;
+  return result;
+}
+
+function choosePattern(patterns: readonly CataloguePattern[], requested: number | undefined, settled: number): number {
+  if (patterns.length === 0) throw new UsageError('the catalogue holds no locked pattern to continue');
+  if (requested !== undefined) {
+    if (!Number.isInteger(requested) || requested < 0 || requested >= patterns.length) {
+      throw new UsageError(`--pattern must be an index 0..${patterns.length - 1} into "patterns" (got ${requested})`);
+    }
+    return requested;
+  }
+  if (settled >= 0) return settled;
+  let best = -1;
+  patterns.forEach((p, i) => {
+    if (p.stable === true && (best < 0 || p.margin < patterns[best].margin)) best = i;
+  });
+  if (best < 0) throw new UsageError('no stable pattern to continue and the initial state does not settle; choose one with --pattern INDEX');
+  return best;
+}
+
+function summariseBranch(branch: Branch): Record<string, unknown> {
+  const { decreasing, increasing } = branch.limits;
+  return {
+    name: branch.parameter.name,
+    start: branch.parameter.start,
+    startPpm: branch.parameter.startPpm,
+    limits: { decreasing, increasing },
+    range: {
+      lower: decreasing?.parameter ?? null,
+      upper: increasing?.parameter ?? null,
+      lowerPpm: decreasing?.ppm ?? null,
+      upperPpm: increasing?.ppm ?? null,
+      lowerKind: decreasing?.kind ?? null,
+      upperKind: increasing?.kind ?? null,
+    },
+    startIndex: branch.startIndex,
+    steps: branch.steps,
+    branch: branch.points,
+  };
+}
