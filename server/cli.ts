@@ -4,6 +4,8 @@ import { UsageError } from './scenario-file.js';
 
 const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson]
+  syncring predict SCENARIO.json [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
+                PARAM: detuning:K | coupling | reactive | dissipative | link:A-B | edge:A-B
   syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max]
   syncring soak SCENARIO.json --campaign CAMPAIGN.json --until TAU --out DIR [--resume] [--pace SLOW_UNITS_PER_SECOND]
                 [--segment-bytes BYTES] [--checkpoint-every TAU]
@@ -69,6 +71,23 @@ export async function main(argv: string[]): Promise<number> {
         const result = simulate({ scenario: parsed.positional[0], until, out: typeof out === 'string' ? out : undefined });
         process.stdout.write(`${JSON.stringify(result)}\n`);
         return result.status === 'halted' ? 3 : 0;
+      }
+      case 'predict': {
+        const valued = ['continue', 'pattern', 'range', 'max-steps'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, valued);
+        if (parsed.positional.length !== 1) throw new UsageError('predict needs exactly one SCENARIO');
+        const text = (name: string): string | undefined => parsed.flags.get(name) as string | undefined;
+        const { predict } = await import('./commands/predict.js');
+        const result = predict({
+          scenario: parsed.positional[0],
+          continueIn: text('continue'),
+          pattern: numberFlag(parsed, 'pattern'),
+          range: text('range'),
+          maxSteps: numberFlag(parsed, 'max-steps'),
+        });
+        process.stdout.write(`${JSON.stringify(result)}\n`);
+        return 0;
       }
       case 'serve': {
         const { serve } = await import('./main.js');
