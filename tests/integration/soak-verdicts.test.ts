@@ -1,0 +1,110 @@
+import { describe, expect, test } from 'vitest';
+import { execFile } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+/**
+ * A fault beyond the predicted locking limit fails with the right verdict and a non-zero exit;
+ * one inside it passes. Two nodes, one mode, two-way dissipative coupling (Adler, "A Study of
+ * Locking Phenomena in Oscillators", Proc. IRE 34, 1946; the mapping dw = eps omega
+ * (Delta_0 - Delta_1), K = eps kappa sigma is derived in ../shared/references.md): locked
+ * when |dw| <= K at sin psi = dw / K, otherwise the phase slips with the beat period
+ * 2 pi / sqrt(dw^2 - K^2).
+ */
+const root = new URL('../../', import.meta.url).pathname;
+const bin = join(root, 'bin/syncring.js');
+
+const eps = 0.01;
+const kappaSigma = 0.05;
+const K = eps * kappaSigma;
+const start = 5000;
+
+function soak(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
+  return new Promise((resolve) => {
+    execFile('node', [bin, 'soak', ...args], { cwd: root, timeout: 120_000 }, (error, stdout, stderr) => {
+      resolve({ code: error ? ((error as { code?: number }).code ?? -1) : 0, stdout, stderr });
+    });
+  });
+}
+
+function setUp(ratio: number) {
+  const dir = mkdtempSync(join(tmpdir(), 'syncring-adler-'));
+  const scenario = join(dir, 'pair.json');
+  writeFileSync(scenario, JSON.stringify({
+    name: 'Adler pair',
+    nodes: 2,
+    topology: { edges: [[0, 1, 1], [1, 0, 1]] },
+    epsilon: eps,
+    modes: [{ omega: 1, gain: 1, loss: 0 }],
+    coupling: { strength: kappaSigma, reactive: 0, dissipative: 1 },
+    detuning: [0, 0],
+    noise: { intensity: 1e-7, seed: 11 },
+    initial: { pattern: { q: 0, amplitude: 2 } },
+    integrator: { stepsPerPeriod: 16 },
+  }));
+  // Delta_0 = ratio kappa sigma / omega gives dw = ratio K; the fault lasts one beat period of
+  // the beyond case, so a slipping pair is back near psi = 0 when the detuning is restored
+  const beat = (2 * Math.PI) / (Math.sqrt(1.6 * 1.6 - 1) * K);
+  const campaign = join(dir, 'campaign.json');
+  writeFileSync(campaign, JSON.stringify({
+    name: `detune node 0 to ${ratio} of the locking limit`,
+    faults: [{ id: `dw-${ratio}K`, start, action: 'set-detuning', params: { node: 0, delta: ratio * kappaSigma }, duration: beat }],
+    stability: { uncoupledReference: false },
+  }));
+  const until = start + beat + 13000;
+  return { dir, scenario, campaign, until, out: join(dir, 'out') };
+}
+
+async function runCase(ratio: number) {
+  const c = setUp(ratio);
+  const result = await soak([c.scenario, '--campaign', c.campaign, '--until', String(c.until), '--out', c.out]);
+  const summary = JSON.parse(readFileSync(join(c.out, 'summary.json'), 'utf8'));
+  return { ...result, summary, verdict: summary.verdicts[0] };
+}
+
+describe('soak verdicts against the Adler locking limit', () => {
+  test('dw = 1.6 K (beyond |dw| = K): the pattern is lost by a cycle slip, the verdict fails, exit code 1', async () => {
+    const { code, stdout, summary, verdict } = await runCase(1.6);
+    expect(code).toBe(1);
+    expect(JSON.parse(stdout)).toMatchObject({ pass: false, exitCode: 1 });
+    expect(summary.pass).toBe(false);
+    expect(verdict.before).toBe('in-phase q=0 on mode 0');
+    expect(verdict.persisted).toBe(false);
+    expect(verdict.slipped).toBe(true);
+    // one beat = one full turn of psi (Adler): the unwrapped excursion reaches about 2 pi
+    expect(verdict.maxPhaseExcursion).toBeGreaterThan(Math.PI);
+    expect(verdict.became).toContain('unlocked');
+    expect(verdict.reasons.join(' ')).toMatch(/did not persist.*cycle slip/);
+    // the prediction (the frame's live prediction, or the guide) also says the pattern is lost
+    expect(verdict.prediction.persists).toBe(false);
+    expect(verdict.prediction.agreed).toBe(true);
+    expect(verdict.guide.slipped).toBe(true);
+    // after the restore the pair locks again
+    expect(verdict.recovered).toBe(true);
+    expect(verdict.timeToRelock.tau).toBeGreaterThan(0);
+    expect(summary.state).toHaveLength(2);
+  });
+
+  test('dw = 0.5 K (inside): the pattern persists, shifted to sin psi = 0.5, and the soak passes with exit code 0', async () => {
+    const { code, summary, verdict } = await runCase(0.5);
+    expect(code).toBe(0);
+    expect(summary.pass).toBe(true);
+    expect(verdict.persisted).toBe(true);
+    expect(verdict.slipped).toBe(false);
+    // Adler: the locked phase difference moves to asin(dw / K) = asin(0.5) = 0.5236 (3% as in tests/unit/physics/adler.test.ts)
+    expect(Math.abs(verdict.maxPhaseExcursion - Math.asin(0.5))).toBeLessThan(0.03 * Math.asin(0.5) + 0.01);
+    expect(verdict.prediction.persists).toBe(true);
+    expect(verdict.recovered).toBe(true);
+    expect(verdict.pass).toBe(true);
+    expect(summary.state[0][0]).toEqual({ x: expect.any(Number), xdot: expect.any(Number) });
+  });
+
+  test('a bad campaign is refused with exit code 2 naming the field', async () => {
+    const c = setUp(0.5);
+    writeFileSync(c.campaign, JSON.stringify({ faults: [{ start: 1, action: 'set-detuning', params: { node: 5, delta: 0 }, duration: 1 }] }));
+    const { code, stderr } = await soak([c.scenario, '--campaign', c.campaign, '--until', '100', '--out', c.out]);
+    expect(code).toBe(2);
+    expect(stderr).toContain(`${c.campaign}: faults[0].params.node: must be between 0 and 1 (got 5)`);
+  });
+});
