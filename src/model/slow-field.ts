@@ -1,5 +1,8 @@
 import type { ModelParameters } from './parameters.js';
 
+/** Above this in-degree a node's links are summed through the general CSR lists. */
+const SLOTS = 2;
+
 /**
  * The rotating-frame vector field f(y, theta) of design section 3, without the factor eps:
  * y' = eps f(y, theta) with y = [u_00, v_00, u_01, v_01, ...] (node-major, mode-minor) and
@@ -7,70 +10,289 @@ import type { ModelParameters } from './parameters.js';
  *   u' = -(eps F / omega_j) sin(theta_j),   v' = (eps F / omega_j) cos(theta_j).
  * The full integrator and the torus average both call this one kernel, so the guiding system
  * always averages exactly the right-hand side that the full system integrates.
+ *
+ * Harmonic content (used by the fitted integrator, checked by a test): F is odd in (x, x') and
+ * of degree 3, so f is a trigonometric polynomial in the angles of total degree 0, 2 or 4 only.
+ *
+ * Speed: the hot loops are specialised for one and two modes on graphs whose nodes have at most
+ * two incoming links (rings, broken rings, chains); missing slots point at the node itself, where
+ * the coupling term w (s_l - s_k) vanishes whatever w is. Everything mutable (link weights,
+ * detuning, coupling constants, gains, losses) is read from the parameters on every call.
  */
 export class SlowField {
+  /** Total degree of f in the angles; only even degrees occur. */
+  static readonly HARMONIC_DEGREE = 4;
+
   private readonly signal: Float64Array;
   private readonly signalRate: Float64Array;
-  private readonly x: Float64Array;
-  private readonly xdot: Float64Array;
+  /** x and x' per node and mode, interleaved like y. */
+  private readonly motion: Float64Array;
+  /** Per node: the two neighbour slots (source node and link index). */
+  private readonly fromA: Int32Array;
+  private readonly fromB: Int32Array;
+  private readonly linkA: Int32Array;
+  private readonly linkB: Int32Array;
+  private readonly slotted: boolean;
 
   constructor(readonly params: ModelParameters) {
     const n = params.nodes;
+    const size = 2 * n * params.modes;
     this.signal = new Float64Array(n);
     this.signalRate = new Float64Array(n);
-    this.x = new Float64Array(n * params.modes);
-    this.xdot = new Float64Array(n * params.modes);
+    this.motion = new Float64Array(size);
+    this.fromA = new Int32Array(n);
+    this.fromB = new Int32Array(n);
+    this.linkA = new Int32Array(n);
+    this.linkB = new Int32Array(n);
+    let slotted = params.linkWeight.length > 0;
+    for (let k = 0; k < n; k++) {
+      const first = params.inStart[k];
+      const degree = params.inStart[k + 1] - first;
+      if (degree > SLOTS) slotted = false;
+      this.fromA[k] = degree > 0 ? params.inFrom[first] : k;
+      this.linkA[k] = degree > 0 ? params.inLink[first] : 0;
+      this.fromB[k] = degree > 1 ? params.inFrom[first + 1] : k;
+      this.linkB[k] = degree > 1 ? params.inLink[first + 1] : 0;
+    }
+    this.slotted = slotted;
   }
 
   /** out = f(y, theta) where cos/sin hold cos(theta_j), sin(theta_j) per mode. */
   evaluate(cos: Float64Array, sin: Float64Array, y: Float64Array, out: Float64Array): void {
-    const p = this.params;
-    const n = p.nodes;
-    const m = p.modes;
-    const omega = p.omega;
-    const { signal, signalRate, x, xdot } = this;
+    this.run(cos, sin, y, out, 0, out, out, 0, out, true);
+  }
 
-    for (let k = 0; k < n; k++) {
-      let s = 0;
-      let sd = 0;
-      for (let j = 0; j < m; j++) {
-        const i = k * m + j;
-        const u = y[2 * i];
-        const v = y[2 * i + 1];
-        const xi = u * cos[j] + v * sin[j];
-        const xdi = omega[j] * (v * cos[j] - u * sin[j]);
-        x[i] = xi;
-        xdot[i] = xdi;
-        s += xi;
-        sd += xdi;
+  /**
+   * One fused Runge-Kutta stage: with F = f(yIn, theta), write next = base + a F and
+   * accOut = accIn + b F, element by element. yIn is read completely before anything is
+   * written, so next may be yIn, and accOut may be accIn; base and accIn are read per element.
+   */
+  combine(
+    cos: Float64Array,
+    sin: Float64Array,
+    yIn: Float64Array,
+    base: Float64Array,
+    a: number,
+    next: Float64Array,
+    accIn: Float64Array,
+    b: number,
+    accOut: Float64Array,
+  ): void {
+    this.run(cos, sin, yIn, base, a, next, accIn, b, accOut, false);
+  }
+
+  /** `plain`: write F itself into `next` (the other outputs are not touched). */
+  private run(
+    cos: Float64Array,
+    sin: Float64Array,
+    yIn: Float64Array,
+    base: Float64Array,
+    a: number,
+    next: Float64Array,
+    accIn: Float64Array,
+    b: number,
+    accOut: Float64Array,
+    plain: boolean,
+  ): void {
+    this.computeMotion(cos, sin, yIn);
+    const m = this.params.modes;
+    if (this.slotted && m === 2) this.forcesTwoModes(cos, sin, base, a, next, accIn, b, accOut, plain);
+    else if (this.slotted && m === 1) this.forcesOneMode(cos[0], sin[0], base, a, next, accIn, b, accOut, plain);
+    else this.forcesGeneral(cos, sin, base, a, next, accIn, b, accOut, plain);
+  }
+
+  /** x, x' per node and mode and the node signals s_k, s'_k. */
+  private computeMotion(cos: Float64Array, sin: Float64Array, y: Float64Array): void {
+    const { signal, signalRate, motion } = this;
+    const n = this.params.nodes;
+    const m = this.params.modes;
+    const omega = this.params.omega;
+    if (m === 2) {
+      const c0 = cos[0], s0 = sin[0], c1 = cos[1], s1 = sin[1], w0 = omega[0], w1 = omega[1];
+      for (let k = 0, i = 0; k < n; k++, i += 4) {
+        const u0 = y[i], v0 = y[i + 1], u1 = y[i + 2], v1 = y[i + 3];
+        const x0 = u0 * c0 + v0 * s0;
+        const r0 = w0 * (v0 * c0 - u0 * s0);
+        const x1 = u1 * c1 + v1 * s1;
+        const r1 = w1 * (v1 * c1 - u1 * s1);
+        motion[i] = x0;
+        motion[i + 1] = r0;
+        motion[i + 2] = x1;
+        motion[i + 3] = r1;
+        signal[k] = x0 + x1;
+        signalRate[k] = r0 + r1;
       }
-      signal[k] = s;
-      signalRate[k] = sd;
+    } else if (m === 1) {
+      const c = cos[0], s = sin[0], w = omega[0];
+      for (let k = 0, i = 0; k < n; k++, i += 2) {
+        const u = y[i], v = y[i + 1];
+        const x = u * c + v * s;
+        const r = w * (v * c - u * s);
+        motion[i] = x;
+        motion[i + 1] = r;
+        signal[k] = x;
+        signalRate[k] = r;
+      }
+    } else {
+      for (let k = 0; k < n; k++) {
+        let s = 0;
+        let sd = 0;
+        for (let j = 0; j < m; j++) {
+          const i = 2 * (k * m + j);
+          const u = y[i], v = y[i + 1];
+          const x = u * cos[j] + v * sin[j];
+          const r = omega[j] * (v * cos[j] - u * sin[j]);
+          motion[i] = x;
+          motion[i + 1] = r;
+          s += x;
+          sd += r;
+        }
+        signal[k] = s;
+        signalRate[k] = sd;
+      }
     }
+  }
 
+  private forcesTwoModes(
+    cos: Float64Array,
+    sin: Float64Array,
+    base: Float64Array,
+    a: number,
+    next: Float64Array,
+    accIn: Float64Array,
+    b: number,
+    accOut: Float64Array,
+    plain: boolean,
+  ): void {
+    const p = this.params;
+    const { signal, signalRate, motion, fromA, fromB, linkA, linkB } = this;
+    const weight = p.linkWeight;
+    const detuning = p.detuning;
     const kr = p.strength * p.reactive;
     const ks = p.strength * p.dissipative;
-    const { inStart, inFrom, inLink, linkWeight, inWeightSum, gain, loss, detuning } = p;
+    const w0 = p.omega[0], w1 = p.omega[1];
+    const g0 = p.gain[0], g1 = p.gain[1], d0 = p.loss[0], d1 = p.loss[1];
+    const q0 = 2 * w0 * w0, q1 = 2 * w1 * w1;
+    const su0 = -sin[0] / w0, sv0 = cos[0] / w0, su1 = -sin[1] / w1, sv1 = cos[1] / w1;
+    const n = p.nodes;
+    for (let k = 0, i = 0; k < n; k++, i += 4) {
+      const sk = signal[k], rk = signalRate[k];
+      const la = fromA[k], lb = fromB[k];
+      const wa = weight[linkA[k]], wb = weight[linkB[k]];
+      const coupling =
+        kr * (wa * (signal[la] - sk) + wb * (signal[lb] - sk)) + ks * (wa * (signalRate[la] - rk) + wb * (signalRate[lb] - rk));
+      const sustain = (1 - sk * sk) * rk;
+      const dk = detuning[k];
+      const f0 = g0 * sustain - d0 * motion[i + 1] - q0 * dk * motion[i] + coupling;
+      const f1 = g1 * sustain - d1 * motion[i + 3] - q1 * dk * motion[i + 2] + coupling;
+      const fu0 = f0 * su0, fv0 = f0 * sv0, fu1 = f1 * su1, fv1 = f1 * sv1;
+      if (plain) {
+        next[i] = fu0;
+        next[i + 1] = fv0;
+        next[i + 2] = fu1;
+        next[i + 3] = fv1;
+        continue;
+      }
+      next[i] = base[i] + a * fu0;
+      next[i + 1] = base[i + 1] + a * fv0;
+      next[i + 2] = base[i + 2] + a * fu1;
+      next[i + 3] = base[i + 3] + a * fv1;
+      accOut[i] = accIn[i] + b * fu0;
+      accOut[i + 1] = accIn[i + 1] + b * fv0;
+      accOut[i + 2] = accIn[i + 2] + b * fu1;
+      accOut[i + 3] = accIn[i + 3] + b * fv1;
+    }
+  }
+
+  private forcesOneMode(
+    c: number,
+    s: number,
+    base: Float64Array,
+    a: number,
+    next: Float64Array,
+    accIn: Float64Array,
+    b: number,
+    accOut: Float64Array,
+    plain: boolean,
+  ): void {
+    const p = this.params;
+    const { signal, signalRate, motion, fromA, fromB, linkA, linkB } = this;
+    const weight = p.linkWeight;
+    const detuning = p.detuning;
+    const kr = p.strength * p.reactive;
+    const ks = p.strength * p.dissipative;
+    const w = p.omega[0];
+    const g = p.gain[0], d = p.loss[0];
+    const q = 2 * w * w;
+    const su = -s / w, sv = c / w;
+    const n = p.nodes;
+    for (let k = 0, i = 0; k < n; k++, i += 2) {
+      const sk = signal[k], rk = signalRate[k];
+      const la = fromA[k], lb = fromB[k];
+      const wa = weight[linkA[k]], wb = weight[linkB[k]];
+      const coupling =
+        kr * (wa * (signal[la] - sk) + wb * (signal[lb] - sk)) + ks * (wa * (signalRate[la] - rk) + wb * (signalRate[lb] - rk));
+      const f = g * (1 - sk * sk) * rk - d * rk - q * detuning[k] * sk + coupling;
+      const fu = f * su, fv = f * sv;
+      if (plain) {
+        next[i] = fu;
+        next[i + 1] = fv;
+        continue;
+      }
+      next[i] = base[i] + a * fu;
+      next[i + 1] = base[i + 1] + a * fv;
+      accOut[i] = accIn[i] + b * fu;
+      accOut[i + 1] = accIn[i + 1] + b * fv;
+    }
+  }
+
+  /** Any number of modes, any in-degree (links through the CSR lists). */
+  private forcesGeneral(
+    cos: Float64Array,
+    sin: Float64Array,
+    base: Float64Array,
+    a: number,
+    next: Float64Array,
+    accIn: Float64Array,
+    b: number,
+    accOut: Float64Array,
+    plain: boolean,
+  ): void {
+    const p = this.params;
+    const { signal, signalRate, motion } = this;
+    const { inStart, inFrom, inLink, linkWeight, gain, loss, detuning, omega } = p;
+    const kr = p.strength * p.reactive;
+    const ks = p.strength * p.dissipative;
+    const n = p.nodes;
+    const m = p.modes;
     for (let k = 0; k < n; k++) {
+      const sk = signal[k], rk = signalRate[k];
       let pull = 0;
       let pullRate = 0;
       for (let e = inStart[k]; e < inStart[k + 1]; e++) {
         const w = linkWeight[inLink[e]];
-        pull += w * signal[inFrom[e]];
-        pullRate += w * signalRate[inFrom[e]];
+        const l = inFrom[e];
+        pull += w * (signal[l] - sk);
+        pullRate += w * (signalRate[l] - rk);
       }
-      const sk = signal[k];
-      const sdk = signalRate[k];
-      const coupling = kr * (pull - inWeightSum[k] * sk) + ks * (pullRate - inWeightSum[k] * sdk);
-      const sustain = (1 - sk * sk) * sdk;
+      const coupling = kr * pull + ks * pullRate;
+      const sustain = (1 - sk * sk) * rk;
       const twoDelta = 2 * detuning[k];
       for (let j = 0; j < m; j++) {
-        const i = k * m + j;
+        const i = 2 * (k * m + j);
         const w = omega[j];
-        const force = gain[j] * sustain - loss[j] * xdot[i] - twoDelta * w * w * x[i] + coupling;
-        const scaled = force / w;
-        out[2 * i] = -scaled * sin[j];
-        out[2 * i + 1] = scaled * cos[j];
+        const f = gain[j] * sustain - loss[j] * motion[i + 1] - twoDelta * w * w * motion[i] + coupling;
+        const fu = (-f * sin[j]) / w;
+        const fv = (f * cos[j]) / w;
+        if (plain) {
+          next[i] = fu;
+          next[i + 1] = fv;
+          continue;
+        }
+        next[i] = base[i] + a * fu;
+        next[i + 1] = base[i + 1] + a * fv;
+        accOut[i] = accIn[i] + b * fu;
+        accOut[i + 1] = accIn[i + 1] + b * fv;
       }
     }
   }

@@ -1,0 +1,244 @@
+/**
+ * `npm run bench`: speed and accuracy of the full-system micro-step integrator.
+ *
+ *   node dist/tests/bench/run.js [--json] [--steps=S]
+ *
+ * Case of the issue: a two-way ring of N = 8 nodes, two modes (omega 1 and 1.0015, a spurious
+ * mode 1500 ppm above the wanted one), eps = 1e-5. Figures, each beside its target:
+ *  - the micro stepper as a session runs it (default method, S steps per period, macro ticks of
+ *    defaultMacroPeriods(eps) periods): periods per wall second and the relative error of the
+ *    slow variables after 1000 periods against a fine reference computed here (rotating-frame
+ *    RK4 at 128 steps per period, its own error estimated against 96);
+ *  - rotating-frame RK4 (the previous method) and plain RK4 in the original coordinates (x, x'),
+ *    each at the step count that gives the same error, found by a power-law search, and the
+ *    speed ratios;
+ *  - time per period per node for rings of N = 8, 32, 128, 256 (the cost should be linear in N).
+ * Throughput is the best of several trials: the machine may be shared, and the best trial is the
+ * one least disturbed. Beside it the rate per CPU second of this process is shown (what one free
+ * core delivers); the median is in the JSON output.
+ */
+import { availableParallelism, loadavg } from 'node:os';
+import { ModelParameters } from '../../src/model/parameters.js';
+import { initialRotatingState } from '../../src/model/initial.js';
+import { originalFromRotating, rotatingFromOriginal } from '../../src/model/coordinates.js';
+import { MicroStepper } from '../../src/integrate/micro-stepper.js';
+import { defaultMacroPeriods } from '../../src/scenario/index.js';
+import type { ModeState } from '../../src/scenario/types.js';
+import { makeScenario } from '../support/scenarios.js';
+import { OriginalRk4 } from './original-rk4.js';
+import { measureThroughput, relativeError, searchSteps, type StepSearch, type Throughput } from './measure.js';
+
+const TARGET_PERIODS_PER_SECOND = 300_000;
+const TARGET_ERROR = 1e-8;
+const ERROR_PERIODS = 1000;
+const REFERENCE_STEPS = 128;
+const SCALING_NODES = [8, 32, 128, 256];
+/** Per-node cost at any N may exceed the N = 256 figure by this factor and still count as linear. */
+const LINEAR_SLACK = 1.5;
+const TWO_PI = 2 * Math.PI;
+
+const args = process.argv.slice(2);
+const json = args.includes('--json');
+const stepsArg = args.find((a) => a.startsWith('--steps='));
+const microSteps = stepsArg ? Number(stepsArg.slice('--steps='.length)) : 5;
+for (const a of args) {
+  if (a !== '--json' && !a.startsWith('--steps=')) {
+    console.error(`bench: unknown argument '${a}' (expected --json or --steps=S)`);
+    process.exit(2);
+  }
+}
+if (!(Number.isInteger(microSteps) && microSteps >= 1)) {
+  console.error(`bench: --steps must be a positive integer (got '${stepsArg}')`);
+  process.exit(2);
+}
+
+function ring(nodes: number) {
+  const scenario = makeScenario({
+    nodes,
+    twoWay: true,
+    epsilon: 1e-5,
+    modes: [
+      { omega: 1, gain: 1, loss: 0.5 },
+      { omega: 1.0015, gain: 1, loss: 0.66 },
+    ],
+    coupling: { strength: 0.1, reactive: 0.2, dissipative: 1 },
+    detuning: Array.from({ length: nodes }, (_, k) => [0.1, -0.2, 0.05, 0, 0.3, -0.1, 0.2, -0.3][k % 8]),
+  });
+  const params = new ModelParameters(scenario);
+  return { params, start: initialRotatingState(scenario, params) };
+}
+
+const log = (line: string) => {
+  if (!json) console.log(line);
+};
+const started = performance.now();
+const { params, start } = ring(8);
+const macroPeriods = defaultMacroPeriods(params.epsilon);
+const end = TWO_PI * ERROR_PERIODS;
+
+/** Run a micro stepper to `periods` in macro ticks, as a session does. */
+function runTicks(stepper: MicroStepper, periods: number): void {
+  const from = Math.round(stepper.tau / TWO_PI);
+  for (let p = from + macroPeriods; p < periods; p += macroPeriods) stepper.advance(TWO_PI * p);
+  stepper.advance(TWO_PI * periods);
+}
+
+// Fine reference, and an estimate of its own error.
+log('computing the reference ...');
+const reference = new MicroStepper(params, start, REFERENCE_STEPS, { method: 'rk4' });
+reference.advance(end);
+const coarser = new MicroStepper(params, start, (REFERENCE_STEPS * 3) / 4, { method: 'rk4' });
+coarser.advance(end);
+// RK4's error falls like S^-4: err(128) ~ |y(96) - y(128)| / ((128/96)^4 - 1)
+const referenceError = relativeError(coarser.state, reference.state) / ((4 / 3) ** 4 - 1);
+
+// The micro stepper as the session uses it.
+log(`micro stepper at ${microSteps} steps per period ...`);
+const micro = new MicroStepper(params, start, microSteps);
+runTicks(micro, ERROR_PERIODS);
+const microError = relativeError(micro.state, reference.state);
+const microEvaluations = micro.evaluations / ERROR_PERIODS;
+const microSpeed = measureThroughput(
+  () => new MicroStepper(params, start, microSteps),
+  (s, p) => s.advance(TWO_PI * p),
+  macroPeriods,
+  7,
+  400,
+);
+
+// Rotating-frame RK4 at equal error.
+log('rotating-frame RK4 at equal error ...');
+const rk4Error = (steps: number) => {
+  const s = new MicroStepper(params, start, steps, { method: 'rk4' });
+  runTicks(s, ERROR_PERIODS);
+  return relativeError(s.state, reference.state);
+};
+const rk4Search = searchSteps(rk4Error, microError, 12, 16);
+const rk4Speed = measureThroughput(
+  () => new MicroStepper(params, start, rk4Search.stepsPerPeriod, { method: 'rk4' }),
+  (s, p) => s.advance(TWO_PI * p),
+  macroPeriods,
+  5,
+  400,
+);
+
+// Plain RK4 in the original coordinates at equal error.
+log('original-coordinate RK4 at equal error (the slow part) ...');
+const startOriginal = Float64Array.from(originalFromRotating(params, 0, start).flatMap((modes) => modes.flatMap((m) => [m.x, m.xdot])));
+function originalToRotating(z: Float64Array, tau: number): Float64Array {
+  const state: ModeState[][] = [];
+  for (let k = 0; k < params.nodes; k++) {
+    state.push([]);
+    for (let j = 0; j < params.modes; j++) state[k].push({ x: z[2 * (k * params.modes + j)], xdot: z[2 * (k * params.modes + j) + 1] });
+  }
+  return rotatingFromOriginal(params, tau, state);
+}
+let originalSeconds = 0;
+const originalError = (steps: number) => {
+  const s = new OriginalRk4(params, startOriginal, steps);
+  const t0 = performance.now();
+  s.advance(end);
+  originalSeconds = (performance.now() - t0) / 1000;
+  return relativeError(originalToRotating(s.state, s.tau), reference.state);
+};
+const originalSearch = searchSteps(originalError, microError, 256, 512);
+const originalSpeed = measureThroughput(
+  () => new OriginalRk4(params, startOriginal, originalSearch.stepsPerPeriod),
+  (s, p) => s.advance(TWO_PI * p),
+  1,
+  3,
+  Math.min(1000, 300 + 300 * originalSeconds),
+);
+
+// Cost per node.
+log('scaling with N ...');
+const scaling = SCALING_NODES.map((nodes) => {
+  const ringN = ring(nodes);
+  const speed = measureThroughput(
+    () => new MicroStepper(ringN.params, ringN.start, microSteps),
+    (s, p) => s.advance(TWO_PI * p),
+    macroPeriods,
+    5,
+    250,
+  );
+  return { nodes, nsPerPeriodPerNode: 1e9 / (speed.best * nodes), cpuNsPerPeriodPerNode: 1e9 / (speed.bestCpu * nodes), periodsPerSecond: speed };
+});
+// Judged on CPU time: wall time of short trials on a loaded machine says more about the load.
+const perNodeLargest = scaling[scaling.length - 1].cpuNsPerPeriodPerNode;
+
+const result = {
+  machine: { node: process.version, cpus: availableParallelism(), loadAverage: loadavg().map((l) => Number(l.toFixed(2))) },
+  case: { nodes: 8, topology: 'ring-two-way', modes: Array.from(params.omega), epsilon: params.epsilon, macroPeriods, errorPeriods: ERROR_PERIODS },
+  reference: { method: 'rk4', stepsPerPeriod: REFERENCE_STEPS, estimatedError: referenceError },
+  micro: {
+    method: micro.method,
+    stepsPerPeriod: microSteps,
+    evaluationsPerPeriod: microEvaluations,
+    relativeError: microError,
+    periodsPerSecond: microSpeed,
+    targets: { periodsPerSecond: TARGET_PERIODS_PER_SECOND, relativeError: TARGET_ERROR },
+  },
+  rotatingRk4: summary(rk4Search, rk4Speed, 4),
+  originalRk4: summary(originalSearch, originalSpeed, 4),
+  scaling: scaling.map((s) => ({
+    nodes: s.nodes,
+    nsPerPeriodPerNode: s.nsPerPeriodPerNode,
+    cpuNsPerPeriodPerNode: s.cpuNsPerPeriodPerNode,
+    periodsPerSecond: s.periodsPerSecond.best,
+  })),
+  seconds: (performance.now() - started) / 1000,
+};
+
+function summary(search: StepSearch, speed: Throughput, evaluationsPerStep: number) {
+  return {
+    stepsPerPeriod: search.stepsPerPeriod,
+    evaluationsPerPeriod: evaluationsPerStep * search.stepsPerPeriod * Math.max(...params.omega),
+    relativeError: search.error,
+    periodsPerSecond: speed,
+    speedRatio: microSpeed.best / speed.best,
+    evaluationRatio: (evaluationsPerStep * search.stepsPerPeriod * Math.max(...params.omega)) / microEvaluations,
+    search: search.tried,
+  };
+}
+
+if (json) {
+  console.log(JSON.stringify(result, null, 2));
+} else {
+  const e = (x: number) => x.toExponential(2);
+  const n = (x: number) => Math.round(x).toLocaleString('en-US');
+  const verdict = (ok: boolean) => (ok ? 'ok' : 'MISSED');
+  const rows: [string, string, string, string][] = [
+    [`micro stepper (${micro.method}, ${microSteps} steps/period): periods per wall second`, n(microSpeed.best), `>= ${n(TARGET_PERIODS_PER_SECOND)}`, verdict(microSpeed.best >= TARGET_PERIODS_PER_SECOND)],
+    ['  periods per CPU second of this process', n(microSpeed.bestCpu), `>= ${n(TARGET_PERIODS_PER_SECOND)}`, verdict(microSpeed.bestCpu >= TARGET_PERIODS_PER_SECOND)],
+    [`  relative error after ${ERROR_PERIODS} periods`, e(microError), `<= ${e(TARGET_ERROR)}`, verdict(microError <= TARGET_ERROR)],
+    ['  field evaluations per period', microEvaluations.toFixed(2), '-', ''],
+    [`reference (RK4 rotating frame, ${REFERENCE_STEPS} steps): own error`, e(referenceError), `< micro error / 10 = ${e(microError / 10)}`, verdict(referenceError < microError / 10)],
+    [`RK4 rotating frame at equal error: steps/period`, String(rk4Search.stepsPerPeriod), '-', ''],
+    ['  relative error', e(rk4Search.error), `<= ${e(microError)} (micro)`, verdict(rk4Search.error <= microError)],
+    ['  periods per wall second', n(rk4Speed.best), '-', ''],
+    ['  micro / RK4 rotating, speed', `${result.rotatingRk4.speedRatio.toFixed(1)}x`, '> 1', verdict(result.rotatingRk4.speedRatio > 1)],
+    [`RK4 original coordinates (x, x') at equal error: steps/period`, String(originalSearch.stepsPerPeriod), '-', ''],
+    ['  relative error', e(originalSearch.error), `<= ${e(microError)} (micro)`, verdict(originalSearch.error <= microError)],
+    ['  periods per wall second', n(originalSpeed.best), '-', ''],
+    ['  micro / RK4 original, speed', `${n(result.originalRk4.speedRatio)}x`, '> 1', verdict(result.originalRk4.speedRatio > 1)],
+    ...scaling.map(
+      (s): [string, string, string, string] => [
+        `time per period per node, N = ${s.nodes} (wall | CPU)`,
+        `${s.nsPerPeriodPerNode.toFixed(0)} | ${s.cpuNsPerPeriodPerNode.toFixed(0)} ns`,
+        `CPU <= ${LINEAR_SLACK} x N=${SCALING_NODES.at(-1)} (${(LINEAR_SLACK * perNodeLargest).toFixed(0)} ns)`,
+        verdict(s.cpuNsPerPeriodPerNode <= LINEAR_SLACK * perNodeLargest),
+      ],
+    ),
+  ];
+  const widths = [0, 1, 2].map((c) => Math.max(...rows.map((r) => r[c].length)));
+  console.log('');
+  console.log(`syncring micro-step benchmark: N = 8 two-way ring, modes ${Array.from(params.omega).join(' and ')}, eps = ${params.epsilon}, macro tick ${macroPeriods} periods`);
+  console.log(`node ${process.version}, ${result.machine.cpus} CPUs, load average ${result.machine.loadAverage.join(' ')} (best of several trials is shown)`);
+  if (result.machine.loadAverage[0] > result.machine.cpus) {
+    console.log('the machine is busier than its CPU count: wall-clock rates are depressed, the CPU-time rate is the fairer figure');
+  }
+  console.log('');
+  for (const r of rows) console.log(`${r[0].padEnd(widths[0])}  ${r[1].padStart(widths[1])}  ${r[2].padEnd(widths[2])}  ${r[3]}`);
+  console.log('');
+  console.log(`done in ${result.seconds.toFixed(1)} s`);
+}
