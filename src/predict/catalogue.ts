@@ -341,11 +341,14 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
   };
 }
 
-/** A locked state with no energy left (every mode decayed) is the trivial state, not a pattern. */
+/**
+ * A locked state whose amplitudes have all but vanished (rms below 1e-3, where Newton lands at the
+ * edge of a branch that dies into the rest state) is the trivial state, not a pattern.
+ */
 function hasEnergy(locked: LockedState): boolean {
   let e = 0;
   for (let i = 0; i < locked.state.length; i++) e += locked.state[i] ** 2;
-  return e > 1e-12 * locked.state.length && locked.generators.length > 0;
+  return e > 1e-6 * (locked.state.length / 2) && locked.generators.length > 0;
 }
 
 function dominantMode(y: Float64Array, nodes: number, modes: number): number {
