@@ -3,7 +3,7 @@ import { simulate } from './commands/simulate.js';
 import { UsageError } from './scenario-file.js';
 
 const USAGE = `usage:
-  syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson]
+  syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson] [--mode micro|envelope|auto]
   syncring predict SCENARIO.json [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
                 PARAM: detuning:K | coupling | reactive | dissipative | link:A-B | edge:A-B
   syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max]
@@ -62,13 +62,14 @@ export async function main(argv: string[]): Promise<number> {
   try {
     switch (command) {
       case 'simulate': {
-        const parsed = parseArgs(rest, ['until', 'out']);
-        onlyFlags(parsed, ['until', 'out']);
+        const parsed = parseArgs(rest, ['until', 'out', 'mode']);
+        onlyFlags(parsed, ['until', 'out', 'mode']);
         if (parsed.positional.length !== 1) throw new UsageError('simulate needs exactly one SCENARIO');
         const until = numberFlag(parsed, 'until');
         if (until === undefined) throw new UsageError('simulate needs --until TAU');
         const out = parsed.flags.get('out');
-        const result = simulate({ scenario: parsed.positional[0], until, out: typeof out === 'string' ? out : undefined });
+        const mode = parsed.flags.get('mode');
+        const result = simulate({ scenario: parsed.positional[0], until, out: typeof out === 'string' ? out : undefined, mode: typeof mode === 'string' ? mode : undefined });
         process.stdout.write(`${JSON.stringify(result)}\n`);
         return result.status === 'halted' ? 3 : 0;
       }

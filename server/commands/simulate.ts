@@ -1,4 +1,5 @@
 import { CoSimulation, type Frame } from '../../src/session/session.js';
+import { INTEGRATOR_REQUESTS, type IntegratorRequest } from '../../src/envelope/choice.js';
 import { scenarioToJSON } from '../../src/scenario/parse.js';
 import { LOG_FORMAT_VERSION, sampleOf } from '../../src/protocol/log-records.js';
 import { NdjsonFile } from '../log/ndjson-file.js';
@@ -10,6 +11,8 @@ export interface SimulateArgs {
   scenario: string;
   until: number;
   out?: string;
+  /** Full-system integrator: 'micro', 'envelope' or 'auto' (default). */
+  mode?: string;
 }
 
 /** Largest number of samples a headless log keeps; ticks are decimated to fit. */
@@ -22,8 +25,10 @@ const MAX_LOGGED_SAMPLES = 2000;
  */
 export function simulate(args: SimulateArgs): Record<string, unknown> {
   if (!(args.until > 0) || !Number.isFinite(args.until)) throw new UsageError(`--until must be a positive number (got ${args.until})`);
+  const requested = (args.mode ?? 'auto') as IntegratorRequest;
+  if (!INTEGRATOR_REQUESTS.includes(requested)) throw new UsageError(`--mode must be one of ${INTEGRATOR_REQUESTS.join(', ')} (got ${JSON.stringify(args.mode)})`);
   const { scenario } = loadScenario(args.scenario);
-  const session = new CoSimulation(scenario);
+  const session = new CoSimulation(scenario, { integrator: requested });
   const log = args.out ? new NdjsonFile(args.out) : null;
   const totalTicks = Math.ceil(args.until / session.macroStep);
   const every = Math.max(1, Math.ceil(totalTicks / MAX_LOGGED_SAMPLES));
@@ -59,7 +64,8 @@ export function simulate(args: SimulateArgs): Record<string, unknown> {
   return {
     tau: session.tau,
     scenario: scenario.name,
-    mode: 'micro',
+    mode: session.integrator.mode,
+    noiseModel: session.integrator.noiseModel,
     status: last.status,
     halted: session.halted,
     pattern: {
@@ -93,15 +99,42 @@ export function simulate(args: SimulateArgs): Record<string, unknown> {
     divergence: last.divergence,
     warnings: session.warnings.map((w) => w.message),
     events,
-    integrator: {
-      method: 'RK4 in the rotating frame (micro step) with exact macro-step noise',
-      stepsPerPeriod: scenario.integrator.stepsPerPeriod,
-      microStep: session.full.stepper.nominalStep,
-      macroStep: session.macroStep,
-      evaluations: session.full.stepper.evaluations,
-      guideEvaluations: session.guide.evaluations,
-    },
+    integrator: integratorReport(session, requested),
     wallSeconds: (Date.now() - started) / 1000,
     state,
+  };
+}
+
+/** Which integrator ran, why, with what noise, and what it cost. */
+function integratorReport(session: CoSimulation, requested: IntegratorRequest): Record<string, unknown> {
+  const { micro, envelope, mode, reason, noiseModel, ticksIn } = session.integrator;
+  const ran = (ticksIn.envelope > 0 ? 1 : 0) + (ticksIn.micro > 0 ? 1 : 0);
+  return {
+    requested,
+    mode,
+    reason,
+    noiseModel,
+    ...(noiseModel === 'averaged-diffusion' ? { noiseNote: 'averaged diffusion of the slow variables: statistically, not pathwise, equivalent to micro-stepping' } : {}),
+    ticks: { ...ticksIn },
+    method:
+      ran > 1
+        ? 'micro steps and the envelope (see events for the switches)'
+        : mode === 'envelope'
+          ? 'envelope: second-order averaging with near-identity reconstruction, Dormand-Prince 5(4) in slow time'
+          : 'micro steps in the rotating frame with exact macro-step noise',
+    stepsPerPeriod: session.scenario.integrator.stepsPerPeriod,
+    microStep: micro.stepper.nominalStep,
+    macroStep: session.macroStep,
+    evaluations: micro.stepper.evaluations,
+    envelope: envelope
+      ? {
+          torusPoints: envelope.field.torus.points,
+          slowEvaluations: envelope.slowEvaluations,
+          chunks: envelope.chunks,
+          fieldEvaluations: envelope.field.fieldEvaluations,
+          health: envelope.health,
+        }
+      : null,
+    guideEvaluations: session.guide.evaluations,
   };
 }

@@ -9,6 +9,22 @@ export interface StepOutcome {
   reason?: string;
   /** True when the random walk changed the detuning during this step. */
   detuningChanged: boolean;
+  /**
+   * Set (with ok false) when the integrator refused the step because it cannot be trusted there,
+   * not because the state blew up: another integrator should take over from the unchanged state.
+   */
+  fallBack?: boolean;
+}
+
+/** What a session needs from an integrator of the full system (micro steps or the envelope). */
+export interface FullIntegrator {
+  /** Rotating-frame state [u, v] per node and mode at `tau`. */
+  readonly state: Float64Array;
+  readonly tau: number;
+  /** The noise generator (shared by every integrator of one session). */
+  readonly random: Random;
+  /** Advance to tauEnd; a refused step leaves the state, tau and the generator as they were. */
+  advance(tauEnd: number): StepOutcome;
 }
 
 /** An amplitude this large is runaway: the model's limit cycles sit near 2. */
@@ -20,7 +36,7 @@ export const RUNAWAY_AMPLITUDE = 1e3;
  * random walk, and checks for blow-up. A step that produced a non-finite or runaway state is
  * undone, so no NaN ever leaves this object.
  */
-export class FullSystem {
+export class FullSystem implements FullIntegrator {
   readonly stepper: MicroStepper;
   readonly random: Random;
   private readonly previous: Float64Array;

@@ -3,7 +3,10 @@ import { tauToSeconds } from '../scenario/units.js';
 import { ModelParameters } from '../model/parameters.js';
 import { addToAmplitude, originalFromRotating } from '../model/coordinates.js';
 import { initialRotatingState } from '../model/initial.js';
-import { FullSystem } from '../integrate/full-system.js';
+import { FullSystem, type FullIntegrator } from '../integrate/full-system.js';
+import { IntegratorSwitch, type IntegratorSwitchCheckpoint } from '../envelope/integrator-switch.js';
+import type { IntegratorMode, IntegratorRequest } from '../envelope/choice.js';
+import type { NoiseModel } from '../envelope/averaged-noise.js';
 import { GuideSystem } from '../guide/guide.js';
 import { nearResonances, type ResonanceWarning } from '../guide/resonance.js';
 import { divergence, readObservables, type Divergence, type SystemObservables } from '../observe/amplitudes.js';
@@ -27,6 +30,11 @@ export interface SessionOptions {
   symmetryTolerance?: number;
   /** Relative tolerance of the guiding system's adaptive integrator; default 1e-10. */
   guideTolerance?: number;
+  /**
+   * Full-system integrator: 'micro' steps, the second-order 'envelope', or 'auto' (default): the
+   * envelope where it is valid, as accurate as micro-stepping and cheaper (src/envelope).
+   */
+  integrator?: IntegratorRequest;
 }
 
 export type SessionEventKind = 'perturbation' | 'lock' | 'unlock' | 'pattern-change' | 'blow-up' | 'guide-failure' | 'warning' | 'control';
@@ -71,6 +79,8 @@ export interface SessionCheckpoint {
   trackers: { full: ReturnType<PatternTracker['save']>; guide: ReturnType<PatternTracker['save']> };
   lastFullKind: string;
   margin: { stale: boolean; value: { margin: number; rotation: number[] } | null };
+  /** Which integrator ran, with the envelope's state (absent in older checkpoints: micro steps). */
+  integrator?: IntegratorSwitchCheckpoint;
   /** Live prediction state (absent in checkpoints written before it existed). */
   prediction?: { stale: boolean; kicked: boolean; value: LivePrediction | null; predictor: LivePredictorState };
 }
@@ -95,6 +105,10 @@ export interface Frame {
   full: SystemObservables & { pattern: PatternReport };
   guide: GuideReport;
   divergence: Divergence;
+  /** Which integrator produced `full`: micro steps or the second-order envelope. */
+  mode: IntegratorMode;
+  /** How the noise in `full` was made; 'averaged-diffusion' (envelope) is statistically, not pathwise, equivalent. */
+  noiseModel: NoiseModel;
   /**
    * The guide's predicted fate after the latest perturbation batch (does the current pattern
    * persist, with what margin, or what does it become); null until the first perturbation.
@@ -124,7 +138,8 @@ const MARGIN_SIZE_LIMIT = 160;
  */
 export class CoSimulation {
   readonly params: ModelParameters;
-  readonly full: FullSystem;
+  /** Micro steps, the envelope, and which of them runs (src/envelope/integrator-switch.ts). */
+  readonly integrator: IntegratorSwitch;
   readonly guide: GuideSystem;
   readonly macroStep: number;
   readonly warnings: ResonanceWarning[];
@@ -148,9 +163,10 @@ export class CoSimulation {
   constructor(readonly scenario: Scenario, readonly options: SessionOptions = {}) {
     this.params = new ModelParameters(scenario);
     const initial = initialRotatingState(scenario, this.params);
-    this.full = new FullSystem(this.params, initial, scenario.integrator.stepsPerPeriod, scenario.noise.seed);
+    const micro = new FullSystem(this.params, initial, scenario.integrator.stepsPerPeriod, scenario.noise.seed);
     this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? 1e-10);
     this.macroStep = (scenario.integrator.macroPeriods * 2 * Math.PI) / this.params.omega[0];
+    this.integrator = new IntegratorSwitch(this.params, micro, options.integrator ?? 'auto', this.macroStep, (kind, message) => this.record(kind, message, 'engine'));
     const eps = this.params.epsilon;
     const window = options.lockWindow ?? defaultLockWindow(this.params);
     const windowTicks = eps > 0 ? Math.min(MAX_LOCK_WINDOW_TICKS, Math.max(2, Math.round(window / (eps * this.macroStep)))) : 10;
@@ -162,10 +178,16 @@ export class CoSimulation {
     this.predictor = new LivePredictor(scenario, this.params);
     this.warnings = nearResonances(this.params.omega, eps);
     for (const w of this.warnings) this.record('warning', w.message, 'engine');
+    this.integrator.start();
   }
 
   get tau(): number {
     return this.full.tau;
+  }
+
+  /** The full-system integrator that runs now (micro steps or the envelope). */
+  get full(): FullIntegrator {
+    return this.integrator.active;
   }
 
   /** Validate a raw perturbation (throws PerturbationError) and queue it. */
@@ -185,7 +207,7 @@ export class CoSimulation {
     if (this.halted) return null;
     this.applyQueue();
     const tauEnd = until !== undefined ? Math.min(this.tau + this.macroStep, until) : this.tau + this.macroStep;
-    const outcome = this.full.advance(tauEnd);
+    const outcome = this.integrator.advance(tauEnd);
     if (!outcome.ok) {
       this.halted = outcome.reason ?? 'blow-up';
       this.record('blow-up', `run halted: ${this.halted}; the state is kept as it was at tau = ${this.tau.toPrecision(8)}`, 'engine');
@@ -197,6 +219,7 @@ export class CoSimulation {
     }
     this.guide.tau = tauEnd;
     this.tick++;
+    this.integrator.afterTick(this.tick);
     return this.frame();
   }
 
@@ -242,6 +265,7 @@ export class CoSimulation {
       trackers: { full: this.fullTracker.save(), guide: this.guideTracker.save() },
       lastFullKind: this.lastFullKind,
       margin: { stale: this.marginStale, value: this.margin },
+      integrator: this.integrator.save(),
       prediction: { stale: this.predictionStale, kicked: this.predictionKicked, value: this.prediction, predictor: this.predictor.save() },
     };
   }
@@ -255,9 +279,9 @@ export class CoSimulation {
       throw new RangeError('the checkpoint does not belong to this scenario (state or link count differs)');
     }
     session.tick = saved.tick;
-    session.full.state.set(saved.full);
-    session.full.stepper.tau = saved.tau;
-    session.full.random.setState(saved.random);
+    session.integrator.micro.state.set(saved.full);
+    session.integrator.micro.stepper.tau = saved.tau;
+    session.integrator.micro.random.setState(saved.random);
     session.guide.state.set(saved.guide);
     session.guide.tau = saved.tau;
     session.guide.failed = saved.guideFailed;
@@ -269,6 +293,7 @@ export class CoSimulation {
     p.dissipative = saved.parameters.dissipative;
     p.noiseIntensity = saved.parameters.noiseIntensity;
     p.detuningWalk = saved.parameters.detuningWalk;
+    session.integrator.load(saved.integrator);
     session.queue.push(...saved.queue.map((q) => ({ ...q })));
     session.eventCount = saved.eventCount;
     session.halted = saved.halted;
@@ -314,6 +339,7 @@ export class CoSimulation {
     if (linksChanged) this.group = this.computeGroup();
     this.guide.invalidate();
     this.marginStale = true;
+    this.integrator.afterPerturbations();
   }
 
   private computeGroup(): Int32Array[] {
@@ -348,6 +374,8 @@ export class CoSimulation {
       full: { ...fullObserved, pattern: fullPattern },
       guide: { ...guideObserved, pattern: guidePattern, margin: margin?.margin ?? null, rotation: margin?.rotation ?? null },
       divergence: divergence(this.full.state, this.guide.state, this.params.modes),
+      mode: this.integrator.mode,
+      noiseModel: this.integrator.noiseModel,
       prediction: this.prediction,
       events,
     };
