@@ -5,8 +5,13 @@ import express, { type Express, type NextFunction, type Request, type Response }
 import { builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
 import type { LiveSession } from '../live/live-session.js';
 
-/** Where `vite build` puts the dashboard (dist/web beside dist/server). */
-export const WEB_ROOT = fileURLToPath(new URL('../../web/', import.meta.url));
+/**
+ * Where `vite build` puts the dashboard: dist/web beside dist/server, also when the server runs
+ * from its TypeScript sources (tests), whose ../../web/ would be the unbuilt sources.
+ */
+export const WEB_ROOT = fileURLToPath(
+  new URL(import.meta.url.endsWith('.ts') ? '../../dist/web/' : '../../web/', import.meta.url),
+);
 
 /**
  * HTTP side: the built dashboard and a small JSON API.
