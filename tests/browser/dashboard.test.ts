@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { serve } from '../../server/main.js';
-import { chromiumAvailability, chromiumVersion, launchChromium } from './support/chromium.js';
+import { CHROMIUM_PATH, chromiumAvailability, chromiumVersion, launchChromium } from './support/chromium.js';
 import { ensureDashboardBuilt, ensureServerCompiled, ROOT } from './support/build.js';
 import { chartPoints, collectPageErrors, linkMiddle, nodeCentre, numberIn, paintedPixels, textOf } from './support/dashboard-page.js';
 
@@ -32,7 +32,7 @@ async function expectBuiltDashboard(url: string): Promise<void> {
 }
 
 test.runIf(mustFail)('chromium is required when CI is set', () => {
-  throw new Error('BROWSER TESTS CANNOT RUN: /usr/bin/chromium not found and CI is set (install the chromium package)');
+  throw new Error(`BROWSER TESTS CANNOT RUN: ${CHROMIUM_PATH} not found and CI is set (install the chromium package)`);
 });
 
 describe.runIf(available)('dashboard in Chromium', () => {

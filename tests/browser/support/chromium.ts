@@ -2,8 +2,11 @@ import { existsSync, readFileSync } from 'node:fs';
 import { execFileSync } from 'node:child_process';
 import { chromium, type Browser } from 'playwright-core';
 
-/** Debian's chromium; the browser tests drive it with playwright-core (no bundled browsers). */
-export const CHROMIUM_PATH = '/usr/bin/chromium';
+/**
+ * Debian's chromium; the browser tests drive it with playwright-core (no bundled browsers).
+ * SYNCRING_CHROMIUM points elsewhere (another distribution, or a missing path to check the skip).
+ */
+export const CHROMIUM_PATH = process.env.SYNCRING_CHROMIUM ?? '/usr/bin/chromium';
 
 export const CHROMIUM_ARGS = [
   '--headless',

@@ -113,7 +113,7 @@ export function axis(title: string) {
   return {
     grid: { color: GRID },
     border: { color: '#9aa7b3' },
-    ticks: { color: MUTED, font: { size: 13 }, includeBounds: false },
-    title: { display: true, text: title, color: MUTED, font: { size: 13 } },
+    ticks: { color: MUTED, font: { size: 14 }, includeBounds: false },
+    title: { display: true, text: title, color: MUTED, font: { size: 14 } },
   };
 }

@@ -12,7 +12,11 @@ export interface RunScales {
   omega0: number;
 }
 
-/** A stability margin (slow-time units^-1) as a time constant in slow units, carrier periods and seconds. */
+/**
+ * A stability margin (slow-time units^-1) as a time constant in slow units, carrier periods and
+ * seconds: the formula of timeConstantOf in src/predict/describe.ts, which needs a whole guide
+ * model; the dashboard only has the session's scales.
+ */
 export function marginTimeConstant(margin: number, scales: RunScales): { slow: number; tau: number; periods: number; seconds: number } | null {
   if (!(Math.abs(margin) > 0) || !(scales.epsilon > 0)) return null;
   const slow = 1 / Math.abs(margin);

@@ -1,7 +1,9 @@
 import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
-import { formatHz, formatNumber, formatSeconds, marginTimeConstant } from '../data/engineering.js';
+import { formatHz, formatNumber, formatSeconds, marginTimeConstant, type RunScales } from '../data/engineering.js';
+import type { WireFrame } from '../../../src/protocol/messages.js';
+import type { LivePrediction } from '../../../src/predict/live.js';
 import { tauToSeconds } from '../../../src/scenario/units.js';
 import { CAUTION, FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
 import { modeName, patternLabel, symmetryPhase } from './pattern-text.js';
@@ -19,12 +21,20 @@ export class PatternPanel extends LitElement {
     panelStyles,
     css`
       .headline {
-        font-size: 26px;
+        font-size: 24px;
         font-weight: 800;
         letter-spacing: 0.02em;
       }
       .sub {
-        font-size: 16px;
+        font-size: 17px;
+        font-weight: 600;
+        color: #15202b;
+        margin-left: 10px;
+        letter-spacing: 0;
+      }
+      .line {
+        font-size: 14px;
+        color: #33404d;
       }
       dl {
         display: grid;
@@ -38,11 +48,12 @@ export class PatternPanel extends LitElement {
       }
       dd {
         margin: 0;
+        font-size: 14px;
         font-variant-numeric: tabular-nums;
       }
       section + section {
-        margin-top: 10px;
-        padding-top: 8px;
+        margin-top: 7px;
+        padding-top: 6px;
         border-top: 1px solid #e3e8ec;
       }
       .chips {
@@ -105,22 +116,23 @@ export class PatternPanel extends LitElement {
     const constant = margin === null ? null : marginTimeConstant(margin, scales);
     const colour = frame.status === 'halted' ? FAULT : p.locked ? LOCKED : CAUTION;
     const warnings = this.warnings();
+    // Fields added to frames later than the first protocol version; old logs lack them.
+    const aligned = (frame.divergence as { aligned?: number }).aligned;
+    const prediction = (frame as { prediction?: LivePrediction | null }).prediction ?? null;
     return html`
       <h2>Pattern</h2>
       <section data-testid="pattern-full">
-        <div class="headline" style="color:${colour}">${frame.status === 'halted' ? 'halted' : p.locked ? p.kind : 'not locked'}</div>
-        <div class="sub">${patternLabel(p)}</div>
-        <dl>
-          <dt>carrying mode</dt>
-          <dd>${modeName(p.mode)}</dd>
-          <dt>locked since</dt>
-          <dd>${p.locked && p.lockedSince !== null ? html`τ = ${formatNumber(p.lockedSince, 4)} (${seconds(p.lockedSince)})` : '—'}</dd>
-          <dt>phase wander</dt>
-          <dd>${formatNumber(p.excursion, 2)} rad over the lock window</dd>
-        </dl>
+        <div class="headline" style="color:${colour}">
+          ${frame.status === 'halted' ? 'halted' : p.locked ? p.kind : 'not locked'}
+          <span class="sub">${patternLabel(p, { short: true })}</span>
+        </div>
+        <div class="line">
+          ${p.locked && p.lockedSince !== null ? html`locked since τ = ${formatNumber(p.lockedSince, 4)} (${seconds(p.lockedSince)})` : html`not locked yet (shape ${p.shape})`}
+          · phase wander ${formatNumber(p.excursion, 2)} rad
+        </div>
       </section>
       <section data-testid="pattern-symmetry">
-        <h3>Symmetry (${p.symmetry.length} element${p.symmetry.length === 1 ? '' : 's'} γ with γ·a = e^{iφ}·a)</h3>
+        <h3>Symmetry: ${p.symmetry.length} element${p.symmetry.length === 1 ? '' : 's'} γ with γ·a = e<sup>iφ</sup>a</h3>
         <div class="chips">
           ${p.symmetry.slice(0, MAX_ELEMENTS_SHOWN).map((s) => html`<span class="chip">${s.element} · ${symmetryPhase(s, session.nodes)}</span>`)}
           ${p.symmetry.length > MAX_ELEMENTS_SHOWN ? html`<span class="chip">+${p.symmetry.length - MAX_ELEMENTS_SHOWN} more</span>` : nothing}
@@ -132,22 +144,23 @@ export class PatternPanel extends LitElement {
         <dl>
           <dt>pattern</dt>
           <dd>${patternLabel(g)}</dd>
-          <dt>stability margin</dt>
+          <dt>margin</dt>
           <dd>
             ${margin === null
               ? html`<span class="muted">${g.locked ? 'not computed' : 'needs a locked guide'}</span>`
-              : html`${formatNumber(margin, 3)} per slow unit
-                  <span class=${margin < 0 ? 'stable' : 'unstable'}>${margin < 0 ? 'stable' : 'unstable'}</span>`}
+              : html`${formatNumber(margin, 3)} per slow unit <span class=${margin < 0 ? 'stable' : 'unstable'}>${margin < 0 ? 'stable' : 'unstable'}</span>`}
           </dd>
           ${constant
             ? html`<dt>time constant</dt>
-                <dd>
-                  ${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈ ${formatSeconds(constant.seconds)} at
-                  ${formatHz(scales.nominalFrequencyHz)}
-                </dd>`
+                <dd>${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈ ${formatSeconds(constant.seconds)} at ${formatHz(scales.nominalFrequencyHz)}</dd>`
             : nothing}
           <dt>full − guide</dt>
-          <dd>max |Δa| = ${formatNumber(frame.divergence.max, 3)} (${formatNumber(100 * frame.divergence.relative, 2)} % of mean |a|)</dd>
+          <dd title="largest |a_full − a_guide| over nodes and modes; 'aligned' removes the common phase that noise makes drift, leaving the part that is a different pattern">
+            max |Δa| = ${formatNumber(frame.divergence.max, 3)} (${formatNumber(100 * frame.divergence.relative, 2)} %)${aligned !== undefined ? html` · aligned ${formatNumber(aligned, 3)}` : nothing}
+          </dd>
+          ${prediction ? this.renderPrediction(prediction, scales) : nothing}
+          <dt>integrator</dt>
+          <dd>${integratorText(frame)}</dd>
         </dl>
       </section>
       ${warnings.length
@@ -159,6 +172,23 @@ export class PatternPanel extends LitElement {
           </section>`
         : nothing}
     `;
+  }
+
+  private renderPrediction(p: LivePrediction, scales: RunScales) {
+    const verdictClass = p.verdict === 'persists' ? 'stable' : p.verdict === 'lost' ? 'unstable' : '';
+    const next = p.pattern;
+    const constant = p.margin === null ? null : marginTimeConstant(p.margin, scales);
+    return html`<dt>after last change</dt>
+      <dd data-testid="prediction">
+        <span class=${verdictClass}>${p.verdict}</span> (at τ = ${formatNumber(p.tau, 4)}): ${p.message}
+        ${next
+          ? html`<br /><span class="muted"
+                >→ ${next.kind}${next.q !== undefined ? ` q = ${next.q}` : ''} on ${modeName(next.mode)}${constant
+                  ? `, settles in ≈ ${formatSeconds(constant.seconds)} (${formatNumber(constant.slow, 3)} slow units)`
+                  : ''}</span
+              >`
+          : nothing}
+      </dd>`;
   }
 
   private warnings(): { text: string; fault: boolean }[] {
@@ -176,6 +206,16 @@ export class PatternPanel extends LitElement {
     if (frame.full.dominantMode !== 0) out.push({ text: `${modeName(frame.full.dominantMode)} carries most of the energy`, fault: true });
     return out;
   }
+}
+
+/** Which integrator made the full system's numbers, and what that means for the noise. */
+function integratorText(frame: WireFrame): string {
+  const f = frame as { mode?: string; noiseModel?: string };
+  if (f.mode === 'envelope') {
+    const noise = f.noiseModel === 'averaged-diffusion' ? '; noise as averaged diffusion: statistically, not pathwise, equivalent to the micro steps' : '';
+    return `second-order envelope (macro steps)${noise}`;
+  }
+  return f.mode === 'micro' ? 'micro steps resolving the carrier' : '—';
 }
 
 customElements.define('sr-pattern-panel', PatternPanel);

@@ -1,12 +1,13 @@
 import type { LinkState } from '../../../src/protocol/messages.js';
 
 /**
- * Layout of the ring drawing in a 600 x 600 viewBox: node k sits clockwise from the top, links
+ * Layout of the ring drawing in a 680 x 600 viewBox (wider than tall to leave room for the labels at the sides): node k sits clockwise from the top, links
  * are quadratic curves between node rims. A link whose reverse also exists bows to its own side
  * (a two-way ring shows two arcs per pair, one per direction); a lone link bows outward.
  */
-export const VIEW = 600;
-const CENTRE = VIEW / 2;
+export const VIEW_WIDTH = 680;
+export const VIEW_HEIGHT = 600;
+export const CENTRE = { x: VIEW_WIDTH / 2, y: VIEW_HEIGHT / 2 };
 const RING_RADIUS = 212;
 
 export interface Point {
@@ -36,7 +37,7 @@ export function nodeRadius(nodes: number): number {
 export function nodeLayout(nodes: number): NodeLayout[] {
   return Array.from({ length: nodes }, (_, k) => {
     const angle = -Math.PI / 2 + (2 * Math.PI * k) / nodes;
-    return { x: CENTRE + RING_RADIUS * Math.cos(angle), y: CENTRE + RING_RADIUS * Math.sin(angle), angle };
+    return { x: CENTRE.x + RING_RADIUS * Math.cos(angle), y: CENTRE.y + RING_RADIUS * Math.sin(angle), angle };
   });
 }
 
@@ -44,8 +45,8 @@ export function nodeLayout(nodes: number): NodeLayout[] {
 export function labelPosition(node: NodeLayout, radius: number): Point & { anchor: 'start' | 'middle' | 'end' } {
   const c = Math.cos(node.angle);
   const side = Math.abs(c) > 0.35;
-  const d = RING_RADIUS + radius + (side ? 10 : 26);
-  return { x: CENTRE + d * c, y: CENTRE + d * Math.sin(node.angle), anchor: side ? (c > 0 ? 'start' : 'end') : 'middle' };
+  const d = RING_RADIUS + radius + (side ? 16 : 28);
+  return { x: CENTRE.x + d * c, y: CENTRE.y + d * Math.sin(node.angle), anchor: side ? (c > 0 ? 'start' : 'end') : 'middle' };
 }
 
 export function linkLayout(links: readonly LinkState[], nodes: readonly NodeLayout[], radius: number, strokeWidth: (l: LinkState) => number): LinkLayout[] {
@@ -61,7 +62,7 @@ export function linkLayout(links: readonly LinkState[], nodes: readonly NodeLayo
       // Bow to the link's own side when its reverse exists; otherwise outward, away from the centre.
       let bend = 0.16 * length;
       if (!twoWay) {
-        const mid = { x: (a.x + b.x) / 2 - CENTRE, y: (a.y + b.y) / 2 - CENTRE };
+        const mid = { x: (a.x + b.x) / 2 - CENTRE.x, y: (a.y + b.y) / 2 - CENTRE.y };
         bend = (mid.x * normal.x + mid.y * normal.y >= 0 ? 1 : -1) * 0.08 * length;
       }
       const control = { x: (a.x + b.x) / 2 + normal.x * bend, y: (a.y + b.y) / 2 + normal.y * bend };

@@ -4,7 +4,7 @@ import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { formatNumber, formatSigned } from '../data/engineering.js';
 import { CAUTION, FAULT, INK, LOCKED, MUTED, UNWANTED, BRAND, nodeColour, panelStyles } from '../theme.js';
-import { VIEW, labelPosition, linkLayout, nodeLayout, nodeRadius, type LinkLayout, type NodeLayout } from './ring-geometry.js';
+import { CENTRE, VIEW_HEIGHT, VIEW_WIDTH, labelPosition, linkLayout, nodeLayout, nodeRadius, type LinkLayout, type NodeLayout } from './ring-geometry.js';
 import { commandEvent, noticeEvent } from './commands.js';
 import { patternLabel } from './pattern-text.js';
 import { lockIcon } from './icons.js';
@@ -134,7 +134,7 @@ export class RingView extends LitElement {
     return html`
       <h2>Ring · ${n} resonators · ${session.links.length} links${broken ? html` · <span style="color:${FAULT}">${broken} broken</span>` : ''}</h2>
       <div class="stage">
-        <svg viewBox="0 0 ${VIEW} ${VIEW}" class="ring ${this.canEdit ? '' : 'readonly'}" role="img" aria-label="ring of ${n} resonators">
+        <svg viewBox="0 0 ${VIEW_WIDTH} ${VIEW_HEIGHT}" class="ring ${this.canEdit ? '' : 'readonly'}" role="img" aria-label="ring of ${n} resonators">
           ${links.map((l) => this.renderLink(l, width(l.link)))}
           ${nodes.map((p, k) => this.renderNode(p, k, radius, session, frame))}
           ${this.renderCentre(frame)}
@@ -205,7 +205,10 @@ export class RingView extends LitElement {
         ${tri ? svg`<polygon points=${tri} fill="#ffffff" stroke=${INK} stroke-width="2"></polygon>` : nothing}
         ${hand ? svg`<line x1="0" y1="0" x2=${hand.x.toFixed(2)} y2=${hand.y.toFixed(2)} stroke=${INK} stroke-width="4.5" stroke-linecap="round"></line>` : nothing}
         <circle r="4.5" fill=${INK}></circle>
-        ${unwanted ? svg`<text y=${-r - 16} text-anchor="middle" font-size="15" font-weight="700" fill=${UNWANTED}>MODE 1</text>` : nothing}
+        ${unwanted
+          ? svg`<text x=${(-Math.cos(p.angle) * (r + 24)).toFixed(1)} y=${(-Math.sin(p.angle) * (r + 24)).toFixed(1)} text-anchor="middle"
+                  dominant-baseline="central" font-size="15" font-weight="800" fill=${UNWANTED} stroke="#fff" stroke-width="4" paint-order="stroke">MODE ${frame?.full.amplitude[k]?.indexOf(Math.max(...(frame?.full.amplitude[k] ?? [0]))) ?? 1}</text>`
+          : nothing}
       </g>
       <g class="node-label" transform="translate(${label.x.toFixed(1)} ${label.y.toFixed(1)})">
         <text text-anchor=${label.anchor} y="-4" font-size="22" font-weight="700" fill=${nodeColour(k)}>${k}</text>
@@ -214,8 +217,8 @@ export class RingView extends LitElement {
   }
 
   private renderCentre(frame: WireFrame | null) {
-    const c = VIEW / 2;
-    if (!frame) return svg`<text x=${c} y=${c} text-anchor="middle" font-size="20" fill=${MUTED}>no frames yet</text>`;
+    const { x: c, y: cy } = CENTRE;
+    if (!frame) return svg`<text x=${c} y=${cy} text-anchor="middle" font-size="20" fill=${MUTED}>no frames yet</text>`;
     const p = frame.full.pattern;
     const halted = frame.status === 'halted';
     const colour = halted ? FAULT : p.locked ? LOCKED : CAUTION;
@@ -224,19 +227,19 @@ export class RingView extends LitElement {
     const r = p.q !== undefined ? p.orderParameters[p.q] : Math.max(0, ...p.orderParameters);
     return svg`
       <g data-testid="ring-centre">
-        <rect x=${c - 135} y=${c - 52} width="270" height="100" rx="14" fill="#ffffff" opacity="0.85"></rect>
+        <rect x=${c - 135} y=${cy - 52} width="270" height="100" rx="14" fill="#ffffff" opacity="0.85"></rect>
         <g stroke="#ffffff" stroke-width="6" stroke-linejoin="round" paint-order="stroke">
-          <text x=${c} y=${c - 18} text-anchor="middle" font-size="30" font-weight="800" fill=${colour} letter-spacing="1">${headline}</text>
-          <text x=${c} y=${c + 12} text-anchor="middle" font-size="18" fill=${INK}>${sub}</text>
-          <text x=${c} y=${c + 38} text-anchor="middle" font-size="16" fill=${MUTED}>R = ${formatNumber(r, 3)}</text>
+          <text x=${c} y=${cy - 18} text-anchor="middle" font-size="30" font-weight="800" fill=${colour} letter-spacing="1">${headline}</text>
+          <text x=${c} y=${cy + 12} text-anchor="middle" font-size="18" fill=${INK}>${sub}</text>
+          <text x=${c} y=${cy + 38} text-anchor="middle" font-size="16" fill=${MUTED}>R = ${r.toFixed(3)}</text>
         </g>
       </g>`;
   }
 
   private renderEditor(p: NodeLayout, session: SessionInfo) {
     // Place the editor beside the node, inside the stage (coordinates in % of the drawing).
-    const left = Math.min(55, Math.max(0, (p.x / VIEW) * 100 - 20));
-    const top = Math.min(70, Math.max(0, (p.y / VIEW) * 100 + (p.y < VIEW / 2 ? 8 : -34)));
+    const left = Math.min(55, Math.max(0, (p.x / VIEW_WIDTH) * 100 - 20));
+    const top = Math.min(70, Math.max(0, (p.y / VIEW_HEIGHT) * 100 + (p.y < VIEW_HEIGHT / 2 ? 8 : -34)));
     return html`<sr-detuning-editor
       style="left:min(${left}%, calc(100% - 300px));top:${top}%"
       closable

@@ -1,6 +1,6 @@
 import { historyPointOf, type HistoryPoint, type SessionInfo, type WireFrame } from '../../../src/protocol/messages.js';
 import { parseLog, type LogProblem } from '../../../src/protocol/log-reader.js';
-import { parseScenario } from '../../../src/scenario/parse.js';
+import { parseScenario, scenarioToJSON } from '../../../src/scenario/parse.js';
 import type { Scenario } from '../../../src/scenario/types.js';
 import type { SessionEvent } from '../../../src/session/session.js';
 import type { Perturbation } from '../../../src/session/perturbation.js';
@@ -76,7 +76,7 @@ export class ReplayLog {
     const s = this.scenario;
     const info: SessionInfo = {
       scenarioName: s.name,
-      scenario: s,
+      scenario: scenarioToJSON(s),
       nodes: s.nodes,
       modes: s.modes.length,
       epsilon: s.epsilon,
