@@ -78,7 +78,7 @@ export function predict(args: PredictArgs): Record<string, unknown> {
     parts: catalogue.parts,
     notes: {
       units: 'eigenvalues, margins and rotation rates are in slow time (per unit eps tau); timeConstant = 1/|margin| in slow time, tau, carrier periods and seconds',
-      marginal: 'a pattern is marginal when |margin| <= marginTolerance = eps rateScale^2 / omega_min + 1e-8 max(1, rateScale): the first-order guiding system cannot resolve its sign',
+      marginal: 'a pattern is marginal when |margin| <= marginTolerance = eps rateScale K / omega_min + 1e-8 max(1, rateScale), K the coupling rate: the first-order guiding system cannot resolve its sign',
     },
     patterns: catalogue.patterns.map((p, index) => ({ index, ...p })),
     initial: {

@@ -8,6 +8,7 @@ import { TorusAverage } from '../guide/torus-average.js';
 import type { Scenario } from '../scenario/types.js';
 import type { Field } from './relative-equilibrium.js';
 import { couplingComponents } from './phase-orbits.js';
+import type { Accuracy } from './locked-state.js';
 
 export class GuideModel {
   readonly params: ModelParameters;
@@ -38,9 +39,16 @@ export class GuideModel {
     return couplingComponents(this.params);
   }
 
-  /** What the marginal band needs: eps and the slowest carrier. */
-  get accuracy(): { epsilon: number; omegaMin: number } {
-    return { epsilon: this.params.epsilon, omegaMin: Math.min(...this.params.omega) };
+  /** What the marginal band needs: eps, the slowest carrier and the coupling rate (marginTolerance). */
+  get accuracy(): Accuracy {
+    return { epsilon: this.params.epsilon, omegaMin: Math.min(...this.params.omega), couplingRate: this.couplingRate() };
+  }
+
+  /** kappa |sigma + i rho / omega_0| times the largest in-weight: the fastest phase-coupling rate (slow time). */
+  couplingRate(): number {
+    const p = this.params;
+    const weight = Math.max(...Array.from(p.inWeightSum, Math.abs), 0);
+    return Math.abs(p.strength) * Math.hypot(p.dissipative, p.reactive / p.omega[0]) * weight;
   }
 
   get nominalFrequencyHz(): number {

@@ -167,8 +167,10 @@ export class LivePredictor {
       return { ...base, verdict: 'not-locked', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `the guide was not locked; it ${becomes}` };
     }
     const same = pattern.locked && pattern.kind === current.kind && pattern.q === current.q && pattern.mode === current.mode;
-    if (kicked && same) {
-      return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `after the kick the ${describeLabel(current)} pattern returns (margin ${pattern.margin?.toPrecision(3)})` };
+    if (same) {
+      // The continuation could not carry it (it was kicked, or not at rest under the old
+      // parameters), but the guiding system returns to the same pattern.
+      return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern returns${kicked ? ' after the kick' : ''} (margin ${pattern.margin?.toPrecision(3)})` };
     }
     const where = lostAt && lostAt.fraction < 1 ? ` at ${(100 * lostAt.fraction).toFixed(1)}% of the change (${lostAt.kind})` : '';
     return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lostAt, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern is lost${where}; it ${becomes}` };

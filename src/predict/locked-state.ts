@@ -231,17 +231,29 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
   return { state: y, generators, rates, residual, iterations, converged: residual <= tolerance };
 }
 
+/** What the marginal band needs to know about the model (GuideModel.accuracy). */
+export interface Accuracy {
+  epsilon: number;
+  /** Slowest carrier frequency. */
+  omegaMin: number;
+  /** Fastest phase-coupling rate kappa |sigma + i rho / omega_0| max_k sum_l A_kl (slow time). */
+  couplingRate: number;
+}
+
 /**
- * Margins this close to zero are not resolved. The guiding system is the first-order average:
- * its eigenvalues approximate the full system's Floquet exponents (divided by eps) with an error
- * of order eps lambda^2 / omega, the size of the second-order averaged term eps <Df u> whose
- * Jacobian scales as |Df|^2 / omega (Sanders, Verhulst, Murdock 2007, second-order averaging;
- * design section 5). With lambda the largest |eigenvalue| that bound is eps rateScale^2 / omega.
- * A floor of 1e-8 max(1, rateScale) covers the finite-difference Jacobian's rounding. A margin
- * inside the band would be decided by terms the model does not contain: call it marginal.
+ * Margins this close to zero are not resolved. The guiding system is the first-order average; the
+ * next term, eps <Df u> with u of size |f| / omega (Sanders, Verhulst, Murdock 2007, second-order
+ * averaging; design section 5), shifts the Jacobian by eps |Df|^2 / omega in size. The eigenvalues
+ * that decide locking belong to phase directions, which are exactly neutral at zero coupling to
+ * every order of averaging (each node keeps its own phase symmetry), so their shift carries one
+ * factor of the coupling rate K and one of the fastest rate: eps rateScale K / omega. Inside that
+ * band the sign would be set by terms the model does not contain: the verdict is "marginal". A
+ * floor of 1e-8 max(1, rateScale) covers the finite-difference Jacobian's rounding. (Eigenvalues
+ * that do not vanish with the coupling, such as a second mode at the edge of winning, can carry
+ * errors up to eps rateScale^2 / omega; the band does not widen for them.)
  */
-export function marginTolerance(rateScale: number, epsilon: number, omegaMin: number): number {
-  return (epsilon * rateScale * rateScale) / omegaMin + 1e-8 * Math.max(1, rateScale);
+export function marginTolerance(rateScale: number, accuracy: Accuracy): number {
+  return (accuracy.epsilon * rateScale * accuracy.couplingRate) / accuracy.omegaMin + 1e-8 * Math.max(1, rateScale);
 }
 
 /** Reduced Jacobian (orthonormal coordinates on the complement of the orbit tangents) at a locked state. */
@@ -264,15 +276,15 @@ export function sortedEigenvalues(matrix: Matrix): { re: number; im: number }[] 
 }
 
 /** Linear stability with the symmetry directions removed and a marginal band (marginTolerance). */
-export function lockedStateStability(field: Field, locked: LockedState, modes: number, accuracy: { epsilon: number; omegaMin: number }): LockedStability {
+export function lockedStateStability(field: Field, locked: LockedState, modes: number, accuracy: Accuracy): LockedStability {
   return stabilityOf(sortedEigenvalues(reducedJacobian(field, locked, modes)), accuracy);
 }
 
 /** Margin, scale and verdict from eigenvalues already computed. */
-export function stabilityOf(eigenvalues: { re: number; im: number }[], accuracy: { epsilon: number; omegaMin: number }): LockedStability {
+export function stabilityOf(eigenvalues: { re: number; im: number }[], accuracy: Accuracy): LockedStability {
   const margin = eigenvalues.length > 0 ? eigenvalues[0].re : Number.NEGATIVE_INFINITY;
   const rateScale = eigenvalues.reduce((m, e) => Math.max(m, Math.hypot(e.re, e.im)), 0);
-  const tolerance = marginTolerance(rateScale, accuracy.epsilon, accuracy.omegaMin);
+  const tolerance = marginTolerance(rateScale, accuracy);
   const verdict: Verdict = Math.abs(margin) <= tolerance ? 'marginal' : margin < 0 ? 'stable' : 'unstable';
   return { eigenvalues, margin, rateScale, tolerance, verdict };
 }

@@ -28,11 +28,9 @@ export interface LookAheadResult {
   stability: LockedStability | null;
 }
 
-/** kappa |sigma + i rho / omega_0| times the largest in-weight: the fastest phase-coupling rate. */
+/** The fastest phase-coupling rate (see GuideModel.couplingRate). */
 export function couplingRate(model: GuideModel): number {
-  const p = model.params;
-  const weight = Math.max(...Array.from(p.inWeightSum, Math.abs), 0);
-  return Math.abs(p.strength) * Math.hypot(p.dissipative, p.reactive / p.omega[0]) * weight;
+  return model.couplingRate();
 }
 
 /** Relative size of the flow left after the best common rotation per generator is taken out. */

@@ -19,13 +19,15 @@ import { ringModel, TWO_PI } from './rings.js';
  * the linearisation for the Fourier mode mu couples rho and phi through kappa sigma r sin(psi)
  * (e^{-i mu} - e^{i mu}) terms, giving an eigenvalue near 4 (kappa sigma)^2 sin^2 psi sin^2 mu / |A|
  * (A = -g r^2 / 2 the amplitude rate) on the two-way ring: positive, of order (kappa sigma)^2.
- * At eps = 1e-5 that is below the guiding system's resolution eps rateScale^2 / omega, so the
- * catalogue must call those states marginal, not stable or unstable.
+ * At eps = 0.005 that is below the guiding system's resolution eps rateScale K / omega (K the
+ * coupling rate, see marginTolerance), so the catalogue must call those states marginal, not
+ * stable or unstable; in physical terms the sign is unresolved while kappa sigma / g < eps.
  */
 const STIFF = 0.002;
+const EPS = 0.005;
 
 function rotatingWaves(nodes: number, twoWay: boolean, extra: { reactive?: number; strength?: number; epsilon?: number } = {}): Map<number, CataloguePattern> {
-  const model = ringModel({ nodes, twoWay, strength: extra.strength ?? STIFF, reactive: extra.reactive, epsilon: extra.epsilon });
+  const model = ringModel({ nodes, twoWay, strength: extra.strength ?? STIFF, reactive: extra.reactive, epsilon: extra.epsilon ?? EPS });
   const catalogue = patternCatalogue(model, { types: ['in-phase', 'anti-phase', 'rotating-wave'], maxFixDimension: 1, randomSeeds: 0 });
   const byQ = new Map<number, CataloguePattern>();
   for (const p of catalogue.patterns) {
@@ -187,8 +189,9 @@ describe('how reactive and strong coupling shift the stable set', () => {
     expect(limit.kind).toBe('branch-point');
     expect(limit.parameter).toBeGreaterThan(0.05);
     expect(limit.parameter).toBeLessThan(1); // the twisted-state physics test sees q = 1 leave at kappa sigma = g
-    const below = rotatingWaves(7, true, { strength: 0.97 * limit.parameter }).get(1)!;
-    const above = rotatingWaves(7, true, { strength: 1.03 * limit.parameter }).get(1)!;
+    // (eps = 1e-6 so that margins this close to the crossing are resolved)
+    const below = rotatingWaves(7, true, { strength: 0.97 * limit.parameter, epsilon: 1e-6 }).get(1)!;
+    const above = rotatingWaves(7, true, { strength: 1.03 * limit.parameter, epsilon: 1e-6 }).get(1)!;
     expect(below.stable).toBe(true);
     expect(above.stable).toBe(false);
   });
