@@ -65,9 +65,10 @@ export interface StepSearch {
 }
 
 /**
- * The smallest step count (to within the last power-law correction) whose error is at most
- * `target`, for a method whose error falls like a power of the step count: fit the power from
- * two starting counts, jump to the predicted count, and correct upwards until the target is met.
+ * The smallest step count whose error is at most `target`, for a method whose error falls like a
+ * power of the step count: fit the power from two starting counts, jump to the predicted count,
+ * correct upwards until the target is met, then (where runs are cheap, below 64 steps) step down
+ * while the target still holds.
  */
 export function searchSteps(errorAt: (steps: number) => number, target: number, first: number, second: number): StepSearch {
   const tried: { stepsPerPeriod: number; error: number }[] = [];
@@ -80,15 +81,17 @@ export function searchSteps(errorAt: (steps: number) => number, target: number, 
   const e2 = run(second);
   const power = Math.log(e1 / e2) / Math.log(second / first);
   if (!(power > 0.5)) throw new Error(`searchSteps: the error does not fall with the step count (${e1} at ${first}, ${e2} at ${second})`);
-  let steps = second;
-  let error = e2;
-  if (error > target) {
-    steps = Math.ceil(second * (e2 / target) ** (1 / power));
-    error = run(steps);
-  }
-  for (let round = 0; round < 6 && error > target; round++) {
+  let steps = Math.max(1, Math.ceil(first * (e1 / target) ** (1 / power)));
+  let error = steps === first ? e1 : steps === second ? e2 : run(steps);
+  for (let round = 0; round < 8 && error > target; round++) {
     steps = Math.ceil(steps * Math.max(1.02, (error / target) ** (1 / power)));
     error = run(steps);
+  }
+  while (steps > 1 && steps <= 64) {
+    const lower = run(steps - 1);
+    if (lower > target) break;
+    steps -= 1;
+    error = lower;
   }
   return { stepsPerPeriod: steps, error, tried };
 }
