@@ -3,7 +3,7 @@ import type { FaultVerdict, PhaseSample } from '../../src/campaign/index.js';
 import type { HeaderRecord } from '../../src/protocol/log-records.js';
 import { readSegments, type RecordAt, type SegmentedRead } from '../log/segments.js';
 import { UsageError } from '../scenario-file.js';
-import { LOG_FOLDER, SEGMENT_PREFIX, type CheckpointLine, type EndLine, type SampleLine, type SoakHeader, type VerdictLine } from './soak-records.js';
+import { LOG_FOLDER, SEGMENT_PREFIX, stabilitySamples, type CheckpointLine, type EndLine, type SampleLine, type SoakHeader, type VerdictLine } from './soak-records.js';
 
 export type SoakHeaderRecord = HeaderRecord & { soak: SoakHeader };
 
@@ -73,11 +73,9 @@ export function findResumePoint(out: string): ResumePoint | null {
   read.records.forEach((r, i) => {
     const line = r.record;
     if (i > lastCheckpoint) point.discarded.set(line.seq, JSON.stringify(line));
-    else if (line.record === 'soak-sample') {
-      const s = line as unknown as SampleLine;
-      point.sampleLines.push(s);
-      point.samples.push({ tick: s.tick, tau: s.tau, ensemble: s.ensemble, node: s.node, uncoupledEnsemble: s.uncoupledEnsemble, singlePart: s.singlePart });
-    } else if (line.record === 'verdict') point.verdicts.push((line as unknown as VerdictLine).verdict);
+    else if (line.record === 'soak-sample') point.sampleLines.push(line as unknown as SampleLine);
+    else if (line.record === 'verdict') point.verdicts.push((line as unknown as VerdictLine).verdict);
   });
+  point.samples = stabilitySamples(point.sampleLines);
   return point;
 }

@@ -34,7 +34,7 @@ import { loadCampaign } from './campaign-file.js';
 import { RESUMES_FILE, STATUS_FILE, SUMMARY_FILE, finalOf, writeJsonAtomically } from './outputs.js';
 import { lockSoakDir } from './dir-lock.js';
 import { findResumePoint, soakLogDir, type ResumePoint } from './resume.js';
-import { SEGMENT_PREFIX, type CheckpointLine, type SoakHeader, type SoakOutcome } from './soak-records.js';
+import { SEGMENT_PREFIX, type CheckpointLine, type SampleLine, type SoakHeader, type SoakOutcome } from './soak-records.js';
 
 export interface SoakOptions {
   scenario: string;
@@ -258,16 +258,22 @@ class SoakRunner {
     const view = tickViewOf(frame);
     for (const verdict of this.faults.afterTick(view)) this.appendVerdict(verdict);
     const sample = this.recorder.observe(frame.tick, frame.tau, frame.full.pattern.locked, frame.full.phase, twinFrame ? twinFrame.full.phase : null);
-    if (sample) {
-      this.samples.push(sample);
-      this.append({
+    if (sample) this.samples.push(sample);
+    if (sample || this.recorder.isSampleTick(frame.tick, frame.tau)) {
+      const line: SampleLine = {
         record: 'soak-sample',
-        ...sample,
+        tick: frame.tick,
+        tau: frame.tau,
+        ensemble: sample?.ensemble ?? null,
+        node: sample?.node ?? null,
+        uncoupledEnsemble: sample?.uncoupledEnsemble ?? null,
+        singlePart: sample?.singlePart ?? null,
         phaseDifferences: frame.full.phaseDifferences,
         divergence: frame.divergence.relative,
         pattern: view.full.label,
         guide: view.guide.label,
-      });
+      };
+      this.append(line as unknown as LogLine);
     }
     if (frame.tick % this.checkpointTicks === 0 && frame.status !== 'halted') this.checkpoint(frame);
   }

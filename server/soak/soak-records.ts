@@ -20,14 +20,33 @@ export interface SoakHeader {
   uncoupledReference: boolean;
 }
 
-/** A stability sample with what the report plots beside it. */
-export interface SampleLine extends PhaseSample {
+/**
+ * A trace point every `stride` ticks from the start, with what the report plots; the stability
+ * phases are null until the stability record starts (first lock, or the campaign's `from`).
+ */
+export interface SampleLine {
   record: 'soak-sample';
+  tick: number;
+  tau: number;
+  ensemble: number | null;
+  node: number | null;
+  uncoupledEnsemble: number | null;
+  singlePart: number | null;
   /** Mode-0 neighbour phase differences of the full system (rad). */
   phaseDifferences: number[];
   divergence: number;
   pattern: string;
   guide: string;
+}
+
+/** The stability samples among the trace points (those after the record started). */
+export function stabilitySamples(lines: readonly SampleLine[]): PhaseSample[] {
+  const samples: PhaseSample[] = [];
+  for (const s of lines) {
+    if (s.ensemble === null || s.node === null) continue;
+    samples.push({ tick: s.tick, tau: s.tau, ensemble: s.ensemble, node: s.node, uncoupledEnsemble: s.uncoupledEnsemble, singlePart: s.singlePart });
+  }
+  return samples;
 }
 
 export interface CheckpointLine {

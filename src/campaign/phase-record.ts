@@ -68,9 +68,10 @@ export interface PhaseRecorderState {
 }
 
 /**
- * Decides which ticks become stability samples: every `stride`-th tick from the start of the
- * record (a fixed tau or the first lock), full macro ticks only, so samples are equally spaced.
- * The samples themselves go to the log; the recorder's own state is the unwrapping and a count.
+ * Decides which ticks become stability samples: the ticks that are multiples of `stride`, from
+ * the start of the record (a fixed tau or the first lock) on, full macro ticks only, so samples
+ * are equally spaced. The samples themselves go to the log; the recorder's own state is the
+ * unwrapping and a count.
  */
 export class PhaseRecorder {
   private readonly coupled = new NodePhases();
@@ -82,17 +83,22 @@ export class PhaseRecorder {
     this.uncoupled = withTwin ? new NodePhases() : null;
   }
 
-  /** One tick of both rings; returns a sample when this tick is one. */
+  /** Whether `tick` is a sample tick (the runner logs a trace of the run at the same ticks). */
+  isSampleTick(tick: number, tau: number): boolean {
+    return tick % this.stride === 0 && Math.abs(tau - tick * this.macroStep) <= 1e-9 * Math.max(1, tau);
+  }
+
+  /** One tick of both rings; returns a sample when this tick is one and the record has started. */
   observe(tick: number, tau: number, locked: boolean, coupled: number[][], uncoupled: number[][] | null): PhaseSample | null {
     this.coupled.update(coupled);
     if (this.uncoupled && uncoupled) this.uncoupled.update(uncoupled);
     const fullTick = Math.abs(tau - tick * this.macroStep) <= 1e-9 * Math.max(1, tau);
+    if (!fullTick || tick % this.stride !== 0) return null;
     if (this.startTick === null) {
       const ready = this.from === 'first-lock' ? locked : tau >= this.from * (1 - 1e-12);
-      if (!ready || !fullTick) return null;
+      if (!ready) return null;
       this.startTick = tick;
     }
-    if (!fullTick || (tick - this.startTick) % this.stride !== 0) return null;
     this.samples++;
     const twin = this.uncoupled && uncoupled ? this.uncoupled : null;
     return {
