@@ -93,10 +93,16 @@ export function predict(args: PredictArgs): Record<string, unknown> {
 
   if (parameter) {
     const chosen = choosePattern(catalogue.patterns, args.pattern, settledIndex);
-    const branch = continueBranch(model, Float64Array.from(catalogue.patterns[chosen].state), parameter, {
-      ...(range ? { range } : {}),
-      ...(args.maxSteps !== undefined ? { maxSteps: args.maxSteps } : {}),
-    });
+    let branch: Branch;
+    try {
+      branch = continueBranch(model, Float64Array.from(catalogue.patterns[chosen].state), parameter, {
+        ...(range ? { range } : {}),
+        ...(args.maxSteps !== undefined ? { maxSteps: args.maxSteps } : {}),
+      });
+    } catch (error) {
+      if (error instanceof RangeError) throw new UsageError(`--continue ${args.continueIn}: ${error.message}`);
+      throw error;
+    }
     result.continuation = {
       parameter: args.continueIn,
       syntax: CONTINUATION_SYNTAX,

@@ -47,6 +47,12 @@ export interface ContinuationOptions {
   range?: { min?: number; max?: number };
   /** Keep each point's state (rotating frame) in the branch data; default false. */
   keepStates?: boolean;
+  /**
+   * Compute eigenvalues at every point and stop at Hopf and branch points (default true). Without
+   * it only folds are detected and the points carry no stability; it saves one dense eigenvalue
+   * problem per step when only the existence of the branch matters.
+   */
+  monitorStability?: boolean;
 }
 
 export interface BranchPoint {
@@ -57,11 +63,12 @@ export interface BranchPoint {
   meanAmplitude: number[];
   phaseDifferences: number[];
   rotation: number[];
-  stability: Verdict;
+  /** Stability of the point; null when the continuation ran without monitorStability. */
+  stability: Verdict | null;
   stable: boolean | null;
-  margin: number;
-  /** Eigenvalues of the reduced Jacobian with positive real part. */
-  unstableCount: number;
+  margin: number | null;
+  /** Eigenvalues of the reduced Jacobian with positive real part (null without monitorStability). */
+  unstableCount: number | null;
   /** Locked state (rotating frame), only with options.keepStates. */
   state?: number[];
 }
@@ -93,7 +100,8 @@ export interface Branch {
 interface Node {
   x: Float64Array; // [y, rates, mu]
   tangent: Float64Array;
-  stability: LockedStability;
+  /** Null when stability is not monitored. */
+  stability: LockedStability | null;
   unstable: number;
 }
 
@@ -238,6 +246,7 @@ class Continuation {
     this.reference = Float64Array.from(x.subarray(0, n));
     const { full, state } = this.jacobian(x);
     const tangent = this.tangent(full, previousTangent, sign);
+    if (this.options.monitorStability === false) return { x: Float64Array.from(x), tangent, stability: null, unstable: 0 };
     const y = x.subarray(0, n);
     const tangents = this.generators.map((gen) => applyPhaseGenerator(gen, modes, Float64Array.from(y), new Float64Array(n)));
     const q = complementBasis(tangents, n);
@@ -358,7 +367,7 @@ class Continuation {
       }
     }
     const node = hiNode ?? this.step(from, h) ?? from;
-    if (fold) return { node, limit: this.limit('fold', node, undefined, 'turning point of the parameter: the locked state disappears (saddle-node)') };
+    if (fold || !node.stability) return { node, limit: this.limit('fold', node, undefined, 'turning point of the parameter: the locked state disappears (saddle-node)') };
     const critical = node.stability.eigenvalues.reduce((best, e) => (Math.abs(e.re) < Math.abs(best.re) ? e : best), node.stability.eigenvalues[0]);
     const hopf = Math.abs(critical.im) > 1e-6 * Math.max(node.stability.rateScale, 1e-12);
     return hopf
@@ -399,7 +408,8 @@ class Continuation {
     setParameter(this.model.params, this.parameter, parameter);
     const y = Float64Array.from(node.x.subarray(0, this.n));
     const rates = Array.from(node.x.subarray(this.n, this.n + this.g));
-    const described = describeLockedState(this.model, { state: y, generators: this.generators, rates, residual: 0, iterations: 0, converged: true }, node.stability, []);
+    const unknown: LockedStability = { eigenvalues: [], margin: Number.NaN, rateScale: 0, tolerance: 0, verdict: 'marginal' };
+    const described = describeLockedState(this.model, { state: y, generators: this.generators, rates, residual: 0, iterations: 0, converged: true }, node.stability ?? unknown, []);
     const point: BranchPoint = {
       parameter,
       ppm: this.ppm(parameter),
@@ -407,10 +417,10 @@ class Continuation {
       meanAmplitude: described.meanAmplitude,
       phaseDifferences: described.phaseDifferences,
       rotation: described.rotation,
-      stability: node.stability.verdict,
-      stable: described.stable,
-      margin: node.stability.margin,
-      unstableCount: node.unstable,
+      stability: node.stability?.verdict ?? null,
+      stable: node.stability ? described.stable : null,
+      margin: node.stability?.margin ?? null,
+      unstableCount: node.stability ? node.unstable : null,
     };
     if (this.options.keepStates) point.state = Array.from(y);
     return point;

@@ -5,6 +5,7 @@
  */
 import { ModelParameters } from '../model/parameters.js';
 import { TorusAverage } from '../guide/torus-average.js';
+import { SlowField } from '../model/slow-field.js';
 import type { Scenario } from '../scenario/types.js';
 import type { Field } from './relative-equilibrium.js';
 import { couplingComponents } from './phase-orbits.js';
@@ -18,7 +19,7 @@ export class GuideModel {
   constructor(readonly scenario: Scenario, source?: ModelParameters) {
     this.params = new ModelParameters(scenario);
     if (source) copyParameters(source, this.params);
-    this.average = new TorusAverage(this.params, scenario.integrator.averagingGrid);
+    this.average = new TorusAverage(this.params, exactGrid(scenario.integrator.averagingGrid));
     this.field = (y, out) => this.average.evaluate(y, out);
   }
 
@@ -54,6 +55,16 @@ export class GuideModel {
   get nominalFrequencyHz(): number {
     return this.scenario.units.nominalFrequencyHz;
   }
+}
+
+/**
+ * The smallest trapezoid grid that still averages the field exactly: the rule is exact for
+ * trigonometric polynomials of degree below P in each angle and the field has degree
+ * SlowField.HARMONIC_DEGREE (torus-average.ts), so P = degree + 1 gives the same fbar as the
+ * guide's own grid (to rounding) at (P / grid)^modes of the cost. Never larger than `grid`.
+ */
+export function exactGrid(grid: number): number {
+  return Math.min(grid, SlowField.HARMONIC_DEGREE + 1);
 }
 
 /** Copies every mutable model parameter (detuning, link weights, coupling, noise) from `from` to `to`. */

@@ -72,6 +72,8 @@ export type LivePrediction = {
 /** Above this many slow variables no live prediction is made (dense Jacobians, like the session's margin). */
 export const LIVE_PREDICTION_SIZE_LIMIT = 160;
 const CACHE_SIZE = 16;
+/** Field evaluations the live look-ahead may spend (a few tenths of a second on the demo board). */
+const LOOK_AHEAD_EVALUATIONS = 6000;
 
 export interface LivePredictorState {
   previous: { detuning: number[]; linkWeight: number[]; strength: number; reactive: number; dissipative: number };
@@ -159,7 +161,7 @@ export class LivePredictor {
       }
     }
     copyParameters(params, model.params);
-    const ahead = lookAhead(model, state);
+    const ahead = lookAhead(model, state, { maxEvaluations: LOOK_AHEAD_EVALUATIONS });
     const pattern = ahead.settled && ahead.locked && ahead.stability ? this.predictedPattern(ahead.locked, ahead.stability) : this.unsettledPattern(ahead.state);
     const lookAheadInfo = { slowTime: ahead.slowTime, settled: ahead.settled };
     const becomes = ahead.settled ? `becomes ${describeLabel(pattern)} (margin ${pattern.margin?.toPrecision(3)})` : `does not settle within ${ahead.slowTime.toPrecision(3)} slow time units (predicted unlocked)`;
@@ -185,7 +187,9 @@ export class LivePredictor {
     setParameter(model.params, spec, 0);
     let end: Float64Array;
     try {
-      const branch = continueBranch(model, state, spec, { directions: ['increasing'], range: { max: 1 }, maxSteps: 80, initialStep: 0.2, maxStep: 0.5, keepStates: true });
+      // A perturbation is a jump, not a slow ramp: only the existence of the branch up to h = 1
+      // matters on the way (folds); stability is judged once, at the end.
+      const branch = continueBranch(model, state, spec, { directions: ['increasing'], range: { max: 1 }, maxSteps: 80, initialStep: 0.25, maxStep: 0.5, keepStates: true, monitorStability: false });
       const limit = branch.limits.increasing!;
       if (limit.kind !== 'range') return { kind: 'lost', fraction: Math.min(1, Math.max(0, limit.parameter)), limit: limit.kind };
       const last = branch.points[branch.points.length - 1];

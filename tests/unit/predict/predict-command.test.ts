@@ -1,0 +1,84 @@
+import { afterEach, describe, expect, test, vi } from 'vitest';
+import { main } from '../../../server/cli.js';
+import { predict } from '../../../server/commands/predict.js';
+
+/** Runs the CLI with stdout and stderr captured. */
+async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  let out = '';
+  let err = '';
+  vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => ((out += String(chunk)), true));
+  vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => ((err += String(chunk)), true));
+  const code = await main(argv);
+  vi.restoreAllMocks();
+  return { code, out, err };
+}
+
+afterEach(() => vi.restoreAllMocks());
+
+describe('syncring predict', () => {
+  test('one JSON object with the catalogue: every pattern has the contract fields; the 5-ring waves follow cos(2 pi q / 5) > 0', async () => {
+    const { code, out } = await run(['predict', 'ring-one-way-5']);
+    expect(code).toBe(0);
+    const result = JSON.parse(out);
+    expect(result.nodes).toBe(5);
+    expect(result.group.order).toBe(5);
+    for (const p of result.patterns) {
+      for (const field of ['kind', 'symmetry', 'stable', 'margin', 'eigenvalues', 'phaseDifferences', 'amplitudes', 'timeConstant', 'frequencyShiftPpm']) expect(p).toHaveProperty(field);
+      expect(p.phaseDifferences).toHaveLength(5);
+      expect(p.amplitudes).toHaveLength(5);
+      expect(Number.isFinite(p.margin)).toBe(true);
+    }
+    const waves = result.patterns.filter((p: { candidate: { type: string } }) => p.candidate.type !== 'standing-wave' && p.candidate.type !== 'cluster');
+    expect(waves.map((p: { q: number }) => p.q).sort()).toEqual([0, 1, 2, 3, 4]);
+    for (const p of waves) {
+      // Wiley, Strogatz, Girvan 2006 / Gray 2006 circulant eigenvalues
+      expect(p.stable).toBe(Math.cos((2 * Math.PI * p.q) / 5) > 0);
+      // in-phase q = 0; anti-phase would be N/2 (none for N = 5)
+      expect(p.kind).toBe(p.q === 0 ? 'in-phase' : 'rotating-wave');
+    }
+    // the scenario starts at q = 1, which is stable: the initial state settles there
+    expect(result.patterns[result.initial.pattern].q).toBe(1);
+  });
+
+  test('--continue detuning:0 on the detuned pair: the locking range in Delta and ppm (Adler 1946: |Delta_0 - Delta_1| = kappa sigma / omega)', () => {
+    const result = predict({ scenario: 'pair-adler', continueIn: 'detuning:0' }) as { continuation: { range: Record<string, number>; branch: unknown[]; limits: Record<string, { kind: string }> } };
+    const { range } = result.continuation;
+    // pair-adler: Delta_1 = -0.005, kappa sigma = 0.02, omega = 1, eps = 1e-3
+    expect(Math.abs(range.upper - (-0.005 + 0.02))).toBeLessThan(0.02 * 0.02);
+    expect(Math.abs(range.lower - (-0.005 - 0.02))).toBeLessThan(0.02 * 0.02);
+    // ppm = Delta eps / 1e-6 (design section 2)
+    expect(range.upperPpm).toBeCloseTo((range.upper * 1e-3) / 1e-6, 6);
+    expect(result.continuation.limits.increasing.kind).toBe('fold');
+    expect(result.continuation.branch.length).toBeGreaterThan(5);
+  });
+
+  test('--continue link:4-0 --range 0.5:1 on the one-way 5-ring: the q = 1 wave survives down to about 0.905 of the weight', () => {
+    const result = predict({ scenario: 'ring-one-way-5', continueIn: 'link:4-0', range: '0.5:1' }) as { continuation: { pattern: { q: number }; range: Record<string, unknown> } };
+    expect(result.continuation.pattern.q).toBe(1);
+    expect(result.continuation.range.lowerKind).toBe('fold');
+    expect(result.continuation.range.upperKind).toBe('range');
+    // consistent with the live predictor's loss at 9.5% of a link break (live-prediction tests)
+    expect(result.continuation.range.lower as number).toBeGreaterThan(0.85);
+    expect(result.continuation.range.lower as number).toBeLessThan(0.95);
+  });
+
+  test.each([
+    [['predict'], /predict needs exactly one SCENARIO/],
+    [['predict', 'no-such-file.json'], /no-such-file\.json: no such file/],
+    [['predict', 'ring-one-way-5', '--continue', 'speed'], /--continue speed: unknown parameter "speed"/],
+    [['predict', 'ring-one-way-5', '--continue', 'detuning:9'], /node 9 does not exist \(nodes are 0\.\.4\)/],
+    [['predict', 'ring-one-way-5', '--continue', 'detuning'], /say which node/],
+    [['predict', 'ring-one-way-5', '--continue', 'link:0-2'], /there is no link from node 0 to node 2/],
+    [['predict', 'ring-one-way-5', '--continue', 'edge:0-1'], /no link from node 1 back to node 0/],
+    [['predict', 'ring-one-way-5', '--continue', 'coupling', '--range', '1:0'], /--range: MIN must be below MAX/],
+    [['predict', 'ring-one-way-5', '--continue', 'coupling', '--range', 'a:b'], /--range: MIN "a" is not a number/],
+    [['predict', 'ring-one-way-5', '--continue', 'coupling', '--pattern', '99'], /--pattern must be an index 0\.\.4/],
+    [['predict', 'ring-one-way-5', '--pattern', '1'], /--pattern needs --continue PARAM/],
+    [['predict', 'ring-one-way-5', '--frobnicate'], /unknown option --frobnicate/],
+  ])('bad input %j exits 2 naming the problem', async (argv, message) => {
+    const { code, out, err } = await run(argv as string[]);
+    expect(code).toBe(2);
+    expect(out).toBe('');
+    expect(err).toMatch(message as RegExp);
+  });
+});
