@@ -16,9 +16,8 @@ export interface IntegratorChoice {
 /**
  * Cost per tick in SlowField evaluations (the unit both integrators spend). Measured on the
  * parity grid for N = 8, M = 2: one slow right-hand side costs about 16 evaluations per torus
- * point (4 field samples plus the harmonic sums) and one reconstruction about 8 per point.
- * Micro-stepping is counted at one evaluation per micro step (its cheapest method), so the
- * envelope is only preferred when it beats the fastest micro scheme.
+ * point (4 field samples plus the kernel product and the stencil) and one reconstruction about
+ * 8 per point. Micro-stepping costs its method's evaluations per step (4 for RK4, 1 fitted).
  */
 export const SLOW_RHS_COST_PER_POINT = 16;
 export const RECONSTRUCTION_COST_PER_POINT = 8;
@@ -35,6 +34,8 @@ export interface CostInputs {
   macroStep: number;
   /** Nominal micro step in tau. */
   microStep: number;
+  /** Field evaluations per micro step. */
+  microEvaluationsPerStep: number;
   /** Torus sample points of the envelope's field. */
   points: number;
   /** Noise or a detuning walk is on (chunks limited to noiseStep). */
@@ -49,7 +50,7 @@ export interface CostEstimate {
 }
 
 export function estimateCosts(c: CostInputs): CostEstimate {
-  const microPerTick = Math.max(1, Math.ceil(c.macroStep / c.microStep));
+  const microPerTick = Math.max(1, Math.ceil(c.macroStep / c.microStep)) * c.microEvaluationsPerStep;
   const rhsPerSlowUnit = c.noisy ? Math.max(QUIET_RHS_PER_SLOW_UNIT, RESTARTED_STEP_RHS / c.noiseStep) : QUIET_RHS_PER_SLOW_UNIT;
   const envelopePerTick =
     RECONSTRUCTION_COST_PER_POINT * c.points + SLOW_RHS_COST_PER_POINT * c.points * rhsPerSlowUnit * c.eps * c.macroStep;
@@ -59,9 +60,10 @@ export function estimateCosts(c: CostInputs): CostEstimate {
 /**
  * The mode to run. 'micro' always gets micro steps. 'envelope' gets the envelope unless it
  * cannot be trusted (small divisor, indicator above the trust limit). 'auto' also demands an
- * estimated error at most AUTO_ERROR (so it is as accurate as micro-stepping) and a cost at
- * least PAYOFF times lower. `hysteresis` (< 1) tightens the error bound when switching back.
- * `unavailable` says why the envelope cannot run at all (eps = 0, a field it does not model).
+ * estimated error at most `autoError` (AUTO_ERROR by default: as accurate as micro-stepping) and
+ * a cost at least PAYOFF times lower. `hysteresis` (< 1) tightens the error bound when
+ * switching back. `unavailable` says why the envelope cannot run at all (eps = 0, a field it
+ * does not model).
  */
 export function chooseIntegrator(
   request: IntegratorRequest,
@@ -70,6 +72,7 @@ export function chooseIntegrator(
   costs: CostEstimate | null,
   unavailable: string | null,
   hysteresis = 1,
+  autoError = AUTO_ERROR,
 ): IntegratorChoice {
   if (request === 'micro') return { mode: 'micro', reason: 'micro-stepping was requested' };
   if (unavailable || !health || !costs) return { mode: 'micro', reason: `the envelope cannot run: ${unavailable ?? 'no health figures'}` };
@@ -78,8 +81,8 @@ export function chooseIntegrator(
   const divisor = health.smallestDivisor === null ? 'no carried harmonic' : `smallest divisor ${(health.smallestDivisor / eps).toPrecision(3)} eps at ${health.harmonic}`;
   const figures = `${divisor}, indicator ${health.indicator.toExponential(2)}, estimated error ${health.estimatedError.toExponential(2)}`;
   if (request === 'envelope') return { mode: 'envelope', reason: `the envelope was requested and is trusted (${figures})` };
-  if (health.estimatedError > AUTO_ERROR * hysteresis) {
-    return { mode: 'micro', reason: `micro-stepping is more accurate here: the envelope's estimated error ${health.estimatedError.toExponential(2)} is above ${AUTO_ERROR}` };
+  if (health.estimatedError > autoError * hysteresis) {
+    return { mode: 'micro', reason: `micro-stepping is more accurate here: the envelope's estimated error ${health.estimatedError.toExponential(2)} is above ${autoError * hysteresis}` };
   }
   const ratio = costs.microPerTick / costs.envelopePerTick;
   if (ratio < PAYOFF) {

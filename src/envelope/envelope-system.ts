@@ -34,6 +34,8 @@ export interface EnvelopeCheckpoint {
 const FIRST_CHUNK = 1e-3;
 /** A chunk the controller had to split is redone at most this many times as one step. */
 const CHUNK_RETRIES = 3;
+/** Longest chunk in slow time even when the field is (nearly) zero and the controller keeps growing the step. */
+const LONGEST_CHUNK = 1e3;
 
 /**
  * Envelope mode: the full system advanced through its second-order averaged slow variables.
@@ -167,7 +169,9 @@ export class EnvelopeSystem implements FullIntegrator {
   advance(tauEnd: number): StepOutcome {
     if (!(tauEnd > this.tau)) return { ok: true, detuningChanged: false };
     const eps = this.params.epsilon;
-    const randomBefore = this.random.getState();
+    const p = this.params;
+    // The generator is only drawn from with noise or a walk on; only then is there anything to restore.
+    const randomBefore = p.noiseIntensity > 0 || p.detuningWalk > 0 ? this.random.getState() : null;
     const slowEnd = eps * tauEnd;
     let from = this.tau;
     while (slowEnd > this.chunkEnd) {
@@ -178,7 +182,7 @@ export class EnvelopeSystem implements FullIntegrator {
       }
       const problem = this.nextChunk();
       if (problem) {
-        this.random.setState(randomBefore);
+        if (randomBefore) this.random.setState(randomBefore);
         return { ok: false, reason: problem, fallBack: true, detuningChanged: false };
       }
     }
@@ -190,7 +194,7 @@ export class EnvelopeSystem implements FullIntegrator {
     for (let i = 0; i < slow.length; i++) trial[i] = slow[i] + eps * correction[i];
     const blowUp = findBlowUp(trial, this.params.modes);
     if (blowUp) {
-      this.random.setState(randomBefore);
+      if (randomBefore) this.random.setState(randomBefore);
       return { ok: false, reason: blowUp, detuningChanged: false };
     }
     this.state.set(trial);
@@ -241,10 +245,10 @@ export class EnvelopeSystem implements FullIntegrator {
     this.solver.step = saved.solverStep;
   }
 
-  /** Longest chunk now: unlimited without noise, the splitting step with it. */
+  /** Longest chunk now: the splitting step with noise, LONGEST_CHUNK without. */
   private chunkLimit(): number {
     const p = this.params;
-    return p.noiseIntensity > 0 || p.detuningWalk > 0 ? this.noiseStep : Number.POSITIVE_INFINITY;
+    return p.noiseIntensity > 0 || p.detuningWalk > 0 ? this.noiseStep : LONGEST_CHUNK;
   }
 
   /** Begin the chunk after the current one; returns why it cannot be trusted, or null. */

@@ -41,8 +41,11 @@ export class IntegratorSwitch {
     readonly request: IntegratorRequest,
     readonly macroStep: number,
     private readonly report: (kind: 'warning' | 'control', message: string) => void,
+    /** Largest estimated relative error at which 'auto' takes the envelope. */
+    readonly autoError = AUTO_ERROR,
     options: EnvelopeOptions = {},
   ) {
+    if (!(autoError > 0 && autoError < 1)) throw new RangeError(`envelopeAutoError: must be in (0, 1) (got ${autoError})`);
     if (!INTEGRATOR_REQUESTS.includes(request)) {
       throw new RangeError(`integrator: must be one of ${INTEGRATOR_REQUESTS.join(', ')} (got ${JSON.stringify(request)})`);
     }
@@ -53,7 +56,7 @@ export class IntegratorSwitch {
     else if (!(eps > 0)) unavailable = 'eps = 0, so nothing is slow';
     else {
       try {
-        const indicatorLimit = request === 'auto' ? Math.sqrt(AUTO_ERROR) : TRUST_INDICATOR;
+        const indicatorLimit = request === 'auto' ? Math.min(TRUST_INDICATOR, Math.sqrt(autoError)) : TRUST_INDICATOR;
         envelope = new EnvelopeSystem(params, micro.state, micro.tau, micro.random, { indicatorLimit, ...options });
       } catch (error) {
         unavailable = error instanceof Error ? error.message : String(error);
@@ -127,7 +130,7 @@ export class IntegratorSwitch {
 
   private decide(hysteresis: number): IntegratorChoice {
     const env = this.envelope;
-    if (!env) return chooseIntegrator(this.request, this.params.epsilon, null, null, this.unavailable);
+    if (!env) return chooseIntegrator(this.request, this.params.epsilon, null, null, this.unavailable, hysteresis, this.autoError);
     const active = this.active;
     const health = env.probe(active.state, active.tau);
     const p = this.params;
@@ -135,11 +138,12 @@ export class IntegratorSwitch {
       eps: p.epsilon,
       macroStep: this.macroStep,
       microStep: this.micro.stepper.nominalStep,
+      microEvaluationsPerStep: this.micro.stepper.method === 'rk4' ? 4 : 1,
       points: env.field.torus.points,
       noisy: p.noiseIntensity > 0 || p.detuningWalk > 0,
       noiseStep: env.noiseStep,
     });
-    return chooseIntegrator(this.request, p.epsilon, health, costs, null, hysteresis);
+    return chooseIntegrator(this.request, p.epsilon, health, costs, null, hysteresis, this.autoError);
   }
 
   private switchTo(choice: IntegratorChoice): void {

@@ -35,6 +35,8 @@ export interface SessionOptions {
    * envelope where it is valid, as accurate as micro-stepping and cheaper (src/envelope).
    */
   integrator?: IntegratorRequest;
+  /** Largest estimated relative error at which 'auto' takes the envelope; default 1e-8 (micro-step accuracy). */
+  envelopeAutoError?: number;
 }
 
 export type SessionEventKind = 'perturbation' | 'lock' | 'unlock' | 'pattern-change' | 'blow-up' | 'guide-failure' | 'warning' | 'control';
@@ -166,7 +168,7 @@ export class CoSimulation {
     const micro = new FullSystem(this.params, initial, scenario.integrator.stepsPerPeriod, scenario.noise.seed);
     this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? 1e-10);
     this.macroStep = (scenario.integrator.macroPeriods * 2 * Math.PI) / this.params.omega[0];
-    this.integrator = new IntegratorSwitch(this.params, micro, options.integrator ?? 'auto', this.macroStep, (kind, message) => this.record(kind, message, 'engine'));
+    this.integrator = new IntegratorSwitch(this.params, micro, options.integrator ?? 'auto', this.macroStep, (kind, message) => this.record(kind, message, 'engine'), options.envelopeAutoError);
     const eps = this.params.epsilon;
     const window = options.lockWindow ?? defaultLockWindow(this.params);
     const windowTicks = eps > 0 ? Math.min(MAX_LOCK_WINDOW_TICKS, Math.max(2, Math.round(window / (eps * this.macroStep)))) : 10;
