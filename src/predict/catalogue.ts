@@ -158,7 +158,7 @@ function classifyClass(table: GroupTable, cls: IsotropyClass, nodes: number, rot
       if (line.length === 1 && subgroupKey(isotropyOf(table, line[0])) === own) return { type: 'standing-wave', q };
     }
   }
-  if (sub.elements.length === table.elements.length && sub.phases.every((p) => p === 0)) return { type: 'in-phase', q: 0 };
+  if (cls.fixDimension === 1 && sub.elements.length === table.elements.length && sub.phases.every((p) => p === 0)) return { type: 'in-phase', q: 0 };
   return { type: 'cluster' };
 }
 
@@ -244,11 +244,14 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
   const randomSeeds = options.randomSeeds ?? (large ? 0 : 2);
   const allowed = (type: CandidateType): boolean => !options.types || options.types.includes(type);
   const listed = dynamicalSymmetries(model, options.groupLimit ?? 512);
-  const table = groupTable(listed.elements);
-  const rotation = unitRotation(table);
+  // A truncated listing is not closed under products, so it has no subgroups to speak of: then
+  // only the full-space seeds are used (and symmetry is reported against the listed elements).
+  const table = listed.truncated ? null : groupTable(listed.elements);
+  const group = listed.elements;
+  const rotation = table ? unitRotation(table) : -1;
   const parts = model.parts();
   const seedModes = options.modes ?? Array.from(model.params.gain, (g, j) => (g > model.params.loss[j] ? j : -1)).filter((j) => j >= 0);
-  const classes = isotropyClasses(table, nodes, { maxFixDimension, pairLimit: 128 });
+  const classes = table ? isotropyClasses(table, nodes, { maxFixDimension, pairLimit: 128 }) : [];
   const random = new Random(4242);
   const found: CataloguePattern[] = [];
   let solves = 0;
@@ -256,10 +259,10 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
   const record = (locked: LockedState, candidate: CandidateInfo): void => {
     if (!locked.converged) return;
     for (const p of found) {
-      if (sameUpToSymmetry(Float64Array.from(p.state), locked.state, table.elements, nodes, modes, parts)) return;
+      if (sameUpToSymmetry(Float64Array.from(p.state), locked.state, group, nodes, modes, parts)) return;
     }
     const stability = lockedStateStability(model.field, locked, modes, model.accuracy);
-    found.push({ ...describeLockedState(model, locked, stability, table.elements), candidate });
+    found.push({ ...describeLockedState(model, locked, stability, group), candidate });
   };
 
   const solveIn = (basis: Matrix | undefined, seed: Float64Array, generatorParts: readonly Int32Array[]): LockedState | null => {
@@ -274,6 +277,7 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
   };
 
   for (const found0 of classes) {
+    if (!table) break; // (classes is empty without a table)
     const cls = preferredMember(table, found0, nodes, rotation);
     const { type, q } = classifyClass(table, cls, nodes, rotation);
     if (!allowed(type)) continue;
@@ -293,7 +297,7 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
         addSeed(normalised(combineBasis(cls.basis, random)));
       }
     }
-    const symmetryParts = mergeParts(parts, cls.subgroup.elements.map((e) => table.elements[e]), nodes);
+    const symmetryParts = mergeParts(parts, cls.subgroup.elements.map((e) => group[e]), nodes);
     for (const j of seedModes) {
       const basis = realBasisForMode(cls.basis, nodes, modes, j);
       const r0 = loneAmplitude(model.params.gain[j], model.params.loss[j]);
@@ -309,7 +313,7 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
   }
 
   const fullSeeds: { y: Float64Array; type: CandidateType; q?: number; mode: number }[] = [];
-  if (rotation < 0 && nodes > 1) {
+  if ((rotation < 0 || !table) && nodes > 1) {
     // The ring order is broken (a link, or detuning): the intact ring's waves, solved in full.
     for (const j of seedModes) {
       const r0 = loneAmplitude(model.params.gain[j], model.params.loss[j]);
@@ -333,7 +337,7 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
   return {
     nodes,
     modes,
-    group: { order: listed.elements.length, graphOrder: listed.graphOrder, truncated: listed.truncated, elements: listed.elements.map((g) => describeElement(g).text) },
+    group: { order: group.length, graphOrder: listed.graphOrder, truncated: listed.truncated, elements: group.map((g) => describeElement(g).text) },
     parts: parts.map((p) => Array.from(p)),
     classesExamined: classes.length,
     solves,
