@@ -23,10 +23,13 @@ export type EnvelopeGrid = 'parity' | number | TorusHarmonics;
  *   c1 = (-2 f(-h) - 3 f(0) + 6 f(h) - f(2h)) / (6 h),
  * has no truncation error; h = max(|Y|, 1) / (4 |u|) keeps its rounding near the best possible.
  *
- * Each evaluation also leaves health figures behind: the near-identity indicator
- * eps max|u| / max|Y| (the gap between the first-order reconstruction y = Y and the second-order
- * one y = Y + eps u, relative to the state) and the smallest divisor |m.omega| among the
- * harmonics that carry a non-zero coefficient. All work arrays are preallocated.
+ * u at the torus points comes from one kernel product of the samples (analysis and synthesis
+ * folded together), u at any other angle from one weighted sum of them.
+ *
+ * Health figures: `evaluate` leaves the near-identity indicator eps max|u| / max|Y| (the gap
+ * between the first-order reconstruction y = Y and the second-order one y = Y + eps u, relative
+ * to the state); `findCarriedDivisor` the smallest divisor |m.omega| among the harmonics that
+ * carry a non-zero coefficient. All work arrays are preallocated.
  */
 export class SecondOrderField {
   readonly field: SlowField;
