@@ -86,13 +86,17 @@ export function linePlot(o: PlotOptions): string {
   const clipId = `clip${Math.abs(hash(o.title))}`;
   parts.push(`<defs><clipPath id="${clipId}"><rect x="${MARGIN.left}" y="${MARGIN.top}" width="${plotW}" height="${plotH}"/></clipPath></defs>`);
 
-  // shaded intervals under everything
+  // shaded intervals under everything; labels step down a row when they would run into the previous one
+  const rowEnds: number[] = [];
   for (const band of o.bands ?? []) {
     const x0 = Math.max(MARGIN.left, px(band.from));
     const x1 = Math.min(MARGIN.left + plotW, px(band.to));
     if (!(x1 > x0 - 0.5)) continue;
     parts.push(`<rect x="${f(x0)}" y="${MARGIN.top}" width="${f(Math.max(1.5, x1 - x0))}" height="${plotH}" fill="${band.color}" fill-opacity="0.16"/>`);
-    parts.push(`<text x="${f(x0 + 2)}" y="${MARGIN.top + 11}" font-size="10" fill="#5a3a00">${esc(band.label)}</text>`);
+    let row = rowEnds.findIndex((end) => x0 + 2 >= end + 4);
+    if (row < 0) row = rowEnds.length < 4 ? rowEnds.length : rowEnds.indexOf(Math.min(...rowEnds));
+    rowEnds[row] = x0 + 2 + band.label.length * 5.6;
+    parts.push(`<text x="${f(x0 + 2)}" y="${MARGIN.top + 11 + row * 11}" font-size="10" fill="#5a3a00">${esc(band.label)}</text>`);
   }
 
   // grid and ticks

@@ -21,7 +21,7 @@ export interface Criteria {
   relockWithin: number;
   /** Largest allowed excursion of a neighbour phase difference from its pre-fault value (rad). */
   maxPhaseExcursion: number | null;
-  /** Largest allowed relative full-vs-guide divergence. */
+  /** Largest allowed growth of the relative full-vs-guide divergence over its value just before the fault. */
   maxDivergence: number | null;
   /** The prediction (guide, or a frame's own prediction) must agree on whether the pattern persists. */
   predictionMustAgree: boolean;

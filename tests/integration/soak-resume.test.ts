@@ -88,6 +88,10 @@ describe('a soak killed with SIGKILL and resumed', () => {
     expect(existsSync(join(killed, 'summary.json'))).toBe(false);
     const atKill = readSegments(join(killed, 'log'), 'soak');
     expect(atKill.records.some((r) => r.record.record === 'end')).toBe(false);
+    // a report of the interrupted soak says so
+    const partial = await cli(['report', killed]);
+    expect(partial.code).toBe(0);
+    expect(readFileSync(join(killed, 'report.html'), 'utf8')).toContain('NOT FINISHED');
     // and as if the kill had come in the middle of a write: a torn last line
     const segments = readdirSync(join(killed, 'log')).sort();
     appendFileSync(join(killed, 'log', segments.at(-1)!), '{"record":"soak-sample","tick":');
@@ -114,5 +118,11 @@ describe('a soak killed with SIGKILL and resumed', () => {
     expect(b).toEqual(a);
     // the kill really cut the log: the resumed run wrote into new segments
     expect(readdirSync(join(killed, 'log')).length).toBeGreaterThan(segments.length - 1);
+
+    // resuming a finished soak only rewrites its summary
+    const again = await cli(['soak', scenario, ...common, '--out', killed, '--resume']);
+    expect(again.code).toBe(first.code);
+    expect(JSON.parse(readFileSync(join(killed, 'summary.json'), 'utf8')).state).toEqual(reference.state);
+    expect(records(killed)).toEqual(a);
   });
 });

@@ -60,12 +60,18 @@ async function runCase(ratio: number) {
   const c = setUp(ratio);
   const result = await soak([c.scenario, '--campaign', c.campaign, '--until', String(c.until), '--out', c.out]);
   const summary = JSON.parse(readFileSync(join(c.out, 'summary.json'), 'utf8'));
-  return { ...result, summary, verdict: summary.verdicts[0] };
+  return { ...result, summary, verdict: summary.verdicts[0], out: c.out };
+}
+
+function report(dir: string): Promise<{ code: number; stdout: string }> {
+  return new Promise((resolve) => {
+    execFile('node', [bin, 'report', dir], { cwd: root, timeout: 60_000 }, (error, stdout) => resolve({ code: error ? ((error as { code?: number }).code ?? -1) : 0, stdout }));
+  });
 }
 
 describe('soak verdicts against the Adler locking limit', () => {
   test('dw = 1.6 K (beyond |dw| = K): the pattern is lost by a cycle slip, the verdict fails, exit code 1', async () => {
-    const { code, stdout, summary, verdict } = await runCase(1.6);
+    const { code, stdout, summary, verdict, out } = await runCase(1.6);
     expect(code).toBe(1);
     expect(JSON.parse(stdout)).toMatchObject({ pass: false, exitCode: 1 });
     expect(summary.pass).toBe(false);
@@ -84,6 +90,19 @@ describe('soak verdicts against the Adler locking limit', () => {
     expect(verdict.recovered).toBe(true);
     expect(verdict.timeToRelock.tau).toBeGreaterThan(0);
     expect(summary.state).toHaveLength(2);
+
+    // the report: one self-contained HTML file with the plots, the failed verdict and the caution
+    const written = await report(out);
+    expect(written.code).toBe(0);
+    const html = readFileSync(JSON.parse(written.stdout).report, 'utf8');
+    expect(html.startsWith('<!doctype html>')).toBe(true);
+    expect(html).not.toMatch(/<script|<link|src="http/);
+    expect((html.match(/<svg/g) ?? []).length).toBeGreaterThanOrEqual(4);
+    expect(html).toContain('slope -1/2: white FM');
+    expect(html).toContain('Neighbour phase differences');
+    expect(html).toContain('dw-1.6K');
+    expect(html).toContain('class="status fail">FAIL');
+    expect(html).toContain('Simulation does not replace qualification of real hardware. Timing equipment in telecom, power or navigation service follows its own standards and licensed practice.');
   });
 
   test('dw = 0.5 K (inside): the pattern persists, shifted to sin psi = 0.5, and the soak passes with exit code 0', async () => {

@@ -92,7 +92,7 @@ describe('fault verdicts', () => {
     const v = evaluate(strict, (t) => (t < 20 ? 0.4 : 0), (t) => (t > 20 && t < 40 ? 'unlocked' : LOCKED), 30, (t) => ({ divergence: t === 15 ? 0.2 : 0.01 }));
     expect(v.complete).toBe(false);
     expect(v.divergence.max).toBe(0.2);
-    expect(v.reasons).toEqual(['phase excursion 0.400 rad exceeds 0.3 rad', 'full-vs-guide divergence 0.200 exceeds 0.05']);
+    expect(v.reasons).toEqual(['phase excursion 0.400 rad exceeds 0.3 rad', 'full-vs-guide divergence grew by 0.190 (from 0.0100 to 0.200), more than 0.05']);
   });
 
   test('the prediction: a frame prediction made after the fault wins over the guide, and must agree when asked', () => {
