@@ -8,7 +8,6 @@ export {
   MAX_NODES,
   DEFAULT_NAME,
   DEFAULT_NOMINAL_FREQUENCY_HZ,
-  defaultStepsPerPeriod,
   DEFAULT_AVERAGING_GRID,
 } from './parse.js';
 export type { ScenarioJSON } from './parse.js';

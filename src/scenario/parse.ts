@@ -13,7 +13,8 @@
  * - `noise` defaults to {intensity 0, seed 1, detuningWalk 0}; when given, intensity and seed
  *   are required.
  * - `initial` defaults to {random: {seed 1, amplitude 0.1}}; `pattern.mode` defaults to 0.
- * - `integrator` defaults: stepsPerPeriod from defaultStepsPerPeriod(eps) (8 at eps = 1e-5, 56 at 1e-3), averagingGrid 8, and macroPeriods
+ * - `integrator` defaults: stepsPerPeriod from defaultStepsPerPeriod (src/integrate/default-steps.ts: 5 with
+ *   the fitted Adams method at eps <= 1e-4 where it applies, else RK4's rule, 56 at eps = 1e-3), averagingGrid 8, and macroPeriods
  *   max(1, round(1 / (2 pi 100 eps))) (1 when eps = 0), so one macro tick is about 1/100 of
  *   a slow time unit 1/eps.
  * - Engineering units (mapped in units.ts only): `nominalFrequencyHz` (default 10e6),
@@ -32,6 +33,7 @@ import type {
   Topology,
 } from './types.js';
 import { offsetPpmToOmega, ppmToDelta, qualityToLoss } from './units.js';
+import { defaultStepsPerPeriod } from '../integrate/default-steps.js';
 import { child, describeValue, fieldChecks, has, item, type Check, type JsonObject } from '../util/json-fields.js';
 
 export const MAX_NODES = 4096;
@@ -40,18 +42,6 @@ export const DEFAULT_NOMINAL_FREQUENCY_HZ = 10e6;
 export const DEFAULT_AVERAGING_GRID = 8;
 const DEFAULT_NOISE: NoiseSpec = { intensity: 0, seed: 1, detuningWalk: 0 };
 const DEFAULT_INITIAL_RANDOM = { seed: 1, amplitude: 0.1 };
-
-/**
- * Default micro steps per carrier period. RK4 in the rotating frame has a global error of about
- * 8.4e5 eps^2 / S^4 per 1000 periods (relative, measured against a 64-step reference and
- * against SciPy DOP853; the eps^2 h^4 law is RK4's leading term on y' = eps f(y, omega tau)).
- * S = 8 ceil(1700 sqrt(eps) / 8) keeps that below about 1e-7 per 1000 periods, so the default
- * follows a tight outside reference to 1e-6 over thousands of periods at any eps; S >= 8 also
- * integrates the field's harmonics (degree <= 4 in theta) exactly over a period.
- */
-export function defaultStepsPerPeriod(epsilon: number): number {
-  return Math.min(1024, 8 * Math.max(1, Math.ceil((1700 * Math.sqrt(epsilon)) / 8)));
-}
 
 /** Carrier periods per macro tick so that a tick lasts about 1/(100 eps) in tau. */
 export function defaultMacroPeriods(epsilon: number): number {
@@ -326,7 +316,8 @@ function parseIntegrator(value: unknown, epsilon: number): IntegratorSpec {
   const field = (key: string, check: Check, fallback: number): number =>
     numberField(obj, 'integrator', key, check, fallback);
   return {
-    stepsPerPeriod: field('stepsPerPeriod', intIn(4, 4096), defaultStepsPerPeriod(epsilon)),
+    // 0 stands for 'not given'; parseScenario fills in the default once the whole scenario is known
+    stepsPerPeriod: field('stepsPerPeriod', intIn(4, 4096), 0),
     macroPeriods: field('macroPeriods', intIn(1, Number.MAX_SAFE_INTEGER), defaultMacroPeriods(epsilon)),
     averagingGrid: field('averagingGrid', intIn(5, 64), DEFAULT_AVERAGING_GRID),
   };
@@ -366,7 +357,7 @@ function parseUnsourced(raw: unknown): Scenario {
     ? parseInitial(top.initial, nodes, modes.length)
     : { random: { ...DEFAULT_INITIAL_RANDOM } };
   const integrator = parseIntegrator(top.integrator, epsilon);
-  return {
+  const scenario: Scenario = {
     name,
     nodes,
     topology,
@@ -380,6 +371,8 @@ function parseUnsourced(raw: unknown): Scenario {
     integrator,
     units: { nominalFrequencyHz },
   };
+  if (integrator.stepsPerPeriod === 0) integrator.stepsPerPeriod = defaultStepsPerPeriod(scenario);
+  return scenario;
 }
 
 /** The dimensionless JSON form written by `scenarioToJSON` (edges as [from, to, weight]). */

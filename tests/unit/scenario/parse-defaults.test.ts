@@ -124,17 +124,31 @@ function deepFreeze<T>(value: T): T {
   return value;
 }
 
-describe('default micro step follows eps', () => {
+describe('default micro step follows eps and the method that applies', () => {
   test.each([
-    [1e-7, 8],
-    [1e-5, 8],
-    [1e-4, 24],
-    [1e-3, 56],
-    [1e-2, 176],
+    [1e-7, 5], // fitted Adams at 5 steps per period (eps <= 1e-4, one mode)
+    [1e-5, 5],
+    [1e-4, 5],
+    [1e-3, 56], // RK4: 8 ceil(1700 sqrt(1e-3) / 8) = 8 ceil(6.72)
+    [1e-2, 176], // 8 ceil(21.25)
     [0.5, 1024], // 8 ceil(150.3) = 1208, capped at 1024
   ])('eps = %s gives %s steps per period', (eps, expected) => {
-    // 8 ceil(1700 sqrt(eps) / 8), at least 8 and at most 1024 (arithmetic on the documented rule)
+    // arithmetic on the documented rule of src/integrate/default-steps.ts
     expect(parseScenario(minimal({ epsilon: eps })).integrator.stepsPerPeriod).toBe(expected);
+  });
+
+  test('two modes far apart in frequency keep RK4 even at small eps (the fitted method does not apply)', () => {
+    const far = minimal({
+      epsilon: 1e-5,
+      modes: [
+        { omega: 1, gain: 1, loss: 0 },
+        { omega: 1.37, gain: 1, loss: 0 },
+      ],
+    });
+    expect(parseScenario(far).integrator.stepsPerPeriod).toBe(8);
+    // the demo's spurious mode 1500 ppm away is close enough for the fitted method
+    const near = minimal({ epsilon: 1e-5, modes: [{ omega: 1, gain: 1, loss: 0 }, { omega: 1.0015, gain: 1, loss: 0 }] });
+    expect(parseScenario(near).integrator.stepsPerPeriod).toBe(5);
   });
 });
 
