@@ -141,7 +141,8 @@ export function setParameter(params: ModelParameters, p: ContinuationParameter, 
       return;
     case 'homotopy': {
       p.value = value;
-      const mix = (a: number, b: number): number => a + value * (b - a);
+      // exact end values at h = 0 and h = 1 (a + 1 (b - a) can miss b by a rounding)
+      const mix = (a: number, b: number): number => (value === 0 ? a : value === 1 ? b : a + value * (b - a));
       for (let k = 0; k < params.detuning.length; k++) params.detuning[k] = mix(p.from.detuning[k], p.to.detuning[k]);
       params.setLinkWeights(Array.from(p.from.linkWeight, (w, e) => Math.max(0, mix(w, p.to.linkWeight[e]))));
       params.strength = mix(p.from.strength, p.to.strength);
