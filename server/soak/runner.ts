@@ -457,8 +457,11 @@ function removeSegments(dir: string): void {
 
 function verdictLine(v: FaultVerdict, base: TimeBase): string {
   const at = (v.appliedAt * base.epsilon).toFixed(1);
-  const detail = v.persisted
-    ? `persisted, excursion ${v.maxPhaseExcursion.toFixed(3)} rad`
-    : `lost (${v.became.join(' -> ') || 'slip'}), ${v.recovered ? `re-locked after ${v.timeToRelock!.slow.toFixed(2)} slow units` : 'did not re-lock'}`;
+  const detail =
+    v.before === 'unlocked'
+      ? 'not judged'
+      : v.persisted
+        ? `persisted, excursion ${v.maxPhaseExcursion.toFixed(3)} rad`
+        : `lost (${v.became.join(' -> ') || 'slip'}), ${v.recovered ? `re-locked after ${v.timeToRelock!.slow.toFixed(2)} slow units` : 'did not re-lock'}`;
   return `soak: ${v.pass ? 'PASS' : 'FAIL'} ${v.id} (${v.action} at slow ${at}): ${detail}${v.pass ? '' : ` -- ${v.reasons.join('; ')}`}`;
 }
