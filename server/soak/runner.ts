@@ -9,6 +9,7 @@
  * Nothing in a record depends on the wall clock, so a resumed soak writes the same lines.
  */
 import { existsSync, mkdirSync, readFileSync, unlinkSync } from 'node:fs';
+import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import {
   CampaignRun,
@@ -89,7 +90,7 @@ async function soakLocked(options: SoakOptions, scenario: Scenario, campaign: Ca
   const until = options.until ?? point?.header.soak.until;
   if (until === undefined) throw new UsageError('soak needs --until TAU');
   if (!(until > 0) || !Number.isFinite(until)) throw new UsageError(`--until must be a positive number (got ${until})`);
-  if (point?.end) return finishedAlready(options.out, point);
+  if (point?.end) return finishedAlready(options.out, point, scenario, campaign);
   if (point && !point.checkpoint) {
     // killed before its first checkpoint: nothing to continue from, so start over
     removeSegments(soakLogDir(options.out));
@@ -114,9 +115,19 @@ function checkSameSoak(point: ResumePoint, scenario: Scenario, campaign: Campaig
 }
 
 /** Resuming a soak that had finished: rewrite its summary from the end record. */
-function finishedAlready(out: string, point: ResumePoint): SoakResult {
+function finishedAlready(out: string, point: ResumePoint, scenario: Scenario, campaign: Campaign): SoakResult {
   const result = point.end!.result;
-  const summary = { ...summaryHead(result), note: 'the soak had already finished; summary rewritten from its log', resumes: readResumes(out), ...result };
+  const soak = point.header.soak;
+  const summary = {
+    ...summaryHead(result),
+    scenario: scenario.name,
+    campaign: campaign.name,
+    until: soak.until,
+    timeBase: timeBaseOf(scenario, campaign, soak.macroStep, soak.stride),
+    note: 'the soak had already finished; summary rewritten from its log',
+    resumes: readResumes(out),
+    ...result,
+  };
   return { exitCode: result.exitCode, summaryPath: writeJsonAtomically(out, SUMMARY_FILE, summary), summary };
 }
 
@@ -124,8 +135,21 @@ function summaryHead(result: SoakOutcome): Record<string, unknown> {
   return { format: 'syncring-soak-summary', formatVersion: 1, pass: result.pass, exitCode: result.exitCode };
 }
 
+/** How times convert, for readers of the summary. */
+function timeBaseOf(scenario: Scenario, campaign: Campaign, macroStep: number, stride: number): Record<string, unknown> {
+  return {
+    epsilon: scenario.epsilon,
+    secondsPerTau: tauToSeconds(1, scenario.units.nominalFrequencyHz, scenario.modes[0].omega),
+    nominalFrequencyHz: scenario.units.nominalFrequencyHz,
+    campaignUnit: campaign.timeUnit,
+    tauPerCampaignUnit: campaign.tauPerUnit,
+    macroStep,
+    sampleStrideTicks: stride,
+  };
+}
+
 function readResumes(out: string): unknown[] {
-  const path = `${out}/${RESUMES_FILE}`;
+  const path = join(out, RESUMES_FILE);
   if (!existsSync(path)) return [];
   try {
     return JSON.parse(readFileSync(path, 'utf8')) as unknown[];
@@ -397,15 +421,7 @@ class SoakRunner {
       scenario: this.scenario.name,
       campaign: this.campaign.name,
       until: this.until,
-      timeBase: {
-        epsilon: this.base.epsilon,
-        secondsPerTau: this.base.secondsPerTau,
-        nominalFrequencyHz: this.scenario.units.nominalFrequencyHz,
-        campaignUnit: this.campaign.timeUnit,
-        tauPerCampaignUnit: this.campaign.tauPerUnit,
-        macroStep: s.macroStep,
-        sampleStrideTicks: this.stride,
-      },
+      timeBase: timeBaseOf(this.scenario, this.campaign, s.macroStep, this.stride),
       log: { dir: soakLogDir(this.options.out), segments: listSegments(soakLogDir(this.options.out), SEGMENT_PREFIX).length, records: this.log.nextSeq },
       resumes: readResumes(this.options.out),
       resumeCheck: { recordsCompared: this.discardedAtStart - this.discarded.size, mismatches: this.mismatches },
