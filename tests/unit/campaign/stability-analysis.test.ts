@@ -1,0 +1,62 @@
+import { describe, expect, test } from 'vitest';
+import { analyzeStability, type PhaseSample } from '../../../src/campaign/index.js';
+import { Random } from '../../../src/util/random.js';
+
+/** Units and definitions of the soak's stability report on synthetic phase records. */
+const f0 = 10e6;
+const tau0 = 1e-3; // seconds between samples
+
+function samples(count: number, phase: (i: number) => [number, number, number, number]): PhaseSample[] {
+  return Array.from({ length: count }, (_, i) => {
+    const [ensemble, node, uncoupledEnsemble, singlePart] = phase(i);
+    return { tick: i, tau: i, ensemble, node, uncoupledEnsemble, singlePart };
+  });
+}
+
+describe('stability analysis of a soak record', () => {
+  test('a constant offset: frequency offset in ppb, time error in ns, and 1 ppm = 86.4 ms per day', () => {
+    // phi = 2 pi f0 y t for a fractional offset y (definition of time error, ITU-T G.810)
+    const y = [1e-6, 2e-9, -5e-9, 0];
+    const report = analyzeStability(samples(200, (i) => y.map((v) => 2 * Math.PI * f0 * v * i * tau0) as [number, number, number, number]), tau0, f0)!;
+    const [ensemble, node, uncoupled, single] = report.series;
+    expect(ensemble.frequencyOffsetPpb).toBeCloseTo(1000, 6);
+    expect(ensemble.timeErrorPerDayUs).toBeCloseTo(86400, 3); // 1e-6 * 86400 s = 86.4 ms (arithmetic)
+    expect(node.frequencyOffsetPpb).toBeCloseTo(2, 9);
+    expect(node.timeErrorPerDayUs).toBeCloseTo(172.8, 6); // 2 ppb: 2 * 86.4 us per day
+    expect(uncoupled.finalTimeErrorNs).toBeCloseTo(-5e-9 * 199 * tau0 * 1e9, 9);
+    expect(single.maxTimeErrorNs).toBe(0);
+    expect(report.span).toBeCloseTo(199 * tau0, 15);
+    // a constant offset has no Allan deviation (second differences vanish; NIST SP 1065)
+    expect(ensemble.sweep.series.oadev!.deviation[0]).toBeLessThan(1e-15);
+    // but MTIE sees it: y m tau0 (ITU-T G.810)
+    expect(ensemble.sweep.series.mtie!.deviation[2]).toBeCloseTo(1e-6 * 4 * tau0, 12);
+  });
+
+  test('the mean of N independent white-FM parts against one part: ADEV ratio 1/sqrt(N) at every tau', () => {
+    // white FM = random-walk phase; the mean of N independent walks has 1/N of the variance (common practice)
+    const random = new Random(8);
+    const n = 16;
+    const walk = new Float64Array(n);
+    const record = samples(20000, () => {
+      for (let k = 0; k < n; k++) walk[k] += random.normal() * 1e-3;
+      const mean = walk.reduce((a, b) => a + b, 0) / n;
+      return [mean, walk[0], mean, walk[1]];
+    });
+    const report = analyzeStability(record, tau0, f0)!;
+    const ratio = report.ratioToSinglePart!;
+    for (const [i, m] of report.series[0].sweep.m.entries()) {
+      if (m > 64) break;
+      // at m <= 64 of 20000 samples each estimate scatters by about 3% (edf ~ 3N / 2m); 10% allowed
+      expect(Math.abs(ratio.uncoupledEnsemble[i] / 0.25 - 1)).toBeLessThan(0.1);
+    }
+    expect(report.series.find((s) => s.name === 'singlePart')!.oadevSlope).toBeCloseTo(-0.5, 1);
+  });
+
+  test('too few samples give no report; a stopped twin shortens only its own series', () => {
+    expect(analyzeStability(samples(10, () => [0, 0, 0, 0]), tau0, f0)).toBeNull();
+    const record = samples(100, (i) => [i * 1e-3, i * 2e-3, i < 50 ? i * 1e-3 : 0, i * 1e-3]).map((s, i) => (i >= 50 ? { ...s, uncoupledEnsemble: null, singlePart: null } : s));
+    const report = analyzeStability(record, tau0, f0)!;
+    expect(report.series.map((s) => [s.name, s.points])).toEqual([['ensemble', 100], ['node', 100], ['uncoupledEnsemble', 50], ['singlePart', 50]]);
+    expect(report.note).toMatch(/stopped after 50 samples/);
+  });
+});
