@@ -20,9 +20,9 @@ const RETURN_HYSTERESIS = 0.25;
  *
  * Where the mode is picked: at the start, after every perturbation batch (the perturbed state
  * and parameters are probed), whenever the envelope refuses a tick (small divisor or large
- * indicator: micro-stepping takes over that very tick from the unchanged state), and, in 'auto'
- * while micro steps run, about once per slow time unit (so a session returns to the envelope once
- * a kick has relaxed). Both integrators share the session's noise generator. Every switch is
+ * indicator: micro-stepping takes over that very tick from the unchanged state), and, while micro
+ * steps stand in for a requested or automatic envelope, about once per slow time unit (so a
+ * session returns to the envelope once a kick has relaxed). Both integrators share the session's noise generator. Every switch is
  * reported (a warning when the envelope falls back, a control event when it takes over).
  */
 export class IntegratorSwitch {
@@ -104,9 +104,9 @@ export class IntegratorSwitch {
     if (this.envelope) this.switchTo(this.decide(this.mode === 'micro' ? RETURN_HYSTERESIS : 1));
   }
 
-  /** After tick `tick`: in 'auto', micro steps look at the envelope again about once per slow time unit. */
+  /** After tick `tick`: micro steps that stand in for the envelope look at it again about once per slow time unit. */
   afterTick(tick: number): void {
-    if (this.request === 'auto' && this.mode === 'micro' && this.envelope && tick % this.recheckTicks === 0) {
+    if (this.mode === 'micro' && this.envelope && tick % this.recheckTicks === 0) {
       this.switchTo(this.decide(RETURN_HYSTERESIS));
     }
   }
