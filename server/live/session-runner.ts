@@ -73,7 +73,7 @@ export class SessionRunner {
       coupling: { strength: p.strength, reactive: p.reactive, dissipative: p.dissipative },
       noise: { intensity: p.noiseIntensity, detuningWalk: p.detuningWalk, seed: s.noise.seed },
       macroStep: this.session.macroStep,
-      integrator: { mode: 'micro', ...s.integrator },
+      integrator: { mode: this.session.integrator.mode, reason: this.session.integrator.reason, ...s.integrator },
       status: this.status,
       speed: this.speed,
       warnings: this.session.warnings.map((w) => w.message),

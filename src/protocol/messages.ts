@@ -43,7 +43,8 @@ export interface SessionInfo {
   coupling: { strength: number; reactive: number; dissipative: number };
   noise: { intensity: number; detuningWalk: number; seed: number };
   macroStep: number;
-  integrator: { mode: 'micro'; stepsPerPeriod: number; macroPeriods: number; averagingGrid: number };
+  /** mode: which full-system integrator runs now, and why (the envelope is chosen where it is trusted and pays). */
+  integrator: { mode: 'micro' | 'envelope'; reason: string; stepsPerPeriod: number; macroPeriods: number; averagingGrid: number };
   status: RunStatus;
   speed: Speed;
   warnings: string[];

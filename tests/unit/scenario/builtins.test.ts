@@ -22,9 +22,9 @@ describe('built-in scenarios', () => {
     expect(s.units.nominalFrequencyHz).toBe(10e6);
     // hand arithmetic with the mapping of design.md section 2 and the Q definition (common practice):
     expect(s.modes[0]!.omega).toBe(1); // 0 ppm
-    expect(s.modes[0]!.loss).toBeCloseTo(0.5, 14); // 1 / (1e-5 * 2e5)
+    expect(s.modes[0]!.loss).toBeCloseTo(0.25, 14); // 1 / (1e-5 * 4e5)
     expect(s.modes[1]!.omega).toBeCloseTo(1.0015, 15); // 1500 ppm above mode 0
-    expect(s.modes[1]!.loss).toBeCloseTo(1.0015 / 1.5, 14); // 1.0015 / (1e-5 * 1.5e5)
+    expect(s.modes[1]!.loss).toBeCloseTo(1.0015 / 2.5, 14); // 1.0015 / (1e-5 * 2.5e5)
     expect(s.detuning[0]).toBeCloseTo(0.012, 14); // 0.12 ppm / 1e-5
     expect(s.detuning[3]).toBeCloseTo(-0.015, 14); // -0.15 ppm / 1e-5
     expect(s.noise).toEqual({ intensity: 1e-9, seed: 2026, detuningWalk: 0 });

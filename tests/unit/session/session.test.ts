@@ -149,7 +149,10 @@ describe('co-simulation session', () => {
         stepsPerPeriod: 8,
         macroPeriods: 3,
       }),
+      // the exact macro-step increments are under test, not the envelope's averaged diffusion
+      { integrator: 'micro' },
     );
+    expect(session.integrator.mode).toBe('micro');
     const periods = 30;
     const T = (periods * 2 * Math.PI) / omega;
     session.runUntil(T - 1e-9);

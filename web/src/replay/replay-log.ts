@@ -88,7 +88,7 @@ export class ReplayLog {
       coupling: { ...s.coupling },
       noise: { ...s.noise },
       macroStep: (s.integrator.macroPeriods * 2 * Math.PI) / s.modes[0].omega,
-      integrator: { mode: 'micro', ...s.integrator },
+      integrator: { mode: frame.mode ?? 'micro', reason: 'as recorded in the log', ...s.integrator },
       status: frame.status === 'halted' ? 'halted' : 'paused',
       speed: 1,
       warnings: nearResonances(s.modes.map((m) => m.omega), s.epsilon).map((w) => w.message),
