@@ -34,6 +34,7 @@ import { SOFTWARE_VERSION } from '../version.js';
 import { loadCampaign } from './campaign-file.js';
 import { RESUMES_FILE, STATUS_FILE, SUMMARY_FILE, finalOf, writeJsonAtomically } from './outputs.js';
 import { lockSoakDir } from './dir-lock.js';
+import { engineFingerprint } from './engine-fingerprint.js';
 import { findResumePoint, soakLogDir, type ResumePoint } from './resume.js';
 import { SEGMENT_PREFIX, type CheckpointLine, type SampleLine, type SoakHeader, type SoakOutcome } from './soak-records.js';
 
@@ -349,6 +350,7 @@ class SoakRunner {
       checkpointTicks: this.checkpointTicks,
       macroStep,
       uncoupledReference: this.campaign.stability.uncoupledReference,
+      engine: engineFingerprint(),
     };
     return {
       record: 'header',
@@ -372,7 +374,13 @@ class SoakRunner {
       discardedRecords: point.discarded.size,
       tornTailBytes: point.tornTailBytes,
     };
-    writeJsonAtomically(this.options.out, RESUMES_FILE, [...readResumes(this.options.out), entry]);
+    const engine = engineFingerprint();
+    const sameEngine = point.header.soak.engine === undefined || point.header.soak.engine === engine;
+    if (!sameEngine) {
+      this.notes.push(`resumed under other engine code (${engine}, started with ${point.header.soak.engine}): the part after tau ${cp.tau.toPrecision(8)} is not bit-identical to an uninterrupted run`);
+      this.say(`soak: warning: the engine code changed since this soak started; it continues, but not bit for bit`);
+    }
+    writeJsonAtomically(this.options.out, RESUMES_FILE, [...readResumes(this.options.out), { ...entry, engine, sameEngine }]);
     this.say(`soak: resuming ${this.options.out} from tau ${cp.tau.toPrecision(8)} (tick ${cp.tick}); ${point.discarded.size} later records will be written again${point.tornTailBytes ? `, a torn last line of ${point.tornTailBytes} bytes dropped` : ''}`);
   }
 

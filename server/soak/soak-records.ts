@@ -18,6 +18,8 @@ export interface SoakHeader {
   checkpointTicks: number;
   macroStep: number;
   uncoupledReference: boolean;
+  /** Hash of the engine code that started the soak (engine-fingerprint.ts). */
+  engine: string;
 }
 
 /**
