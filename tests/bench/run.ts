@@ -1,9 +1,14 @@
 /**
- * `npm run bench`: speed and accuracy of the full-system micro-step integrator.
+ * `npm run bench`: speed and accuracy of the full-system integrators, side by side in one run.
  *
- *   node dist/tests/bench/run.js [--json] [--steps=S]
+ *   node dist/tests/bench/run.js [--json] [--steps=S] [--sections=micro,envelope,c,scipy,stream]
+ *                                [--stream-seconds N] [--envelope-budget=SECONDS]
  *
- * Case of the issue: a two-way ring of N = 8 nodes, two modes (omega 1 and 1.0015, a spurious
+ * Sections (all by default; the micro stepper's speed and the fine reference are always measured,
+ * the others compare with them): micro (below), envelope (envelope.ts), c (a C -O3 RK4 yardstick,
+ * yardstick.ts), scipy (SciPy's DOP853, dop853.py), stream (50 WebSocket clients, streaming.ts).
+ *
+ * Micro section. Case of the issue: a two-way ring of N = 8 nodes, two modes (omega 1 and 1.0015, a spurious
  * mode 1500 ppm above the wanted one), eps = 1e-5. Figures, each beside its target:
  *  - the micro stepper as a session runs it (default method, S steps per period, macro ticks of
  *    defaultMacroPeriods(eps) periods): periods per wall second and the relative error of the
@@ -26,6 +31,7 @@ import { defaultMacroPeriods } from '../../src/scenario/index.js';
 import type { ModeState } from '../../src/scenario/types.js';
 import { makeScenario } from '../support/scenarios.js';
 import { OriginalRk4 } from './original-rk4.js';
+import { benchEnvelope } from './envelope.js';
 import { measureThroughput, relativeError, searchSteps, type StepSearch, type Throughput } from './measure.js';
 
 const TARGET_PERIODS_PER_SECOND = 300_000;
@@ -36,34 +42,66 @@ const SCALING_NODES = [8, 32, 128, 256];
 /** Per-node cost at any N may exceed the N = 256 figure by this factor and still count as linear. */
 const LINEAR_SLACK = 1.5;
 const TWO_PI = 2 * Math.PI;
+const ENVELOPE_OMEGA1 = 1.37;
+const ENVELOPE_EPSILONS = [1e-5, 1e-6, 1e-7];
+const ENVELOPE_REFERENCE_STEPS = 12;
+const TARGET_ENVELOPE_RATE = 1e7;
+const TARGET_ENVELOPE_ERROR = 1e-8;
 
-const args = process.argv.slice(2);
-const json = args.includes('--json');
-const stepsArg = args.find((a) => a.startsWith('--steps='));
-const microSteps = stepsArg ? Number(stepsArg.slice('--steps='.length)) : 5;
-for (const a of args) {
-  if (a !== '--json' && !a.startsWith('--steps=')) {
-    console.error(`bench: unknown argument '${a}' (expected --json or --steps=S)`);
-    process.exit(2);
-  }
+const SECTIONS = ['micro', 'envelope', 'c', 'scipy', 'stream'] as const;
+type Section = (typeof SECTIONS)[number];
+const USAGE = 'expected --json, --steps=S, --sections=LIST (of micro,envelope,c,scipy,stream), --stream-seconds N, --envelope-budget=SECONDS';
+
+/** `--name=value` or `--name value`; undefined when absent. */
+function option(args: string[], name: string): string | undefined {
+  const i = args.findIndex((a) => a === name || a.startsWith(`${name}=`));
+  if (i < 0) return undefined;
+  if (args[i] !== name) return args[i].slice(name.length + 1);
+  const value = args[i + 1];
+  if (value === undefined || value.startsWith('--')) fail(`${name} needs a value`);
+  args.splice(i + 1, 1);
+  return value;
 }
-if (!(Number.isInteger(microSteps) && microSteps >= 1)) {
-  console.error(`bench: --steps must be a positive integer (got '${stepsArg}')`);
+function fail(message: string): never {
+  console.error(`bench: ${message} (${USAGE})`);
   process.exit(2);
 }
+function positive(name: string, text: string | undefined, fallback: number, integer: boolean): number {
+  if (text === undefined) return fallback;
+  const value = Number(text);
+  if (!(value > 0 && Number.isFinite(value) && (!integer || Number.isInteger(value)))) fail(`${name} must be a positive ${integer ? 'integer' : 'number'} (got '${text}')`);
+  return value;
+}
 
-function ring(nodes: number) {
-  const scenario = makeScenario({
+const args = process.argv.slice(2);
+const microSteps = positive('--steps', option(args, '--steps'), 5, true);
+const streamSeconds = positive('--stream-seconds', option(args, '--stream-seconds'), 60, false);
+const envelopeBudget = positive('--envelope-budget', option(args, '--envelope-budget'), 60, false);
+const sectionsText = option(args, '--sections');
+const sections = new Set<Section>(sectionsText === undefined ? SECTIONS : (sectionsText.split(',') as Section[]));
+for (const name of sections) if (!SECTIONS.includes(name)) fail(`unknown section '${name}' in --sections`);
+const json = args.includes('--json');
+for (const a of args) if (a !== '--json' && !/^--(steps|stream-seconds|envelope-budget|sections)(=|$)/.test(a)) fail(`unknown argument '${a}'`);
+
+/** The bench's two-way ring (spurious mode at omega1; the envelope section moves it to 1.37, away from 1:1). */
+function ringScenario(nodes: number, epsilon = 1e-5, omega1 = 1.0015, macroPeriods?: number) {
+  return makeScenario({
     nodes,
     twoWay: true,
-    epsilon: 1e-5,
+    epsilon,
     modes: [
       { omega: 1, gain: 1, loss: 0.5 },
-      { omega: 1.0015, gain: 1, loss: 0.66 },
+      { omega: omega1, gain: 1, loss: 0.66 },
     ],
     coupling: { strength: 0.1, reactive: 0.2, dissipative: 1 },
     detuning: Array.from({ length: nodes }, (_, k) => [0.1, -0.2, 0.05, 0, 0.3, -0.1, 0.2, -0.3][k % 8]),
+    stepsPerPeriod: microSteps,
+    macroPeriods,
   });
+}
+
+function ring(nodes: number) {
+  const scenario = ringScenario(nodes);
   const params = new ModelParameters(scenario);
   return { params, start: initialRotatingState(scenario, params) };
 }
@@ -107,14 +145,15 @@ const microSpeed = measureThroughput(
 );
 
 // Rotating-frame RK4 at equal error.
-log('rotating-frame RK4 at equal error ...');
+const microSection = sections.has('micro');
+if (microSection) log('rotating-frame RK4 at equal error ...');
 const rk4Error = (steps: number) => {
   const s = new MicroStepper(params, start, steps, { method: 'rk4' });
   runTicks(s, ERROR_PERIODS);
   return relativeError(s.state, reference.state);
 };
-const rk4Search = searchSteps(rk4Error, microError, 12, 16);
-const rk4Speed = measureThroughput(
+const rk4Search = microSection ? searchSteps(rk4Error, microError, 12, 16) : null;
+const rk4Speed = rk4Search && measureThroughput(
   () => new MicroStepper(params, start, rk4Search.stepsPerPeriod, { method: 'rk4' }),
   (s, p) => s.advance(TWO_PI * p),
   macroPeriods,
@@ -123,7 +162,7 @@ const rk4Speed = measureThroughput(
 );
 
 // Plain RK4 in the original coordinates at equal error.
-log('original-coordinate RK4 at equal error (the slow part) ...');
+if (microSection) log('original-coordinate RK4 at equal error (the slow part) ...');
 const startOriginal = Float64Array.from(originalFromRotating(params, 0, start).flatMap((modes) => modes.flatMap((m) => [m.x, m.xdot])));
 function originalToRotating(z: Float64Array, tau: number): Float64Array {
   const state: ModeState[][] = [];
@@ -141,8 +180,8 @@ const originalError = (steps: number) => {
   originalSeconds = (performance.now() - t0) / 1000;
   return relativeError(originalToRotating(s.state, s.tau), reference.state);
 };
-const originalSearch = searchSteps(originalError, microError, 256, 512);
-const originalSpeed = measureThroughput(
+const originalSearch = microSection ? searchSteps(originalError, microError, 256, 512) : null;
+const originalSpeed = originalSearch && measureThroughput(
   () => new OriginalRk4(params, startOriginal, originalSearch.stepsPerPeriod),
   (s, p) => s.advance(TWO_PI * p),
   1,
@@ -151,8 +190,8 @@ const originalSpeed = measureThroughput(
 );
 
 // Cost per node.
-log('scaling with N ...');
-const scaling = SCALING_NODES.map((nodes) => {
+if (microSection) log('scaling with N ...');
+const scaling = (microSection ? SCALING_NODES : []).map((nodes) => {
   const ringN = ring(nodes);
   const speed = measureThroughput(
     () => new MicroStepper(ringN.params, ringN.start, microSteps),
@@ -164,7 +203,22 @@ const scaling = SCALING_NODES.map((nodes) => {
   return { nodes, nsPerPeriodPerNode: 1e9 / (speed.best * nodes), cpuNsPerPeriodPerNode: 1e9 / (speed.bestCpu * nodes), periodsPerSecond: speed };
 });
 // Judged on CPU time: wall time of short trials on a loaded machine says more about the load.
-const perNodeLargest = scaling[scaling.length - 1].cpuNsPerPeriodPerNode;
+const perNodeLargest = scaling.at(-1)?.cpuNsPerPeriodPerNode ?? Number.NaN;
+
+const notes: string[] = [];
+
+// Envelope mode (omega_1 = 1.37: the envelope needs the modes away from low-order resonances).
+const envelopeCases = sections.has('envelope')
+  ? benchEnvelope({
+      scenarioAt: (epsilon, periodsPerTick) => ringScenario(8, epsilon, ENVELOPE_OMEGA1, periodsPerTick),
+      epsilons: ENVELOPE_EPSILONS,
+      referenceSteps: ENVELOPE_REFERENCE_STEPS,
+      microBudgetSeconds: envelopeBudget,
+      trials: 3,
+      log,
+    })
+  : [];
+for (const c of envelopeCases) if (c.note) notes.push(`envelope at eps = ${c.epsilon}: ${c.note}`);
 
 const result = {
   machine: { node: process.version, cpus: availableParallelism(), loadAverage: loadavg().map((l) => Number(l.toFixed(2))) },
@@ -178,16 +232,46 @@ const result = {
     periodsPerSecond: microSpeed,
     targets: { periodsPerSecond: TARGET_PERIODS_PER_SECOND, relativeError: TARGET_ERROR },
   },
-  rotatingRk4: summary(rk4Search, rk4Speed, 4),
-  originalRk4: summary(originalSearch, originalSpeed, 4),
+  rotatingRk4: rk4Search && rk4Speed ? summary(rk4Search, rk4Speed, 4) : null,
+  originalRk4: originalSearch && originalSpeed ? summary(originalSearch, originalSpeed, 4) : null,
   scaling: scaling.map((s) => ({
     nodes: s.nodes,
     nsPerPeriodPerNode: s.nsPerPeriodPerNode,
     cpuNsPerPeriodPerNode: s.cpuNsPerPeriodPerNode,
     periodsPerSecond: s.periodsPerSecond.best,
   })),
+  envelope: envelopeCases.length
+    ? { omega1: ENVELOPE_OMEGA1, slowSpan: '10/eps', cases: envelopeCases, targets: { periodsPerSecondAt1e6: TARGET_ENVELOPE_RATE, relativeError: TARGET_ENVELOPE_ERROR } }
+    : null,
+  notes,
   seconds: (performance.now() - started) / 1000,
 };
+
+type Cells = [string, string, string, string];
+/** Table rows of the sections after the micro stepper's. */
+function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: (ok: boolean) => string): Cells[] {
+  const rows: Cells[] = [];
+  for (const c of envelopeCases) {
+    const atTarget = c.epsilon === 1e-6;
+    rows.push(
+      [`envelope mode, eps = ${c.epsilon}, omega_1 = ${ENVELOPE_OMEGA1}, to tau = 10/eps: effective periods per wall second`, n(c.periodsPerSecond), atTarget ? `>= ${n(TARGET_ENVELOPE_RATE)}` : '-', atTarget ? verdict(c.periodsPerSecond >= TARGET_ENVELOPE_RATE) : ''],
+      ['  per CPU second of this process', n(c.cpuPeriodsPerSecond), atTarget ? `>= ${n(TARGET_ENVELOPE_RATE)}` : '-', atTarget ? verdict(c.cpuPeriodsPerSecond >= TARGET_ENVELOPE_RATE) : ''],
+      [`  ticks in envelope mode (${c.macroPeriods} periods per tick) | slow evaluations | set-up`, `${c.ticksInEnvelope}/${c.ticks} | ${c.slowEvaluations} | ${(1000 * c.setupSeconds).toFixed(0)} ms`, `${c.ticks}/${c.ticks}`, verdict(c.ticksInEnvelope === c.ticks)],
+      c.relativeError === null
+        ? ['  full-state relative error against micro-stepping', 'not measured', `<= ${e(TARGET_ENVELOPE_ERROR)}`, '']
+        : ['  full-state relative error against micro-stepping', e(c.relativeError), `<= ${e(TARGET_ENVELOPE_ERROR)}`, verdict(c.relativeError <= TARGET_ENVELOPE_ERROR)],
+    );
+    if (c.referenceUncertainty !== null) {
+      // The reference's own error is not small against the envelope's: judge their sum.
+      const bound = c.relativeError! + c.referenceUncertainty;
+      rows.push(
+        [`  reference (RK4 ${ENVELOPE_REFERENCE_STEPS} and ${2 * ENVELOPE_REFERENCE_STEPS} steps, extrapolated, ${c.referenceSeconds!.toFixed(0)} s): error bound`, e(c.referenceUncertainty), '-', ''],
+        ['  envelope error + reference bound', e(bound), `<= ${e(TARGET_ENVELOPE_ERROR)}`, verdict(bound <= TARGET_ENVELOPE_ERROR)],
+      );
+    }
+  }
+  return rows;
+}
 
 function summary(search: StepSearch, speed: Throughput, evaluationsPerStep: number) {
   return {
@@ -209,32 +293,46 @@ if (json) {
   const e = (x: number) => x.toExponential(2);
   const n = (x: number) => Math.round(x).toLocaleString('en-US');
   const verdict = (ok: boolean) => (ok ? 'ok' : 'MISSED');
-  const rows: [string, string, string, string][] = [
+  type Row = [string, string, string, string];
+  const rows: Row[] = [
     [`micro stepper (${micro.method}, ${microSteps} steps/period): periods per wall second`, n(microSpeed.best), `>= ${n(TARGET_PERIODS_PER_SECOND)}`, verdict(microSpeed.best >= TARGET_PERIODS_PER_SECOND)],
     ['  periods per CPU second of this process', n(microSpeed.bestCpu), `>= ${n(TARGET_PERIODS_PER_SECOND)}`, verdict(microSpeed.bestCpu >= TARGET_PERIODS_PER_SECOND)],
     [`  relative error after ${ERROR_PERIODS} periods`, e(microError), `<= ${e(TARGET_ERROR)}`, verdict(microError <= TARGET_ERROR)],
     ['  field evaluations per period', microEvaluations.toFixed(2), '-', ''],
     [`reference (RK4 rotating frame, ${REFERENCE_STEPS} steps): own error`, e(referenceError), `< micro error / 10 = ${e(microError / 10)}`, verdict(referenceError < microError / 10)],
-    [`RK4 rotating frame at equal error: steps/period`, String(rk4Search.stepsPerPeriod), '-', ''],
-    ['  relative error', e(rk4Search.error), `<= ${e(microError)} (micro)`, verdict(rk4Search.error <= microError)],
-    ['  periods per second, wall | CPU', `${n(rk4Speed.best)} | ${n(rk4Speed.bestCpu)}`, '-', ''],
-    ['  micro / RK4 rotating, speed (CPU time) | evaluations', `${result.rotatingRk4.speedRatio.toFixed(1)}x | ${result.rotatingRk4.evaluationRatio.toFixed(1)}x`, '> 1', verdict(result.rotatingRk4.speedRatio > 1)],
-    [`RK4 original coordinates (x, x') at equal error: steps/period`, String(originalSearch.stepsPerPeriod), '-', ''],
-    ['  relative error', e(originalSearch.error), `<= ${e(microError)} (micro)`, verdict(originalSearch.error <= microError)],
-    ['  periods per second, wall | CPU', `${n(originalSpeed.best)} | ${n(originalSpeed.bestCpu)}`, '-', ''],
-    ['  micro / RK4 original, speed (CPU time) | evaluations', `${n(result.originalRk4.speedRatio)}x | ${n(result.originalRk4.evaluationRatio)}x`, '> 1', verdict(result.originalRk4.speedRatio > 1)],
+  ];
+  const rk4 = result.rotatingRk4;
+  if (rk4Search && rk4Speed && rk4) {
+    rows.push(
+      [`RK4 rotating frame at equal error: steps/period`, String(rk4Search.stepsPerPeriod), '-', ''],
+      ['  relative error', e(rk4Search.error), `<= ${e(microError)} (micro)`, verdict(rk4Search.error <= microError)],
+      ['  periods per second, wall | CPU', `${n(rk4Speed.best)} | ${n(rk4Speed.bestCpu)}`, '-', ''],
+      ['  micro / RK4 rotating, speed (CPU time) | evaluations', `${rk4.speedRatio.toFixed(1)}x | ${rk4.evaluationRatio.toFixed(1)}x`, '> 1', verdict(rk4.speedRatio > 1)],
+    );
+  }
+  const original = result.originalRk4;
+  if (originalSearch && originalSpeed && original) {
+    rows.push(
+      [`RK4 original coordinates (x, x') at equal error: steps/period`, String(originalSearch.stepsPerPeriod), '-', ''],
+      ['  relative error', e(originalSearch.error), `<= ${e(microError)} (micro)`, verdict(originalSearch.error <= microError)],
+      ['  periods per second, wall | CPU', `${n(originalSpeed.best)} | ${n(originalSpeed.bestCpu)}`, '-', ''],
+      ['  micro / RK4 original, speed (CPU time) | evaluations', `${n(original.speedRatio)}x | ${n(original.evaluationRatio)}x`, '> 1', verdict(original.speedRatio > 1)],
+    );
+  }
+  rows.push(
     ...scaling.map(
-      (s): [string, string, string, string] => [
+      (s): Row => [
         `time per period per node, N = ${s.nodes} (wall | CPU)`,
         `${s.nsPerPeriodPerNode.toFixed(0)} | ${s.cpuNsPerPeriodPerNode.toFixed(0)} ns`,
         `CPU <= ${LINEAR_SLACK} x N=${SCALING_NODES.at(-1)} (${(LINEAR_SLACK * perNodeLargest).toFixed(0)} ns)`,
         verdict(s.cpuNsPerPeriodPerNode <= LINEAR_SLACK * perNodeLargest),
       ],
     ),
-  ];
+  );
+  rows.push(...extraRows(e, n, verdict));
   const widths = [0, 1, 2].map((c) => Math.max(...rows.map((r) => r[c].length)));
   console.log('');
-  console.log(`syncring micro-step benchmark: N = 8 two-way ring, modes ${Array.from(params.omega).join(' and ')}, eps = ${params.epsilon}, macro tick ${macroPeriods} periods`);
+  console.log(`syncring benchmark (sections: ${[...sections].join(', ')}): N = 8 two-way ring, modes ${Array.from(params.omega).join(' and ')}, eps = ${params.epsilon}, macro tick ${macroPeriods} periods`);
   console.log(`node ${process.version}, ${result.machine.cpus} CPUs, load average ${result.machine.loadAverage.join(' ')} (best of several trials is shown)`);
   if (result.machine.loadAverage[0] > result.machine.cpus) {
     console.log('the machine is busier than its CPU count: wall-clock rates are depressed, the CPU-time rate is the fairer figure');
@@ -242,5 +340,6 @@ if (json) {
   console.log('');
   for (const r of rows) console.log(`${r[0].padEnd(widths[0])}  ${r[1].padStart(widths[1])}  ${r[2].padEnd(widths[2])}  ${r[3]}`);
   console.log('');
+  for (const note of notes) console.log(`note: ${note}`);
   console.log(`done in ${result.seconds.toFixed(1)} s`);
 }
