@@ -32,6 +32,7 @@ import type { ModeState } from '../../src/scenario/types.js';
 import { makeScenario } from '../support/scenarios.js';
 import { OriginalRk4 } from './original-rk4.js';
 import { benchEnvelope } from './envelope.js';
+import { compileYardstick } from './yardstick.js';
 import { measureThroughput, relativeError, searchSteps, type StepSearch, type Throughput } from './measure.js';
 
 const TARGET_PERIODS_PER_SECOND = 300_000;
@@ -47,6 +48,12 @@ const ENVELOPE_EPSILONS = [1e-5, 1e-6, 1e-7];
 const ENVELOPE_REFERENCE_STEPS = 12;
 const TARGET_ENVELOPE_RATE = 1e7;
 const TARGET_ENVELOPE_ERROR = 1e-8;
+const YARDSTICK_STEPS = 8;
+const YARDSTICK_TRIALS = 5;
+const YARDSTICK_TRIAL_SECONDS = 0.5;
+const TARGET_YARDSTICK_RATIO = 0.8;
+/** C and TypeScript RK4 differ only in rounding (libm, FMA contraction): ~1e-12 (from the brief). */
+const TARGET_AGREEMENT = 1e-12;
 
 const SECTIONS = ['micro', 'envelope', 'c', 'scipy', 'stream'] as const;
 type Section = (typeof SECTIONS)[number];
@@ -220,6 +227,51 @@ const envelopeCases = sections.has('envelope')
   : [];
 for (const c of envelopeCases) if (c.note) notes.push(`envelope at eps = ${c.epsilon}: ${c.note}`);
 
+// C yardstick: the same problem (N = 8, omega_1 = 1.0015, eps = 1e-5) in C -O3, RK4 at 8 steps.
+let yardstick: ReturnType<typeof benchYardstick> | null = null;
+function benchYardstick() {
+  const compiled = compileYardstick(params, start, YARDSTICK_STEPS);
+  if (typeof compiled === 'string') {
+    notes.push(compiled);
+    return null;
+  }
+  try {
+    log(`C yardstick (RK4 rotating frame, ${YARDSTICK_STEPS} steps per period, gcc -O3 -march=native) ...`);
+    // Same method, same step grid in TypeScript: the two must agree to rounding.
+    const check = compiled.run(ERROR_PERIODS, 1);
+    const twin = new MicroStepper(params, start, YARDSTICK_STEPS, { method: 'rk4' });
+    twin.advance(end);
+    const agreement = relativeError(Float64Array.from(check.state), twin.state);
+    const periods = Math.max(ERROR_PERIODS, Math.round(check.periodsPerSecond * YARDSTICK_TRIAL_SECONDS));
+    const speed = compiled.run(periods, YARDSTICK_TRIALS);
+    const sameMethodTs = measureThroughput(
+      () => new MicroStepper(params, start, YARDSTICK_STEPS, { method: 'rk4' }),
+      (s, p) => s.advance(TWO_PI * p),
+      macroPeriods,
+      5,
+      300,
+    );
+    return {
+      stepsPerPeriod: YARDSTICK_STEPS,
+      compile: 'gcc -O3 -march=native',
+      periods,
+      trials: YARDSTICK_TRIALS,
+      periodsPerSecond: speed.periodsPerSecond,
+      cpuPeriodsPerSecond: speed.cpuPeriodsPerSecond,
+      agreementWithTypeScriptRk4: agreement,
+      errorAfter1000Periods: relativeError(Float64Array.from(check.state), reference.state),
+      typeScriptRk4PeriodsPerSecond: sameMethodTs,
+      /** micro stepper (its default method) over C, wall and CPU */
+      speedRatio: microSpeed.best / speed.periodsPerSecond,
+      cpuSpeedRatio: microSpeed.bestCpu / speed.cpuPeriodsPerSecond,
+      targets: { speedRatio: TARGET_YARDSTICK_RATIO, agreement: TARGET_AGREEMENT },
+    };
+  } finally {
+    compiled.dispose();
+  }
+}
+if (sections.has('c')) yardstick = benchYardstick();
+
 const result = {
   machine: { node: process.version, cpus: availableParallelism(), loadAverage: loadavg().map((l) => Number(l.toFixed(2))) },
   case: { nodes: 8, topology: 'ring-two-way', modes: Array.from(params.omega), epsilon: params.epsilon, macroPeriods, errorPeriods: ERROR_PERIODS },
@@ -243,6 +295,7 @@ const result = {
   envelope: envelopeCases.length
     ? { omega1: ENVELOPE_OMEGA1, slowSpan: '10/eps', cases: envelopeCases, targets: { periodsPerSecondAt1e6: TARGET_ENVELOPE_RATE, relativeError: TARGET_ENVELOPE_ERROR } }
     : null,
+  cYardstick: yardstick,
   notes,
   seconds: (performance.now() - started) / 1000,
 };
@@ -269,6 +322,18 @@ function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: 
         ['  envelope error + reference bound', e(bound), `<= ${e(TARGET_ENVELOPE_ERROR)}`, verdict(bound <= TARGET_ENVELOPE_ERROR)],
       );
     }
+  }
+  if (yardstick) {
+    const y = yardstick;
+    rows.push(
+      [`C yardstick (RK4 rotating frame, ${y.stepsPerPeriod} steps, ${y.compile}): periods per wall second`, n(y.periodsPerSecond), '-', ''],
+      ['  periods per CPU second', n(y.cpuPeriodsPerSecond), '-', ''],
+      [`  relative error after ${ERROR_PERIODS} periods`, e(y.errorAfter1000Periods), '-', ''],
+      [`  agreement with the TypeScript RK4 at ${y.stepsPerPeriod} steps (same method) after ${ERROR_PERIODS} periods`, e(y.agreementWithTypeScriptRk4), `<= ${e(TARGET_AGREEMENT)}`, verdict(y.agreementWithTypeScriptRk4 <= TARGET_AGREEMENT)],
+      [`  TypeScript RK4 at ${y.stepsPerPeriod} steps (same method), periods per wall | CPU second`, `${n(y.typeScriptRk4PeriodsPerSecond.best)} | ${n(y.typeScriptRk4PeriodsPerSecond.bestCpu)}`, '-', ''],
+      ['  micro stepper / C yardstick, periods per wall second', `${y.speedRatio.toFixed(2)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.speedRatio >= TARGET_YARDSTICK_RATIO)],
+      ['  micro stepper / C yardstick, periods per CPU second', `${y.cpuSpeedRatio.toFixed(2)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.cpuSpeedRatio >= TARGET_YARDSTICK_RATIO)],
+    );
   }
   return rows;
 }
