@@ -33,6 +33,7 @@ import { makeScenario } from '../support/scenarios.js';
 import { OriginalRk4 } from './original-rk4.js';
 import { benchEnvelope } from './envelope.js';
 import { compileYardstick } from './yardstick.js';
+import { runDop853, scipyUnavailable, scipyVersion } from './scipy.js';
 import { measureThroughput, relativeError, searchSteps, type StepSearch, type Throughput } from './measure.js';
 
 const TARGET_PERIODS_PER_SECOND = 300_000;
@@ -54,6 +55,10 @@ const YARDSTICK_TRIAL_SECONDS = 0.5;
 const TARGET_YARDSTICK_RATIO = 0.8;
 /** C and TypeScript RK4 differ only in rounding (libm, FMA contraction): ~1e-12 (from the brief). */
 const TARGET_AGREEMENT = 1e-12;
+const SCIPY_TOLERANCES = [1e-10, 1e-11, 1e-12, 1e-13];
+/** Per tolerance tried; the whole SciPy section stays within about 4 x this. */
+const SCIPY_BUDGET_SECONDS = 5;
+const TARGET_SCIPY_RATIO = 1000;
 
 const SECTIONS = ['micro', 'envelope', 'c', 'scipy', 'stream'] as const;
 type Section = (typeof SECTIONS)[number];
@@ -272,6 +277,43 @@ function benchYardstick() {
 }
 if (sections.has('c')) yardstick = benchYardstick();
 
+// SciPy DOP853 in the original coordinates, tolerance tightened until it is as accurate as the
+// micro stepper over the same span (as many periods as fit in the budget, at most 1000).
+function benchScipy() {
+  const missing = scipyUnavailable();
+  if (missing) {
+    notes.push(missing);
+    return null;
+  }
+  const tried: { tolerance: number; periods: number; relativeError: number; microError: number; periodsPerSecond: number; cpuPeriodsPerSecond: number; evaluationsPerPeriod: number }[] = [];
+  for (const tolerance of SCIPY_TOLERANCES) {
+    log(`SciPy DOP853 at rtol = atol = ${tolerance} ...`);
+    const run = runDop853(params, startOriginal, tolerance, ERROR_PERIODS, SCIPY_BUDGET_SECONDS);
+    const tau = TWO_PI * run.periods;
+    const fine = new MicroStepper(params, start, REFERENCE_STEPS, { method: 'rk4' });
+    fine.advance(tau);
+    const same = new MicroStepper(params, start, microSteps);
+    runTicks(same, run.periods);
+    const entry = {
+      tolerance,
+      periods: run.periods,
+      relativeError: relativeError(originalToRotating(Float64Array.from(run.state), tau), fine.state),
+      microError: relativeError(same.state, fine.state),
+      periodsPerSecond: run.periods / run.wallSeconds,
+      cpuPeriodsPerSecond: run.periods / run.cpuSeconds,
+      evaluationsPerPeriod: run.evaluations / run.periods,
+    };
+    tried.push(entry);
+    if (entry.relativeError <= entry.microError) {
+      return { version: scipyVersion(), ...entry, reachedMicroAccuracy: true, speedRatio: microSpeed.best / entry.periodsPerSecond, cpuSpeedRatio: microSpeed.bestCpu / entry.cpuPeriodsPerSecond, tried, target: TARGET_SCIPY_RATIO };
+    }
+  }
+  const last = tried.at(-1)!;
+  notes.push(`SciPy DOP853 did not reach the micro stepper's accuracy at rtol ${last.tolerance} (error ${last.relativeError.toExponential(2)} against ${last.microError.toExponential(2)}); its ratio is shown at that tolerance`);
+  return { version: scipyVersion(), ...last, reachedMicroAccuracy: false, speedRatio: microSpeed.best / last.periodsPerSecond, cpuSpeedRatio: microSpeed.bestCpu / last.cpuPeriodsPerSecond, tried, target: TARGET_SCIPY_RATIO };
+}
+const scipy = sections.has('scipy') ? benchScipy() : null;
+
 const result = {
   machine: { node: process.version, cpus: availableParallelism(), loadAverage: loadavg().map((l) => Number(l.toFixed(2))) },
   case: { nodes: 8, topology: 'ring-two-way', modes: Array.from(params.omega), epsilon: params.epsilon, macroPeriods, errorPeriods: ERROR_PERIODS },
@@ -296,6 +338,7 @@ const result = {
     ? { omega1: ENVELOPE_OMEGA1, slowSpan: '10/eps', cases: envelopeCases, targets: { periodsPerSecondAt1e6: TARGET_ENVELOPE_RATE, relativeError: TARGET_ENVELOPE_ERROR } }
     : null,
   cYardstick: yardstick,
+  scipyDop853: scipy,
   notes,
   seconds: (performance.now() - started) / 1000,
 };
@@ -333,6 +376,14 @@ function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: 
       [`  TypeScript RK4 at ${y.stepsPerPeriod} steps (same method), periods per wall | CPU second`, `${n(y.typeScriptRk4PeriodsPerSecond.best)} | ${n(y.typeScriptRk4PeriodsPerSecond.bestCpu)}`, '-', ''],
       ['  micro stepper / C yardstick, periods per wall second', `${y.speedRatio.toFixed(2)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.speedRatio >= TARGET_YARDSTICK_RATIO)],
       ['  micro stepper / C yardstick, periods per CPU second', `${y.cpuSpeedRatio.toFixed(2)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.cpuSpeedRatio >= TARGET_YARDSTICK_RATIO)],
+    );
+  }
+  if (scipy) {
+    rows.push(
+      [`SciPy ${scipy.version} DOP853, original coordinates, rtol = atol = ${scipy.tolerance}: periods per wall | CPU second`, `${n(scipy.periodsPerSecond)} | ${n(scipy.cpuPeriodsPerSecond)}`, '-', ''],
+      [`  relative error after ${scipy.periods} periods (micro stepper over the same span)`, e(scipy.relativeError), `<= ${e(scipy.microError)} (micro)`, verdict(scipy.relativeError <= scipy.microError)],
+      ['  field evaluations per period', scipy.evaluationsPerPeriod.toFixed(0), '-', ''],
+      ['  micro stepper / SciPy DOP853, periods per wall | CPU second', `${n(scipy.speedRatio)}x | ${n(scipy.cpuSpeedRatio)}x`, `>= ${TARGET_SCIPY_RATIO}`, verdict(scipy.speedRatio >= TARGET_SCIPY_RATIO)],
     );
   }
   return rows;
