@@ -18,7 +18,7 @@
  * The continuation stops at the first of them in each direction, or at a bound of the parameter.
  */
 import { Matrix, solve } from 'ml-matrix';
-import { complementBasis } from './relative-equilibrium.js';
+import { complementBasis } from './orbit-complement.js';
 import { applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
 import { fieldJacobian, sortedEigenvalues, stabilityOf, solveLockedState, type LockedStability, type Verdict } from './locked-state.js';
 import type { GuideModel } from './guide-model.js';

@@ -7,7 +7,7 @@ import { ModelParameters } from '../model/parameters.js';
 import { TorusAverage } from '../guide/torus-average.js';
 import { SlowField } from '../model/slow-field.js';
 import type { Scenario } from '../scenario/types.js';
-import type { Field } from './relative-equilibrium.js';
+import type { Field } from './orbit-complement.js';
 import { couplingComponents } from './phase-orbits.js';
 import type { Accuracy } from './locked-state.js';
 

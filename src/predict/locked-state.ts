@@ -1,17 +1,17 @@
 /**
- * Locked states of the guiding system as relative equilibria, generalising
- * relative-equilibrium.ts in two ways the catalogue and the continuation need:
+ * Locked states of the guiding system as relative equilibria (the one solver for them: the
+ * catalogue, the continuation, the live predictor and the session's guide margin all use it):
  * - the unknowns may be restricted to a linear subspace y = B z (a fixed-point subspace of a
  *   spatio-temporal symmetry, which the averaged flow leaves invariant), so Newton works with
  *   fewer unknowns and cannot slide off into a less symmetric state;
  * - one rotation rate per phase generator (per mode and per connected part of the graph).
  * Equations: fbar(y) - sum_c Omega_c G_c y = 0 and one phase condition <G_c y0, y - y0> = 0 per
  * generator. Stability uses the Jacobian restricted to the orthogonal complement of the group
- * orbit's tangents G_c y (complementBasis of relative-equilibrium.ts), so the zero eigenvalues
+ * orbit's tangents G_c y (complementBasis in orbit-complement.ts), so the zero eigenvalues
  * forced by the phase symmetry are removed by construction.
  */
 import { EigenvalueDecomposition, Matrix, solve } from 'ml-matrix';
-import { complementBasis, type Field } from './relative-equilibrium.js';
+import { complementBasis, type Field } from './orbit-complement.js';
 import { activePhaseGenerators, applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
 
 export interface LockedState {

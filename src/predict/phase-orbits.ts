@@ -1,7 +1,7 @@
 /**
  * The continuous symmetries of the guiding system: a common phase shift of one mode's amplitudes
  * on one weakly connected part of the coupling graph (design section 3). On a connected graph
- * this is the one circle per mode that relative-equilibrium.ts uses; when broken links split the
+ * this is one circle per mode; when broken links split the
  * graph, each part keeps its own phase freedom (and its own locked frequency), and each of those
  * directions must be removed from the stability problem too, or a spurious zero eigenvalue
  * remains.

@@ -11,7 +11,8 @@ import { GuideSystem } from '../guide/guide.js';
 import { nearResonances, type ResonanceWarning } from '../guide/resonance.js';
 import { divergence, readObservables, type Divergence, type SystemObservables } from '../observe/amplitudes.js';
 import { graphAutomorphisms } from '../pattern/automorphisms.js';
-import { relativeEquilibriumStability, solveRelativeEquilibrium } from '../predict/relative-equilibrium.js';
+import { lockedStateStability, solveLockedState } from '../predict/locked-state.js';
+import { GuideModel } from '../predict/guide-model.js';
 import { LivePredictor, type LivePrediction, type LivePredictorState } from '../predict/live.js';
 import { applyPerturbation, describePerturbation, parsePerturbation, type Perturbation } from './perturbation.js';
 import { PatternTracker, type PatternReport } from './pattern-tracker.js';
@@ -412,11 +413,14 @@ export class CoSimulation {
     this.marginStale = false;
     this.margin = null;
     if (this.guide.state.length > MARGIN_SIZE_LIMIT) return null;
-    const field = (y: Float64Array, out: Float64Array) => this.guide.average.evaluate(y, out);
-    const eq = solveRelativeEquilibrium(field, this.guide.state, this.params.modes);
-    if (!eq.converged) return null;
-    const stability = relativeEquilibriumStability(field, eq, this.params.modes);
-    this.margin = { margin: stability.margin, rotation: eq.rotation };
+    // the same locked-state solver and stability as the catalogue, on the guide's own average
+    const model = new GuideModel(this.scenario, this.params);
+    const locked = solveLockedState(model.field, this.guide.state, model.modes, { parts: model.parts() });
+    if (!locked.converged) return null;
+    const stability = lockedStateStability(model.field, locked, model.modes, model.accuracy);
+    // the collective frequency shift per mode (of the first part carrying it)
+    const rotation = Array.from({ length: model.modes }, (_, j) => locked.rates[locked.generators.findIndex((g) => g.mode === j)] ?? 0);
+    this.margin = { margin: stability.margin, rotation };
     return this.margin;
   }
 }
