@@ -34,6 +34,9 @@ import { OriginalRk4 } from './original-rk4.js';
 import { benchEnvelope } from './envelope.js';
 import { compileYardstick } from './yardstick.js';
 import { runDop853, scipyUnavailable, scipyVersion } from './scipy.js';
+import { benchStreaming, type StreamingResult } from './streaming.js';
+import { existsSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
 import { measureThroughput, relativeError, searchSteps, type StepSearch, type Throughput } from './measure.js';
 
 const TARGET_PERIODS_PER_SECOND = 300_000;
@@ -59,6 +62,11 @@ const SCIPY_TOLERANCES = [1e-10, 1e-11, 1e-12, 1e-13];
 /** Per tolerance tried; the whole SciPy section stays within about 4 x this. */
 const SCIPY_BUDGET_SECONDS = 5;
 const TARGET_SCIPY_RATIO = 1000;
+const STREAM_CLIENTS = 50;
+const TARGET_FRAME_AGE_P99_MS = 100;
+const TARGET_MEMORY_GROWTH = 0.05;
+/** "No client able to slow another": the slowest client gets at least this share of the mean frame rate. */
+const TARGET_SLOWEST_SHARE = 0.9;
 
 const SECTIONS = ['micro', 'envelope', 'c', 'scipy', 'stream'] as const;
 type Section = (typeof SECTIONS)[number];
@@ -314,6 +322,18 @@ function benchScipy() {
 }
 const scipy = sections.has('scipy') ? benchScipy() : null;
 
+// Streaming: a real server process and 50 WebSocket clients on loopback (needs `npm run build`).
+let streaming: StreamingResult | null = null;
+if (sections.has('stream')) {
+  if (!existsSync(fileURLToPath(new URL('../../server/main.js', import.meta.url)))) {
+    notes.push('streaming skipped: dist/server/main.js is missing (run `npm run build` first)');
+  } else {
+    log(`streaming: ${STREAM_CLIENTS} WebSocket clients for ${streamSeconds} s ...`);
+    streaming = await benchStreaming({ clients: STREAM_CLIENTS, seconds: streamSeconds });
+    if (streamSeconds < 600) notes.push(`streaming measured over ${streamSeconds} s; the issue's memory figure is over 600 s (--stream-seconds 600)`);
+  }
+}
+
 const result = {
   machine: { node: process.version, cpus: availableParallelism(), loadAverage: loadavg().map((l) => Number(l.toFixed(2))) },
   case: { nodes: 8, topology: 'ring-two-way', modes: Array.from(params.omega), epsilon: params.epsilon, macroPeriods, errorPeriods: ERROR_PERIODS },
@@ -339,6 +359,7 @@ const result = {
     : null,
   cYardstick: yardstick,
   scipyDop853: scipy,
+  streaming: streaming && { ...streaming, targets: { frameAgeP99Ms: TARGET_FRAME_AGE_P99_MS, memoryGrowth: TARGET_MEMORY_GROWTH, slowestClientShare: TARGET_SLOWEST_SHARE } },
   notes,
   seconds: (performance.now() - started) / 1000,
 };
@@ -384,6 +405,16 @@ function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: 
       [`  relative error after ${scipy.periods} periods (micro stepper over the same span)`, e(scipy.relativeError), `<= ${e(scipy.microError)} (micro)`, verdict(scipy.relativeError <= scipy.microError)],
       ['  field evaluations per period', scipy.evaluationsPerPeriod.toFixed(0), '-', ''],
       ['  micro stepper / SciPy DOP853, periods per wall | CPU second', `${n(scipy.speedRatio)}x | ${n(scipy.cpuSpeedRatio)}x`, `>= ${TARGET_SCIPY_RATIO}`, verdict(scipy.speedRatio >= TARGET_SCIPY_RATIO)],
+    );
+  }
+  if (streaming) {
+    const st = streaming;
+    const share = st.slowestClientFramesPerSecond / st.framesPerClientPerSecond;
+    rows.push(
+      [`streaming, ${st.clients} WebSocket clients on loopback over ${st.seconds.toFixed(0)} s: server CPU share`, `${(100 * st.serverCpuShare).toFixed(0)} %`, '-', ''],
+      ['  frame age at the client, p50 | p99', `${st.frameAgeP50Ms.toFixed(0)} | ${st.frameAgeP99Ms.toFixed(0)} ms`, `p99 < ${TARGET_FRAME_AGE_P99_MS} ms`, verdict(st.frameAgeP99Ms < TARGET_FRAME_AGE_P99_MS)],
+      ['  frames per second per client, mean | slowest client', `${st.framesPerClientPerSecond.toFixed(1)} | ${st.slowestClientFramesPerSecond.toFixed(1)}`, `slowest >= ${TARGET_SLOWEST_SHARE} x mean`, verdict(share >= TARGET_SLOWEST_SHARE)],
+      ['  server resident memory, start -> end', `${st.rssStartMb.toFixed(0)} -> ${st.rssEndMb.toFixed(0)} MB (${(100 * st.memoryGrowth).toFixed(1)} %)`, `< ${100 * TARGET_MEMORY_GROWTH} %`, verdict(st.memoryGrowth < TARGET_MEMORY_GROWTH)],
     );
   }
   return rows;
