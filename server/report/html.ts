@@ -167,7 +167,7 @@ function stabilityPlots(d: ReportData): string {
   const at = ratio ? reliableIndex(st, ratio.ensemble) : null;
   const ratioNote = ratio && at !== null ? ` At tau = ${seconds(ratio.tau[at])} the array's ADEV is ${fmt(ratio.ensemble[at])} times the single part's (1/sqrt(N) = ${fmt(1 / Math.sqrt(nodesOf(d)))} for N = ${nodesOf(d)}).` : '';
   return [
-    figure(adevPlot, `Overlapping ADEV of the array output (mean phase of the coupled nodes), one node inside the array, the uncoupled ensemble average of the same parts, and a single free-running part (same noise, coupling 0). Dashed lines: reference slopes of the power-law noise types through the single part's first point. Samples every ${seconds(st.tau0)}; octave-spaced tau up to a third of the record.${ratioNote}`),
+    figure(adevPlot, `Overlapping ADEV of the array output (mean phase of the coupled nodes), one node inside the array, the uncoupled ensemble average of the same parts, and a single free-running part (same noise, coupling 0). Dashed lines: reference slopes of the power-law noise types through the single part's first point. Samples every ${seconds(st.tau0)}; octave-spaced tau up to a third of the record. The record includes the faults: a detuning step or a kick raises the deviations at the tau it spans, so the curves show noise and faults together.${ratioNote}`),
     figure(timePlot, 'TDEV = (tau / sqrt 3) MDEV and MTIE (largest peak-to-peak time error in any window of length tau), in ns. MTIE includes the frequency offset; TDEV does not.'),
   ].join('');
 }
