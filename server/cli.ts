@@ -6,7 +6,7 @@ const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson] [--mode micro|envelope|auto]
   syncring predict SCENARIO.json [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
                 PARAM: detuning:K | coupling | reactive | dissipative | link:A-B | edge:A-B
-  syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max]
+  syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max] [--soaks DIR]
   syncring soak SCENARIO.json --campaign CAMPAIGN.json --until TAU --out DIR [--resume] [--pace SLOW_UNITS_PER_SECOND]
                 [--segment-bytes BYTES] [--checkpoint-every TAU]
   syncring report DIR [--out FILE.html]
@@ -92,8 +92,8 @@ export async function main(argv: string[]): Promise<number> {
       }
       case 'serve': {
         const { serve } = await import('./main.js');
-        const parsed = parseArgs(rest, ['port', 'scenario', 'host', 'speed']);
-        onlyFlags(parsed, ['port', 'scenario', 'host', 'speed']);
+        const parsed = parseArgs(rest, ['port', 'scenario', 'host', 'speed', 'soaks']);
+        onlyFlags(parsed, ['port', 'scenario', 'host', 'speed', 'soaks']);
         const speed = parsed.flags.get('speed') === 'max' ? 'max' : numberFlag(parsed, 'speed');
         if (typeof speed === 'number' && !(speed > 0)) throw new UsageError(`--speed must be > 0 or "max" (got ${speed})`);
         const running = await serve({
@@ -101,6 +101,7 @@ export async function main(argv: string[]): Promise<number> {
           port: numberFlag(parsed, 'port'),
           scenario: parsed.flags.get('scenario') as string | undefined,
           host: parsed.flags.get('host') as string | undefined,
+          soaksDir: parsed.flags.get('soaks') as string | undefined,
         });
         const stop = () => void running.close().then(() => process.exit(0));
         process.once('SIGINT', stop);

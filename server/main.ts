@@ -6,7 +6,7 @@ import { resolve } from 'node:path';
 import type { Speed } from '../src/protocol/messages.js';
 import { LiveSession } from './live/live-session.js';
 import { Hub, type HubOptions } from './ws/hub.js';
-import { createApp } from './http/app.js';
+import { closeBackground, createApp } from './http/app.js';
 import { loadScenario, UsageError } from './scenario-file.js';
 import type { OriginPolicy } from './ws/origin.js';
 
@@ -21,6 +21,8 @@ export interface ServeOptions {
   token?: string;
   /** Folder for session logs; default ./logs; null for none. */
   logDir?: string | null;
+  /** Folder whose subfolders are soaks (`syncring soak --out`) listed in the dashboard; default ./soaks. */
+  soaksDir?: string;
   /** Slow-time units per second, or 'max'; default 2. */
   speed?: Speed;
   /** Do not print the URLs. */
@@ -52,13 +54,14 @@ export async function serve(options: ServeOptions = {}): Promise<RunningServer> 
   const token = options.token ?? process.env.SYNCRING_TOKEN ?? randomBytes(12).toString('base64url');
   const host = options.host ?? '127.0.0.1';
   const logDir = options.logDir === undefined ? resolve('logs') : options.logDir;
+  const soaksDir = resolve(options.soaksDir ?? 'soaks');
   const live = new LiveSession({ scenario, speed: options.speed ?? 2, logDir, frameRate: options.frameRate, thread: options.thread });
   await live.ready;
   live.on('log-error', (error: Error) => process.stderr.write(`syncring: ${error.message}\n`));
   let port = 0;
   const policy: OriginPolicy = { allowedHosts: [], allowedOrigins: options.allowedOrigins ?? [], anyHost: host === '0.0.0.0' || host === '::' };
   const hub = new Hub(live, { token, port: () => port, policy, ...options.limits });
-  const app = createApp(live, () => hub.viewers);
+  const app = createApp(live, () => hub.viewers, { soaksDir });
   const server: Server = createServer(app);
   server.on('upgrade', (request, socket, head) => hub.handleUpgrade(request, socket, head));
   server.on('clientError', (_error, socket) => socket.destroy());
@@ -85,6 +88,7 @@ export async function serve(options: ServeOptions = {}): Promise<RunningServer> 
         `  viewers:  ${url}\n` +
         `  operator: ${operatorUrl}\n` +
         (logDir ? `  session log: ${live.log?.path}\n` : '') +
+        `  soaks: ${soaksDir}\n` +
         'Simulation does not replace qualification of real hardware.\n',
     );
   }
@@ -92,6 +96,7 @@ export async function serve(options: ServeOptions = {}): Promise<RunningServer> 
   const close = () =>
     (closing ??= (async () => {
       await hub.close();
+      await closeBackground(app);
       await live.close();
       server.closeAllConnections?.();
       await new Promise<void>((r) => server.close(() => r()));

@@ -1,9 +1,11 @@
 import { existsSync } from 'node:fs';
-import { basename } from 'node:path';
+import { basename, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import express, { type Express, type NextFunction, type Request, type Response } from 'express';
 import { builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
 import type { LiveSession } from '../live/live-session.js';
+import { registerPredictionApi } from './prediction-api.js';
+import { registerSoakApi } from './soak-api.js';
 
 /**
  * Where `vite build` puts the dashboard: dist/web beside dist/server, also when the server runs
@@ -19,10 +21,15 @@ export const WEB_ROOT = fileURLToPath(
  *   GET /api/scenarios  the built-in scenarios
  *   GET /api/log        the current session log as an NDJSON download
  *   GET /api/health     liveness
+ *   GET /api/catalogue, /api/what-if   prediction on the live parameters (prediction-api.ts)
+ *   GET /api/soaks, /soaks/NAME/report.html   soak folders (soak-api.ts)
+ * `closeBackground(app)` stops the worker threads behind the slow endpoints.
  */
-export function createApp(live: LiveSession, viewers: () => number): Express {
+export function createApp(live: LiveSession, viewers: () => number, options: { soaksDir?: string } = {}): Express {
   const app = express();
   app.disable('x-powered-by');
+  const background: { close(): Promise<void> }[] = [];
+  app.locals.closeBackground = () => Promise.all(background.map((b) => b.close()));
   app.get('/api/health', (_req, res) => {
     res.json({ ok: true });
   });
@@ -45,6 +52,8 @@ export function createApp(live: LiveSession, viewers: () => number): Express {
       next(error);
     }
   });
+  background.push(registerPredictionApi(app, live));
+  background.push(registerSoakApi(app, options.soaksDir ?? resolve('soaks')));
   app.use('/api', (_req, res) => {
     res.status(404).json({ error: 'no such API endpoint' });
   });
@@ -59,4 +68,9 @@ export function createApp(live: LiveSession, viewers: () => number): Express {
     res.status(500).json({ error: error.message });
   });
   return app;
+}
+
+/** Stop the worker threads of the prediction and report endpoints (the server is closing). */
+export async function closeBackground(app: Express): Promise<void> {
+  await (app.locals.closeBackground as (() => Promise<unknown>) | undefined)?.();
 }

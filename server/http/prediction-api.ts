@@ -1,0 +1,146 @@
+import { createHash } from 'node:crypto';
+import type { Express, Request, Response } from 'express';
+import { ModelParameters } from '../../src/model/parameters.js';
+import { parameterFingerprint } from '../../src/predict/guide-model.js';
+import { CONTINUATION_SYNTAX, parseContinuationParameter } from '../../src/predict/continuation-parameter.js';
+import { parseScenario, type ScenarioJSON } from '../../src/scenario/parse.js';
+import type { SessionInfo } from '../../src/protocol/messages.js';
+import type { LiveSession } from '../live/live-session.js';
+import type { PredictionRequest } from './prediction-worker.js';
+import { BackgroundWorker, WorkerRequestError, compiledHttpWorker } from './worker-client.js';
+
+/**
+ * Prediction for the dashboard, always on a copy of the live parameters (never the live run):
+ *   GET /api/catalogue  the locked patterns of the guiding system for the live detuning, link
+ *                       weights and coupling, with their stability (`syncring predict`'s JSON)
+ *   GET /api/what-if?param=PARAM[&pattern=INDEX][&range=MIN:MAX][&maxSteps=N]
+ *                       one pattern continued in one parameter, with the branch and its limits
+ * Both run in a worker thread (prediction-worker.ts) and are cached by the parameter set.
+ */
+
+/** Cached answers (catalogues and branches together); the oldest is dropped first. */
+const CACHE_SIZE = 24;
+
+/** The scenario as it stands now: the loaded one with the live detuning, link weights, coupling and noise. */
+export function liveScenarioJson(info: SessionInfo): ScenarioJSON {
+  const base = info.scenario as ScenarioJSON;
+  return {
+    ...base,
+    topology: { edges: info.links.map((l): [number, number, number] => [l.from, l.to, l.weight]) },
+    detuning: [...info.detuning],
+    coupling: { ...info.coupling },
+    noise: { ...base.noise, intensity: info.noise.intensity, detuningWalk: info.noise.detuningWalk },
+  };
+}
+
+/**
+ * Names the scenario's fixed parts (sizes, modes, integrator, initial state) and the parameters
+ * the locked states depend on (parameterFingerprint); noise is left out, it changes no prediction.
+ */
+export function predictionFingerprint(scenario: ScenarioJSON, params: ModelParameters): string {
+  const { noise: _noise, detuning: _detuning, coupling: _coupling, topology: _topology, ...fixed } = scenario;
+  return createHash('sha256').update(JSON.stringify(fixed)).update('\n').update(parameterFingerprint(params)).digest('hex').slice(0, 16);
+}
+
+/** predict's messages name command-line flags; the API names its query fields instead. */
+export function queryWording(message: string): string {
+  return message.replace(/--continue /g, 'param=').replace(/--pattern\b/g, 'pattern').replace(/--range\b/g, 'range').replace(/--max-steps\b/g, 'maxSteps');
+}
+
+class BadQuery extends Error {}
+
+function oneText(req: Request, name: string): string | undefined {
+  const value = req.query[name];
+  if (value === undefined) return undefined;
+  if (typeof value !== 'string') throw new BadQuery(`${name} must be given once, as text`);
+  return value;
+}
+
+function integerQuery(req: Request, name: string, min: number): number | undefined {
+  const text = oneText(req, name);
+  if (text === undefined) return undefined;
+  const value = Number(text);
+  if (text.trim() === '' || !Number.isInteger(value) || value < min) throw new BadQuery(`${name} must be an integer >= ${min} (got ${JSON.stringify(text)})`);
+  return value;
+}
+
+interface Current {
+  scenario: ScenarioJSON;
+  params: ModelParameters;
+  fingerprint: string;
+  info: SessionInfo;
+}
+
+export function registerPredictionApi(app: Express, live: LiveSession): { close(): Promise<void> } {
+  const worker = new BackgroundWorker<PredictionRequest, Record<string, unknown>>(compiledHttpWorker('prediction-worker'), 'prediction');
+  const cache = new Map<string, Promise<Record<string, unknown>>>();
+
+  const current = (): Current => {
+    const info = live.info();
+    const scenario = liveScenarioJson(info);
+    const params = new ModelParameters(parseScenario(scenario, 'live scenario'));
+    return { scenario, params, fingerprint: predictionFingerprint(scenario, params), info };
+  };
+
+  /** One computation per key: concurrent requests share it, failures are not kept. */
+  const cached = (key: string, compute: () => Promise<Record<string, unknown>>): { result: Promise<Record<string, unknown>>; fromCache: boolean } => {
+    const hit = cache.get(key);
+    if (hit) {
+      cache.delete(key);
+      cache.set(key, hit);
+      return { result: hit, fromCache: true };
+    }
+    const result = compute();
+    cache.set(key, result);
+    result.catch(() => cache.delete(key));
+    while (cache.size > CACHE_SIZE) cache.delete(cache.keys().next().value!);
+    return { result, fromCache: false };
+  };
+
+  const reply = async (res: Response, now: Current, key: string, args: PredictionRequest['args']) => {
+    const { result, fromCache } = cached(key, () => worker.request({ scenario: now.scenario, args }));
+    try {
+      const value = await result;
+      res.json({ fingerprint: now.fingerprint, fromCache, computedFor: computedFor(now.info), ...value });
+    } catch (error) {
+      if (error instanceof WorkerRequestError) res.status(error.status).json({ error: queryWording(error.message) });
+      else res.status(500).json({ error: (error as Error).message });
+    }
+  };
+
+  app.get('/api/catalogue', async (_req, res) => {
+    const now = current();
+    await reply(res, now, `catalogue|${now.fingerprint}`, {});
+  });
+
+  app.get('/api/what-if', async (req, res) => {
+    const now = current();
+    let args: PredictionRequest['args'];
+    try {
+      const param = oneText(req, 'param');
+      if (param === undefined || param.trim() === '') throw new BadQuery(`param is required: one of ${CONTINUATION_SYNTAX}`);
+      parseContinuationParameter(param, now.params);
+      args = { continueIn: param.trim(), pattern: integerQuery(req, 'pattern', 0), range: oneText(req, 'range'), maxSteps: integerQuery(req, 'maxSteps', 1) };
+    } catch (error) {
+      if (error instanceof BadQuery || error instanceof RangeError) {
+        res.status(400).json({ error: queryWording(error.message) });
+        return;
+      }
+      throw error;
+    }
+    await reply(res, now, `what-if|${now.fingerprint}|${JSON.stringify(args)}`, args);
+  });
+
+  return { close: () => worker.close() };
+}
+
+/** The live parameters a prediction was made for, so a reader can tell whether it is still current. */
+function computedFor(info: SessionInfo): Record<string, unknown> {
+  return {
+    scenarioName: info.scenarioName,
+    detuning: info.detuning,
+    detuningPpm: info.detuningPpm,
+    coupling: info.coupling,
+    links: info.links.map((l) => ({ from: l.from, to: l.to, weight: l.weight })),
+  };
+}
