@@ -123,19 +123,22 @@ export class MicroStepper {
 
   /** The fitted weights for step h if the fitted method can take it under the current parameters. */
   private fittedWeightsFor(h: number): FittedWeights | null {
-    // Spans of equal macro ticks differ in their last bits; the same weights serve them all.
-    if (!(Math.abs(h - this.checkedStep) <= SAME_STEP * h)) {
-      this.checked = fittedStructure(this.params, h);
-      this.checkedStep = h;
+    // Spans of equal macro ticks differ in their last bits. The weights are computed for h
+    // rounded to 12 significant digits (a relative change below 1e-12, far under the method's
+    // error), so they depend only on the step of this advance, never on which step happened to
+    // be seen first: a session restored from a checkpoint computes exactly the same weights.
+    const canonical = Number(h.toPrecision(12));
+    if (canonical !== this.checkedStep) {
+      this.checked = fittedStructure(this.params, canonical);
+      this.checkedStep = canonical;
     }
     const checked = this.checked!;
     if (!checked.weights) return null;
     // Parameters may have changed since the last check (stronger coupling, larger detuning).
-    return fittedStabilityProblem(this.params, h, checked.weightNorm) === null ? checked.weights : null;
+    return fittedStabilityProblem(this.params, canonical, checked.weightNorm) === null ? checked.weights : null;
   }
+
 }
 
 /** RK4 steps per period at least, when RK4 stands in for the fitted method. */
 const FALLBACK_RK4_STEPS = 16;
-/** Steps this close (relative) share weights: the fitted phase then errs by 1e-9, harmless. */
-const SAME_STEP = 1e-9;
