@@ -395,8 +395,8 @@ function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: 
       [`  relative error after ${ERROR_PERIODS} periods`, e(y.errorAfter1000Periods), '-', ''],
       [`  agreement with the TypeScript RK4 at ${y.stepsPerPeriod} steps (same method) after ${ERROR_PERIODS} periods`, e(y.agreementWithTypeScriptRk4), `<= ${e(TARGET_AGREEMENT)}`, verdict(y.agreementWithTypeScriptRk4 <= TARGET_AGREEMENT)],
       [`  TypeScript RK4 at ${y.stepsPerPeriod} steps (same method), periods per wall | CPU second`, `${n(y.typeScriptRk4PeriodsPerSecond.best)} | ${n(y.typeScriptRk4PeriodsPerSecond.bestCpu)}`, '-', ''],
-      ['  micro stepper / C yardstick, periods per wall second', `${y.speedRatio.toFixed(2)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.speedRatio >= TARGET_YARDSTICK_RATIO)],
-      ['  micro stepper / C yardstick, periods per CPU second', `${y.cpuSpeedRatio.toFixed(2)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.cpuSpeedRatio >= TARGET_YARDSTICK_RATIO)],
+      ['  micro stepper / C yardstick, periods per wall second', `${y.speedRatio.toFixed(3)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.speedRatio >= TARGET_YARDSTICK_RATIO)],
+      ['  micro stepper / C yardstick, periods per CPU second', `${y.cpuSpeedRatio.toFixed(3)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.cpuSpeedRatio >= TARGET_YARDSTICK_RATIO)],
     );
   }
   if (scipy) {
