@@ -19,6 +19,21 @@ import '../charts/phase-chart.js';
 import '../charts/amplitude-chart.js';
 import '../charts/lock-chart.js';
 import '../replay/replay-bar.js';
+import '../panels/prediction-view.js';
+import '../panels/soak-panel.js';
+
+/** The views of the dashboard; the live view is the default, the others are a hash away (#prediction, #soaks). */
+const VIEWS = [
+  { id: 'live', label: 'Live' },
+  { id: 'prediction', label: 'Prediction' },
+  { id: 'soaks', label: 'Soaks' },
+] as const;
+type View = (typeof VIEWS)[number]['id'];
+
+function viewFromHash(hash: string): View {
+  const id = hash.replace(/^#/, '');
+  return VIEWS.find((v) => v.id === id)?.id ?? 'live';
+}
 
 /**
  * The dashboard: lays the panels out and routes data. Live messages go into the live store;
@@ -34,6 +49,7 @@ export class SyncringApp extends LitElement {
     replay: { state: true },
     replayIndex: { state: true },
     lastCommand: { state: true },
+    view: { state: true },
   };
   static override styles = css`
     :host {
@@ -62,6 +78,43 @@ export class SyncringApp extends LitElement {
     sr-event-timeline {
       flex: 1 1 0;
       min-height: 180px;
+    }
+    nav.views {
+      display: flex;
+      gap: 4px;
+      padding: 6px 12px 0;
+      border-bottom: 1px solid #cfd7de;
+    }
+    nav.views button {
+      font: inherit;
+      font-size: 15px;
+      font-weight: 700;
+      letter-spacing: 0.03em;
+      color: ${unsafeCSS(MUTED)};
+      background: transparent;
+      border: 1px solid transparent;
+      border-bottom: 0;
+      border-radius: 8px 8px 0 0;
+      padding: 5px 18px 6px;
+      cursor: pointer;
+    }
+    nav.views button:hover {
+      color: #15202b;
+    }
+    nav.views button[aria-selected='true'] {
+      color: #15202b;
+      background: #fff;
+      border-color: #cfd7de;
+      margin-bottom: -1px;
+      box-shadow: inset 0 3px 0 #0b6e69;
+    }
+    main[hidden],
+    .view[hidden] {
+      display: none !important;
+    }
+    .view {
+      flex: 1;
+      min-height: 0;
     }
     main.replaying sr-ring-view,
     main.replaying sr-pattern-panel {
@@ -107,6 +160,7 @@ export class SyncringApp extends LitElement {
   declare replay: ReplayLog | null;
   declare replayIndex: number;
   declare lastCommand: string;
+  declare view: View;
 
   private readonly live = new FrameStore();
   private readonly replayStore = new FrameStore();
@@ -122,6 +176,7 @@ export class SyncringApp extends LitElement {
     this.replay = null;
     this.replayIndex = 0;
     this.lastCommand = '';
+    this.view = viewFromHash(location.hash);
     this.client = new ConnectionClient(socketUrl(location, tokenFrom(location.search)), {
       onMessage: (m) => this.receive(m),
       onState: (s) => (this.connection = s),
@@ -134,15 +189,24 @@ export class SyncringApp extends LitElement {
     this.addEventListener('sr-leave-replay', () => this.leaveReplay());
   }
 
+  private readonly followHash = () => (this.view = viewFromHash(location.hash));
+
+  private show(view: View): void {
+    this.view = view;
+    history.replaceState(null, '', view === 'live' ? location.pathname + location.search : `#${view}`);
+  }
+
   override connectedCallback(): void {
     super.connectedCallback();
     this.client.start();
     void this.loadScenarios();
+    window.addEventListener('hashchange', this.followHash);
   }
 
   override disconnectedCallback(): void {
     super.disconnectedCallback();
     this.client.stop();
+    window.removeEventListener('hashchange', this.followHash);
   }
 
   private get canEdit(): boolean {
@@ -253,7 +317,12 @@ export class SyncringApp extends LitElement {
       <sr-status-header .store=${store} .role=${this.role} .connection=${this.connection} .viewers=${this.viewers} ?replaying=${this.replay !== null}></sr-status-header>
       ${this.replay ? nothing : html`<sr-connection-banner .state=${this.connection}></sr-connection-banner>`}
       ${this.replay ? html`<sr-replay-bar .replay=${this.replay} .index=${this.replayIndex}></sr-replay-bar>` : nothing}
-      <main class=${this.replay ? 'replaying' : ''}>
+      <nav class="views" role="tablist" aria-label="views">
+        ${VIEWS.map((v) => html`<button role="tab" data-view=${v.id} aria-selected=${String(this.view === v.id)} @click=${() => this.show(v.id)}>${v.label}</button>`)}
+      </nav>
+      <sr-prediction-view class="view" .store=${this.live} ?active=${this.view === 'prediction'} ?hidden=${this.view !== 'prediction'}></sr-prediction-view>
+      <sr-soak-panel class="view" ?active=${this.view === 'soaks'} ?hidden=${this.view !== 'soaks'}></sr-soak-panel>
+      <main class=${this.replay ? 'replaying' : ''} ?hidden=${this.view !== 'live'}>
         <div class="column">
           <sr-ring-view .store=${store} ?canEdit=${canEdit} .readOnlyReason=${reason}></sr-ring-view>
           <sr-pattern-panel .store=${store}></sr-pattern-panel>

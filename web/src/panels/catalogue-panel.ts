@@ -1,0 +1,294 @@
+import { LitElement, css, html, nothing, unsafeCSS } from 'lit';
+import type { SessionInfo } from '../../../src/protocol/messages.js';
+import type { CatalogueEntry, CatalogueResponse } from '../data/prediction-data.js';
+import { formatHz, formatNumber, formatSeconds } from '../data/engineering.js';
+import { CAUTION, FAULT, GRID, LOCKED, MUTED, panelStyles } from '../theme.js';
+import { modeName } from './pattern-text.js';
+
+const KIND_WORDS: Record<string, string> = {
+  'in-phase': 'in-phase',
+  'anti-phase': 'anti-phase',
+  'rotating-wave': 'rotating wave',
+  'standing-wave': 'standing wave',
+  cluster: 'cluster state',
+};
+const SYMMETRY_SHOWN = 2;
+
+/**
+ * The catalogue of locked patterns the ring can hold under the live parameters: kind and wave
+ * number, symmetry, stability with its margin and time constant, amplitudes and the collective
+ * frequency shift. The row the live run is in is marked; clicking a row chooses the pattern a
+ * what-if continues (sr-select-pattern with its index).
+ */
+export class CataloguePanel extends LitElement {
+  static override properties = {
+    catalogue: { attribute: false },
+    session: { attribute: false },
+    loading: { type: Boolean },
+    error: { type: String },
+    live: { attribute: false },
+    selected: { type: Number },
+    stale: { type: Boolean },
+  };
+  static override styles = [
+    panelStyles,
+    css`
+      :host {
+        display: flex;
+        flex-direction: column;
+        min-height: 0;
+      }
+      .facts {
+        font-size: 15px;
+        color: #33404d;
+        margin: 0 0 8px;
+        line-height: 1.45;
+      }
+      .scroll {
+        overflow: auto;
+        flex: 1 1 auto;
+        min-height: 0;
+      }
+      table {
+        width: 100%;
+        border-collapse: collapse;
+        font-size: 17px;
+        font-variant-numeric: tabular-nums;
+      }
+      th {
+        text-align: left;
+        font-size: 13px;
+        font-weight: 700;
+        color: ${unsafeCSS(MUTED)};
+        padding: 4px 8px 6px;
+        border-bottom: 2px solid ${unsafeCSS(GRID)};
+        position: sticky;
+        top: 0;
+        background: #fff;
+        white-space: nowrap;
+      }
+      td {
+        padding: 8px 8px;
+        border-bottom: 1px solid #e6eaee;
+        vertical-align: top;
+      }
+      td.r,
+      th.r {
+        text-align: right;
+      }
+      tbody tr {
+        cursor: pointer;
+      }
+      tbody tr:hover {
+        background: #f4f7f9;
+      }
+      tr.selected {
+        background: #eef5f4;
+      }
+      tr.live td {
+        background: #e4f3ec;
+      }
+      tr.live td:first-child {
+        box-shadow: inset 6px 0 0 ${unsafeCSS(LOCKED)};
+      }
+      .kind {
+        font-weight: 700;
+        font-size: 18px;
+        white-space: nowrap;
+      }
+      .small {
+        font-size: 13px;
+        color: ${unsafeCSS(MUTED)};
+        display: block;
+        margin-top: 1px;
+      }
+      td.r,
+      td.r .small {
+        white-space: nowrap;
+      }
+      .badge {
+        display: inline-block;
+        font-size: 13px;
+        font-weight: 800;
+        letter-spacing: 0.06em;
+        padding: 2px 8px;
+        border-radius: 4px;
+        color: #fff;
+        white-space: nowrap;
+      }
+      .badge.stable {
+        background: ${unsafeCSS(LOCKED)};
+      }
+      .badge.unstable {
+        background: ${unsafeCSS(FAULT)};
+      }
+      .badge.marginal {
+        background: ${unsafeCSS(CAUTION)};
+      }
+      .badge.live {
+        background: #15202b;
+        margin-left: 6px;
+      }
+      .chip {
+        display: inline-block;
+        font-size: 13px;
+        background: #eef3f6;
+        border: 1px solid #d3dce3;
+        border-radius: 10px;
+        padding: 0 7px;
+        margin: 1px 3px 1px 0;
+        white-space: nowrap;
+      }
+      .state {
+        font-size: 16px;
+        padding: 16px 0;
+      }
+      .error {
+        color: ${unsafeCSS(FAULT)};
+        font-weight: 600;
+      }
+      .stale {
+        color: ${unsafeCSS(CAUTION)};
+        font-weight: 700;
+      }
+      ul.warnings {
+        margin: 6px 0 0;
+        padding-left: 18px;
+        color: ${unsafeCSS(CAUTION)};
+        font-size: 14px;
+      }
+    `,
+  ];
+
+  declare catalogue: CatalogueResponse | null;
+  declare session: SessionInfo | null;
+  declare loading: boolean;
+  declare error: string;
+  declare live: { index: number; near: boolean } | null;
+  declare selected: number;
+  declare stale: boolean;
+
+  constructor() {
+    super();
+    this.catalogue = null;
+    this.session = null;
+    this.loading = false;
+    this.error = '';
+    this.live = null;
+    this.selected = -1;
+    this.stale = false;
+  }
+
+  override render() {
+    const c = this.catalogue;
+    return html`
+      <h2>Locked patterns the ring can hold · live parameters</h2>
+      ${this.error ? html`<p class="state error" data-testid="catalogue-error">${this.error}</p>` : nothing}
+      ${!c ? html`<p class="state muted">${this.loading ? 'Computing the catalogue on a copy of the guiding system…' : 'No catalogue yet.'}</p>` : this.renderCatalogue(c)}
+    `;
+  }
+
+  private renderCatalogue(c: CatalogueResponse) {
+    const stable = c.patterns.filter((p) => p.stability === 'stable').length;
+    const live = this.live;
+    const broken = c.computedFor.links.filter((l) => l.weight === 0).length;
+    return html`
+      <p class="facts" data-testid="catalogue-facts">
+        <b>${c.patterns.length}</b> locked patterns, <b style="color:${LOCKED}">${stable} stable</b> ·
+        symmetry group of order ${c.group.order}${c.group.graphOrder !== c.group.order ? html` (the graph alone has ${c.group.graphOrder}; the detuning breaks the rest)` : nothing}
+        ${broken ? html` · ${broken} broken link${broken > 1 ? 's' : ''}` : nothing}
+        <br />
+        ${live
+          ? html`The live run is in <b>#${live.index}</b>${live.near ? '' : ' (nearest of its kind)'}.`
+          : html`<span class="muted">The live run is not locked to any listed pattern.</span>`}
+        ${c.initial.settled && c.initial.pattern !== null ? html` The scenario's start settles into #${c.initial.pattern}.` : nothing}
+        <span class="muted">Computed in ${formatNumber(c.wallSeconds, 2)} s${c.fromCache ? ' (cached)' : ''}${this.session ? `; shifts in Hz at ${formatHz(this.session.nominalFrequencyHz)}` : ''}.</span>
+        ${this.loading ? html` <span class="stale">Updating for the new parameters…</span>` : this.stale ? html` <span class="stale">The live parameters changed.</span>` : nothing}
+      </p>
+      <div class="scroll">
+        <table data-testid="catalogue">
+          <thead>
+            <tr>
+              <th>#</th>
+              <th>pattern</th>
+              <th>symmetry</th>
+              <th>stability</th>
+              <th class="r" title="largest real part of the eigenvalues with the symmetry zeros removed, per slow time unit ε·τ">margin /slow</th>
+              <th class="r" title="1 / |margin|: how fast a disturbance dies out (stable) or grows (unstable)">time constant</th>
+              <th class="r" title="mean over the nodes of the carrying mode's |a|, and its smallest and largest value">amplitude |a|</th>
+              <th class="r" title="collective frequency shift of the locked pattern">frequency shift</th>
+            </tr>
+          </thead>
+          <tbody>
+            ${c.patterns.map((p) => this.renderRow(p))}
+          </tbody>
+        </table>
+      </div>
+      ${c.warnings.length ? html`<ul class="warnings">${c.warnings.map((w) => html`<li>${w}</li>`)}</ul>` : nothing}
+    `;
+  }
+
+  private renderRow(p: CatalogueEntry) {
+    const isLive = this.live?.index === p.index;
+    const classes = [isLive ? 'live' : '', this.selected === p.index ? 'selected' : ''].join(' ');
+    const amplitudes = p.amplitudes.map((row) => row[p.mode]);
+    const shift = p.frequencyShiftPpm[p.mode];
+    const hz = this.session?.nominalFrequencyHz ?? 0;
+    return html`
+      <tr class=${classes} data-index=${p.index} data-kind=${p.kind} data-stability=${p.stability} ?data-live=${isLive} @click=${() => this.choose(p.index)}>
+        <td class="num">${p.index}</td>
+        <td>
+          <span class="kind">${KIND_WORDS[p.kind] ?? p.kind}${p.q !== undefined ? ` q = ${p.q}` : ''}</span>${isLive ? html`<span class="badge live">LIVE</span>` : nothing}
+          <span class="small">${modeName(p.mode)}${p.clusters ? ` · ${p.clusters.length} clusters` : ''}${seedNote(p)}</span>
+        </td>
+        <td>
+          ${p.symmetry.slice(0, SYMMETRY_SHOWN).map((s) => html`<span class="chip">${s.element}</span>`)}
+          ${p.symmetry.length > SYMMETRY_SHOWN ? html`<span class="chip">+${p.symmetry.length - SYMMETRY_SHOWN}</span>` : nothing}
+          <span class="small">${p.symmetry.length} element${p.symmetry.length === 1 ? '' : 's'}</span>
+        </td>
+        <td><span class="badge ${p.stability}">${p.stability.toUpperCase()}</span></td>
+        <td class="r" title=${`marginal band ± ${formatNumber(p.marginTolerance, 2)} per slow unit`}>${formatNumber(p.margin, 3)}</td>
+        <td class="r">
+          ${p.timeConstant
+            ? html`${formatSeconds(p.timeConstant.seconds)}${p.stability === 'unstable' ? ' growth' : ''}<span class="small">${formatNumber(p.timeConstant.slowTime, 3)} slow · ${formatNumber(p.timeConstant.periods, 2)} periods</span>`
+            : '—'}
+        </td>
+        <td class="r">${formatNumber(p.meanAmplitude[p.mode], 3)}<span class="small">${formatNumber(Math.min(...amplitudes), 3)} … ${formatNumber(Math.max(...amplitudes), 3)}</span></td>
+        <td class="r">
+          ${shift === null || shift === undefined ? '—' : html`${formatSignedPpm(shift)}<span class="small">${hz > 0 ? formatSignedHz(shift * 1e-6 * hz) : ''}</span>`}
+        </td>
+      </tr>
+    `;
+  }
+
+  private choose(index: number): void {
+    this.dispatchEvent(new CustomEvent<number>('sr-select-pattern', { detail: index, bubbles: true, composed: true }));
+  }
+}
+
+/**
+ * How the entry was found, when that says something: a pattern solved outside its symmetry class
+ * (the detuning or a broken link removed the exact symmetry) grew from another type's shape.
+ */
+function seedNote(p: CatalogueEntry): string {
+  const seed = p.candidate;
+  if (seed.exact) return '';
+  const sameShape = seed.type === p.kind && (seed.q ?? null) === (p.q ?? null);
+  return sameShape ? ' · symmetry approximate' : ` · grew from ${KIND_WORDS[seed.type] ?? seed.type}${seed.q !== undefined ? ` q = ${seed.q}` : ''}`;
+}
+
+function formatSignedPpm(ppm: number): string {
+  return `${ppm > 0 ? '+' : ''}${formatNumber(ppm, 3)} ppm`;
+}
+
+/** Hz with mHz / µHz for the tiny shifts of a weakly coupled board. */
+function formatSignedHz(hz: number): string {
+  const sign = hz > 0 ? '+' : hz < 0 ? '−' : '';
+  const a = Math.abs(hz);
+  if (a === 0) return '0 Hz';
+  if (a < 1e-3) return `${sign}${formatNumber(a * 1e6, 3)} µHz`;
+  if (a < 1) return `${sign}${formatNumber(a * 1e3, 3)} mHz`;
+  return `${sign}${formatNumber(a, 3)} Hz`;
+}
+
+customElements.define('sr-catalogue-panel', CataloguePanel);

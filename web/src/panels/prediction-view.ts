@@ -1,0 +1,212 @@
+import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from 'lit';
+import type { LivePrediction } from '../../../src/predict/live.js';
+import type { FrameStore } from '../data/frame-store.js';
+import { StoreController } from '../data/store-controller.js';
+import { fetchJson, livePatternIndex, predictionKey, type CatalogueResponse } from '../data/prediction-data.js';
+import { formatNumber, formatSeconds, marginTimeConstant } from '../data/engineering.js';
+import { FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
+import './catalogue-panel.js';
+import './what-if-panel.js';
+
+/** Wait this long after the live parameters change before asking for a new catalogue (drags of a slider, bursts of faults). */
+const REFETCH_DELAY_MS = 400;
+
+/**
+ * The Prediction tab: the catalogue for the live parameters (fetched again whenever they
+ * change, while the tab is shown), the live run's place in it, the live prediction after the
+ * last change, and the what-if control with its branch diagram. Reads the live store only.
+ */
+export class PredictionView extends LitElement {
+  static override properties = {
+    store: { attribute: false },
+    active: { type: Boolean },
+    catalogue: { state: true },
+    loading: { state: true },
+    error: { state: true },
+    selected: { state: true },
+  };
+  static override styles = [
+    css`
+      :host {
+        display: grid;
+        grid-template-columns: minmax(0, 52fr) minmax(0, 48fr);
+        gap: 12px;
+        padding: 12px;
+        min-height: 0;
+        box-sizing: border-box;
+      }
+      .column {
+        display: flex;
+        flex-direction: column;
+        gap: 12px;
+        min-height: 0;
+        min-width: 0;
+      }
+      sr-catalogue-panel {
+        flex: 1 1 auto;
+      }
+      sr-what-if-panel {
+        flex: 1 1 auto;
+      }
+      @media (max-width: 1250px) {
+        :host {
+          grid-template-columns: 1fr;
+        }
+      }
+    `,
+  ];
+
+  declare store: FrameStore | null;
+  declare active: boolean;
+  declare catalogue: CatalogueResponse | null;
+  declare loading: boolean;
+  declare error: string;
+  declare selected: number;
+
+  private requestedKey = '';
+  private timer: ReturnType<typeof setTimeout> | null = null;
+  private abort: AbortController | null = null;
+
+  constructor() {
+    super();
+    this.store = null;
+    this.active = false;
+    this.catalogue = null;
+    this.loading = false;
+    this.error = '';
+    this.selected = -1;
+    // Twice a second is enough for the live row and the prediction text; parameters are checked each time.
+    new StoreController(this, () => this.store, () => {
+      this.requestUpdate();
+      this.scheduleFetch();
+    }, 500);
+    this.addEventListener('sr-select-pattern', (e) => (this.selected = (e as CustomEvent<number>).detail));
+  }
+
+  override disconnectedCallback(): void {
+    super.disconnectedCallback();
+    if (this.timer !== null) clearTimeout(this.timer);
+    this.timer = null;
+    this.abort?.abort();
+  }
+
+  protected override updated(changed: PropertyValues): void {
+    if (changed.has('active')) this.scheduleFetch();
+  }
+
+  /** Ask for the catalogue when the tab is shown and the live parameters differ from the last request. */
+  private scheduleFetch(): void {
+    const key = predictionKey(this.store?.session ?? null);
+    if (!this.active || !key || key === this.requestedKey || this.timer !== null) return;
+    this.timer = setTimeout(() => {
+      this.timer = null;
+      void this.fetchCatalogue();
+    }, this.catalogue ? REFETCH_DELAY_MS : 0);
+  }
+
+  private async fetchCatalogue(): Promise<void> {
+    const key = predictionKey(this.store?.session ?? null);
+    if (!key || key === this.requestedKey) return;
+    this.requestedKey = key;
+    this.abort?.abort();
+    const abort = (this.abort = new AbortController());
+    this.loading = true;
+    try {
+      const catalogue = await fetchJson<CatalogueResponse>('/api/catalogue', abort.signal);
+      if (abort.signal.aborted) return;
+      if (catalogue.computedFor.scenarioName !== this.catalogue?.computedFor.scenarioName) this.selected = -1;
+      this.catalogue = catalogue;
+      this.error = '';
+    } catch (error) {
+      if (abort.signal.aborted) return;
+      // Not asked again for the same parameters (the answer would be the same); a change retries.
+      this.error = `The catalogue could not be computed: ${(error as Error).message}`;
+    } finally {
+      if (this.abort === abort) this.loading = false;
+      // The parameters may have moved on while this one was computed.
+      this.scheduleFetch();
+    }
+  }
+
+  override render() {
+    const session = this.store?.session ?? null;
+    const frame = this.store?.latest ?? null;
+    const live = this.catalogue ? livePatternIndex(this.catalogue.patterns, frame) : null;
+    const stale = this.catalogue !== null && predictionKey(session) !== this.requestedKey;
+    const prediction = (frame as { prediction?: LivePrediction | null } | null)?.prediction ?? null;
+    return html`
+      <div class="column">
+        <sr-catalogue-panel
+          .catalogue=${this.catalogue}
+          .session=${session}
+          ?loading=${this.loading}
+          .error=${this.error}
+          .live=${live}
+          .selected=${this.selected}
+          ?stale=${stale}
+        ></sr-catalogue-panel>
+        <sr-live-prediction .prediction=${prediction} .scales=${session ? { epsilon: session.epsilon, nominalFrequencyHz: session.nominalFrequencyHz, omega0: session.omega[0] } : null}></sr-live-prediction>
+      </div>
+      <div class="column">
+        <sr-what-if-panel .session=${session} .catalogue=${this.catalogue} .livePattern=${live?.index ?? -1} .selected=${this.selected}></sr-what-if-panel>
+      </div>
+    `;
+  }
+}
+
+/** The live predictor's verdict after the last change, beside the catalogue it can be checked against. */
+export class LivePredictionCard extends LitElement {
+  static override properties = { prediction: { attribute: false }, scales: { attribute: false } };
+  static override styles = [
+    panelStyles,
+    css`
+      p {
+        margin: 0;
+        font-size: 16px;
+        line-height: 1.45;
+      }
+      .persists {
+        color: ${unsafeCSS(LOCKED)};
+        font-weight: 800;
+      }
+      .lost {
+        color: ${unsafeCSS(FAULT)};
+        font-weight: 800;
+      }
+      .muted {
+        color: ${unsafeCSS(MUTED)};
+      }
+    `,
+  ];
+
+  declare prediction: LivePrediction | null;
+  declare scales: { epsilon: number; nominalFrequencyHz: number; omega0: number } | null;
+
+  constructor() {
+    super();
+    this.prediction = null;
+    this.scales = null;
+  }
+
+  override render() {
+    const p = this.prediction;
+    if (!p) return html`<h2>Live prediction</h2><p class="muted">No change yet: after each fault the guiding system predicts whether the live pattern persists.</p>`;
+    const next = p.pattern;
+    const constant = p.margin !== null && this.scales ? marginTimeConstant(p.margin, this.scales) : null;
+    return html`
+      <h2>Live prediction after the last change</h2>
+      <p data-testid="live-prediction">
+        <span class=${p.verdict === 'persists' ? 'persists' : p.verdict === 'lost' ? 'lost' : ''}>${p.verdict.toUpperCase()}</span>
+        at τ = ${formatNumber(p.tau, 4)}: ${p.message}
+        ${next
+          ? html`<br /><span class="muted"
+                >→ ${next.kind}${next.q !== undefined ? ` q = ${next.q}` : ''} on mode ${next.mode}${constant ? `, settles in ≈ ${formatSeconds(constant.seconds)}` : ''}</span
+              >`
+          : nothing}
+      </p>
+    `;
+  }
+}
+
+customElements.define('sr-live-prediction', LivePredictionCard);
+customElements.define('sr-prediction-view', PredictionView);

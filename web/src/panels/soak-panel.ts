@@ -1,0 +1,396 @@
+import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from 'lit';
+import type { SoakListing, VerdictRow } from '../../../server/http/soak-api.js';
+import { fetchJson } from '../data/prediction-data.js';
+import { apiUrl } from '../data/page-address.js';
+import { formatNumber, formatSeconds } from '../data/engineering.js';
+import { BRAND, CAUTION, FAULT, GRID, LOCKED, MUTED, panelStyles } from '../theme.js';
+
+/** How often the list is read again while the tab is shown (status.json is rewritten about once a second). */
+const POLL_MS = 2000;
+
+interface SoaksResponse {
+  dir: string;
+  soaks: SoakListing[];
+  note?: string;
+}
+
+/** The badge of a soak: running, its result once finished, or why it stopped. */
+function verdictOf(s: SoakListing): { text: string; colour: string } {
+  if (s.state === 'running') return { text: 'RUNNING', colour: BRAND };
+  if (s.state === 'interrupted') return { text: 'INTERRUPTED', colour: CAUTION };
+  if (s.state === 'halted') return { text: 'HALTED', colour: FAULT };
+  if (s.pass === true) return { text: 'PASS', colour: LOCKED };
+  if (s.pass === false) return { text: 'FAIL', colour: FAULT };
+  return { text: s.state.toUpperCase(), colour: MUTED };
+}
+
+/**
+ * The Soaks tab: every soak folder under the server's soaks folder, newest first, with its
+ * progress (slow time, fraction, ETA), faults judged and failed, and for the chosen one the
+ * verdict table, pass or fail and a link to its report. Polls GET /api/soaks while shown.
+ */
+export class SoakPanel extends LitElement {
+  static override properties = {
+    active: { type: Boolean },
+    listing: { state: true },
+    chosen: { state: true },
+    error: { state: true },
+  };
+  static override styles = [
+    panelStyles,
+    css`
+      :host {
+        display: grid;
+        grid-template-columns: minmax(340px, 28fr) minmax(0, 72fr);
+        gap: 12px;
+        padding: 12px;
+        min-height: 0;
+        background: transparent;
+        border: 0;
+        border-radius: 0;
+      }
+      @media (max-width: 1250px) {
+        :host {
+          grid-template-columns: 1fr;
+        }
+      }
+      .card {
+        background: #fff;
+        border: 1px solid ${unsafeCSS(GRID)};
+        border-radius: 10px;
+        padding: 10px 14px 12px;
+        min-width: 0;
+        min-height: 0;
+        overflow: auto;
+      }
+      .list {
+        display: flex;
+        flex-direction: column;
+        gap: 8px;
+      }
+      button.soak {
+        text-align: left;
+        background: #f7f9fb;
+        border: 1px solid #d3dce3;
+        border-radius: 8px;
+        padding: 8px 10px;
+        display: block;
+        width: 100%;
+      }
+      button.soak.chosen {
+        border: 2px solid ${unsafeCSS(BRAND)};
+        background: #eef6f5;
+      }
+      .name {
+        font-weight: 700;
+        font-size: 17px;
+        display: flex;
+        justify-content: space-between;
+        gap: 8px;
+        align-items: center;
+      }
+      .badge {
+        display: inline-block;
+        font-size: 13px;
+        font-weight: 800;
+        letter-spacing: 0.08em;
+        padding: 2px 8px;
+        border-radius: 4px;
+        color: #fff;
+      }
+      .badge.big {
+        font-size: 22px;
+        padding: 4px 14px;
+      }
+      .bar {
+        position: relative;
+        height: 10px;
+        border-radius: 5px;
+        background: #e3e8ec;
+        overflow: hidden;
+        margin: 6px 0 3px;
+      }
+      .bar.big {
+        height: 28px;
+        border-radius: 8px;
+      }
+      .bar span {
+        position: absolute;
+        inset: 0 auto 0 0;
+        border-radius: inherit;
+      }
+      .bar b {
+        position: absolute;
+        inset: 0;
+        display: flex;
+        align-items: center;
+        justify-content: center;
+        font-size: 16px;
+        color: #15202b;
+      }
+      .line {
+        font-size: 14px;
+        color: #33404d;
+        font-variant-numeric: tabular-nums;
+      }
+      .head {
+        display: flex;
+        align-items: center;
+        gap: 16px;
+        flex-wrap: wrap;
+      }
+      .head h3 {
+        margin: 0;
+        font-size: 24px;
+      }
+      .facts {
+        display: flex;
+        flex-wrap: wrap;
+        gap: 4px 26px;
+        font-size: 16px;
+        margin: 6px 0 10px;
+        font-variant-numeric: tabular-nums;
+      }
+      .facts b {
+        font-size: 19px;
+      }
+      a.report {
+        font-size: 16px;
+        font-weight: 700;
+        color: #fff;
+        background: ${unsafeCSS(BRAND)};
+        border-radius: 6px;
+        padding: 5px 12px;
+        text-decoration: none;
+      }
+      table {
+        width: 100%;
+        border-collapse: collapse;
+        font-size: 16px;
+        font-variant-numeric: tabular-nums;
+      }
+      th {
+        text-align: left;
+        font-size: 13px;
+        color: ${unsafeCSS(MUTED)};
+        padding: 4px 8px 6px;
+        border-bottom: 2px solid ${unsafeCSS(GRID)};
+        position: sticky;
+        top: 0;
+        background: #fff;
+        white-space: nowrap;
+      }
+      td {
+        padding: 6px 8px;
+        border-bottom: 1px solid #e6eaee;
+        vertical-align: top;
+      }
+      td.r,
+      th.r {
+        text-align: right;
+      }
+      .reasons {
+        font-size: 13px;
+        color: ${unsafeCSS(FAULT)};
+        display: block;
+      }
+      .small {
+        font-size: 13px;
+        color: ${unsafeCSS(MUTED)};
+      }
+      .yes {
+        color: ${unsafeCSS(LOCKED)};
+        font-weight: 700;
+      }
+      .no {
+        color: ${unsafeCSS(FAULT)};
+        font-weight: 700;
+      }
+      .empty {
+        font-size: 16px;
+        color: #33404d;
+        line-height: 1.5;
+      }
+      code {
+        background: #eef3f6;
+        padding: 1px 5px;
+        border-radius: 4px;
+        font-size: 14px;
+      }
+    `,
+  ];
+
+  declare active: boolean;
+  declare listing: SoaksResponse | null;
+  declare chosen: string;
+  declare error: string;
+
+  private timer: ReturnType<typeof setTimeout> | null = null;
+  private fetching = false;
+
+  constructor() {
+    super();
+    this.active = false;
+    this.listing = null;
+    this.chosen = '';
+    this.error = '';
+  }
+
+  override disconnectedCallback(): void {
+    super.disconnectedCallback();
+    this.stopPolling();
+  }
+
+  protected override updated(changed: PropertyValues): void {
+    if (!changed.has('active')) return;
+    if (this.active) void this.poll();
+    else this.stopPolling();
+  }
+
+  private stopPolling(): void {
+    if (this.timer !== null) clearTimeout(this.timer);
+    this.timer = null;
+  }
+
+  private async poll(): Promise<void> {
+    this.stopPolling();
+    if (!this.active || !this.isConnected || this.fetching) return;
+    this.fetching = true;
+    try {
+      this.listing = await fetchJson<SoaksResponse>('/api/soaks');
+      this.error = '';
+      const names = this.listing.soaks.map((s) => s.name);
+      if (!names.includes(this.chosen)) this.chosen = (this.listing.soaks.find((s) => s.state === 'running') ?? this.listing.soaks[0])?.name ?? '';
+    } catch (error) {
+      this.error = `Could not list the soaks: ${(error as Error).message}`;
+    } finally {
+      this.fetching = false;
+      if (this.active && this.isConnected) this.timer = setTimeout(() => void this.poll(), POLL_MS);
+    }
+  }
+
+  override render() {
+    const l = this.listing;
+    const chosen = l?.soaks.find((s) => s.name === this.chosen) ?? null;
+    return html`
+      <div class="card">
+        <h2>Soaks ${l ? html`· ${l.soaks.length}` : nothing}</h2>
+        ${this.error ? html`<p class="no">${this.error}</p>` : nothing}
+        ${l ? html`<div class="line small" data-testid="soaks-dir">folder ${l.dir}</div>` : html`<p class="muted">Reading the soaks folder…</p>`}
+        <div class="list" data-testid="soak-list">${l?.soaks.map((s) => this.renderItem(s))}</div>
+        ${l && l.soaks.length === 0
+          ? html`<p class="empty">
+              No soaks yet. Start one with<br /><code>npx syncring soak SCENARIO --campaign CAMPAIGN --until TAU --out ${l.dir}/NAME</code><br />and it shows up
+              here while it runs.
+            </p>`
+          : nothing}
+      </div>
+      <div class="card">${chosen ? this.renderDetail(chosen) : html`<h2>Soak</h2><p class="muted">Choose a soak on the left.</p>`}</div>
+    `;
+  }
+
+  private renderItem(s: SoakListing) {
+    const v = verdictOf(s);
+    const fraction = s.progress?.fraction ?? (s.state === 'finished' ? 1 : 0);
+    return html`
+      <button class="soak ${s.name === this.chosen ? 'chosen' : ''}" data-soak=${s.name} @click=${() => (this.chosen = s.name)}>
+        <div class="name"><span>${s.name}</span><span class="badge" style="background:${v.colour}">${v.text}</span></div>
+        <div class="bar"><span style="width:${(100 * fraction).toFixed(1)}%;background:${v.colour}"></span></div>
+        <div class="line">
+          ${formatNumber(100 * fraction, 3)} % · ${s.faults ? `${s.faults.judged} judged, ${s.faults.failed} failed` : `${s.verdictsTotal} verdicts`}
+          ${s.state === 'running' && s.progress ? html` · ETA ${s.progress.eta}` : nothing}
+        </div>
+      </button>
+    `;
+  }
+
+  private renderDetail(s: SoakListing) {
+    const v = verdictOf(s);
+    const p = s.progress;
+    const fraction = p?.fraction ?? (s.state === 'finished' ? 1 : 0);
+    const failed = s.verdicts.filter((r) => !r.pass).length;
+    return html`
+      <div class="head">
+        <h3 data-testid="soak-name">${s.name}</h3>
+        <span class="badge big" data-testid="soak-verdict" style="background:${v.colour}">${v.text}</span>
+        <a class="report" data-testid="soak-report" href=${apiUrl(s.report.url)} target="_blank" rel="noopener">Open report ↗</a>
+        <span class="small">${s.report.file ? 'report.html' : 'report made from the log on request'}</span>
+      </div>
+      ${s.scenario || s.campaign ? html`<div class="line">${s.scenario ?? ''}${s.campaign ? html` · campaign: ${s.campaign}` : nothing}</div>` : nothing}
+      <div class="bar big" data-testid="soak-progress"><span style="width:${(100 * fraction).toFixed(1)}%;background:${v.colour};opacity:0.8"></span><b>${formatNumber(100 * fraction, 3)} %</b></div>
+      <div class="facts">
+        ${p
+          ? html`<span>slow time <b>${formatNumber(p.slowTime, 4)}</b> / ${formatNumber(p.slowUntil, 4)}</span>
+              <span>ETA <b>${s.state === 'running' ? p.eta : '—'}</b></span>
+              <span>wall <b>${formatSeconds(p.wallSeconds)}</b></span>`
+          : nothing}
+        <span>faults <b>${s.faults?.judged ?? s.verdictsTotal}</b> judged${s.faults ? ` of ${s.faults.started} started` : ''}, <b class=${failed > 0 ? 'no' : 'yes'}>${s.faults?.failed ?? failed}</b> failed</span>
+        ${s.exitCode !== null ? html`<span>exit code <b>${s.exitCode}</b></span>` : nothing}
+      </div>
+      ${s.state === 'interrupted' ? html`<p class="line" style="color:${CAUTION};font-weight:700">The soak process is gone before the end: continue it with <code>syncring soak … --out ${s.name} --resume</code>.</p>` : nothing}
+      ${s.problems.length ? html`<p class="line no">${s.problems.join('; ')}</p>` : nothing}
+      ${s.verdicts.length ? this.renderVerdicts(s) : html`<p class="muted">No fault judged yet.</p>`}
+    `;
+  }
+
+  private renderVerdicts(s: SoakListing) {
+    const eps = s.epsilon ?? 0;
+    const slow = (tau: number | null | undefined) => (tau === null || tau === undefined ? '—' : eps > 0 ? formatNumber(tau * eps, 4) : formatNumber(tau, 4));
+    // A running soak's newest verdicts matter most; a finished one reads best in order.
+    const newestFirst = s.state === 'running';
+    const shown = newestFirst ? s.verdicts.slice().reverse() : s.verdicts;
+    return html`
+      <table data-testid="verdicts">
+        <thead>
+          <tr>
+            <th>fault</th>
+            <th class="r">at (${eps > 0 ? 'slow' : 'τ'})</th>
+            <th>before → after</th>
+            <th>persisted</th>
+            <th class="r">re-lock</th>
+            <th class="r">max phase excursion</th>
+            <th class="r">full − guide</th>
+            <th>prediction</th>
+            <th>verdict</th>
+          </tr>
+        </thead>
+        <tbody>
+          ${shown.map((r) => this.renderVerdict(r, slow))}
+        </tbody>
+      </table>
+      <p class="small">${newestFirst ? 'Newest first.' : 'In the order the faults were applied.'}${s.verdictsTotal > s.verdicts.length ? ` ${s.verdictsTotal - s.verdicts.length} older verdicts are in the report.` : ''}</p>
+    `;
+  }
+
+  /** A persisted pattern was never lost; a lost one re-locked after some time, or never. */
+  private relockText(r: Partial<VerdictRow>) {
+    if (r.persisted === undefined) return '—';
+    if (r.persisted) return html`<span class="small">never lost</span>`;
+    if (r.timeToRelock) return html`${formatSeconds(r.timeToRelock.seconds)}<span class="small"> ${formatNumber(r.timeToRelock.slow, 3)} slow</span>`;
+    return html`<span class="no">${r.complete === false ? 'not yet' : 'never'}</span>`;
+  }
+
+  private renderVerdict(r: Partial<VerdictRow> & { id: string; pass: boolean }, slow: (tau: number | null | undefined) => string) {
+    // status.json of an older soak may carry only id and pass.
+    const detailed = r.action !== undefined;
+    const yesNo = (value: boolean | null | undefined, yes = 'yes', no = 'no') => (value === null || value === undefined ? '—' : html`<span class=${value ? 'yes' : 'no'}>${value ? yes : no}</span>`);
+    return html`
+      <tr data-fault=${r.id} data-pass=${String(r.pass)}>
+        <td><b>${r.id}</b>${detailed ? html`<span class="small"> ${r.action}${r.source === 'random' ? ' (random)' : ''}</span>` : nothing}</td>
+        <td class="r">${detailed ? slow(r.appliedAt) : '—'}</td>
+        <td>${detailed ? html`${r.before} → ${r.final === r.before ? 'the same' : r.final}${!r.persisted && r.became && r.became.length ? html`<span class="small"> via ${r.became.join(', ')}</span>` : nothing}` : '—'}</td>
+        <td>${detailed ? yesNo(r.persisted) : '—'}</td>
+        <td class="r">${this.relockText(r)}</td>
+        <td class="r">${detailed ? `${formatNumber(r.maxPhaseExcursion, 3)} rad` : '—'}</td>
+        <td class="r">${r.divergence ? formatNumber(r.divergence.max, 3) : '—'}</td>
+        <td>${r.prediction ? yesNo(r.prediction.agreed, 'agreed', 'disagreed') : '—'}</td>
+        <td>
+          <span class="badge" style="background:${r.pass ? LOCKED : FAULT}">${r.pass ? 'PASS' : 'FAIL'}</span>
+          ${!r.pass && r.reasons?.length ? html`<span class="reasons">${r.reasons.join('; ')}</span>` : nothing}
+        </td>
+      </tr>
+    `;
+  }
+}
+
+customElements.define('sr-soak-panel', SoakPanel);
