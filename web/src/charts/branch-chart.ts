@@ -99,6 +99,9 @@ declare module 'chart.js' {
   }
 }
 
+/** Short names of the limits where a pattern is lost, for the labels on the chart. */
+const LIMIT_NAMES: Record<string, string> = { fold: 'fold', hopf: 'Hopf', 'branch-point': 'branch point' };
+
 /** Dashes by stability: stable solid, unstable dashed, marginal dotted. */
 const DASH = { stable: undefined, unstable: [9, 6], marginal: [2, 4] } as const;
 
@@ -308,7 +311,7 @@ export class BranchChart extends LitElement {
       if (!limit) continue;
       if (isLossLimit(limit)) {
         lossCount++;
-        lines.push({ x: value(limit), label: `${limit.kind} ${this.symbol} = ${formatNumber(value(limit), 4)}${unit}`, colour: FAULT, dash: [8, 5], row: 1 });
+        lines.push({ x: value(limit), label: `${LIMIT_NAMES[limit.kind]} ${this.symbol} = ${formatNumber(value(limit), 4)}${unit}`, colour: FAULT, dash: [8, 5], row: 1 });
         for (const s of series) {
           const p = end === 'first' ? s[0] : s[s.length - 1];
           if (p) dots.push({ x: p.x, y: p.y, colour: FAULT });
