@@ -26,17 +26,23 @@ export function parseJsonText(text: string, source: string): unknown {
   }
 }
 
+/** Built-ins of one kind that a command-line argument may name instead of a file. */
+export interface BuiltIns {
+  kind: string;
+  names: readonly string[];
+  raw(name: string): unknown;
+}
+
 /**
- * A scenario from a JSON file, or a built-in scenario by name when no such file exists.
- * Errors name the file and the offending field.
+ * The raw JSON of a file, or of a built-in by name when no such file exists. `label` is the
+ * source to name in errors ("FILE" or "built-in KIND NAME").
  */
-export function loadScenario(pathOrName: string): { scenario: Scenario; raw: unknown; source: string } {
+export function loadJsonInput(pathOrName: string, builtIns: BuiltIns): { raw: unknown; source: string; label: string } {
   if (!existsSync(pathOrName)) {
-    if (builtInScenarioNames.includes(pathOrName)) {
-      const raw = builtInScenarioRaw(pathOrName);
-      return { scenario: parseScenario(raw, `built-in scenario ${pathOrName}`), raw, source: `built-in:${pathOrName}` };
+    if (builtIns.names.includes(pathOrName)) {
+      return { raw: builtIns.raw(pathOrName), source: `built-in:${pathOrName}`, label: `built-in ${builtIns.kind} ${pathOrName}` };
     }
-    throw new UsageError(`${pathOrName}: no such file (built-in scenarios: ${builtInScenarioNames.join(', ')})`);
+    throw new UsageError(`${pathOrName}: no such file (built-in ${builtIns.kind}s: ${builtIns.names.join(', ')})`);
   }
   let text: string;
   try {
@@ -44,6 +50,14 @@ export function loadScenario(pathOrName: string): { scenario: Scenario; raw: unk
   } catch (error) {
     throw new UsageError(`${pathOrName}: cannot be read: ${(error as Error).message}`);
   }
-  const raw = parseJsonText(text, pathOrName);
-  return { scenario: parseScenario(raw, pathOrName), raw, source: pathOrName };
+  return { raw: parseJsonText(text, pathOrName), source: pathOrName, label: pathOrName };
+}
+
+/**
+ * A scenario from a JSON file, or a built-in scenario by name when no such file exists.
+ * Errors name the file and the offending field.
+ */
+export function loadScenario(pathOrName: string): { scenario: Scenario; raw: unknown; source: string } {
+  const { raw, source, label } = loadJsonInput(pathOrName, { kind: 'scenario', names: builtInScenarioNames, raw: builtInScenarioRaw });
+  return { scenario: parseScenario(raw, label), raw, source };
 }
