@@ -8,6 +8,7 @@ import { serve } from '../../server/main.js';
 import { CHROMIUM_PATH, chromiumAvailability, launchChromium } from './support/chromium.js';
 import { ensureDashboardBuilt, ensureServerCompiled, ROOT } from './support/build.js';
 import { collectPageErrors, numberIn, paintedPixels, textOf } from './support/dashboard-page.js';
+import { adlerPairScenario } from '../support/adler-pair.js';
 
 /**
  * The Prediction and Soaks views in a real Chromium against the real server on the demo board:
@@ -31,18 +32,7 @@ type Running = Awaited<ReturnType<typeof serve>>;
  */
 async function pairSoak(work: string, out: string): Promise<void> {
   const scenario = join(work, 'pair.json');
-  writeFileSync(scenario, JSON.stringify({
-    name: 'Adler pair',
-    nodes: 2,
-    topology: { edges: [[0, 1, 1], [1, 0, 1]] },
-    epsilon: 0.01,
-    modes: [{ omega: 1, gain: 1, loss: 0 }],
-    coupling: { strength: 0.05, reactive: 0, dissipative: 1 },
-    detuning: [0, 0],
-    noise: { intensity: 1e-7, seed: 11 },
-    initial: { pattern: { q: 0, amplitude: 2 } },
-    integrator: { stepsPerPeriod: 16 },
-  }));
+  writeFileSync(scenario, JSON.stringify(adlerPairScenario()));
   const campaign = join(work, 'campaign.json');
   writeFileSync(campaign, JSON.stringify({
     name: 'pair: inside and beyond the locking limit, a kick',

@@ -5,6 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { serve, type RunningServer } from '../../server/main.js';
 import { TestClient } from '../support/ws-client.js';
+import { adlerPairScenario } from '../support/adler-pair.js';
 
 /**
  * The dashboard's prediction and soak endpoints on a real server (port 0) running the demo board:
@@ -40,18 +41,7 @@ async function getJson<T>(url: string): Promise<{ status: number; body: T }> {
 /** A two-node soak (the pair of tests/integration/soak-verdicts.test.ts): runs in a few seconds. */
 function runPairSoak(dir: string, out: string): Promise<number> {
   const scenario = join(dir, 'pair.json');
-  writeFileSync(scenario, JSON.stringify({
-    name: 'Adler pair',
-    nodes: 2,
-    topology: { edges: [[0, 1, 1], [1, 0, 1]] },
-    epsilon: 0.01,
-    modes: [{ omega: 1, gain: 1, loss: 0 }],
-    coupling: { strength: 0.05, reactive: 0, dissipative: 1 },
-    detuning: [0, 0],
-    noise: { intensity: 1e-7, seed: 11 },
-    initial: { pattern: { q: 0, amplitude: 2 } },
-    integrator: { stepsPerPeriod: 16 },
-  }));
+  writeFileSync(scenario, JSON.stringify(adlerPairScenario()));
   const campaign = join(dir, 'campaign.json');
   // Delta_0 = 0.025 = kappa sigma / 2 is half the locking limit (Adler, Proc. IRE 34, 1946: locked
   // while |dw| <= K), applied once the pair has locked (a short lock window, 5 slow units).

@@ -3,6 +3,7 @@ import { execFile } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { adlerPairScenario } from '../support/adler-pair.js';
 
 /**
  * A fault beyond the predicted locking limit fails with the right verdict and a non-zero exit;
@@ -31,18 +32,7 @@ function soak(args: string[]): Promise<{ code: number; stdout: string; stderr: s
 function setUp(ratio: number) {
   const dir = mkdtempSync(join(tmpdir(), 'syncring-adler-'));
   const scenario = join(dir, 'pair.json');
-  writeFileSync(scenario, JSON.stringify({
-    name: 'Adler pair',
-    nodes: 2,
-    topology: { edges: [[0, 1, 1], [1, 0, 1]] },
-    epsilon: eps,
-    modes: [{ omega: 1, gain: 1, loss: 0 }],
-    coupling: { strength: kappaSigma, reactive: 0, dissipative: 1 },
-    detuning: [0, 0],
-    noise: { intensity: 1e-7, seed: 11 },
-    initial: { pattern: { q: 0, amplitude: 2 } },
-    integrator: { stepsPerPeriod: 16 },
-  }));
+  writeFileSync(scenario, JSON.stringify(adlerPairScenario(eps, kappaSigma)));
   // Delta_0 = ratio kappa sigma / omega gives dw = ratio K; the fault lasts one beat period of
   // the beyond case, so a slipping pair is back near psi = 0 when the detuning is restored
   const beat = (2 * Math.PI) / (Math.sqrt(1.6 * 1.6 - 1) * K);

@@ -5,7 +5,7 @@ import { branchSeries, branchX, isLossLimit, type BranchQuantity, type BranchXY,
 import { formatNumber, ppmOf } from '../data/engineering.js';
 import { FAULT, INK, MUTED, nodeColour } from '../theme.js';
 import { ChartController } from './chart-controller.js';
-import { axis, leftAxis } from './streaming-chart.js';
+import { axis, leftAxis, legendKeyStyles } from './streaming-chart.js';
 
 interface MarkerLine {
   x: number;
@@ -121,7 +121,9 @@ export class BranchChart extends LitElement {
     symbol: { type: String },
     epsilon: { type: Number },
   };
-  static override styles = css`
+  static override styles = [
+    legendKeyStyles,
+    css`
     :host {
       display: flex;
       flex-direction: column;
@@ -134,24 +136,6 @@ export class BranchChart extends LitElement {
       font-size: 14px;
       color: #33404d;
       margin: 2px 0 4px;
-    }
-    .key {
-      display: inline-flex;
-      align-items: center;
-      gap: 5px;
-      white-space: nowrap;
-    }
-    .swatch {
-      display: inline-block;
-      width: 24px;
-      height: 0;
-      border-top: 3px solid currentColor;
-    }
-    .swatch.dashed {
-      border-top-style: dashed;
-    }
-    .swatch.dotted {
-      border-top-style: dotted;
     }
     .frame {
       position: relative;
@@ -170,7 +154,8 @@ export class BranchChart extends LitElement {
       padding: 0 40px;
       pointer-events: none;
     }
-  `;
+  `,
+  ];
 
   declare continuation: Continuation | null;
   declare quantity: BranchQuantity;

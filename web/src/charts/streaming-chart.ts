@@ -10,10 +10,33 @@ import { ChartController } from './chart-controller.js';
  * to fill it from the store and what the legend says. Filling happens at most once per
  * animation frame, imperatively, followed by chart.update('none').
  */
+/** Legend keys with a line swatch (solid, dashed or dotted), shared by every chart's legend. */
+export const legendKeyStyles = css`
+  .key {
+    display: inline-flex;
+    align-items: center;
+    gap: 5px;
+    white-space: nowrap;
+  }
+  .swatch {
+    display: inline-block;
+    width: 22px;
+    height: 0;
+    border-top: 3px solid currentColor;
+  }
+  .swatch.dashed {
+    border-top-style: dashed;
+  }
+  .swatch.dotted {
+    border-top-style: dotted;
+  }
+`;
+
 export abstract class StreamingChart extends LitElement {
   static override properties: PropertyDeclarations = { store: { attribute: false } };
   static override styles = [
     panelStyles,
+    legendKeyStyles,
     css`
       :host {
         display: flex;
@@ -33,24 +56,6 @@ export abstract class StreamingChart extends LitElement {
         color: #33404d;
         margin-bottom: 4px;
         min-height: 18px;
-      }
-      .key {
-        display: inline-flex;
-        align-items: center;
-        gap: 5px;
-        white-space: nowrap;
-      }
-      .swatch {
-        display: inline-block;
-        width: 22px;
-        height: 0;
-        border-top: 3px solid currentColor;
-      }
-      .swatch.dashed {
-        border-top-style: dashed;
-      }
-      .swatch.dotted {
-        border-top-style: dotted;
       }
       .swatch.block {
         height: 10px;
