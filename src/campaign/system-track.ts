@@ -1,4 +1,4 @@
-import { wrapAngle } from '../util/angles.js';
+import { accumulateExcursion, SLIP_EXCURSION } from '../observe/phase-excursion.js';
 import type { SystemView } from './tick-view.js';
 
 /**
@@ -58,11 +58,7 @@ export function observeTrack(track: SystemTrackState, view: SystemView, tau: num
     track.lastDifferences = d.slice();
     track.offsets = d.map(() => 0);
   }
-  for (let k = 0; k < d.length; k++) {
-    track.offsets[k] += wrapAngle(d[k] - track.lastDifferences[k]);
-    track.lastDifferences[k] = d[k];
-    track.maxExcursion = Math.max(track.maxExcursion, Math.abs(track.offsets[k]));
-  }
+  track.maxExcursion = Math.max(track.maxExcursion, accumulateExcursion(track.lastDifferences, track.offsets, d));
   track.final = view.label;
   if (view.mode !== track.baselineMode) track.modeChanged = true;
   if (view.label !== track.baseline) {
@@ -91,7 +87,7 @@ export function closeTrack(track: SystemTrackState): void {
 }
 
 export function slipped(track: SystemTrackState): boolean {
-  return track.maxExcursion >= Math.PI;
+  return track.maxExcursion >= SLIP_EXCURSION;
 }
 
 /** The locked pattern persisted: locked before, no slip, no change of carrying mode, no other pattern once the fault is over. */

@@ -209,7 +209,7 @@ export class FaultEvaluation {
 
 function lossDescription(track: SystemTrackState): string {
   const parts: string[] = [];
-  if (track.maxExcursion >= Math.PI) parts.push(`a phase difference moved ${track.maxExcursion.toFixed(2)} rad (cycle slip)`);
+  if (slipped(track)) parts.push(`a phase difference moved ${track.maxExcursion.toFixed(2)} rad (cycle slip)`);
   if (track.modeChanged) parts.push('the carrying mode changed');
   if (track.lockedOther) parts.push(`settled into ${track.final !== 'unlocked' && track.final !== track.baseline ? track.final : track.became.filter((l) => l !== 'unlocked').join(', then ')}`);
   return parts.join('; ') || 'lost';

@@ -53,6 +53,18 @@ export function neighbourPhaseDifferences(phase: number[][], mode: number): numb
   return phase.map((_, k) => wrapAngle(phase[(k + 1) % n][mode] - phase[k][mode]));
 }
 
+/** The mode carrying most energy (sum over nodes of |a_kj|^2) in a rotating-frame state. */
+export function carryingMode(y: Float64Array, nodes: number, modes: number): number {
+  let best = 0;
+  let bestEnergy = -1;
+  for (let j = 0; j < modes; j++) {
+    let e = 0;
+    for (let k = 0; k < nodes; k++) e += y[2 * (k * modes + j)] ** 2 + y[2 * (k * modes + j) + 1] ** 2;
+    if (e > bestEnergy) [best, bestEnergy] = [j, e];
+  }
+  return best;
+}
+
 /** Real and imaginary parts of mode j's amplitudes (for the pattern classifier). */
 export function modeAmplitudes(y: Float64Array, nodes: number, modes: number, mode: number): { re: Float64Array; im: Float64Array } {
   const re = new Float64Array(nodes);

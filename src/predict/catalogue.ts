@@ -18,6 +18,7 @@ import { Matrix } from 'ml-matrix';
 import { graphAutomorphisms } from '../pattern/automorphisms.js';
 import { describeElement } from '../pattern/permutation.js';
 import { Random } from '../util/random.js';
+import { carryingMode } from '../observe/amplitudes.js';
 import type { GuideModel } from './guide-model.js';
 import {
   conjugateClass,
@@ -323,7 +324,7 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
       }
     }
   }
-  if (allowed('seed')) for (const y of options.seeds ?? []) fullSeeds.push({ y: Float64Array.from(y), type: 'seed', mode: dominantMode(y, nodes, modes) });
+  if (allowed('seed')) for (const y of options.seeds ?? []) fullSeeds.push({ y: Float64Array.from(y), type: 'seed', mode: carryingMode(y, nodes, modes) });
   for (const seed of fullSeeds) {
     const locked = solveIn(undefined, seed.y, parts);
     if (locked) {
@@ -353,17 +354,6 @@ function hasEnergy(locked: LockedState): boolean {
   let e = 0;
   for (let i = 0; i < locked.state.length; i++) e += locked.state[i] ** 2;
   return e > 1e-6 * (locked.state.length / 2) && locked.generators.length > 0;
-}
-
-function dominantMode(y: Float64Array, nodes: number, modes: number): number {
-  let best = 0;
-  let bestEnergy = -1;
-  for (let j = 0; j < modes; j++) {
-    let e = 0;
-    for (let k = 0; k < nodes; k++) e += y[2 * (k * modes + j)] ** 2 + y[2 * (k * modes + j) + 1] ** 2;
-    if (e > bestEnergy) [best, bestEnergy] = [j, e];
-  }
-  return best;
 }
 
 function squaredNorm(v: ComplexVector): number {

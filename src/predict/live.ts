@@ -8,9 +8,12 @@
  *    on the way means it is lost there (the fraction h says how far the change could have gone).
  *    At h = 1 the state is solved once more with the new graph's connected parts, so a link break
  *    that splits the graph gets its extra phase freedom.
- * 2. Destination: when the pattern is lost (or the state was kicked, or was not locked), a private
- *    copy of the guiding system is integrated forward from the current state until it settles on
- *    a stable locked state (look-ahead.ts).
+ * 2. Basin: a fault is a jump, so a private copy of the guiding system is also integrated
+ *    forward from the actual state under the new parameters (look-ahead.ts). The pattern only
+ *    persists when that way passes no cycle slip and does not settle elsewhere; with strong
+ *    reactive coupling a jump well inside the locking range can still throw the phases over.
+ * 3. Destination: when the pattern is lost (or the state was kicked, or was not locked), the
+ *    same look-ahead says where it settles, if it does within its budget.
  * Each result is cached by the new parameter set and the current pattern's label, so toggling a
  * fault back and forth costs nothing the second time. The predictor owns its own parameters and
  * never writes to a session's.
@@ -18,13 +21,14 @@
 import type { ModelParameters } from '../model/parameters.js';
 import type { Scenario } from '../scenario/types.js';
 import type { PatternKind } from '../pattern/classify.js';
-import { modeAmplitudes } from '../observe/amplitudes.js';
+import { carryingMode, modeAmplitudes } from '../observe/amplitudes.js';
 import { GuideModel, copyParameters, parameterFingerprint } from './guide-model.js';
 import { homotopy, setParameter, snapshotParameters, type ParameterSnapshot } from './continuation-parameter.js';
 import { continueBranch, type LimitKind } from './continuation.js';
 import { lockedStateStability, solveLockedState, type LockedStability, type LockedState, type Verdict } from './locked-state.js';
 import { describeLockedState, type TimeConstant } from './describe.js';
 import { lookAhead } from './look-ahead.js';
+import { sameUpToSymmetry } from './catalogue.js';
 
 export type LiveVerdict = 'persists' | 'lost' | 'marginal' | 'not-locked' | 'unknown';
 
@@ -64,7 +68,8 @@ export type LivePrediction = {
   /** Where on the way from the previous to the new parameters the current pattern was lost. */
   lostAt: { fraction: number; kind: LimitKind } | null;
   /** The look-ahead used to find the successor, when one ran. */
-  lookAhead: { slowTime: number; settled: boolean } | null;
+  /** The look-ahead from the actual state under the new parameters: how long, whether it settled, whether it slipped a cycle. */
+  lookAhead: { slowTime: number; settled: boolean; slipped: boolean; maxPhaseExcursion: number } | null;
   fromCache: boolean;
   message: string;
 };
@@ -144,38 +149,51 @@ export class LivePredictor {
     }
     copyParameters(params, model.params);
     let lostAt: LivePrediction['lostAt'] = null;
+    let continued: { locked: LockedState; stability: LockedStability } | null = null;
     if (current.locked && !kicked) {
       const outcome = this.continueToNewParameters(from, to, state);
-      if (outcome.kind === 'reached') {
+      if (outcome.kind === 'reached' && outcome.stability.verdict === 'marginal') {
         const pattern = this.predictedPattern(outcome.locked, outcome.stability);
-        const verdict: LiveVerdict = outcome.stability.verdict === 'stable' ? 'persists' : outcome.stability.verdict === 'marginal' ? 'marginal' : 'lost';
-        if (verdict !== 'lost') {
-          const message = verdict === 'persists'
-            ? `the ${describeLabel(current)} pattern persists (margin ${outcome.stability.margin.toPrecision(3)} in slow time)`
-            : `the ${describeLabel(current)} pattern continues but its stability is not resolved (|margin| <= ${outcome.stability.tolerance.toPrecision(2)})`;
-          return { ...base, verdict, pattern, margin: pattern.margin, message };
-        }
-        lostAt = { fraction: 1, kind: 'branch-point' };
-      } else {
-        lostAt = { fraction: outcome.fraction, kind: outcome.limit };
+        const message = `the ${describeLabel(current)} pattern continues but its stability is not resolved (|margin| <= ${outcome.stability.tolerance.toPrecision(2)})`;
+        return { ...base, verdict: 'marginal', pattern, margin: pattern.margin, message };
       }
+      if (outcome.kind === 'reached' && outcome.stability.verdict === 'stable') continued = outcome;
+      else lostAt = outcome.kind === 'reached' ? { fraction: 1, kind: 'branch-point' } : { fraction: outcome.fraction, kind: outcome.limit };
     }
+    // The way there: a fault is a jump, so the continued state existing and being stable is not
+    // enough; the state the ring is actually in must also lie in its basin (no cycle slip on the
+    // way, no other destination).
     copyParameters(params, model.params);
     const ahead = lookAhead(model, state, { maxEvaluations: LOOK_AHEAD_EVALUATIONS });
-    const pattern = ahead.settled && ahead.locked && ahead.stability ? this.predictedPattern(ahead.locked, ahead.stability) : this.unsettledPattern(ahead.state);
-    const lookAheadInfo = { slowTime: ahead.slowTime, settled: ahead.settled };
-    const becomes = ahead.settled ? `becomes ${describeLabel(pattern)} (margin ${pattern.margin?.toPrecision(3)})` : `does not settle within ${ahead.slowTime.toPrecision(3)} slow time units (predicted unlocked)`;
+    const lookAheadInfo = { slowTime: ahead.slowTime, settled: ahead.settled, slipped: ahead.slipped, maxPhaseExcursion: ahead.maxPhaseExcursion };
+    const settledOn = ahead.settled && ahead.locked && ahead.stability ? ahead.locked : null;
+    if (continued) {
+      const elsewhere = settledOn !== null && !sameUpToSymmetry(settledOn.state, continued.locked.state, [identity(model.nodes)], model.nodes, model.modes, model.parts(), 1e-3);
+      if (!ahead.slipped && !elsewhere) {
+        // Settled on the continued state, or still on the way within the budget without a slip.
+        const pattern = this.predictedPattern(continued.locked, continued.stability);
+        const message = `the ${describeLabel(current)} pattern persists (margin ${continued.stability.margin.toPrecision(3)} in slow time)`;
+        return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message };
+      }
+    }
+    const pattern = settledOn ? this.predictedPattern(settledOn, ahead.stability!) : this.unsettledPattern(ahead.state);
+    const becomes = settledOn ? `becomes ${describeLabel(pattern)} (margin ${pattern.margin?.toPrecision(3)})` : `does not settle within ${ahead.slowTime.toPrecision(3)} slow time units (predicted unlocked)`;
     if (!current.locked) {
       return { ...base, verdict: 'not-locked', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `the guide was not locked; it ${becomes}` };
     }
-    const same = pattern.locked && pattern.kind === current.kind && pattern.q === current.q && pattern.mode === current.mode;
-    if (same) {
+    const slip = ahead.slipped ? ` with a cycle slip (a phase difference moves ${ahead.maxPhaseExcursion.toFixed(2)} rad)` : '';
+    if (continued) {
+      const why = ahead.slipped ? 'the jump throws the phases out of its basin' : 'the jump carries the state into another basin';
+      return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern is lost although it still exists and is stable under the new parameters: ${why}${slip}; it ${becomes}` };
+    }
+    const same = settledOn !== null && pattern.kind === current.kind && pattern.q === current.q && pattern.mode === current.mode;
+    if (same && !ahead.slipped) {
       // The continuation could not carry it (it was kicked, or not at rest under the old
-      // parameters), but the guiding system returns to the same pattern.
+      // parameters), but the guiding system returns to the same pattern without a slip.
       return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern returns${kicked ? ' after the kick' : ''} (margin ${pattern.margin?.toPrecision(3)})` };
     }
     const where = lostAt && lostAt.fraction < 1 ? ` at ${(100 * lostAt.fraction).toFixed(1)}% of the change (${lostAt.kind})` : '';
-    return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lostAt, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern is lost${where}; it ${becomes}` };
+    return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lostAt, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern is lost${where}${slip}; it ${becomes}` };
   }
 
   /** Continues the current state from the previous to the new parameters (see the module header). */
@@ -225,13 +243,7 @@ export class LivePredictor {
 
   private unsettledPattern(state: Float64Array): PredictedPattern {
     const { nodes, modes } = this.model.params;
-    let mode = 0;
-    let best = -1;
-    for (let j = 0; j < modes; j++) {
-      let e = 0;
-      for (let k = 0; k < nodes; k++) e += state[2 * (k * modes + j)] ** 2 + state[2 * (k * modes + j) + 1] ** 2;
-      if (e > best) [mode, best] = [j, e];
-    }
+    const mode = carryingMode(state, nodes, modes);
     const { re, im } = modeAmplitudes(state, nodes, modes, mode);
     const phases = Array.from(re, (r, k) => Math.atan2(im[k], r));
     return {
@@ -254,6 +266,10 @@ export class LivePredictor {
       frequencyShiftPpm: new Array(modes).fill(null),
     };
   }
+}
+
+function identity(nodes: number): Int32Array {
+  return Int32Array.from({ length: nodes }, (_, k) => k);
 }
 
 function describeLabel(l: { kind: string; q?: number; mode: number }): string {

@@ -4,11 +4,17 @@
  * try Newton from there; the first stable locked state found is the destination. A state that
  * never settles within the time or evaluation budget is reported as not settled (unlocked, or
  * locking more slowly than the budget allows).
+ *
+ * On the way the neighbour phase differences of the starting state's carrying mode are
+ * unwrapped (phase-excursion.ts), sampled often enough that none can move by pi unseen, so the
+ * result says whether the way there passes through a cycle slip, as the soak verdicts define it.
  */
 import { DormandPrince } from '../integrate/dormand-prince.js';
 import type { GuideModel } from './guide-model.js';
 import { activePhaseGenerators, applyPhaseGenerator } from './phase-orbits.js';
 import { lockedStateStability, solveLockedState, type LockedStability, type LockedState } from './locked-state.js';
+import { accumulateExcursion, SLIP_EXCURSION } from '../observe/phase-excursion.js';
+import { carryingMode } from '../observe/amplitudes.js';
 
 export interface LookAheadOptions {
   /** Longest look-ahead in slow time; default 400 coupling relaxation times (see couplingRate). */
@@ -26,6 +32,10 @@ export interface LookAheadResult {
   state: Float64Array;
   locked: LockedState | null;
   stability: LockedStability | null;
+  /** Largest total move of a neighbour phase difference (carrying mode of the start), radians. */
+  maxPhaseExcursion: number;
+  /** maxPhaseExcursion reached pi: a cycle slip on the way. */
+  slipped: boolean;
 }
 
 /** The fastest phase-coupling rate (see GuideModel.couplingRate). */
@@ -55,6 +65,53 @@ function rotatingSpeed(model: GuideModel, y: Float64Array, velocity: Float64Arra
   return Math.sqrt(speed / Math.max(total, 1e-300));
 }
 
+/**
+ * Largest share of a turn a neighbour phase difference may move between two samples, judged
+ * from its rate at the last sample; and at least this many samples per coupling time, because
+ * the rate can jump (a node whose amplitude dips turns its phase fast).
+ */
+const SAMPLE_TURN = 1 / 8;
+const SAMPLES_PER_CHUNK = 8;
+
+/**
+ * Neighbour phase differences (k to k+1, cyclic) of one mode and the fastest rate at which any
+ * of them changes, from the state and its velocity (a = x - i y, so arg' = (y x' - x y') / |a|^2).
+ */
+class PhaseDifferenceWatch {
+  readonly last: Float64Array;
+  readonly offsets: Float64Array;
+  private readonly phase: Float64Array;
+  private readonly rate: Float64Array;
+  maxExcursion = 0;
+
+  constructor(private readonly nodes: number, private readonly modes: number, private readonly mode: number) {
+    this.last = new Float64Array(nodes);
+    this.offsets = new Float64Array(nodes);
+    this.phase = new Float64Array(nodes);
+    this.rate = new Float64Array(nodes);
+  }
+
+  /** Reads the phases and their rates; returns the fastest neighbour-difference rate. */
+  read(y: Float64Array, velocity: Float64Array): number {
+    const { nodes, modes, mode, phase, rate } = this;
+    for (let k = 0; k < nodes; k++) {
+      const i = 2 * (k * modes + mode);
+      const x = y[i], v = y[i + 1];
+      phase[k] = Math.atan2(-v, x);
+      rate[k] = (v * velocity[i] - x * velocity[i + 1]) / Math.max(x * x + v * v, 1e-300);
+    }
+    let fastest = 0;
+    for (let k = 0; k < nodes; k++) fastest = Math.max(fastest, Math.abs(rate[(k + 1) % nodes] - rate[k]));
+    return fastest;
+  }
+
+  differences(out: Float64Array): Float64Array {
+    const { nodes, phase } = this;
+    for (let k = 0; k < nodes; k++) out[k] = phase[(k + 1) % nodes] - phase[k];
+    return out;
+  }
+}
+
 /** Follows the guiding system from `start` until it settles on a stable locked state (see the module header). */
 export function lookAhead(model: GuideModel, start: Float64Array, options: LookAheadOptions = {}): LookAheadResult {
   const n = start.length;
@@ -67,19 +124,47 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
   const velocity = new Float64Array(n);
   const scratch = new Float64Array(n);
   const parts = model.parts();
+  const { nodes, modes } = model.params;
+  const watch = new PhaseDifferenceWatch(nodes, modes, carryingMode(start, nodes, modes));
+  const differences = new Float64Array(nodes);
   let t = 0;
   let newtonEvaluations = 0;
   const spent = (): number => solver.evaluations + newtonEvaluations;
+  /** One watched sample: unwraps the differences and returns the time to the next sample. */
+  const sample = (): number => {
+    model.field(y, velocity);
+    newtonEvaluations++;
+    const fastest = watch.read(y, velocity);
+    watch.maxExcursion = Math.max(watch.maxExcursion, accumulateExcursion(watch.last, watch.offsets, watch.differences(differences)));
+    return Math.min(chunk / SAMPLES_PER_CHUNK, fastest > 0 ? (2 * Math.PI * SAMPLE_TURN) / fastest : chunk);
+  };
+  model.field(y, velocity);
+  watch.read(y, velocity);
+  watch.differences(watch.last);
+  const result = (settled: boolean, state: Float64Array, locked: LockedState | null, stability: LockedStability | null): LookAheadResult => ({
+    settled, slowTime: t, evaluations: spent(), state, locked, stability, maxPhaseExcursion: watch.maxExcursion, slipped: watch.maxExcursion >= SLIP_EXCURSION,
+  });
+  let interval = sample();
   while (t < maxSlowTime && spent() < maxEvaluations) {
-    if (!solver.integrate(t, t + chunk, y)) break;
-    t += chunk;
+    const end = t + chunk;
+    let failed = false;
+    while (t < end && spent() < maxEvaluations) {
+      const next = Math.min(end, t + interval);
+      if (!solver.integrate(t, next, y)) {
+        failed = true;
+        break;
+      }
+      t = next;
+      interval = sample();
+    }
+    if (failed || t < end) break;
     if (rotatingSpeed(model, y, velocity, scratch) > 1e-2 * rate) continue;
     const locked = solveLockedState(model.field, y, model.modes, { parts, maxIterations: 12 });
     newtonEvaluations += 2 * n * (locked.iterations + 1);
     if (!locked.converged) continue;
     const stability = lockedStateStability(model.field, locked, model.modes, model.accuracy);
     newtonEvaluations += 2 * n;
-    if (stability.verdict === 'stable') return { settled: true, slowTime: t, evaluations: spent(), state: locked.state, locked, stability };
+    if (stability.verdict === 'stable') return result(true, locked.state, locked, stability);
   }
-  return { settled: false, slowTime: t, evaluations: spent(), state: y, locked: null, stability: null };
+  return result(false, y, null, null);
 }
