@@ -160,11 +160,9 @@ function readResumes(out: string): unknown[] {
 }
 
 class SoakRunner {
-  private session: CoSimulation;
+  private readonly session: CoSimulation;
   private twin: CoSimulation | null;
-  private faults: CampaignRun;
-  private readonly sessionOptions: SessionOptions;
-  private readonly twinScenario: Scenario;
+  private readonly faults: CampaignRun;
   private readonly hold: number;
   private readonly recorder: PhaseRecorder;
   private readonly log: SegmentedLog;
@@ -199,9 +197,7 @@ class SoakRunner {
     const sessionOptions: SessionOptions = {};
     if (campaign.detector.lockWindow !== null) sessionOptions.lockWindow = campaign.detector.lockWindow;
     if (campaign.detector.lockTolerance !== null) sessionOptions.lockTolerance = campaign.detector.lockTolerance;
-    this.sessionOptions = sessionOptions;
     const twinScenario: Scenario = { ...scenario, coupling: { ...scenario.coupling, strength: 0 } };
-    this.twinScenario = twinScenario;
     const cp = point?.checkpoint ?? null;
     this.session = cp ? CoSimulation.fromCheckpoint(scenario, cp.session, sessionOptions) : new CoSimulation(scenario, sessionOptions);
     const withTwin = campaign.stability.uncoupledReference;
@@ -322,22 +318,6 @@ class SoakRunner {
       final: this.lastFinal,
     };
     this.append(line as unknown as LogLine);
-    this.continueFromCheckpoint(line);
-  }
-
-  /**
-   * Go on from the checkpoint just written, restored through JSON exactly as --resume restores
-   * it, so an uninterrupted soak and a resumed one run the same code from the same state: any
-   * cache an engine object keeps outside its checkpoint (the micro stepper's fitted weights, for
-   * one) is rebuilt the same way in both, and the log is always made from restorable state.
-   */
-  private continueFromCheckpoint(line: CheckpointLine): void {
-    const saved = JSON.parse(JSON.stringify({ session: line.session, twin: line.twin, campaign: line.campaign, phases: line.phases })) as Pick<CheckpointLine, 'session' | 'twin' | 'campaign' | 'phases'>;
-    this.session = CoSimulation.fromCheckpoint(this.scenario, saved.session, this.sessionOptions);
-    this.twin = saved.twin ? CoSimulation.fromCheckpoint(this.twinScenario, saved.twin, this.sessionOptions) : null;
-    this.faults = new CampaignRun(this.campaign, this.session.params, this.until, this.hold, this.base);
-    this.faults.load(saved.campaign);
-    this.recorder.load(saved.phases);
   }
 
   private appendVerdict(verdict: FaultVerdict): void {
