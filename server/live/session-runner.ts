@@ -234,7 +234,9 @@ export class SessionRunner {
     }
     const now = performance.now();
     if (!this.pendingFrame || (!force && now - this.lastFrameSent < this.frameInterval)) return;
-    this.lastFrameSent = now;
+    // Keep to the frame clock rather than restarting it at each send: flushes come every few ms,
+    // so "50 ms since the last send" alone gives 18 frames per second instead of 20.
+    this.lastFrameSent = Math.max(this.lastFrameSent + this.frameInterval, now - this.frameInterval / 2);
     const frame = this.pendingFrame;
     this.pendingFrame = null;
     this.emit({ kind: 'frame', frame, emittedAt: Date.now() });

@@ -216,6 +216,8 @@ class SoakRunner {
     this.recorder = new PhaseRecorder(campaign.stability.from, this.stride, macroStep, withTwin);
     this.samples = point?.samples ?? [];
     this.verdicts = point?.verdicts ?? [];
+    // verdicts read back from the log are on disk already
+    this.durableVerdicts = this.verdicts.map((v) => ({ id: v.id, pass: v.pass }));
     this.discarded = point?.discarded ?? new Map();
     this.discardedAtStart = this.discarded.size;
     this.startTau = this.session.tau;

@@ -111,6 +111,11 @@ describe('a soak killed with SIGKILL and resumed', () => {
     expect(summary.resumes[0].tornTailBytes).toBeGreaterThan(0);
     expect(summary.resumeCheck.mismatches).toBe(0);
     expect(summary.resumeCheck.recordsCompared).toBe(summary.resumes[0].discardedRecords);
+    // status.json counts every verdict, those judged before the kill included
+    const status = JSON.parse(readFileSync(join(killed, 'status.json'), 'utf8'));
+    const straightStatus = JSON.parse(readFileSync(join(straight, 'status.json'), 'utf8'));
+    expect(status.faults).toEqual(straightStatus.faults);
+    expect(status.faults.judged).toBe(summary.verdicts.length);
 
     const a = records(straight);
     const b = records(killed);
