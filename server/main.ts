@@ -61,7 +61,7 @@ export async function serve(options: ServeOptions = {}): Promise<RunningServer> 
   let port = 0;
   const policy: OriginPolicy = { allowedHosts: [], allowedOrigins: options.allowedOrigins ?? [], anyHost: host === '0.0.0.0' || host === '::' };
   const hub = new Hub(live, { token, port: () => port, policy, ...options.limits });
-  const app = createApp(live, () => hub.viewers, { soaksDir });
+  const app = createApp(live, () => hub.viewers, { soaksDir, control: { token, policy, port: () => port } });
   const server: Server = createServer(app);
   server.on('upgrade', (request, socket, head) => hub.handleUpgrade(request, socket, head));
   server.on('clientError', (_error, socket) => socket.destroy());

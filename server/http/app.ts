@@ -6,6 +6,7 @@ import { builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/i
 import type { LiveSession } from '../live/live-session.js';
 import { registerPredictionApi } from './prediction-api.js';
 import { registerSoakApi } from './soak-api.js';
+import { registerSoakControl, type SoakControlOptions } from './soak-control.js';
 
 /**
  * Where `vite build` puts the dashboard: dist/web beside dist/server, also when the server runs
@@ -23,9 +24,10 @@ export const WEB_ROOT = fileURLToPath(
  *   GET /api/health     liveness
  *   GET /api/catalogue, /api/what-if   prediction on the live parameters (prediction-api.ts)
  *   GET /api/soaks, /soaks/NAME/report.html   soak folders (soak-api.ts)
+ *   GET /api/campaigns, POST /api/soaks[/NAME/stop|resume]   starting soaks (soak-control.ts)
  * `closeBackground(app)` stops the worker threads behind the slow endpoints.
  */
-export function createApp(live: LiveSession, viewers: () => number, options: { soaksDir?: string } = {}): Express {
+export function createApp(live: LiveSession, viewers: () => number, options: { soaksDir?: string; control?: SoakControlOptions } = {}): Express {
   const app = express();
   app.disable('x-powered-by');
   const background: { close(): Promise<void> }[] = [];
@@ -54,6 +56,7 @@ export function createApp(live: LiveSession, viewers: () => number, options: { s
   });
   background.push(registerPredictionApi(app, live));
   background.push(registerSoakApi(app, options.soaksDir ?? resolve('soaks')));
+  if (options.control) registerSoakControl(app, options.soaksDir ?? resolve('soaks'), live, options.control);
   app.use('/api', (_req, res) => {
     res.status(404).json({ error: 'no such API endpoint' });
   });

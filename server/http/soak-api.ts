@@ -1,4 +1,4 @@
-import { existsSync, type Stats } from 'node:fs';
+import { existsSync, readFileSync, type Stats } from 'node:fs';
 import { readdir, readFile, stat } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import type { Express } from 'express';
@@ -15,9 +15,33 @@ import { VerdictTail } from './verdict-tail.js';
  *                                   finished, its result (summary.json): verdicts, pass
  *   GET /soaks/NAME/report.html     the soak's report: report.html when it is up to date, else
  *                                   made on demand from the log (in a worker thread)
+ * Starting, stopping and resuming soaks from the dashboard is soak-control.ts; it leaves
+ * START_FILE in the folders it starts, which the listing reads for `launch`.
  */
 
-export type SoakState = 'running' | 'finished' | 'halted' | 'interrupted' | 'unknown';
+/** 'starting': launched from the dashboard, its process is up but has not written status.json yet. */
+export type SoakState = 'starting' | 'running' | 'finished' | 'halted' | 'interrupted' | 'unknown';
+
+/** Written by soak-control.ts into the folder of a soak started from the dashboard. */
+export const START_FILE = 'start.json';
+
+/** What START_FILE holds: the arguments of the soak, so that it can be resumed, and its processes. */
+export interface StartRecord {
+  format: 'syncring-soak-start';
+  formatVersion: 1;
+  scenario: string;
+  campaign: string;
+  /** End of the soak in slow time units, as asked for, and in tau, as passed to --until. */
+  untilSlow: number;
+  until: number;
+  epsilon: number;
+  pace: number | null;
+  /** The `syncring soak` arguments (without --resume and --pace). */
+  args: string[];
+  /** The newest process; one entry per start and resume. */
+  pid: number;
+  runs: { pid: number; at: string; resume: boolean; pace: number | null }[];
+}
 
 /** One row of the verdict table: the verdict without the raw perturbation records. */
 export type VerdictRow = Pick<
@@ -40,12 +64,14 @@ export interface SoakListing {
   verdictsTotal: number;
   updatedAt: string;
   report: { url: string; file: boolean };
+  /** Started from the dashboard (START_FILE): what with, how often, and whether its newest process is up. */
+  launch: { scenario: string; campaign: string; untilSlow: number; pace: number | null; runs: number; alive: boolean } | null;
   problems: string[];
 }
 
 /** Newest verdicts listed per soak (a long random campaign judges thousands). */
 const VERDICTS_LISTED = 200;
-const SAFE_NAME = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
+export const SAFE_NAME = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
 
 export function registerSoakApi(app: Express, soaksDir: string): { close(): Promise<void> } {
   const root = resolve(soaksDir);
@@ -104,8 +130,11 @@ async function listSoak(root: string, name: string, reader: JsonFileCache, tailO
       return null;
     }
   };
-  const [status, summary, report] = await Promise.all([read(STATUS_FILE), read(SUMMARY_FILE), statOrNull(join(dir, 'report.html'))]);
-  if (!status && !summary && problems.length === 0) return null;
+  const [status, summary, start, report] = await Promise.all([read(STATUS_FILE), read(SUMMARY_FILE), read(START_FILE), statOrNull(join(dir, 'report.html'))]);
+  if (!status && !summary && !start && problems.length === 0) return null;
+  const launch = start ? launchOf(start as unknown as StartRecord) : null;
+  const state = stateOf(status, summary, start as unknown as StartRecord | null);
+  if (state === 'unknown' && launch && !status && !summary) problems.push(`the soak process ended before its first status: ${lastLine(join(dir, 'soak.err')) ?? 'soak.err is empty'}`);
   // Until the summary exists, the log has the full verdicts (status.json only ids and pass).
   let running: FaultVerdict[] = [];
   if (!summary) {
@@ -121,7 +150,7 @@ async function listSoak(root: string, name: string, reader: JsonFileCache, tailO
   const tau = num(status?.tau);
   return {
     name,
-    state: stateOf(status, summary),
+    state,
     progress:
       status && tau !== null
         ? {
@@ -144,20 +173,49 @@ async function listSoak(root: string, name: string, reader: JsonFileCache, tailO
     verdictsTotal: allVerdicts.length,
     updatedAt: typeof status?.updatedAt === 'string' ? status.updatedAt : new Date(0).toISOString(),
     report: { url: `soaks/${encodeURIComponent(name)}/report.html`, file: report !== null },
+    launch,
     problems,
   };
 }
 
-/** A soak whose status says running but whose process is gone was killed: it can be resumed. */
-function stateOf(status: Record<string, unknown> | null, summary: Record<string, unknown> | null): SoakState {
+/**
+ * A soak whose status says running but whose process is gone was killed: it can be resumed.
+ * A dashboard-started soak whose newest process is up but has not written status.json yet (just
+ * started, or resumed over the status of the killed process) is starting.
+ */
+export function stateOf(status: Record<string, unknown> | null, summary: Record<string, unknown> | null, start: StartRecord | null): SoakState {
   const written = status?.state;
+  const newest = start && Number.isInteger(start.pid) ? start.pid : null;
+  const launching = newest !== null && newest !== num(status?.pid) && processAlive(newest);
   if (written === 'running') {
     const pid = num(status?.pid);
-    return pid !== null && !processAlive(pid) ? 'interrupted' : 'running';
+    if (pid !== null && !processAlive(pid)) return launching ? 'starting' : 'interrupted';
+    return 'running';
   }
   if (written === 'finished' || written === 'halted') return written;
   if (summary) return summary.status === 'halted' ? 'halted' : 'finished';
-  return 'unknown';
+  return launching ? 'starting' : 'unknown';
+}
+
+function launchOf(start: StartRecord): SoakListing['launch'] {
+  return {
+    scenario: String(start.scenario),
+    campaign: String(start.campaign),
+    untilSlow: num(start.untilSlow) ?? 0,
+    pace: num(start.pace),
+    runs: Array.isArray(start.runs) ? start.runs.length : 0,
+    alive: Number.isInteger(start.pid) && processAlive(start.pid),
+  };
+}
+
+/** The last non-empty line of a small text file (a soak's stderr), or null. */
+function lastLine(path: string): string | null {
+  try {
+    const lines = readFileSync(path, 'utf8').slice(-4000).split('\n').map((l) => l.trim()).filter(Boolean);
+    return lines.at(-1) ?? null;
+  } catch {
+    return null;
+  }
 }
 
 function verdictRow(v: FaultVerdict): VerdictRow {
@@ -169,7 +227,7 @@ function num(value: unknown): number | null {
   return typeof value === 'number' && Number.isFinite(value) ? value : null;
 }
 
-function processAlive(pid: number): boolean {
+export function processAlive(pid: number): boolean {
   try {
     process.kill(pid, 0);
     return true;

@@ -1,9 +1,11 @@
 import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from 'lit';
 import type { SoakListing, VerdictRow } from '../../../server/http/soak-api.js';
 import { fetchJson } from '../data/prediction-data.js';
-import { apiUrl } from '../data/page-address.js';
+import { apiUrl, tokenFrom } from '../data/page-address.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
 import { BRAND, CAUTION, FAULT, GRID, LOCKED, MUTED, panelStyles } from '../theme.js';
+import { postSoakControl } from './soak-start-form.js';
+import './soak-start-form.js';
 
 /** How often the list is read again while the tab is shown (status.json is rewritten about once a second). */
 const POLL_MS = 2000;
@@ -17,6 +19,7 @@ interface SoaksResponse {
 /** The badge of a soak: running, its result once finished, or why it stopped. */
 function verdictOf(s: SoakListing): { text: string; colour: string } {
   if (s.state === 'running') return { text: 'RUNNING', colour: BRAND };
+  if (s.state === 'starting') return { text: 'STARTING', colour: BRAND };
   if (s.state === 'interrupted') return { text: 'INTERRUPTED', colour: CAUTION };
   if (s.state === 'halted') return { text: 'HALTED', colour: FAULT };
   if (s.pass === true) return { text: 'PASS', colour: LOCKED };
@@ -28,6 +31,8 @@ function verdictOf(s: SoakListing): { text: string; colour: string } {
  * The Soaks tab: every soak folder under the server's soaks folder, newest first, with its
  * progress (slow time, fraction, ETA), faults judged and failed, and for the chosen one the
  * verdict table, pass or fail and a link to its report. Polls GET /api/soaks while shown.
+ * A page opened with the operator token (?token=) also gets the form that starts a soak and,
+ * for soaks started from the dashboard, Stop while one runs and Resume once it is interrupted.
  */
 export class SoakPanel extends LitElement {
   static override properties = {
@@ -35,6 +40,7 @@ export class SoakPanel extends LitElement {
     listing: { state: true },
     chosen: { state: true },
     error: { state: true },
+    action: { state: true },
   };
   static override styles = [
     panelStyles,
@@ -211,6 +217,20 @@ export class SoakPanel extends LitElement {
         color: #33404d;
         line-height: 1.5;
       }
+      button.act {
+        font-size: 15px;
+        font-weight: 700;
+        padding: 5px 14px;
+      }
+      button.act.stop {
+        border-color: ${unsafeCSS(FAULT)};
+        color: ${unsafeCSS(FAULT)};
+        background: #fff;
+      }
+      .action {
+        font-size: 14px;
+        margin: 6px 0 0;
+      }
       code {
         background: #eef3f6;
         padding: 1px 5px;
@@ -224,9 +244,16 @@ export class SoakPanel extends LitElement {
   declare listing: SoaksResponse | null;
   declare chosen: string;
   declare error: string;
+  /** The last stop or resume: what the server said (or why it refused), for the soak it was about. */
+  declare action: { soak: string; text: string; failed: boolean; busy: boolean } | null;
 
+  /** The operator token from the page address; viewers have none and see no controls. */
+  private readonly token = tokenFrom(location.search);
   private timer: ReturnType<typeof setTimeout> | null = null;
   private fetching = false;
+  private again = false;
+  /** A soak just started here, chosen before the list has it. */
+  private awaited: string | null = null;
 
   constructor() {
     super();
@@ -234,6 +261,7 @@ export class SoakPanel extends LitElement {
     this.listing = null;
     this.chosen = '';
     this.error = '';
+    this.action = null;
   }
 
   override disconnectedCallback(): void {
@@ -253,19 +281,28 @@ export class SoakPanel extends LitElement {
   }
 
   private async poll(): Promise<void> {
+    if (this.fetching) {
+      // a start, stop or resume wants the list now: read it again as soon as this read is back
+      this.again = true;
+      return;
+    }
     this.stopPolling();
-    if (!this.active || !this.isConnected || this.fetching) return;
+    if (!this.active || !this.isConnected) return;
     this.fetching = true;
     try {
       this.listing = await fetchJson<SoaksResponse>('/api/soaks');
       this.error = '';
       const names = this.listing.soaks.map((s) => s.name);
-      if (!names.includes(this.chosen)) this.chosen = (this.listing.soaks.find((s) => s.state === 'running') ?? this.listing.soaks[0])?.name ?? '';
+      if (this.awaited !== null && names.includes(this.awaited)) this.awaited = null;
+      if (!names.includes(this.chosen) && this.chosen !== this.awaited) this.chosen = (this.listing.soaks.find((s) => s.state === 'running') ?? this.listing.soaks[0])?.name ?? '';
     } catch (error) {
       this.error = `Could not list the soaks: ${(error as Error).message}`;
     } finally {
       this.fetching = false;
-      if (this.active && this.isConnected) this.timer = setTimeout(() => void this.poll(), POLL_MS);
+      if (this.again) {
+        this.again = false;
+        void this.poll();
+      } else if (this.active && this.isConnected) this.timer = setTimeout(() => void this.poll(), POLL_MS);
     }
   }
 
@@ -275,12 +312,13 @@ export class SoakPanel extends LitElement {
     return html`
       <div class="card">
         <h2>Soaks ${l ? html`· ${l.soaks.length}` : nothing}</h2>
+        ${this.token ? html`<sr-soak-start-form .token=${this.token} .soaks=${l?.soaks ?? []} @sr-soak-started=${(e: CustomEvent<string>) => this.started(e.detail)}></sr-soak-start-form>` : nothing}
         ${this.error ? html`<p class="no">${this.error}</p>` : nothing}
         ${l ? html`<div class="line small" data-testid="soaks-dir">folder ${l.dir}</div>` : html`<p class="muted">Reading the soaks folder…</p>`}
         <div class="list" data-testid="soak-list">${l?.soaks.map((s) => this.renderItem(s))}</div>
         ${l && l.soaks.length === 0
           ? html`<p class="empty">
-              No soaks yet. Start one with<br /><code>npx syncring soak SCENARIO --campaign CAMPAIGN --until TAU --out ${l.dir}/NAME</code><br />and it shows up
+              No soaks yet. Start one ${this.token ? 'with the form above or ' : ''}with<br /><code>npx syncring soak SCENARIO --campaign CAMPAIGN --until TAU --out ${l.dir}/NAME</code><br />and it shows up
               here while it runs.
             </p>`
           : nothing}
@@ -315,7 +353,11 @@ export class SoakPanel extends LitElement {
         <span class="badge big" data-testid="soak-verdict" style="background:${v.colour}">${v.text}</span>
         <a class="report" data-testid="soak-report" href=${apiUrl(s.report.url)} target="_blank" rel="noopener">Open report ↗</a>
         <span class="small">${s.report.file ? 'report.html' : 'report made from the log on request'}</span>
+        ${this.renderControl(s)}
       </div>
+      ${this.action && this.action.soak === s.name && !this.action.busy
+        ? html`<p class="action ${this.action.failed ? 'no' : 'small'}" data-testid="soak-action-result" role="status">${this.action.text}</p>`
+        : nothing}
       ${s.scenario || s.campaign ? html`<div class="line">${s.scenario ?? ''}${s.campaign ? html` · campaign: ${s.campaign}` : nothing}</div>` : nothing}
       <div class="bar big" data-testid="soak-progress"><span style="width:${(100 * fraction).toFixed(1)}%;background:${v.colour};opacity:0.8"></span><b>${formatNumber(100 * fraction, 3)} %</b></div>
       <div class="facts">
@@ -327,10 +369,49 @@ export class SoakPanel extends LitElement {
         <span>faults <b>${s.faults?.judged ?? s.verdictsTotal}</b> judged${s.faults ? ` of ${s.faults.started} started` : ''}, <b class=${failed > 0 ? 'no' : 'yes'}>${s.faults?.failed ?? failed}</b> failed</span>
         ${s.exitCode !== null ? html`<span>exit code <b>${s.exitCode}</b></span>` : nothing}
       </div>
-      ${s.state === 'interrupted' ? html`<p class="line" style="color:${CAUTION};font-weight:700">The soak process is gone before the end: continue it with <code>syncring soak … --out ${s.name} --resume</code>.</p>` : nothing}
+      ${s.state === 'interrupted'
+        ? html`<p class="line" style="color:${CAUTION};font-weight:700">
+            The soak process is gone before the end:
+            ${s.launch && this.token ? 'Resume continues it from its last checkpoint.' : s.launch ? 'the operator can resume it here.' : html`continue it with <code>syncring soak … --out ${s.name} --resume</code>.`}
+          </p>`
+        : nothing}
       ${s.problems.length ? html`<p class="line no">${s.problems.join('; ')}</p>` : nothing}
       ${s.verdicts.length ? this.renderVerdicts(s) : html`<p class="muted">No fault judged yet.</p>`}
     `;
+  }
+
+  /** Stop or Resume, for the operator, on soaks started from the dashboard (only those have their arguments and pid in start.json). */
+  private renderControl(s: SoakListing) {
+    if (!this.token || !s.launch) return nothing;
+    const busy = this.action?.busy === true;
+    if (s.state === 'running' || s.state === 'starting') {
+      return html`<button class="act stop" data-action="stop-soak" ?disabled=${busy} @click=${() => void this.control(s.name, 'stop')}>${busy ? 'Stopping…' : 'Stop'}</button>`;
+    }
+    if (s.state === 'interrupted') {
+      return html`<button class="act primary" data-action="resume-soak" ?disabled=${busy} @click=${() => void this.control(s.name, 'resume')}>${busy ? 'Resuming…' : 'Resume'}</button>`;
+    }
+    return nothing;
+  }
+
+  private async control(name: string, verb: 'stop' | 'resume'): Promise<void> {
+    if (!this.token) return;
+    this.action = { soak: name, text: '', failed: false, busy: true };
+    try {
+      const answer = await postSoakControl(`/api/soaks/${encodeURIComponent(name)}/${verb}`, this.token);
+      const text = verb === 'stop' ? `Stopped (${String(answer.signal)}); ${String(answer.note ?? '')}.` : `Resumed as pid ${String(answer.pid)}.`;
+      this.action = { soak: name, text, failed: false, busy: false };
+    } catch (error) {
+      this.action = { soak: name, text: `${verb === 'stop' ? 'Stop' : 'Resume'} refused: ${(error as Error).message}`, failed: true, busy: false };
+    }
+    void this.poll();
+  }
+
+  /** A soak the form started: show it at once (it is listed as starting until its first status). */
+  private started(name: string): void {
+    this.chosen = name;
+    this.awaited = name;
+    this.action = null;
+    void this.poll();
   }
 
   private renderVerdicts(s: SoakListing) {
