@@ -50,6 +50,8 @@ export interface PlotOptions {
 
 export const PALETTE = ['#1f5fa8', '#d1661b', '#2b8a3e', '#c0392b', '#7048a8', '#8c5a3c', '#c2418f', '#5f6b73'];
 
+/** Rows of interval labels at the top of a plot. */
+const LABEL_ROWS = 4;
 const MARGIN = { left: 78, right: 18, top: 34, bottom: 50 };
 
 export function linePlot(o: PlotOptions): string {
@@ -86,17 +88,26 @@ export function linePlot(o: PlotOptions): string {
   const clipId = `clip${Math.abs(hash(o.title))}`;
   parts.push(`<defs><clipPath id="${clipId}"><rect x="${MARGIN.left}" y="${MARGIN.top}" width="${plotW}" height="${plotH}"/></clipPath></defs>`);
 
-  // shaded intervals under everything; labels step down a row when they would run into the previous one
+  // shaded intervals under everything; labels step down a row when they would run into the
+  // previous one, and are left out when all rows are taken there (the band stays; a note counts them)
   const rowEnds: number[] = [];
+  let unlabelled = 0;
   for (const band of o.bands ?? []) {
     const x0 = Math.max(MARGIN.left, px(band.from));
     const x1 = Math.min(MARGIN.left + plotW, px(band.to));
     if (!(x1 > x0 - 0.5)) continue;
     parts.push(`<rect x="${f(x0)}" y="${MARGIN.top}" width="${f(Math.max(1.5, x1 - x0))}" height="${plotH}" fill="${band.color}" fill-opacity="0.16"/>`);
     let row = rowEnds.findIndex((end) => x0 + 2 >= end + 4);
-    if (row < 0) row = rowEnds.length < 4 ? rowEnds.length : rowEnds.indexOf(Math.min(...rowEnds));
+    if (row < 0 && rowEnds.length < LABEL_ROWS) row = rowEnds.length;
+    if (row < 0) {
+      unlabelled++;
+      continue;
+    }
     rowEnds[row] = x0 + 2 + band.label.length * 5.6;
     parts.push(`<text x="${f(x0 + 2)}" y="${MARGIN.top + 11 + row * 11}" font-size="10" fill="#5a3a00">${esc(band.label)}</text>`);
+  }
+  if (unlabelled > 0) {
+    parts.push(`<text x="${MARGIN.left}" y="${MARGIN.top + plotH + 48}" font-size="10" fill="#5a3a00">${unlabelled} more shaded intervals without a label (too close together; see the verdict table)</text>`);
   }
 
   // grid and ticks
