@@ -1,5 +1,4 @@
 import { spawn, type ChildProcess } from 'node:child_process';
-import { timingSafeEqual } from 'node:crypto';
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -13,6 +12,7 @@ import type { LiveSession } from '../live/live-session.js';
 import { STATUS_FILE, SUMMARY_FILE, writeJsonAtomically } from '../soak/outputs.js';
 import { checkUpgrade, type OriginPolicy } from '../ws/origin.js';
 import { SAFE_NAME, START_FILE, processAlive, stateOf, type StartRecord } from './soak-api.js';
+import { sameToken } from '../operator-token.js';
 
 /**
  * Starting, stopping and resuming soaks from the dashboard (the listing is soak-api.ts):
@@ -351,8 +351,3 @@ async function exited(pid: number, child: ChildProcess | undefined, ms: number):
 }
 
 /** Constant-time comparison, as the WebSocket hub compares the operator token. */
-function sameToken(given: string, expected: string): boolean {
-  const a = Buffer.from(given);
-  const b = Buffer.from(expected);
-  return a.length === b.length && timingSafeEqual(a, b);
-}

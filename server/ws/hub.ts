@@ -1,6 +1,5 @@
 import type { IncomingMessage } from 'node:http';
 import type { Duplex } from 'node:stream';
-import { timingSafeEqual } from 'node:crypto';
 import { WebSocketServer, type WebSocket } from 'ws';
 import {
   MAX_CLIENT_MESSAGE_BYTES,
@@ -15,6 +14,7 @@ import type { SessionEvent } from '../../src/session/session.js';
 import type { LiveSession } from '../live/live-session.js';
 import { checkUpgrade, type OriginPolicy } from './origin.js';
 import { SOFTWARE_VERSION } from '../version.js';
+import { sameToken } from '../operator-token.js';
 
 export interface HubOptions {
   token: string;
@@ -233,11 +233,6 @@ export class Hub {
   }
 }
 
-function sameToken(given: string, expected: string): boolean {
-  const a = Buffer.from(given);
-  const b = Buffer.from(expected);
-  return a.length === b.length && timingSafeEqual(a, b);
-}
 
 function refuse(socket: Duplex, status: number, text: string, detail = ''): void {
   socket.write(`HTTP/1.1 ${status} ${text}\r\nConnection: close\r\nContent-Type: text/plain\r\n\r\n${detail}\n`);
