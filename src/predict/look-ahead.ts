@@ -128,23 +128,27 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
   const watch = new PhaseDifferenceWatch(nodes, modes, carryingMode(start, nodes, modes));
   const differences = new Float64Array(nodes);
   let t = 0;
-  let newtonEvaluations = 0;
-  const spent = (): number => solver.evaluations + newtonEvaluations;
-  /** One watched sample: unwraps the differences and returns the time to the next sample. */
-  const sample = (): number => {
+  /** Field evaluations beside the integrator's: the slip watch's readings and the Newton probes. */
+  let ownEvaluations = 0;
+  const spent = (): number => solver.evaluations + ownEvaluations;
+  /** Reads phases and their rates at y; returns the time to the next sample. */
+  const look = (): number => {
     model.field(y, velocity);
-    newtonEvaluations++;
+    ownEvaluations++;
     const fastest = watch.read(y, velocity);
-    watch.maxExcursion = Math.max(watch.maxExcursion, accumulateExcursion(watch.last, watch.offsets, watch.differences(differences)));
     return Math.min(chunk / SAMPLES_PER_CHUNK, fastest > 0 ? (2 * Math.PI * SAMPLE_TURN) / fastest : chunk);
   };
-  model.field(y, velocity);
-  watch.read(y, velocity);
-  watch.differences(watch.last);
+  /** One watched sample: unwraps the differences and returns the time to the next sample. */
+  const sample = (): number => {
+    const next = look();
+    watch.maxExcursion = Math.max(watch.maxExcursion, accumulateExcursion(watch.last, watch.offsets, watch.differences(differences)));
+    return next;
+  };
   const result = (settled: boolean, state: Float64Array, locked: LockedState | null, stability: LockedStability | null): LookAheadResult => ({
     settled, slowTime: t, evaluations: spent(), state, locked, stability, maxPhaseExcursion: watch.maxExcursion, slipped: watch.maxExcursion >= SLIP_EXCURSION,
   });
-  let interval = sample();
+  let interval = look();
+  watch.differences(watch.last);
   while (t < maxSlowTime && spent() < maxEvaluations) {
     const end = t + chunk;
     let failed = false;
@@ -160,10 +164,10 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
     if (failed || t < end) break;
     if (rotatingSpeed(model, y, velocity, scratch) > 1e-2 * rate) continue;
     const locked = solveLockedState(model.field, y, model.modes, { parts, maxIterations: 12 });
-    newtonEvaluations += 2 * n * (locked.iterations + 1);
+    ownEvaluations += 2 * n * (locked.iterations + 1);
     if (!locked.converged) continue;
     const stability = lockedStateStability(model.field, locked, model.modes, model.accuracy);
-    newtonEvaluations += 2 * n;
+    ownEvaluations += 2 * n;
     if (stability.verdict === 'stable') return result(true, locked.state, locked, stability);
   }
   return result(false, y, null, null);
