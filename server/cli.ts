@@ -8,7 +8,7 @@ const USAGE = `usage:
                 PARAM: detuning:K | coupling | reactive | dissipative | link:A-B | edge:A-B
   syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max] [--soaks DIR]
   syncring soak SCENARIO.json --campaign CAMPAIGN.json --until TAU --out DIR [--resume] [--pace SLOW_UNITS_PER_SECOND]
-                [--segment-bytes BYTES] [--checkpoint-every TAU]
+                [--segment-bytes BYTES] [--checkpoint-every TAU] [--fail-incomplete]
   syncring report DIR [--out FILE.html]
 
 SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler),
@@ -111,7 +111,7 @@ export async function main(argv: string[]): Promise<number> {
       case 'soak': {
         const valued = ['campaign', 'until', 'out', 'pace', 'segment-bytes', 'checkpoint-every'];
         const parsed = parseArgs(rest, valued);
-        onlyFlags(parsed, [...valued, 'resume']);
+        onlyFlags(parsed, [...valued, 'resume', 'fail-incomplete']);
         if (parsed.positional.length !== 1) throw new UsageError('soak needs exactly one SCENARIO');
         const campaign = parsed.flags.get('campaign');
         const out = parsed.flags.get('out');
@@ -130,6 +130,7 @@ export async function main(argv: string[]): Promise<number> {
           pace: numberFlag(parsed, 'pace'),
           segmentBytes: numberFlag(parsed, 'segment-bytes'),
           checkpointEvery: numberFlag(parsed, 'checkpoint-every'),
+          failIncomplete: parsed.flags.get('fail-incomplete') === true,
         });
       }
       case 'report': {

@@ -4,8 +4,9 @@ import { UsageError } from '../scenario-file.js';
 
 /**
  * `syncring soak`: run a campaign headless, print one JSON line (pass, exit code, counts, the
- * summary's path) and return the exit code: 0 every verdict passed, 1 a verdict failed,
- * 3 the run halted (blow-up); 2 is bad input.
+ * summary's path) and return the exit code: 0 no verdict failed (INCOMPLETE ones are reported
+ * beside the pass), 1 a verdict failed (or was INCOMPLETE under --fail-incomplete), 3 the run
+ * halted (blow-up); 2 is bad input.
  */
 export async function soak(options: SoakOptions): Promise<number> {
   if (options.pace !== undefined && !(options.pace > 0)) throw new UsageError(`--pace must be > 0 slow time units per second (got ${options.pace})`);

@@ -21,12 +21,13 @@ import {
   type FaultVerdict,
   type PhaseSample,
   type TimeBase,
+  type VerdictOutcome,
 } from '../../src/campaign/index.js';
 import { LOG_FORMAT_VERSION } from '../../src/protocol/log-records.js';
 import { scenarioToJSON } from '../../src/scenario/parse.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { tauToSeconds } from '../../src/scenario/units.js';
-import { CoSimulation, defaultLockWindow, type Frame, type SessionOptions } from '../../src/session/session.js';
+import { CoSimulation, type Frame, type SessionOptions } from '../../src/session/session.js';
 import { SegmentedLog, cutAfter, listSegments, segmentPathFor, syncDirectory, type LogLine } from '../log/segments.js';
 import { Progress, formatSeconds } from '../progress.js';
 import { UsageError, loadScenario } from '../scenario-file.js';
@@ -53,6 +54,8 @@ export interface SoakOptions {
   checkpointEvery?: number;
   /** Where progress and verdict lines go; default process.stderr. */
   stderr?: NodeJS.WriteStream;
+  /** An INCOMPLETE verdict fails the soak (exit code 1) instead of being reported beside a pass. */
+  failIncomplete?: boolean;
 }
 
 export interface SoakResult {
@@ -163,7 +166,6 @@ class SoakRunner {
   private readonly session: CoSimulation;
   private twin: CoSimulation | null;
   private readonly faults: CampaignRun;
-  private readonly hold: number;
   private readonly recorder: PhaseRecorder;
   private readonly log: SegmentedLog;
   private readonly samples: PhaseSample[];
@@ -179,7 +181,7 @@ class SoakRunner {
   private mismatches = 0;
   private lastFrame: Frame | null = null;
   private lastFinal: Record<string, unknown> | null = null;
-  private durableVerdicts: { id: string; pass: boolean }[] = [];
+  private durableVerdicts: { id: string; pass: boolean; outcome: VerdictOutcome }[] = [];
   private logError: Error | null = null;
   private readonly startedWall = performance.now();
   private readonly startTau: number;
@@ -211,13 +213,12 @@ class SoakRunner {
     this.checkpointTicks =
       point?.header.soak.checkpointTicks ??
       Math.max(1, options.checkpointEvery ? Math.round(options.checkpointEvery / macroStep) : Math.max(50, Math.ceil(totalTicks / 64)));
-    this.hold = (campaign.detector.lockWindow ?? defaultLockWindow(params)) / eps;
-    this.faults = new CampaignRun(campaign, params, until, this.hold, this.base);
+    this.faults = new CampaignRun(campaign, params, until, this.session.lockTolerance, this.base);
     this.recorder = new PhaseRecorder(campaign.stability.from, this.stride, macroStep, withTwin);
     this.samples = point?.samples ?? [];
     this.verdicts = point?.verdicts ?? [];
     // verdicts read back from the log are on disk already
-    this.durableVerdicts = this.verdicts.map((v) => ({ id: v.id, pass: v.pass }));
+    this.durableVerdicts = this.verdicts.map(durableEntry);
     this.discarded = point?.discarded ?? new Map();
     this.discardedAtStart = this.discarded.size;
     this.startTau = this.session.tau;
@@ -283,7 +284,7 @@ class SoakRunner {
     }
     this.lastFrame = frame;
     for (const event of frame.events) this.append({ record: 'event', event });
-    const view = tickViewOf(frame);
+    const view = tickViewOf(frame, this.session.pairs);
     for (const verdict of this.faults.afterTick(view)) this.appendVerdict(verdict);
     const sample = this.recorder.observe(frame.tick, frame.tau, frame.full.pattern.locked, frame.full.phase, twinFrame ? twinFrame.full.phase : null);
     if (sample) this.samples.push(sample);
@@ -326,7 +327,7 @@ class SoakRunner {
     this.verdicts.push(verdict);
     // acknowledged (printed, counted in status.json) only once it is on disk
     void this.append({ record: 'verdict', verdict }).then(() => {
-      this.durableVerdicts.push({ id: verdict.id, pass: verdict.pass });
+      this.durableVerdicts.push(durableEntry(verdict));
       this.say(verdictLine(verdict, this.base));
     }, () => undefined);
   }
@@ -390,17 +391,18 @@ class SoakRunner {
   private async finish(): Promise<SoakResult> {
     const s = this.session;
     const halted = s.halted;
-    const closing = halted
-      ? this.faults.finishAll(`the run halted at tau ${s.tau.toPrecision(8)}: ${halted}`)
-      : this.faults.finishAll('the soak ended before this fault\'s evaluation window closed');
+    // a halt fails what it cut off; the planned end of the soak leaves it INCOMPLETE where undecided
+    const closing = halted ? this.faults.finishAll(`the run halted at tau ${s.tau.toPrecision(8)}: ${halted}`) : this.faults.finishAll();
     for (const verdict of closing) this.appendVerdict(verdict);
     const tau0 = this.stride * s.macroStep * this.base.secondsPerTau;
     const stability = analyzeStability(this.samples, tau0, this.scenario.units.nominalFrequencyHz);
     const twinStop = this.samples.findIndex((sample) => sample.uncoupledEnsemble === null);
     if (this.campaign.stability.uncoupledReference && twinStop >= 0) this.notes.push(`the uncoupled twin halted (blow-up); its stability series stop after ${twinStop} samples`);
     if (!stability) this.notes.push(`too few stability samples (${this.samples.length}) for frequency-stability metrics; run longer or let the ring lock earlier`);
-    const failed = this.verdicts.filter((v) => !v.pass).length;
-    const exitCode = halted ? EXIT_HALTED : failed > 0 ? EXIT_FAILED : EXIT_PASS;
+    const failed = this.verdicts.filter((v) => v.outcome === 'fail').length;
+    const incomplete = this.verdicts.filter((v) => v.outcome === 'incomplete').length;
+    const exitCode = halted ? EXIT_HALTED : failed > 0 || (this.options.failIncomplete && incomplete > 0) ? EXIT_FAILED : EXIT_PASS;
+    if (incomplete > 0) this.notes.push(`${incomplete} fault${incomplete === 1 ? ' was' : 's were'} INCOMPLETE (judging stopped before the outcome was decided)${this.options.failIncomplete ? '; --fail-incomplete counts them as failures' : '; they do not fail the soak unless --fail-incomplete is given'}`);
     const notStarted = this.faults.notStarted;
     if (notStarted.length > 0) this.notes.push(`faults starting after the end of the soak were not run: ${notStarted.join(', ')}`);
     const outcome: SoakOutcome = {
@@ -411,9 +413,9 @@ class SoakRunner {
       exitCode,
       counts: {
         faults: this.verdicts.length,
-        passed: this.verdicts.length - failed,
+        passed: this.verdicts.length - failed - incomplete,
         failed,
-        incomplete: this.verdicts.filter((v) => !v.complete).length,
+        incomplete,
         notStarted,
       },
       verdicts: this.verdicts,
@@ -465,7 +467,12 @@ class SoakRunner {
       fraction,
       wallSeconds: elapsed,
       eta: done ? '0 s' : doneHere > 0 ? formatSeconds((elapsed * (1 - doneHere)) / doneHere) : '--',
-      faults: { started: this.faults.started, judged: this.durableVerdicts.length, failed: this.durableVerdicts.filter((v) => !v.pass).length },
+      faults: {
+        started: this.faults.started,
+        judged: this.durableVerdicts.length,
+        failed: this.durableVerdicts.filter((v) => v.outcome === 'fail').length,
+        incomplete: this.durableVerdicts.filter((v) => v.outcome === 'incomplete').length,
+      },
       verdicts: this.durableVerdicts.slice(-50),
       updatedAt: new Date().toISOString(),
     });
@@ -482,6 +489,11 @@ function removeSegments(dir: string): void {
   syncDirectory(dir);
 }
 
+function durableEntry(v: FaultVerdict): { id: string; pass: boolean; outcome: VerdictOutcome } {
+  // verdicts in logs written before INCOMPLETE existed carry only `pass`
+  return { id: v.id, pass: v.pass, outcome: v.outcome ?? (v.pass ? 'pass' : 'fail') };
+}
+
 function verdictLine(v: FaultVerdict, base: TimeBase): string {
   const at = (v.appliedAt * base.epsilon).toFixed(1);
   const detail =
@@ -489,6 +501,9 @@ function verdictLine(v: FaultVerdict, base: TimeBase): string {
       ? 'not judged'
       : v.persisted
         ? `persisted, excursion ${v.maxPhaseExcursion.toFixed(3)} rad`
-        : `lost (${v.became.join(' -> ') || 'slip'}), ${v.recovered ? `re-locked after ${v.timeToRelock!.slow.toFixed(2)} slow units` : 'did not re-lock'}`;
-  return `soak: ${v.pass ? 'PASS' : 'FAIL'} ${v.id} (${v.action} at slow ${at}): ${detail}${v.pass ? '' : ` -- ${v.reasons.join('; ')}`}`;
+        : v.settled || !v.became.length
+          ? `no loss, not settled, excursion ${v.maxPhaseExcursion.toFixed(3)} rad`
+          : `lost (${v.became.join(' -> ') || 'slip'}), ${v.recovered ? `re-locked after ${v.timeToRelock?.slow.toFixed(2) ?? '?'} slow units` : 'did not re-lock'}`;
+  const remarks = [...v.reasons, ...v.notes];
+  return `soak: ${v.outcome.toUpperCase()} ${v.id} (${v.action} at slow ${at}): ${detail}${remarks.length ? ` -- ${remarks.join('; ')}` : ''}`;
 }

@@ -13,11 +13,20 @@ export interface QueuedPerturbation {
   uncoupled: boolean;
 }
 
+/** A restore still to apply: it belongs to its fault even after that fault's judging was cut short. */
+export interface PendingRestore {
+  id: string;
+  at: number;
+  restore: Perturbation | null;
+}
+
 export interface CampaignRunState {
   nextExplicit: number;
   pendingRandom: FaultPlan | null;
   generator: GeneratorState | null;
   open: EvaluationState[];
+  /** Absent in checkpoints written before judging could be cut short: then read off the open evaluations. */
+  restores?: PendingRestore[];
   lastView: TickView | null;
   started: number;
   finished: number;
@@ -27,14 +36,20 @@ export interface CampaignRunState {
 /**
  * A campaign running against one session, without any I/O: before each tick it says which
  * faults and restores to queue; after each tick it updates the open evaluations and hands back
- * the verdicts whose windows have closed. Its whole state is plain JSON (save/load), so a soak
- * resumed from a checkpoint continues the campaign exactly.
+ * the verdicts whose windows have closed. Each fault is judged on its own effect: when another
+ * fault is applied while an earlier one is still being judged, the earlier one is judged on
+ * what happened until then (cut short; its restore still comes when due) and what follows is
+ * judged against the later fault. Its whole state is plain JSON (save/load), so a soak resumed
+ * from a checkpoint continues the campaign exactly.
  */
 export class CampaignRun {
   private nextExplicit = 0;
   private pendingRandom: FaultPlan | null = null;
   private readonly generator: FaultGenerator | null;
   private open: FaultEvaluation[] = [];
+  private restores: PendingRestore[] = [];
+  /** Verdicts of evaluations cut short before the latest tick, handed out with its afterTick. */
+  private cut: FaultVerdict[] = [];
   private lastView: TickView | null = null;
   started = 0;
   finished = 0;
@@ -43,9 +58,9 @@ export class CampaignRun {
   /**
    * @param params the live parameters of the session (read for "previous" restore values)
    * @param until end of the soak (tau); random faults whose window would pass it are not drawn
-   * @param hold how long a re-lock must last to count (tau; one lock window)
+   * @param lockTolerance the session's lock tolerance (rad), for the settling times
    */
-  constructor(readonly campaign: Campaign, private readonly params: ModelParameters, readonly until: number, readonly hold: number, readonly base: TimeBase) {
+  constructor(readonly campaign: Campaign, private readonly params: ModelParameters, readonly until: number, readonly lockTolerance: number, readonly base: TimeBase) {
     this.generator = campaign.random ? new FaultGenerator(campaign.random, params, until) : null;
     this.pendingRandom = this.generator?.next() ?? null;
   }
@@ -60,14 +75,18 @@ export class CampaignRun {
     const due = (start: number) => start <= tau * (1 + 1e-12) && start < this.until;
     const queued: QueuedPerturbation[] = [];
     const view = viewOf(this.params);
-    for (const evaluation of this.open) {
-      if (!evaluation.restoreDue(tau)) continue;
-      evaluation.markRestored(tau);
-      const restore = evaluation.state.restore;
-      if (!restore) continue;
-      applyToView(restore, view, this.params);
-      queued.push({ perturbation: restore, by: `campaign:${evaluation.id} (restore)`, uncoupled: appliesToUncoupled(restore) });
-    }
+    this.restores = this.restores.filter((pending) => {
+      if (tau < pending.at * (1 - 1e-12)) return true;
+      const evaluation = this.open.find((e) => e.id === pending.id);
+      evaluation?.markRestored(tau);
+      // a restore inside another fault's span is part of what that fault is judged on: say so
+      for (const other of this.open) if (other !== evaluation && !other.state.overlaps.includes(pending.id)) other.state.overlaps.push(`${pending.id} (restore)`);
+      if (pending.restore) {
+        applyToView(pending.restore, view, this.params);
+        queued.push({ perturbation: pending.restore, by: `campaign:${pending.id} (restore)`, uncoupled: appliesToUncoupled(pending.restore) });
+      }
+      return false;
+    });
     const starting: FaultPlan[] = [];
     while (this.nextExplicit < this.campaign.faults.length && due(this.campaign.faults[this.nextExplicit].start)) {
       starting.push(this.campaign.faults[this.nextExplicit++]);
@@ -76,15 +95,23 @@ export class CampaignRun {
       starting.push(this.pendingRandom);
       this.pendingRandom = this.generator!.next();
     }
+    if (starting.length > 0 && this.open.length > 0) {
+      // judged on their own effect: up to the last tick before the new fault
+      const by = starting.map((plan) => plan.id).join(', ');
+      for (const evaluation of this.open) this.cut.push(this.count(evaluation.finish(false, this.base, undefined, { at: tau, by })));
+      this.open = [];
+    }
     for (const plan of starting) {
       const p = plan.perturbation;
       const restore = plan.restore === 'previous' ? previousValuesOf(p, view, this.params) : plan.restore === 'none' ? null : plan.restore;
       applyToView(p, view, this.params);
-      const evaluation = FaultEvaluation.begin(plan, tau, restore, this.lastView);
+      const evaluation = FaultEvaluation.begin(plan, tau, restore, this.lastView, this.lockTolerance);
+      // faults applied at the same tick are judged together: their effects cannot be told apart
       for (const other of this.open) {
         other.state.overlaps.push(plan.id);
         evaluation.state.overlaps.push(other.id);
       }
+      if (evaluation.state.restoreAt !== null) this.restores.push({ id: plan.id, at: evaluation.state.restoreAt, restore });
       this.open.push(evaluation);
       this.started++;
       queued.push({ perturbation: p, by: `campaign:${plan.id}`, uncoupled: appliesToUncoupled(p) });
@@ -92,11 +119,12 @@ export class CampaignRun {
     return queued;
   }
 
-  /** After a tick: verdicts whose evaluation window closed with it. */
+  /** After a tick: verdicts cut short before it, and those whose evaluation window closed with it. */
   afterTick(view: TickView): FaultVerdict[] {
-    const closed: FaultVerdict[] = [];
+    const closed: FaultVerdict[] = this.cut;
+    this.cut = [];
     this.open = this.open.filter((evaluation) => {
-      evaluation.observe(view, this.hold);
+      evaluation.observe(view);
       if (!evaluation.windowClosed(view.tau)) return true;
       closed.push(this.count(evaluation.finish(true, this.base)));
       return false;
@@ -107,8 +135,9 @@ export class CampaignRun {
 
   /** Verdicts of the windows still open when the soak ends or halts. */
   finishAll(reason?: string): FaultVerdict[] {
-    const verdicts = this.open.map((evaluation) => this.count(evaluation.finish(false, this.base, reason)));
+    const verdicts = [...this.cut, ...this.open.map((evaluation) => this.count(evaluation.finish(false, this.base, reason)))];
     this.open = [];
+    this.cut = [];
     return verdicts;
   }
 
@@ -123,6 +152,7 @@ export class CampaignRun {
       pendingRandom: this.pendingRandom,
       generator: this.generator?.save() ?? null,
       open: this.open.map((e) => e.state),
+      restores: this.restores,
       lastView: this.lastView,
       started: this.started,
       finished: this.finished,
@@ -135,6 +165,9 @@ export class CampaignRun {
     this.pendingRandom = state.pendingRandom;
     if (this.generator && state.generator) this.generator.load(state.generator);
     this.open = state.open.map((s) => new FaultEvaluation(s));
+    this.restores =
+      state.restores ??
+      state.open.filter((s) => s.restoreAt !== null && s.restoredAt === null).map((s) => ({ id: s.plan.id, at: s.restoreAt!, restore: s.restore }));
     this.lastView = state.lastView;
     this.started = state.started;
     this.finished = state.finished;
@@ -143,7 +176,7 @@ export class CampaignRun {
 
   private count(verdict: FaultVerdict): FaultVerdict {
     this.finished++;
-    if (!verdict.pass) this.failed++;
+    if (verdict.outcome === 'fail') this.failed++;
     return verdict;
   }
 }

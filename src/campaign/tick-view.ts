@@ -1,13 +1,32 @@
 import type { Frame } from '../session/session.js';
-import type { PatternReport } from '../session/pattern-tracker.js';
+import { patternIdentity, type PatternReport } from '../session/pattern-tracker.js';
+import { neighbourPhaseDifferences } from '../observe/amplitudes.js';
+import type { LockStatus } from '../observe/lock-detector.js';
+import type { CoupledPairs } from '../observe/coupled-pairs.js';
 
 /** What the verdicts need from one frame: small, plain, and the same for full and guide. */
 export interface SystemView {
-  /** Pattern label, e.g. "in-phase q=0 on mode 0", or "unlocked". */
+  /** The lock detector's committed pattern, e.g. "in-phase q=0 on mode 0", or "unlocked". */
   label: string;
+  status: LockStatus;
   mode: number;
-  /** Mode-0 neighbour phase differences, wrapped (rad). */
+  /** Neighbour phase differences arg a_{k+1} - arg a_k of the carrying mode, wrapped (rad). */
   phaseDifferences: number[];
+  /** Phase differences of the coupled pairs (coupled-pairs.ts) of the carrying mode, wrapped (rad). */
+  pairDifferences: number[];
+  /** 1 where that pair's difference can slip now, 0 where it may wind freely. */
+  watched: number[];
+  /** The detector's cycle-slip count since the run began. */
+  slips: number;
+}
+
+/** What a frame's live prediction says about the current parameters. */
+export interface PredictionView {
+  persists: boolean;
+  tau: number | null;
+  message: string | null;
+  /** Where the persisting pattern settles (its phase differences), when the prediction says. */
+  continued: { mode: number; phaseDifferences: number[] } | null;
 }
 
 export interface TickView {
@@ -18,21 +37,34 @@ export interface TickView {
   /** Full-vs-guide divergence relative to the mean amplitude. */
   divergence: number;
   /** A frame's own prediction of whether the pattern persists under the current parameters, when frames carry one. */
-  prediction: { persists: boolean; tau: number | null; message: string | null } | null;
+  prediction: PredictionView | null;
 }
 
 /** Same wording as the session's lock events. */
 export function patternLabel(pattern: PatternReport): string {
-  if (!pattern.locked) return 'unlocked';
-  return `${pattern.kind}${pattern.q !== undefined ? ` q=${pattern.q}` : ''} on mode ${pattern.mode}`;
+  return pattern.locked ? patternIdentity(pattern.kind, pattern.q, pattern.mode) : 'unlocked';
 }
 
-export function tickViewOf(frame: Frame): TickView {
+function systemViewOf(system: Frame['full'], pairs: CoupledPairs): SystemView {
+  const p = system.pattern;
+  return {
+    label: patternLabel(p),
+    status: p.status,
+    mode: p.mode,
+    phaseDifferences: p.mode === 0 ? system.phaseDifferences : neighbourPhaseDifferences(system.phase, p.mode),
+    pairDifferences: Array.from(pairs.differences(system.phase, p.mode)),
+    watched: Array.from(pairs.watched),
+    slips: p.slips,
+  };
+}
+
+/** The verdicts' view of a frame; `pairs` are the session's coupled pairs as they are at that frame. */
+export function tickViewOf(frame: Frame, pairs: CoupledPairs): TickView {
   return {
     tick: frame.tick,
     tau: frame.tau,
-    full: { label: patternLabel(frame.full.pattern), mode: frame.full.pattern.mode, phaseDifferences: frame.full.phaseDifferences },
-    guide: { label: patternLabel(frame.guide.pattern), mode: frame.guide.pattern.mode, phaseDifferences: frame.guide.phaseDifferences },
+    full: systemViewOf(frame.full, pairs),
+    guide: systemViewOf(frame.guide, pairs),
     divergence: frame.divergence.relative,
     prediction: predictionOf(frame),
   };
@@ -43,20 +75,27 @@ export function tickViewOf(frame: Frame): TickView {
  * (the live predictor is young): a `verdict` of "persists"/"marginal" (true) or "lost" (false),
  * else a boolean `locked` or `stable`, at the top or under `pattern`; anything else is none.
  */
-export function predictionOf(frame: Frame): { persists: boolean; tau: number | null; message: string | null } | null {
+export function predictionOf(frame: Frame): PredictionView | null {
   const prediction = (frame as unknown as { prediction?: unknown }).prediction;
   if (prediction === null || typeof prediction !== 'object') return null;
   const p = prediction as Record<string, unknown>;
   const tau = typeof p.tau === 'number' ? p.tau : null;
   const message = typeof p.message === 'string' ? p.message : null;
-  if (p.verdict === 'persists' || p.verdict === 'marginal') return { persists: true, tau, message };
-  if (p.verdict === 'lost') return { persists: false, tau, message };
+  if (p.verdict === 'persists' || p.verdict === 'marginal') return { persists: true, tau, message, continued: continuedOf(p.pattern) };
+  if (p.verdict === 'lost') return { persists: false, tau, message, continued: null };
   if (typeof p.verdict === 'string') return null;
   for (const holder of [p, p.pattern]) {
     if (holder === null || typeof holder !== 'object') continue;
     const h = holder as Record<string, unknown>;
-    if (typeof h.locked === 'boolean') return { persists: h.locked, tau, message };
-    if (typeof h.stable === 'boolean') return { persists: h.stable, tau, message };
+    if (typeof h.locked === 'boolean') return { persists: h.locked, tau, message, continued: null };
+    if (typeof h.stable === 'boolean') return { persists: h.stable, tau, message, continued: null };
   }
   return null;
+}
+
+function continuedOf(pattern: unknown): PredictionView['continued'] {
+  if (pattern === null || typeof pattern !== 'object') return null;
+  const { mode, phaseDifferences } = pattern as Record<string, unknown>;
+  if (typeof mode !== 'number' || !Array.isArray(phaseDifferences) || !phaseDifferences.every((d) => typeof d === 'number')) return null;
+  return { mode, phaseDifferences: phaseDifferences as number[] };
 }

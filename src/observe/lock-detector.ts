@@ -1,19 +1,100 @@
 import { wrapAngle } from '../util/angles.js';
+import { accumulateExcursion, SLIP_EXCURSION } from './phase-excursion.js';
 
 /**
- * Lock detection over a sliding window: the pattern counts as locked when every neighbour
- * phase difference has stayed within `tolerance` radians of its newest value over the last
- * `window` ticks, and the carrying mode is actually oscillating. Once locked, it counts as
- * unlocked only when the excursion exceeds `hysteresis` times the tolerance, so noise near the
- * threshold does not make the verdict flap. The window is in ticks; the session sizes it in
- * slow time so the test means the same thing at every eps.
+ * The one definition of lock, loss of lock and pattern change, shared by the live timeline, the
+ * soak verdicts and (through phase-excursion.ts) the live look-ahead.
+ *
+ * A ring is locked when it is frequency-locked: the phase differences of its coupled pairs stay
+ * bounded, with no cycle slip. The detector reads one tick at a time and is in one of three states:
+ *
+ * - `unlocked`: not (yet) locked. It locks once, over the last `window` ticks, every phase
+ *   difference has stayed within `tolerance` of its newest value, the carrying mode oscillates
+ *   (mean amplitude above `amplitudeFloor`) and the pattern's identity (a label the caller
+ *   computes from the snapshot) has been the same for the whole window. That identity becomes
+ *   the committed pattern.
+ * - `locked`: settled. The phase differences converge within the tolerance (or, once locked,
+ *   within `hysteresis` times it, so noise near the threshold does not flap) and the snapshot
+ *   has the committed identity.
+ * - `settling`: still frequency-locked, but moving: the differences moved more than the
+ *   hysteresis band over the window, or the snapshot's shape differs from the committed pattern
+ *   and has not yet held over a window (an amplitude kick deforms the shape for a moment). A
+ *   transient is not a pattern change. The caller may keep the committed identity for a state it
+ *   knows to be the committed pattern's continuation although its shape differs (a strained
+ *   in-phase state can classify as a cluster); once that shape has held over a window the
+ *   detector settles in the committed pattern.
+ *
+ * The differences are those of the coupled pairs (coupled-pairs.ts). While locked or settling,
+ * each is unwrapped from where it was the last time the window was converged. A move of pi or
+ * more is a cycle slip (the difference went past the unstable equilibrium of sine-like
+ * coupling): the ring is unlocked. So is a collapse of the
+ * amplitude. Any smooth move to a new locked state, by whatever amount, is not a loss: the
+ * detector settles again. When it settles with another identity that has held over the whole
+ * window, that is a pattern change. Nothing else changes the committed pattern.
+ *
+ * The window is in ticks; the session sizes it in slow time so the test means the same at
+ * every eps.
  */
+export type LockStatus = 'unlocked' | 'settling' | 'locked';
+
+/** Why a ring counts as unlocked after having been locked. */
+export type UnlockCause = 'slip' | 'amplitude' | 'mode';
+
+/** A change of the committed lock state at one tick (none on most ticks). */
+export type LockTransition =
+  | { kind: 'lock'; label: string }
+  | { kind: 'unlock'; was: string; cause: UnlockCause; /** Index of the difference (the caller's pair) that slipped. */ pair?: number; move?: number }
+  | { kind: 'pattern-change'; from: string; to: string; move: number }
+  | { kind: 'settled'; label: string; move: number };
+
+export interface LockDetectorState {
+  version: 2;
+  history: number[];
+  count: number;
+  head: number;
+  status: LockStatus;
+  label: string | null;
+  candidate: string | null;
+  candidateTicks: number;
+  shape: string | null;
+  shapeTicks: number;
+  lockedSince: number | null;
+  settledSince: number | null;
+  settlingSince: number | null;
+  last: number[];
+  offsets: number[];
+  largestMove: number;
+  slips: number;
+}
+
 export class LockDetector {
   private readonly history: Float64Array;
   private count = 0;
   private head = 0;
-  /** tau at which the current locked stretch began, or null when unlocked. */
+  status: LockStatus = 'unlocked';
+  /** The committed pattern identity while locked or settling, else null. */
+  label: string | null = null;
+  /** The snapshot identity of the latest ticks and for how many ticks in a row it has held. */
+  private candidate: string | null = null;
+  private candidateTicks = 0;
+  /** The same for the snapshot's own shape (equal to the identity unless the caller kept the committed one). */
+  private shape: string | null = null;
+  private shapeTicks = 0;
+  /** tau at which the current lock (locked or settling, no slip) began, or null when unlocked. */
   lockedSince: number | null = null;
+  /** tau at which the detector last entered `locked` (first lock or the end of a settling). */
+  settledSince: number | null = null;
+  /** tau at which the current settling began, null unless settling. */
+  settlingSince: number | null = null;
+  /** Unwrapped move of each difference since the window was last converged. */
+  private readonly last: Float64Array;
+  private readonly offsets: Float64Array;
+  /** Largest |offset| of the current move (0 when converged). */
+  largestMove = 0;
+  /** Largest excursion over the window (as far as it is filled) at the latest tick. */
+  windowExcursion = 0;
+  /** Cycle slips seen since the detector was made (never reset, so callers can count per span). */
+  slips = 0;
 
   constructor(
     readonly size: number,
@@ -23,24 +104,91 @@ export class LockDetector {
     readonly hysteresis = 2,
   ) {
     this.history = new Float64Array(size * window);
+    this.last = new Float64Array(size);
+    this.offsets = new Float64Array(size);
   }
 
+  get locked(): boolean {
+    return this.status !== 'unlocked';
+  }
+
+  /** Forget the window and any lock (the slip count is kept). */
   reset(): void {
     this.count = 0;
     this.head = 0;
-    this.lockedSince = null;
+    this.candidate = null;
+    this.candidateTicks = 0;
+    this.shape = null;
+    this.shapeTicks = 0;
+    this.unlock();
   }
 
-  /** Record one tick; returns whether the pattern is locked now. */
-  push(tau: number, phaseDifferences: ArrayLike<number>, meanAmplitude: number): boolean {
-    this.history.set(phaseDifferences, this.head * this.size);
+  /**
+   * Record one tick: the carrying mode's phase differences of the coupled pairs (coupled-pairs.ts),
+   * its mean amplitude, the snapshot's pattern identity and its own shape (the identity unless
+   * the caller kept the committed one); `watched[k]` = 0 exempts difference k from slipping for
+   * now. Returns the transition this tick made, if any.
+   */
+  push(tau: number, differences: ArrayLike<number>, meanAmplitude: number, identity: string, watched?: ArrayLike<number>, shape = identity): LockTransition | null {
+    this.history.set(differences, this.head * this.size);
     this.head = (this.head + 1) % this.window;
     this.count = Math.min(this.count + 1, this.window);
-    const limit = this.lockedSince === null ? this.tolerance : this.hysteresis * this.tolerance;
-    const locked = meanAmplitude > this.amplitudeFloor && this.count === this.window && this.excursion(phaseDifferences) < limit;
-    if (!locked) this.lockedSince = null;
-    else if (this.lockedSince === null) this.lockedSince = tau;
-    return locked;
+    if (identity === this.candidate) this.candidateTicks++;
+    else {
+      this.candidate = identity;
+      this.candidateTicks = 1;
+    }
+    if (shape === this.shape) this.shapeTicks++;
+    else {
+      this.shape = shape;
+      this.shapeTicks = 1;
+    }
+    const transientShape = shape !== this.label && this.shapeTicks < this.window;
+    const oscillating = meanAmplitude > this.amplitudeFloor;
+    const excursion = this.excursion(differences);
+    this.windowExcursion = excursion;
+    const converged = this.count === this.window && excursion < this.tolerance;
+    const steadyIdentity = this.candidateTicks >= this.window;
+
+    if (this.status === 'unlocked') {
+      if (!(oscillating && converged && steadyIdentity)) return null;
+      this.status = 'locked';
+      this.label = identity;
+      this.lockedSince = tau;
+      this.settledSince = tau;
+      this.rebase(differences);
+      return { kind: 'lock', label: identity };
+    }
+
+    const was = this.label!;
+    if (!oscillating) {
+      this.unlock();
+      return { kind: 'unlock', was, cause: 'amplitude' };
+    }
+    this.largestMove = accumulateExcursion(this.last, this.offsets, differences, watched);
+    if (this.largestMove >= SLIP_EXCURSION) {
+      const pair = this.largestOffsetIndex();
+      const move = this.offsets[pair];
+      this.slips++;
+      this.unlock();
+      return { kind: 'unlock', was, cause: 'slip', pair, move };
+    }
+    const move = this.largestMove;
+    if (converged && identity === was && !transientShape) {
+      const settledNow = this.status === 'settling';
+      this.enterLocked(tau, differences);
+      return settledNow ? { kind: 'settled', label: was, move } : null;
+    }
+    if (converged && identity !== was && steadyIdentity) {
+      this.label = identity;
+      this.enterLocked(tau, differences);
+      return { kind: 'pattern-change', from: was, to: identity, move };
+    }
+    if (this.status === 'locked' && (identity !== was || transientShape || excursion >= this.hysteresis * this.tolerance)) {
+      this.status = 'settling';
+      this.settlingSince = tau;
+    }
+    return null;
   }
 
   /** Largest excursion of any phase difference from its newest value over the window. */
@@ -54,16 +202,80 @@ export class LockDetector {
   }
 
   /** Everything needed to continue exactly where it was (for checkpoints). */
-  save(): { history: number[]; count: number; head: number; lockedSince: number | null } {
-    return { history: Array.from(this.history), count: this.count, head: this.head, lockedSince: this.lockedSince };
+  save(): LockDetectorState {
+    return {
+      version: 2,
+      history: Array.from(this.history),
+      count: this.count,
+      head: this.head,
+      status: this.status,
+      label: this.label,
+      candidate: this.candidate,
+      candidateTicks: this.candidateTicks,
+      shape: this.shape,
+      shapeTicks: this.shapeTicks,
+      lockedSince: this.lockedSince,
+      settledSince: this.settledSince,
+      settlingSince: this.settlingSince,
+      last: Array.from(this.last),
+      offsets: Array.from(this.offsets),
+      largestMove: this.largestMove,
+      slips: this.slips,
+    };
   }
 
-  load(saved: ReturnType<LockDetector['save']>): void {
+  load(saved: LockDetectorState): void {
     if (saved.history.length !== this.history.length) throw new RangeError('lock detector checkpoint does not match this window');
+    if (saved.version !== 2) {
+      // a checkpoint of the older detector (no slip tracking): start over, unlocked
+      this.reset();
+      return;
+    }
     this.history.set(saved.history);
     this.count = saved.count;
     this.head = saved.head;
+    this.status = saved.status;
+    this.label = saved.label;
+    this.candidate = saved.candidate;
+    this.candidateTicks = saved.candidateTicks;
+    this.shape = saved.shape;
+    this.shapeTicks = saved.shapeTicks;
     this.lockedSince = saved.lockedSince;
+    this.settledSince = saved.settledSince;
+    this.settlingSince = saved.settlingSince;
+    this.last.set(saved.last);
+    this.offsets.set(saved.offsets);
+    this.largestMove = saved.largestMove;
+    this.slips = saved.slips;
   }
 
+  private enterLocked(tau: number, differences: ArrayLike<number>): void {
+    if (this.status !== 'locked') this.settledSince = tau;
+    this.status = 'locked';
+    this.settlingSince = null;
+    this.rebase(differences);
+  }
+
+  /** The current differences become the point moves are measured from. */
+  private rebase(differences: ArrayLike<number>): void {
+    this.last.set(differences);
+    this.offsets.fill(0);
+    this.largestMove = 0;
+  }
+
+  private unlock(): void {
+    this.status = 'unlocked';
+    this.label = null;
+    this.lockedSince = null;
+    this.settledSince = null;
+    this.settlingSince = null;
+    this.offsets.fill(0);
+    this.largestMove = 0;
+  }
+
+  private largestOffsetIndex(): number {
+    let best = 0;
+    for (let k = 1; k < this.size; k++) if (Math.abs(this.offsets[k]) > Math.abs(this.offsets[best])) best = k;
+    return best;
+  }
 }

@@ -6,12 +6,14 @@
 import { classifySnapshot, type PatternKind } from '../pattern/classify.js';
 import { patternSymmetry } from '../pattern/symmetry.js';
 import { modeAmplitudes, neighbourPhaseDifferences, readObservables } from '../observe/amplitudes.js';
-import { deltaToPpm, tauToSeconds } from '../scenario/units.js';
+import { combining } from '../pattern/combining.js';
+import { deltaToPpm, omegaToOffsetPpm, tauToSeconds } from '../scenario/units.js';
 import type { LockedStability, LockedState, Verdict } from './locked-state.js';
 import type { GuideModel } from './guide-model.js';
 
-export interface TimeConstant {
-  /** 1 / |margin| in slow time (eps tau). */
+/** A span of time in the time bases a reader may want (a time constant, a transit time). */
+export interface Duration {
+  /** In slow time (eps tau). */
   slowTime: number;
   /** The same in tau. */
   tau: number;
@@ -38,6 +40,20 @@ export interface LockedPatternDescription {
   clusters?: number[][];
   /** The mode carrying the energy (whose pattern `kind` describes). */
   mode: number;
+  /**
+   * False when an unwanted mode carries the pattern: a design defect whatever its stability, as
+   * the board's output then sits at that mode's frequency (see outputOffsetPpm).
+   */
+  wantedMode: boolean;
+  /**
+   * Frequency of the carrying mode's locked oscillation against the wanted mode's nominal
+   * frequency, in ppm (about the mode offset, e.g. +1500, for an unwanted mode); null when eps = 0.
+   */
+  outputOffsetPpm: number | null;
+  /** Largest phase distance of a node from the array's mean phase, carrying mode (rad). */
+  spread: number | null;
+  /** 20 log10(|mean a| / mean |a|) of the carrying mode (dB): the summed output against N parts in phase. */
+  combiningLossDb: number | null;
   /** true / false when the margin is resolved, null when it is marginal. */
   stable: boolean | null;
   stability: Verdict;
@@ -46,7 +62,7 @@ export interface LockedPatternDescription {
   /** Half-width of the marginal band around 0 (see marginTolerance). */
   marginTolerance: number;
   /** e-folding time 1/|margin| of the slowest perturbation (growth when unstable); null when not finite. */
-  timeConstant: TimeConstant | null;
+  timeConstant: Duration | null;
   eigenvalues: { re: number; im: number }[];
   /** arg a_{k+1} - arg a_k of the carrying mode, wrapped to (-pi, pi]. */
   phaseDifferences: number[];
@@ -56,7 +72,7 @@ export interface LockedPatternDescription {
   meanAmplitude: number[];
   /** Collective frequency shift per mode (slow time), 0 for a mode at rest (first part's rate if several). */
   rotation: number[];
-  /** The same in ppm (relative frequency), null when eps = 0. */
+  /** Each mode's own shift from its own nominal frequency in ppm (relative frequency), null when eps = 0. */
   frequencyShiftPpm: (number | null)[];
   /** Every locked frequency: one per oscillating mode and connected part. */
   shifts: FrequencyShift[];
@@ -67,14 +83,19 @@ export interface LockedPatternDescription {
   state: number[];
 }
 
-/** Time constant of a rate in slow time; null for 0, non-finite rates or eps = 0. */
-export function timeConstantOf(rate: number, model: GuideModel): TimeConstant | null {
+/** A span of slow time in every time base; null for a non-finite or negative span or eps = 0. */
+export function durationOf(slowTime: number, model: GuideModel): Duration | null {
   const eps = model.params.epsilon;
-  if (!(Math.abs(rate) > 0) || !Number.isFinite(rate) || !(eps > 0)) return null;
-  const slowTime = 1 / Math.abs(rate);
+  if (!(slowTime >= 0) || !Number.isFinite(slowTime) || !(eps > 0)) return null;
   const tau = slowTime / eps;
   const omega0 = model.params.omega[0];
   return { slowTime, tau, periods: (tau * omega0) / (2 * Math.PI), seconds: tauToSeconds(tau, model.nominalFrequencyHz, omega0) };
+}
+
+/** Time constant 1 / |rate| of a rate in slow time; null for 0, non-finite rates or eps = 0. */
+export function timeConstantOf(rate: number, model: GuideModel): Duration | null {
+  if (!(Math.abs(rate) > 0) || !Number.isFinite(rate)) return null;
+  return durationOf(1 / Math.abs(rate), model);
 }
 
 /** The description of a solved locked state (see LockedPatternDescription). */
@@ -91,9 +112,14 @@ export function describeLockedState(model: GuideModel, locked: LockedState, stab
     ppm: epsilon > 0 ? deltaToPpm(locked.rates[c] / omega[g.mode], epsilon) : null,
   }));
   const rotation = Array.from({ length: modes }, (_, j) => shifts.find((s) => s.mode === j)?.rate ?? 0);
+  const combined = combining(re, im);
   const description: LockedPatternDescription = {
     kind: shape.kind,
     mode,
+    wantedMode: mode === 0,
+    outputOffsetPpm: epsilon > 0 ? omegaToOffsetPpm(omega[mode] + epsilon * rotation[mode], omega[0]) : null,
+    spread: combined.spread,
+    combiningLossDb: combined.lossDb,
     stable: stability.verdict === 'marginal' ? null : stability.verdict === 'stable',
     stability: stability.verdict,
     margin: stability.margin,

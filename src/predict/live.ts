@@ -22,11 +22,13 @@ import type { ModelParameters } from '../model/parameters.js';
 import type { Scenario } from '../scenario/types.js';
 import type { PatternKind } from '../pattern/classify.js';
 import { carryingMode, modeAmplitudes } from '../observe/amplitudes.js';
+import { CoupledPairs } from '../observe/coupled-pairs.js';
 import { GuideModel, copyParameters, parameterFingerprint } from './guide-model.js';
 import { homotopy, setParameter, snapshotParameters, type ParameterSnapshot } from './continuation-parameter.js';
 import { continueBranch, type LimitKind } from './continuation.js';
 import { lockedStateStability, solveLockedState, type LockedStability, type LockedState, type Verdict } from './locked-state.js';
-import { describeLockedState, type TimeConstant } from './describe.js';
+import { describeLockedState, durationOf, type Duration } from './describe.js';
+import { wrapAngle } from '../util/angles.js';
 import { lookAhead } from './look-ahead.js';
 import { sameUpToSymmetry } from './catalogue.js';
 
@@ -48,10 +50,18 @@ export interface PredictedPattern {
   stability: Verdict | null;
   stable: boolean | null;
   margin: number | null;
-  timeConstant: TimeConstant | null;
+  /** e-folding time 1/|margin| of the slowest perturbation (not a settling time). */
+  timeConstant: Duration | null;
+  /**
+   * How long the look-ahead took to arrive within the lock tolerance of this state, from the
+   * perturbation; null when no look-ahead reached it (not predicted).
+   */
+  transit: Duration | null;
   phaseDifferences: number[];
   meanAmplitude: number[];
   frequencyShiftPpm: (number | null)[];
+  /** Output frequency against the wanted mode's nominal frequency (ppm), null when unknown. */
+  outputOffsetPpm: number | null;
 }
 
 /** A type alias rather than an interface, so readers may treat it as a plain record. */
@@ -67,9 +77,10 @@ export type LivePrediction = {
   margin: number | null;
   /** Where on the way from the previous to the new parameters the current pattern was lost. */
   lostAt: { fraction: number; kind: LimitKind } | null;
-  /** The look-ahead used to find the successor, when one ran. */
   /** The look-ahead from the actual state under the new parameters: how long, whether it settled, whether it slipped a cycle. */
-  lookAhead: { slowTime: number; settled: boolean; slipped: boolean; maxPhaseExcursion: number } | null;
+  lookAhead: { slowTime: number; settled: boolean; slipped: boolean; maxPhaseExcursion: number; transitSlowTime: number | null } | null;
+  /** Largest move of a coupled pair's phase difference from the state before the perturbation to the predicted one (rad). */
+  shift: number | null;
   fromCache: boolean;
   message: string;
 };
@@ -79,6 +90,8 @@ export const LIVE_PREDICTION_SIZE_LIMIT = 160;
 const CACHE_SIZE = 16;
 /** Field evaluations the live look-ahead may spend (a few tenths of a second on the demo board). */
 const LOOK_AHEAD_EVALUATIONS = 6000;
+/** A predicted move of a phase difference below this (rad) is not worth a word in the message. */
+const MOVE_WORTH_SAYING = 0.005;
 
 export interface LivePredictorState {
   previous: { detuning: number[]; linkWeight: number[]; strength: number; reactive: number; dissipative: number };
@@ -92,7 +105,11 @@ export class LivePredictor {
   private previous: ParameterSnapshot;
   private readonly cache = new Map<string, LivePrediction>();
 
-  constructor(scenario: Scenario, params: ModelParameters) {
+  /**
+   * @param arrivalTolerance the lock tolerance (rad): the look-ahead has arrived once every phase
+   *   difference stays this close to its destination, as the lock detector settles
+   */
+  constructor(scenario: Scenario, params: ModelParameters, private readonly arrivalTolerance = 0.05) {
     this.model = new GuideModel(scenario, params);
     this.previous = snapshotParameters(params);
   }
@@ -103,11 +120,13 @@ export class LivePredictor {
   }
 
   /**
-   * Prediction for the guiding system at `state` under `params` (the new parameters), given the
-   * pattern it was in. `kicked` means the state itself was disturbed, so only a look-ahead can say
-   * where it goes.
+   * Prediction for the guiding system under `params` (the new parameters), given the pattern it
+   * was in: `before` is its state just before the perturbation (at rest on that pattern under the
+   * previous parameters, the start of the continuation), `state` the state just after it (where
+   * the look-ahead starts; different from `before` when the state itself was kicked). Kicked
+   * results depend on the kick, so they are not cached.
    */
-  predict(params: ModelParameters, state: Float64Array, current: PatternLabel, tau: number, kicked = false): LivePrediction {
+  predict(params: ModelParameters, before: Float64Array, state: Float64Array, current: PatternLabel, tau: number, kicked = false): LivePrediction {
     const from = this.previous;
     const to = snapshotParameters(params);
     this.previous = to;
@@ -118,7 +137,7 @@ export class LivePredictor {
       this.cache.set(key, cached);
       return { ...cached, tau, fromCache: true };
     }
-    const prediction = this.compute(params, from, to, state, current, tau, kicked);
+    const prediction = this.compute(params, from, to, before, state, current, tau);
     if (!kicked) {
       this.cache.set(key, prediction);
       if (this.cache.size > CACHE_SIZE) this.cache.delete(this.cache.keys().next().value!);
@@ -141,59 +160,68 @@ export class LivePredictor {
     for (const [k, v] of saved.cache) this.cache.set(k, structuredClone(v));
   }
 
-  private compute(params: ModelParameters, from: ParameterSnapshot, to: ParameterSnapshot, state: Float64Array, current: PatternLabel, tau: number, kicked: boolean): LivePrediction {
+  private compute(params: ModelParameters, from: ParameterSnapshot, to: ParameterSnapshot, before: Float64Array, state: Float64Array, current: PatternLabel, tau: number): LivePrediction {
     const model = this.model;
-    const base = { tau, current, lostAt: null, lookAhead: null, fromCache: false };
+    const base = { tau, current, lostAt: null, lookAhead: null, shift: null, fromCache: false };
     if (model.size > LIVE_PREDICTION_SIZE_LIMIT) {
       return { ...base, verdict: 'unknown', pattern: null, margin: null, message: `not predicted: ${model.size} slow variables is above the live limit of ${LIVE_PREDICTION_SIZE_LIMIT}` };
     }
     copyParameters(params, model.params);
     let lostAt: LivePrediction['lostAt'] = null;
     let continued: { locked: LockedState; stability: LockedStability } | null = null;
-    if (current.locked && !kicked) {
-      const outcome = this.continueToNewParameters(from, to, state);
+    if (current.locked) {
+      const outcome = this.continueToNewParameters(from, to, before);
       if (outcome.kind === 'reached' && outcome.stability.verdict === 'marginal') {
-        const pattern = this.predictedPattern(outcome.locked, outcome.stability);
+        const pattern = this.predictedPattern(outcome.locked, outcome.stability, null);
         const message = `the ${describeLabel(current)} pattern continues but its stability is not resolved (|margin| <= ${outcome.stability.tolerance.toPrecision(2)})`;
-        return { ...base, verdict: 'marginal', pattern, margin: pattern.margin, message };
+        return { ...base, verdict: 'marginal', pattern, margin: pattern.margin, shift: largestShift(before, outcome.locked.state, model, current.mode), message };
       }
       if (outcome.kind === 'reached' && outcome.stability.verdict === 'stable') continued = outcome;
       else lostAt = outcome.kind === 'reached' ? { fraction: 1, kind: 'branch-point' } : { fraction: outcome.fraction, kind: outcome.limit };
     }
     // The way there: a fault is a jump, so the continued state existing and being stable is not
     // enough; the state the ring is actually in must also lie in its basin (no cycle slip on the
-    // way, no other destination).
+    // way, no other destination). The look-ahead judges with the lock detector's definitions:
+    // a slip is a move of pi, and arrival is within the lock tolerance.
     copyParameters(params, model.params);
-    const ahead = lookAhead(model, state, { maxEvaluations: LOOK_AHEAD_EVALUATIONS });
-    const lookAheadInfo = { slowTime: ahead.slowTime, settled: ahead.settled, slipped: ahead.slipped, maxPhaseExcursion: ahead.maxPhaseExcursion };
+    const ahead = lookAhead(model, state, { maxEvaluations: LOOK_AHEAD_EVALUATIONS, arrivalTolerance: this.arrivalTolerance });
+    const lookAheadInfo = { slowTime: ahead.slowTime, settled: ahead.settled, slipped: ahead.slipped, maxPhaseExcursion: ahead.maxPhaseExcursion, transitSlowTime: ahead.transitSlowTime };
     const settledOn = ahead.settled && ahead.locked && ahead.stability ? ahead.locked : null;
     if (continued) {
       const elsewhere = settledOn !== null && !sameUpToSymmetry(settledOn.state, continued.locked.state, [identity(model.nodes)], model.nodes, model.modes, model.parts(), 1e-3);
       if (!ahead.slipped && !elsewhere) {
         // Settled on the continued state, or still on the way within the budget without a slip.
-        const pattern = this.predictedPattern(continued.locked, continued.stability);
-        const message = `the ${describeLabel(current)} pattern persists (margin ${continued.stability.margin.toPrecision(3)} in slow time)`;
-        return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message };
+        const pattern = this.predictedPattern(continued.locked, continued.stability, settledOn ? ahead.transitSlowTime : null);
+        const shift = largestShift(before, continued.locked.state, model, current.mode);
+        const moving = shift >= MOVE_WORTH_SAYING ? `, moving ${shift.toFixed(2)} rad to its continued state` : '';
+        const arrival = settledOn
+          ? `; the look-ahead arrives within ${this.arrivalTolerance} rad after ${ahead.transitSlowTime!.toPrecision(3)} slow time units`
+          : `; no cycle slip in the ${ahead.slowTime.toPrecision(3)} slow time units looked ahead, not yet settled`;
+        const message = `the ${describeLabel(current)} pattern persists${moving}${arrival} (margin ${continued.stability.margin.toPrecision(3)} in slow time)`;
+        return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, shift, message };
       }
     }
-    const pattern = settledOn ? this.predictedPattern(settledOn, ahead.stability!) : this.unsettledPattern(ahead.state);
-    const becomes = settledOn ? `becomes ${describeLabel(pattern)} (margin ${pattern.margin?.toPrecision(3)})` : `does not settle within ${ahead.slowTime.toPrecision(3)} slow time units (predicted unlocked)`;
+    const pattern = settledOn ? this.predictedPattern(settledOn, ahead.stability!, ahead.transitSlowTime) : this.unsettledPattern(ahead.state);
+    const becomes = settledOn
+      ? `becomes ${describeLabel(pattern)} after about ${ahead.transitSlowTime!.toPrecision(3)} slow time units (margin ${pattern.margin?.toPrecision(3)})`
+      : `does not settle within ${ahead.slowTime.toPrecision(3)} slow time units (predicted unlocked)`;
+    const shift = settledOn ? largestShift(before, settledOn.state, model, current.mode) : null;
     if (!current.locked) {
-      return { ...base, verdict: 'not-locked', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `the guide was not locked; it ${becomes}` };
+      return { ...base, verdict: 'not-locked', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, shift, message: `the guide was not locked; it ${becomes}` };
     }
     const slip = ahead.slipped ? ` with a cycle slip (a phase difference moves ${ahead.maxPhaseExcursion.toFixed(2)} rad)` : '';
     if (continued) {
       const why = ahead.slipped ? 'the jump throws the phases out of its basin' : 'the jump carries the state into another basin';
-      return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern is lost although it still exists and is stable under the new parameters: ${why}${slip}; it ${becomes}` };
+      return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, shift, message: `the ${describeLabel(current)} pattern is lost although it still exists and is stable under the new parameters: ${why}${slip}; it ${becomes}` };
     }
     const same = settledOn !== null && pattern.kind === current.kind && pattern.q === current.q && pattern.mode === current.mode;
     if (same && !ahead.slipped) {
-      // The continuation could not carry it (it was kicked, or not at rest under the old
-      // parameters), but the guiding system returns to the same pattern without a slip.
-      return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern returns${kicked ? ' after the kick' : ''} (margin ${pattern.margin?.toPrecision(3)})` };
+      // The continuation could not carry it, but the guiding system returns to the same pattern
+      // without a slip.
+      return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, shift, message: `the ${describeLabel(current)} pattern returns without a cycle slip (margin ${pattern.margin?.toPrecision(3)})` };
     }
     const where = lostAt && lostAt.fraction < 1 ? ` at ${(100 * lostAt.fraction).toFixed(1)}% of the change (${lostAt.kind})` : '';
-    return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lostAt, lookAhead: lookAheadInfo, message: `the ${describeLabel(current)} pattern is lost${where}${slip}; it ${becomes}` };
+    return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lostAt, lookAhead: lookAheadInfo, shift, message: `the ${describeLabel(current)} pattern is lost${where}${slip}; it ${becomes}` };
   }
 
   /** Continues the current state from the previous to the new parameters (see the module header). */
@@ -202,9 +230,10 @@ export class LivePredictor {
     | { kind: 'lost'; fraction: number; limit: LimitKind } {
     const model = this.model;
     const spec = homotopy(from, to);
-    setParameter(model.params, spec, 0);
-    let end: Float64Array;
-    try {
+    let end: Float64Array = state;
+    // a kick (or a noise change) leaves the parameters as they were: nothing to continue along
+    if (!sameParameters(from, to)) try {
+      setParameter(model.params, spec, 0);
       // A perturbation is a jump, not a slow ramp: only the existence of the branch up to h = 1
       // matters on the way (folds); stability is judged once, at the end.
       const branch = continueBranch(model, state, spec, { directions: ['increasing'], range: { max: 1 }, maxSteps: 80, initialStep: 0.25, maxStep: 0.5, keepStates: true, monitorStability: false });
@@ -223,7 +252,7 @@ export class LivePredictor {
     return { kind: 'reached', locked, stability: lockedStateStability(model.field, locked, model.modes, model.accuracy) };
   }
 
-  private predictedPattern(locked: LockedState, stability: LockedStability): PredictedPattern {
+  private predictedPattern(locked: LockedState, stability: LockedStability, transitSlowTime: number | null): PredictedPattern {
     const d = describeLockedState(this.model, locked, stability, []);
     const pattern: PredictedPattern = {
       kind: d.kind,
@@ -233,9 +262,11 @@ export class LivePredictor {
       stable: d.stable,
       margin: d.margin,
       timeConstant: d.timeConstant,
+      transit: transitSlowTime === null ? null : durationOf(transitSlowTime, this.model),
       phaseDifferences: d.phaseDifferences,
       meanAmplitude: d.meanAmplitude,
       frequencyShiftPpm: d.frequencyShiftPpm,
+      outputOffsetPpm: d.outputOffsetPpm,
     };
     if (d.q !== undefined) pattern.q = d.q;
     return pattern;
@@ -254,6 +285,7 @@ export class LivePredictor {
       stable: null,
       margin: null,
       timeConstant: null,
+      transit: null,
       phaseDifferences: phases.map((p, k) => {
         const d = phases[(k + 1) % nodes] - p;
         return Math.atan2(Math.sin(d), Math.cos(d));
@@ -264,8 +296,24 @@ export class LivePredictor {
         return s / nodes;
       }),
       frequencyShiftPpm: new Array(modes).fill(null),
+      outputOffsetPpm: null,
     };
   }
+}
+
+function sameParameters(a: ParameterSnapshot, b: ParameterSnapshot): boolean {
+  const equal = (x: Float64Array, y: Float64Array) => x.length === y.length && x.every((v, i) => v === y[i]);
+  return a.strength === b.strength && a.reactive === b.reactive && a.dissipative === b.dissipative && equal(a.detuning, b.detuning) && equal(a.linkWeight, b.linkWeight);
+}
+
+/** Largest |change| of a coupled pair's phase difference of `mode` from one rotating-frame state to another (rad). */
+function largestShift(from: Float64Array, to: Float64Array, model: GuideModel, mode: number): number {
+  const pairs = new CoupledPairs(model.params);
+  const a = pairs.stateDifferences(from, model.modes, mode);
+  const b = pairs.stateDifferences(to, model.modes, mode);
+  let largest = 0;
+  for (let p = 0; p < pairs.size; p++) if (pairs.watched[p]) largest = Math.max(largest, Math.abs(wrapAngle(b[p] - a[p])));
+  return largest;
 }
 
 function identity(nodes: number): Int32Array {

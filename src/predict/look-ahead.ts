@@ -15,12 +15,19 @@ import { activePhaseGenerators, applyPhaseGenerator } from './phase-orbits.js';
 import { lockedStateStability, solveLockedState, type LockedStability, type LockedState } from './locked-state.js';
 import { accumulateExcursion, SLIP_EXCURSION } from '../observe/phase-excursion.js';
 import { carryingMode } from '../observe/amplitudes.js';
+import { CoupledPairs } from '../observe/coupled-pairs.js';
+import { wrapAngle } from '../util/angles.js';
 
 export interface LookAheadOptions {
   /** Longest look-ahead in slow time; default 400 coupling relaxation times (see couplingRate). */
   maxSlowTime?: number;
   /** Largest number of field evaluations; default 40000. */
   maxEvaluations?: number;
+  /**
+   * Distance (rad, every watched phase difference) within which the way counts as arrived at the
+   * destination, for the transit time; default 0.05, the session's default lock tolerance.
+   */
+  arrivalTolerance?: number;
 }
 
 export interface LookAheadResult {
@@ -32,10 +39,16 @@ export interface LookAheadResult {
   state: Float64Array;
   locked: LockedState | null;
   stability: LockedStability | null;
-  /** Largest total move of a neighbour phase difference (carrying mode of the start), radians. */
+  /** Largest total move of a coupled pair's phase difference (carrying mode of the start), radians. */
   maxPhaseExcursion: number;
   /** maxPhaseExcursion reached pi: a cycle slip on the way. */
   slipped: boolean;
+  /**
+   * Slow time from the start after which every watched phase difference stays within the
+   * arrival tolerance of the destination's; null when it did not settle. Resolved to the
+   * watch's sampling (at least eight samples per coupling time).
+   */
+  transitSlowTime: number | null;
 }
 
 /** The fastest phase-coupling rate (see GuideModel.couplingRate). */
@@ -74,8 +87,10 @@ const SAMPLE_TURN = 1 / 8;
 const SAMPLES_PER_CHUNK = 8;
 
 /**
- * Neighbour phase differences (k to k+1, cyclic) of one mode and the fastest rate at which any
- * of them changes, from the state and its velocity (a = x - i y, so arg' = (y x' - x y') / |a|^2).
+ * Phase differences of the coupled pairs (coupled-pairs.ts) of one mode and the fastest rate at
+ * which any of them changes, from the state and its velocity (a = x - i y, so
+ * arg' = (y x' - x y') / |a|^2): the lock detector's differences, so that a slip here is a slip
+ * there.
  */
 class PhaseDifferenceWatch {
   readonly last: Float64Array;
@@ -84,14 +99,14 @@ class PhaseDifferenceWatch {
   private readonly rate: Float64Array;
   maxExcursion = 0;
 
-  constructor(private readonly nodes: number, private readonly modes: number, private readonly mode: number) {
-    this.last = new Float64Array(nodes);
-    this.offsets = new Float64Array(nodes);
+  constructor(readonly pairs: CoupledPairs, private readonly nodes: number, private readonly modes: number, readonly mode: number) {
+    this.last = new Float64Array(pairs.size);
+    this.offsets = new Float64Array(pairs.size);
     this.phase = new Float64Array(nodes);
     this.rate = new Float64Array(nodes);
   }
 
-  /** Reads the phases and their rates; returns the fastest neighbour-difference rate. */
+  /** Reads the phases and their rates; returns the fastest pair-difference rate. */
   read(y: Float64Array, velocity: Float64Array): number {
     const { nodes, modes, mode, phase, rate } = this;
     for (let k = 0; k < nodes; k++) {
@@ -100,16 +115,33 @@ class PhaseDifferenceWatch {
       phase[k] = Math.atan2(-v, x);
       rate[k] = (v * velocity[i] - x * velocity[i + 1]) / Math.max(x * x + v * v, 1e-300);
     }
+    const ends = this.pairs.ends;
     let fastest = 0;
-    for (let k = 0; k < nodes; k++) fastest = Math.max(fastest, Math.abs(rate[(k + 1) % nodes] - rate[k]));
+    for (let p = 0; p < this.pairs.size; p++) fastest = Math.max(fastest, Math.abs(rate[ends[2 * p + 1]] - rate[ends[2 * p]]));
     return fastest;
   }
 
   differences(out: Float64Array): Float64Array {
-    const { nodes, phase } = this;
-    for (let k = 0; k < nodes; k++) out[k] = phase[(k + 1) % nodes] - phase[k];
+    const { phase } = this;
+    const ends = this.pairs.ends;
+    for (let p = 0; p < this.pairs.size; p++) out[p] = wrapAngle(phase[ends[2 * p + 1]] - phase[ends[2 * p]]);
     return out;
   }
+}
+
+/** The last sample time after which every sample stays within `tolerance` of `destination` (wrapped). */
+function arrivalTime(times: readonly number[], samples: readonly Float64Array[], destination: Float64Array, tolerance: number): number {
+  let arrival = 0;
+  for (let i = samples.length - 1; i >= 0; i--) {
+    const s = samples[i];
+    let far = false;
+    for (let k = 0; k < s.length && !far; k++) far = Math.abs(wrapAngle(s[k] - destination[k])) > tolerance;
+    if (far) {
+      arrival = i + 1 < times.length ? times[i + 1] : times[i];
+      break;
+    }
+  }
+  return arrival;
 }
 
 /** Follows the guiding system from `start` until it settles on a stable locked state (see the module header). */
@@ -125,8 +157,13 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
   const scratch = new Float64Array(n);
   const parts = model.parts();
   const { nodes, modes } = model.params;
-  const watch = new PhaseDifferenceWatch(nodes, modes, carryingMode(start, nodes, modes));
-  const differences = new Float64Array(nodes);
+  const pairs = new CoupledPairs(model.params);
+  const watch = new PhaseDifferenceWatch(pairs, nodes, modes, carryingMode(start, nodes, modes));
+  const differences = new Float64Array(pairs.size);
+  const arrivalTolerance = options.arrivalTolerance ?? 0.05;
+  // the watched differences over time, for the transit time once the destination is known
+  const sampleTimes: number[] = [];
+  const samples: Float64Array[] = [];
   let t = 0;
   /** Field evaluations beside the integrator's: the slip watch's readings and the Newton probes. */
   let ownEvaluations = 0;
@@ -141,14 +178,19 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
   /** One watched sample: unwraps the differences and returns the time to the next sample. */
   const sample = (): number => {
     const next = look();
-    watch.maxExcursion = Math.max(watch.maxExcursion, accumulateExcursion(watch.last, watch.offsets, watch.differences(differences)));
+    watch.maxExcursion = Math.max(watch.maxExcursion, accumulateExcursion(watch.last, watch.offsets, watch.differences(differences), pairs.watched));
+    sampleTimes.push(t);
+    samples.push(Float64Array.from(differences));
     return next;
   };
   const result = (settled: boolean, state: Float64Array, locked: LockedState | null, stability: LockedStability | null): LookAheadResult => ({
     settled, slowTime: t, evaluations: spent(), state, locked, stability, maxPhaseExcursion: watch.maxExcursion, slipped: watch.maxExcursion >= SLIP_EXCURSION,
+    transitSlowTime: settled ? arrivalTime(sampleTimes, samples, pairs.stateDifferences(state, modes, watch.mode), arrivalTolerance) : null,
   });
   let interval = look();
   watch.differences(watch.last);
+  sampleTimes.push(0);
+  samples.push(Float64Array.from(watch.last));
   while (t < maxSlowTime && spent() < maxEvaluations) {
     const end = t + chunk;
     let failed = false;

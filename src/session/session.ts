@@ -15,7 +15,9 @@ import { lockedStateStability, solveLockedState } from '../predict/locked-state.
 import { GuideModel } from '../predict/guide-model.js';
 import { LivePredictor, type LivePrediction, type LivePredictorState } from '../predict/live.js';
 import { applyPerturbation, describePerturbation, parsePerturbation, type Perturbation } from './perturbation.js';
-import { PatternTracker, type PatternReport } from './pattern-tracker.js';
+import { PatternTracker, patternIdentity, type PatternReport, type PatternTrackerState } from './pattern-tracker.js';
+import type { LockTransition } from '../observe/lock-detector.js';
+import { CoupledPairs } from '../observe/coupled-pairs.js';
 import type { RandomState } from '../util/random.js';
 
 export interface SessionOptions {
@@ -79,8 +81,7 @@ export interface SessionCheckpoint {
   queue: { perturbation: Perturbation; by: string }[];
   eventCount: number;
   halted: string | null;
-  trackers: { full: ReturnType<PatternTracker['save']>; guide: ReturnType<PatternTracker['save']> };
-  lastFullKind: string;
+  trackers: { full: PatternTrackerState; guide: PatternTrackerState };
   margin: { stale: boolean; value: { margin: number; rotation: number[] } | null };
   /** Which integrator ran, with the envelope's state (absent in older checkpoints: micro steps). */
   integrator?: IntegratorSwitchCheckpoint;
@@ -149,6 +150,10 @@ export class CoSimulation {
   tick = 0;
   halted: string | null = null;
   group: Int32Array[];
+  /** Largest phase-difference excursion over the lock window that counts as settled (rad). */
+  readonly lockTolerance: number;
+  /** The coupled pairs whose phase differences the lock detectors watch (updated after link and coupling faults). */
+  readonly pairs: CoupledPairs;
 
   private readonly fullTracker: PatternTracker;
   private readonly guideTracker: PatternTracker;
@@ -157,8 +162,9 @@ export class CoSimulation {
   private eventCount = 0;
   private marginStale = true;
   private margin: { margin: number; rotation: number[] } | null = null;
-  private lastFullKind = '';
   private readonly predictor: LivePredictor;
+  /** The guide's state just before the latest perturbation batch (where the prediction's continuation starts). */
+  private readonly guideBefore: Float64Array;
   private prediction: LivePrediction | null = null;
   private predictionStale = false;
   private predictionKicked = false;
@@ -174,11 +180,14 @@ export class CoSimulation {
     const window = options.lockWindow ?? defaultLockWindow(this.params);
     const windowTicks = eps > 0 ? Math.min(MAX_LOCK_WINDOW_TICKS, Math.max(2, Math.round(window / (eps * this.macroStep)))) : 10;
     const lockTolerance = options.lockTolerance ?? 0.05;
+    this.lockTolerance = lockTolerance;
     const symmetryTolerance = options.symmetryTolerance ?? 0.02;
-    this.fullTracker = new PatternTracker(this.params.nodes, this.params.modes, windowTicks, lockTolerance, symmetryTolerance);
-    this.guideTracker = new PatternTracker(this.params.nodes, this.params.modes, windowTicks, lockTolerance, symmetryTolerance);
+    this.pairs = new CoupledPairs(this.params);
+    this.fullTracker = new PatternTracker(this.params.nodes, this.params.modes, this.pairs, windowTicks, lockTolerance, symmetryTolerance);
+    this.guideTracker = new PatternTracker(this.params.nodes, this.params.modes, this.pairs, windowTicks, lockTolerance, symmetryTolerance);
     this.group = this.computeGroup();
-    this.predictor = new LivePredictor(scenario, this.params);
+    this.predictor = new LivePredictor(scenario, this.params, lockTolerance);
+    this.guideBefore = new Float64Array(this.guide.state.length);
     this.warnings = nearResonances(this.params.omega, eps);
     for (const w of this.warnings) this.record('warning', w.message, 'engine');
     this.integrator.start();
@@ -266,7 +275,6 @@ export class CoSimulation {
       eventCount: this.eventCount,
       halted: this.halted,
       trackers: { full: this.fullTracker.save(), guide: this.guideTracker.save() },
-      lastFullKind: this.lastFullKind,
       margin: { stale: this.marginStale, value: this.margin },
       integrator: this.integrator.save(),
       prediction: { stale: this.predictionStale, kicked: this.predictionKicked, value: this.prediction, predictor: this.predictor.save() },
@@ -302,7 +310,6 @@ export class CoSimulation {
     session.halted = saved.halted;
     session.fullTracker.load(saved.trackers.full);
     session.guideTracker.load(saved.trackers.guide);
-    session.lastFullKind = saved.lastFullKind;
     session.marginStale = saved.margin.stale;
     session.margin = saved.margin.value;
     if (saved.prediction) {
@@ -314,6 +321,7 @@ export class CoSimulation {
       session.predictor.rememberParameters(p);
     }
     session.group = session.computeGroup();
+    session.pairs.update(p);
     return session;
   }
 
@@ -327,6 +335,7 @@ export class CoSimulation {
 
   private applyQueue(): void {
     if (this.queue.length === 0) return;
+    this.guideBefore.set(this.guide.state);
     let linksChanged = false;
     const m = this.params.modes;
     for (const { perturbation, by } of this.queue.splice(0)) {
@@ -340,6 +349,7 @@ export class CoSimulation {
       this.record('perturbation', describePerturbation(perturbation), by, perturbation);
     }
     if (linksChanged) this.group = this.computeGroup();
+    this.pairs.update(this.params);
     this.guide.invalidate();
     this.marginStale = true;
     this.integrator.afterPerturbations();
@@ -357,14 +367,16 @@ export class CoSimulation {
 
   private frame(): Frame {
     const { nodes, modes } = this.params;
+    // first the prediction for the pattern the guide was in when the perturbations arrived, so
+    // that both trackers already know where that pattern is predicted to go
+    if (this.predictionStale) this.predictAfterPerturbations();
     const fullObserved = readObservables(this.full.state, nodes, modes);
     const guideObserved = readObservables(this.guide.state, nodes, modes);
-    const fullPattern = this.fullTracker.observe(this.tau, this.full.state, fullObserved, this.group);
-    const guidePattern = this.guideTracker.observe(this.tau, this.guide.state, guideObserved, this.group);
-    this.trackFullPattern(fullPattern);
-    const margin = guidePattern.locked ? this.guideMargin() : null;
-    if (!guidePattern.locked) this.marginStale = true;
-    if (this.predictionStale) this.predictAfterPerturbations(guidePattern);
+    const full = this.fullTracker.observe(this.tau, this.full.state, fullObserved, this.group);
+    const guide = this.guideTracker.observe(this.tau, this.guide.state, guideObserved, this.group);
+    if (full.transition) this.recordTransition(full.transition);
+    const margin = guide.report.locked ? this.guideMargin() : null;
+    if (!guide.report.locked) this.marginStale = true;
     const eps = this.params.epsilon;
     const events = this.pending;
     this.pending = [];
@@ -374,8 +386,8 @@ export class CoSimulation {
       slowTime: eps * this.tau,
       seconds: tauToSeconds(this.tau, this.scenario.units.nominalFrequencyHz, this.params.omega[0]),
       status: this.halted ? 'halted' : 'running',
-      full: { ...fullObserved, pattern: fullPattern },
-      guide: { ...guideObserved, pattern: guidePattern, margin: margin?.margin ?? null, rotation: margin?.rotation ?? null },
+      full: { ...fullObserved, pattern: full.report },
+      guide: { ...guideObserved, pattern: guide.report, margin: margin?.margin ?? null, rotation: margin?.rotation ?? null },
       divergence: divergence(this.full.state, this.guide.state, this.params.modes),
       mode: this.integrator.mode,
       noiseModel: this.integrator.noiseModel,
@@ -384,28 +396,53 @@ export class CoSimulation {
     };
   }
 
-  /** Lock, unlock and pattern-change events of the full system (nothing while it stays unlocked). */
-  private trackFullPattern(pattern: PatternReport): void {
-    const label = pattern.locked ? `${pattern.kind}${pattern.q !== undefined ? ` q=${pattern.q}` : ''} on mode ${pattern.mode}` : 'unlocked';
-    const was = this.lastFullKind || 'unlocked';
-    this.lastFullKind = label;
-    if (label === was) return;
-    if (was === 'unlocked') this.record('lock', `locked into ${label}`, 'engine');
-    else if (label === 'unlocked') this.record('unlock', `lost lock (was ${was})`, 'engine');
-    else this.record('pattern-change', `pattern changed from ${was} to ${label}`, 'engine');
+  /** Lock, unlock and pattern-change events of the full system (the lock detector's transitions). */
+  private recordTransition(t: LockTransition): void {
+    switch (t.kind) {
+      case 'lock':
+        this.record('lock', `locked into ${t.label}`, 'engine');
+        return;
+      case 'unlock': {
+        const why =
+          t.cause === 'slip'
+            ? `cycle slip: the phase difference of nodes ${this.pairs.ends[2 * t.pair!]} and ${this.pairs.ends[2 * t.pair! + 1]} moved ${t.move!.toFixed(2)} rad`
+            : t.cause === 'mode'
+              ? 'another mode now carries the energy'
+              : "the carrying mode's amplitude collapsed";
+        this.record('unlock', `lost lock (was ${t.was}): ${why}`, 'engine');
+        return;
+      }
+      case 'pattern-change':
+        this.record('pattern-change', `pattern changed from ${t.from} to ${t.to} without a cycle slip (the new pattern held over a lock window)`, 'engine');
+        return;
+      case 'settled':
+        return; // settling back onto the same pattern is not an event
+    }
   }
 
-  /** Once per perturbation batch: the live prediction from the guide's current state and pattern. */
-  private predictAfterPerturbations(guidePattern: PatternReport): void {
+  /**
+   * Once per perturbation batch: the live prediction for the pattern the guide was in (the
+   * tracker's committed pattern, not a transient shape), continued from the guide's state before
+   * the batch and looked ahead from its state after it. A persisting prediction tells both
+   * trackers where that pattern's continued state lies.
+   */
+  private predictAfterPerturbations(): void {
     this.predictionStale = false;
     const kicked = this.predictionKicked;
     this.predictionKicked = false;
     if (this.halted || this.guide.failed) {
       this.prediction = null;
-      return;
+    } else {
+      const current = this.guideTracker.committedPattern();
+      this.prediction = this.predictor.predict(this.params, this.guideBefore, this.guide.state, current, this.tau, kicked);
     }
-    const current = { kind: guidePattern.kind, mode: guidePattern.mode, locked: guidePattern.locked, ...(guidePattern.locked && guidePattern.q !== undefined ? { q: guidePattern.q } : {}) };
-    this.prediction = this.predictor.predict(this.params, this.guide.state, current, this.tau, kicked);
+    const p = this.prediction;
+    const hint =
+      p && (p.verdict === 'persists' || p.verdict === 'marginal') && p.pattern && p.current.locked
+        ? { label: patternIdentity(p.current.kind, p.current.q, p.current.mode), mode: p.pattern.mode, phaseDifferences: p.pattern.phaseDifferences }
+        : null;
+    this.fullTracker.expectContinuation(hint);
+    this.guideTracker.expectContinuation(hint);
   }
 
   private guideMargin(): { margin: number; rotation: number[] } | null {

@@ -80,7 +80,7 @@ describe('live prediction of a jump that leaves the basin of a locked state that
     const predictor = new LivePredictor(scenario, new ModelParameters(scenario));
     const params = new ModelParameters(scenario);
     params.detuning[0] = 5 * strength;
-    const p = predictor.predict(params, guideState, { kind: 'in-phase', q: 0, mode: 0, locked: true }, 0);
+    const p = predictor.predict(params, guideState, guideState, { kind: 'in-phase', q: 0, mode: 0, locked: true }, 0);
     expect(p.verdict).toBe('lost');
     expect(p.message).toMatch(/still exists and is stable/);
     expect(p.lookAhead?.slipped).toBe(true);
