@@ -2,6 +2,7 @@ import { CoSimulation, type Frame } from '../../src/session/session.js';
 import { INTEGRATOR_REQUESTS, type IntegratorRequest } from '../../src/envelope/choice.js';
 import { scenarioToJSON } from '../../src/scenario/parse.js';
 import { LOG_FORMAT_VERSION, sampleOf } from '../../src/protocol/log-records.js';
+import { runSummaryOf } from '../../src/protocol/run-summary.js';
 import { NdjsonFile } from '../log/ndjson-file.js';
 import { Progress } from '../progress.js';
 import { UsageError, loadScenario } from '../scenario-file.js';
@@ -59,44 +60,15 @@ export function simulate(args: SimulateArgs): Record<string, unknown> {
   const state = session.fullState();
   log?.append({ record: 'checkpoint', tau: session.tau, tick: session.tick, state });
   log?.close();
-  const p = last.full.pattern;
-  const g = last.guide.pattern;
+  const summary = runSummaryOf(last);
   return {
+    ...summary,
     tau: session.tau,
     scenario: scenario.name,
     mode: session.integrator.mode,
     noiseModel: session.integrator.noiseModel,
-    status: last.status,
     halted: session.halted,
-    pattern: {
-      kind: p.kind,
-      ...(p.q !== undefined && p.kind !== 'unlocked' ? { q: p.q } : {}),
-      locked: p.locked,
-      lockedSince: p.lockedSince,
-      carryingMode: p.mode,
-      shape: p.shape,
-      ...(p.clusters ? { clusters: p.clusters } : {}),
-      symmetry: p.symmetry.map(({ element, phase }) => ({ element, phase })),
-      orderParameters: p.orderParameters,
-    },
-    phaseDifferences: last.full.phaseDifferences,
-    amplitudes: last.full.amplitude,
     phases: last.full.phase,
-    guide: {
-      pattern: {
-        kind: g.kind,
-        ...(g.q !== undefined && g.kind !== 'unlocked' ? { q: g.q } : {}),
-        locked: g.locked,
-        carryingMode: g.mode,
-        symmetry: g.symmetry.map(({ element, phase }) => ({ element, phase })),
-      },
-      margin: last.guide.margin,
-      stable: last.guide.margin === null ? null : last.guide.margin < 0,
-      rotation: last.guide.rotation,
-      phaseDifferences: last.guide.phaseDifferences,
-      amplitudes: last.guide.amplitude,
-    },
-    divergence: last.divergence,
     warnings: session.warnings.map((w) => w.message),
     events,
     integrator: integratorReport(session, requested),

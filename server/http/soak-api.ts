@@ -44,16 +44,17 @@ export interface StartRecord {
 }
 
 /** One row of the verdict table: the verdict without the raw perturbation records. */
-export type VerdictRow = Pick<
-  FaultVerdict,
-  'id' | 'source' | 'action' | 'appliedAt' | 'restoredAt' | 'before' | 'persisted' | 'slipped' | 'maxPhaseExcursion' | 'became' | 'recovered' | 'timeToRelock' | 'final' | 'divergence' | 'prediction' | 'complete' | 'pass' | 'reasons'
->;
+export const VERDICT_ROW_FIELDS = [
+  'id', 'source', 'action', 'appliedAt', 'restoredAt', 'before', 'persisted', 'slipped', 'maxPhaseExcursion', 'shift', 'settled', 'settledAfter', 'fromContinued',
+  'became', 'recovered', 'timeToRelock', 'final', 'divergence', 'prediction', 'cutShort', 'complete', 'outcome', 'pass', 'reasons', 'notes',
+] as const satisfies readonly (keyof FaultVerdict)[];
+export type VerdictRow = Pick<FaultVerdict, (typeof VERDICT_ROW_FIELDS)[number]>;
 
 export interface SoakListing {
   name: string;
   state: SoakState;
   progress: { tau: number; until: number; slowTime: number; slowUntil: number; fraction: number; eta: string; wallSeconds: number } | null;
-  faults: { started: number; judged: number; failed: number } | null;
+  faults: { started: number; judged: number; failed: number; incomplete?: number } | null;
   /** From summary.json, once the soak has finished. */
   pass: boolean | null;
   exitCode: number | null;
@@ -219,8 +220,7 @@ function lastLine(path: string): string | null {
 }
 
 function verdictRow(v: FaultVerdict): VerdictRow {
-  const { id, source, action, appliedAt, restoredAt, before, persisted, slipped, maxPhaseExcursion, became, recovered, timeToRelock, final, divergence, prediction, complete, pass, reasons } = v;
-  return { id, source, action, appliedAt, restoredAt, before, persisted, slipped, maxPhaseExcursion, became, recovered, timeToRelock, final, divergence, prediction, complete, pass, reasons };
+  return Object.fromEntries(VERDICT_ROW_FIELDS.filter((key) => key in v).map((key) => [key, v[key]])) as VerdictRow;
 }
 
 function num(value: unknown): number | null {

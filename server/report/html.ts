@@ -28,11 +28,12 @@ export function reportHtml(d: ReportData): string {
   const name = (d.header.scenario as { name?: string }).name ?? 'scenario';
   const until = d.header.soak.until;
   const unit = unitText(d);
-  const failed = d.verdicts.filter((v) => !v.pass).length;
+  const failed = d.verdicts.filter((v) => outcomeOf(v) === 'fail').length;
+  const incomplete = d.verdicts.filter((v) => outcomeOf(v) === 'incomplete').length;
   const body = [
     `<header><h1>Soak report: ${esc(name)}</h1><p class="sub">Campaign: ${esc(d.campaignName)}</p>`,
     `<div class="status ${statusClass}">${status}</div>`,
-    `<p class="facts">${d.verdicts.length} fault${d.verdicts.length === 1 ? '' : 's'} judged, ${failed} failed${s ? `; exit code ${s.exitCode}` : ''}. ` +
+    `<p class="facts">${d.verdicts.length} fault${d.verdicts.length === 1 ? '' : 's'} judged, ${failed} failed, ${incomplete} incomplete${s ? `; exit code ${s.exitCode}` : ''}. ` +
       `Soak length tau ${fmt(until)} = ${fmt(until * d.epsilon)} slow time units = ${seconds(until * d.secondsPerTau)} at the nominal ${fmtHz(d.nominalFrequencyHz)}` +
       `${s ? '' : ` (reached tau ${fmt(d.lastTau)} so far: the soak is running or was interrupted; resume it with --resume)`}.` +
       ` Started ${esc(String(d.header.createdAt))}, syncring ${esc(d.header.software.version)}, noise seed ${d.header.seeds.noise}.</p>`,
@@ -76,7 +77,7 @@ svg { max-width: 100%; height: auto; }
 table { border-collapse: collapse; width: 100%; font-size: 12.5px; margin: 8px 0 16px; }
 th, td { border: 1px solid #d8dde3; padding: 4px 6px; text-align: left; vertical-align: top; }
 th { background: #eef1f4; } td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
-tr.fail td { background: #fdf0ee; } td.ok { color: #2b8a3e; font-weight: 600; } td.bad { color: #c0392b; font-weight: 600; }
+tr.fail td { background: #fdf0ee; } tr.open td { background: #f2f3f5; } td.ok { color: #2b8a3e; font-weight: 600; } td.bad { color: #c0392b; font-weight: 600; } td.open { color: #5a6572; font-weight: 600; }
 .reasons { color: #8a2a1e; font-size: 12px; }
 .small { font-size: 11.5px; color: #4a5561; }
 dl dt { font-weight: 600; margin-top: 8px; } dl dd { margin: 2px 0 0 18px; }
@@ -224,28 +225,39 @@ function faultBands(d: ReportData, unit: ReturnType<typeof unitText>): PlotBand[
   return d.verdicts.map((v) => {
     const from = unit.of(v.appliedAt);
     const to = unit.of(v.restoredAt ?? v.appliedAt);
-    return { from, to: Math.max(to, from), label: v.id, color: v.pass ? '#d1a000' : '#c0392b' };
+    const outcome = outcomeOf(v);
+    return { from, to: Math.max(to, from), label: v.id, color: outcome === 'pass' ? '#d1a000' : outcome === 'fail' ? '#c0392b' : '#8a939c' };
   });
 }
 
 function verdictTable(d: ReportData, unit: ReturnType<typeof unitText>): string {
   if (d.verdicts.length === 0) return '<p>No fault has been judged yet.</p>';
   const rows = d.verdicts.map((v) => verdictRow(v, d, unit)).join('');
-  return `<p>Times in ${esc(unit.name)}. A row is red when the fault failed its criteria; the reasons are under it.</p>
+  return `<p>Times in ${esc(unit.name)}. A row is red when the fault failed its criteria (the reasons are under it) and grey when it is INCOMPLETE: judging stopped before its outcome was decided.</p>
 <table><thead><tr><th>fault (pattern before)</th><th>what</th><th class="num">applied</th><th class="num">restored</th><th>persisted</th><th>became</th><th>re-lock</th><th class="num">largest phase excursion (rad)</th><th class="num">full vs guide divergence</th><th>prediction</th><th>verdict</th></tr></thead><tbody>${rows}</tbody></table>`;
+}
+
+/** Verdicts in logs written before INCOMPLETE existed carry only `pass`. */
+function outcomeOf(v: FaultVerdict): FaultVerdict['outcome'] {
+  return v.outcome ?? (v.pass ? 'pass' : 'fail');
 }
 
 function verdictRow(v: FaultVerdict, d: ReportData, unit: ReturnType<typeof unitText>): string {
   const what = perturbationText(v, d.epsilon);
-  const relock = v.became.length === 0 && v.recovered ? 'never lost' : v.recovered ? `after ${fmt(unit.of(v.timeToRelock!.tau))} (${seconds(v.timeToRelock!.seconds)})` : v.complete ? 'no' : 'window cut short';
-  const prediction = v.prediction.persists === null ? 'none' : `${v.prediction.source === 'frame' ? 'live prediction' : 'guide'}: ${v.prediction.persists ? 'persists' : 'lost'}, ${v.prediction.agreed ? 'agreed' : 'disagreed'}`;
-  const reasons = v.reasons.length > 0 ? `<tr class="fail"><td></td><td colspan="10" class="reasons">${v.reasons.map(esc).join('<br>')}</td></tr>` : '';
-  return `<tr class="${v.pass ? '' : 'fail'}"><td><b>${esc(v.id)}</b> <span class="small">(${v.source})</span><br><span class="small">${esc(v.before)}</span></td><td>${esc(what)}</td>` +
+  const outcome = outcomeOf(v);
+  const relock = v.became.length === 0 && v.recovered ? 'never lost' : v.recovered && v.timeToRelock ? `after ${fmt(unit.of(v.timeToRelock.tau))} (${seconds(v.timeToRelock.seconds)})` : v.complete ? 'no' : 'not yet';
+  const prediction =
+    v.prediction.persists === null ? 'none' : `${v.prediction.source === 'frame' ? 'live prediction' : 'guide'}: ${v.prediction.persists ? 'persists' : 'lost'}, ${v.prediction.agreed === null ? 'not yet judged' : v.prediction.agreed ? 'agreed' : 'disagreed'}`;
+  const persisted = v.persisted ? 'yes' : v.slipped ? 'no (slip)' : v.became.length > 0 ? 'no' : v.settled === false ? 'not settled' : 'no';
+  const rowClass = outcome === 'fail' ? 'fail' : outcome === 'incomplete' ? 'open' : '';
+  const remarks = [...v.reasons.map((r) => `<span class="reasons">${esc(r)}</span>`), ...(v.notes ?? []).map((n) => `<span class="small">${esc(n)}</span>`)];
+  const under = remarks.length > 0 ? `<tr class="${rowClass}"><td></td><td colspan="10">${remarks.join('<br>')}</td></tr>` : '';
+  return `<tr class="${rowClass}"><td><b>${esc(v.id)}</b> <span class="small">(${v.source})</span><br><span class="small">${esc(v.before)}</span></td><td>${esc(what)}</td>` +
     `<td class="num">${fmt(unit.of(v.appliedAt))}</td><td class="num">${v.restoredAt === null ? '-' : fmt(unit.of(v.restoredAt))}</td>` +
-    `<td class="${v.persisted ? 'ok' : 'bad'}">${v.persisted ? 'yes' : v.slipped ? 'no (slip)' : 'no'}</td>` +
+    `<td class="${v.persisted ? 'ok' : outcome === 'incomplete' ? 'open' : 'bad'}">${persisted}</td>` +
     `<td>${esc(v.became.join(', ') || '-')}</td><td>${esc(relock)}</td><td class="num">${fmt(v.maxPhaseExcursion)}</td>` +
     `<td class="num">${fmt(v.divergence.before)} &rarr; ${fmt(v.divergence.max)}</td><td>${esc(prediction)}</td>` +
-    `<td class="${v.pass ? 'ok' : 'bad'}">${v.pass ? 'PASS' : 'FAIL'}${v.complete ? '' : ' (incomplete)'}</td></tr>${reasons}`;
+    `<td class="${outcome === 'pass' ? 'ok' : outcome === 'fail' ? 'bad' : 'open'}">${outcome.toUpperCase()}</td></tr>${under}`;
 }
 
 function stabilityTables(d: ReportData): string {
@@ -283,8 +295,11 @@ function definitions(d: ReportData): string {
 <dt>ADEV, overlapping ADEV</dt><dd>Square root of the two-sample (Allan) variance of the fractional frequency at averaging time tau = m tau0, from second differences of x (IEEE Std 1139; NIST SP 1065); overlapping uses every start point.</dd>
 <dt>MDEV, TDEV</dt><dd>Modified Allan deviation (averages phase over tau before differencing, separates white from flicker PM); TDEV = (tau / sqrt 3) MDEV, in seconds (ITU-T G.810).</dd>
 <dt>MTIE</dt><dd>Largest peak-to-peak time error in any window of length tau (ITU-T G.810); it includes the frequency offset.</dd>
-<dt>Persisted</dt><dd>The locked pattern held through the fault: no neighbour phase difference moved by pi or more from its pre-fault value (a cycle slip), the carrying mode did not change, and the ring did not settle into another locked pattern once the fault was over. A deformed pattern or a short "unlocked" from the lock detector while the phases settle does not count as a loss.</dd>
-<dt>Became, re-lock</dt><dd>Became: the lock detector's labels other than the pre-fault pattern, in order. Re-lock: the first stretch of the pre-fault pattern, starting at or after the restore (or the fault, when nothing is restored), that lasts one lock window or reaches the end of the evaluation window; it includes the detector's own delay of up to one lock window.</dd>
+<dt>Locked, settling, slip</dt><dd>The ring is locked when it is frequency-locked: the phase differences of its coupled pairs stay bounded, with no cycle slip. A cycle slip is a move of a coupled pair's phase difference by pi or more from where it last settled (past the unstable equilibrium of the coupling). Settled: over one lock window every difference stayed within the lock tolerance of its newest value. Settling: still locked, but moving, or deformed for a moment (an amplitude kick). The live timeline and these verdicts use the same lock detector.</dd>
+<dt>Persisted</dt><dd>The locked pattern held through the fault: no cycle slip, the carrying mode did not change, no other pattern was committed (a new pattern counts once it has held over a lock window; a state on the live prediction's continuation of the pattern stays the same pattern whatever its snapshot shape), and the ring settled in it by the end of the judged span. A move to the continued state, by any amount, is not a loss: the row says how far it moved and how long it took to settle.</dd>
+<dt>Judged span, INCOMPLETE</dt><dd>Each fault is judged from its application to the end of its window, or until the next fault is applied, whichever comes first ("judged until the next fault"); what follows is judged against the later fault, and a restore that falls into its span is listed there. PASS: every criterion held. FAIL: one did not. INCOMPLETE: nothing failed, but judging stopped before the outcome was decided (the soak ended or the next fault came while the ring was still settling, or a re-lock was still due); it does not fail the soak unless <code>--fail-incomplete</code> is given.</dd>
+<dt>Became, re-lock</dt><dd>Became: the patterns the lock detector committed instead of the pre-fault one, in order ("unlocked" after a slip). Re-lock: after a loss, the first tick at or after the restore (or the fault, when nothing is restored) at which the detector had the pre-fault pattern locked again; its lock needs one converged lock window, so the time includes that delay.</dd>
+<dt>Unwanted mode</dt><dd>A ring locked on an unwanted mode fails every fault's verdict: the board's output then sits at that mode's frequency, a design defect however stable the lock.</dd>
 <dt>Divergence</dt><dd>Largest |a_full - a_guide| over nodes and modes relative to the mean amplitude, just before the fault and at most during its window. Under noise the full system's common phase wanders away from the noiseless guide over the whole soak, so a criterion judges the growth during the window, not the level.</dd>
 <dt>Prediction</dt><dd>The live prediction carried by the frames (continuation of the guiding system's locked state to the new parameters) when one was made for the fault, otherwise what the guiding system itself did; "agreed" compares it with whether the full system's pattern persisted.</dd>
 </dl></section>`;

@@ -33,7 +33,8 @@ import { Progress, formatSeconds } from '../progress.js';
 import { UsageError, loadScenario } from '../scenario-file.js';
 import { SOFTWARE_VERSION } from '../version.js';
 import { loadCampaign } from './campaign-file.js';
-import { RESUMES_FILE, STATUS_FILE, SUMMARY_FILE, finalOf, writeJsonAtomically } from './outputs.js';
+import { RESUMES_FILE, STATUS_FILE, SUMMARY_FILE, writeJsonAtomically } from './outputs.js';
+import { runSummaryOf, type RunSummary } from '../../src/protocol/run-summary.js';
 import { lockSoakDir } from './dir-lock.js';
 import { engineFingerprint } from './engine-fingerprint.js';
 import { findResumePoint, soakLogDir, type ResumePoint } from './resume.js';
@@ -180,7 +181,7 @@ class SoakRunner {
   private readonly notes: string[] = [];
   private mismatches = 0;
   private lastFrame: Frame | null = null;
-  private lastFinal: Record<string, unknown> | null = null;
+  private lastFinal: RunSummary | null = null;
   private durableVerdicts: { id: string; pass: boolean; outcome: VerdictOutcome }[] = [];
   private logError: Error | null = null;
   private readonly startedWall = performance.now();
@@ -308,7 +309,7 @@ class SoakRunner {
   }
 
   private checkpoint(frame: Frame): void {
-    this.lastFinal = finalOf(frame);
+    this.lastFinal = runSummaryOf(frame);
     const line: CheckpointLine = {
       record: 'checkpoint',
       tau: this.session.tau,
@@ -420,7 +421,7 @@ class SoakRunner {
       },
       verdicts: this.verdicts,
       stability,
-      final: this.lastFrame ? finalOf(this.lastFrame) : (this.lastFinal ?? {}),
+      final: this.lastFrame ? runSummaryOf(this.lastFrame) : this.lastFinal,
       state: s.fullState(),
       notes: this.notes,
     };

@@ -1,3 +1,4 @@
+import type { RunSummary } from '../../src/protocol/run-summary.js';
 import type { CampaignRunState, FaultVerdict, PhaseRecorderState, PhaseSample, StabilityReport } from '../../src/campaign/index.js';
 import type { ModeState } from '../../src/scenario/types.js';
 import type { SessionCheckpoint } from '../../src/session/session.js';
@@ -62,8 +63,8 @@ export interface CheckpointLine {
   twin: SessionCheckpoint | null;
   campaign: CampaignRunState;
   phases: PhaseRecorderState;
-  /** The end-of-run picture at this tick (finalOf), so a soak resumed at its very end can still report it. */
-  final: Record<string, unknown>;
+  /** The end-of-run picture at this tick, so a soak resumed at its very end can still report it. */
+  final: RunSummary;
 }
 
 export interface VerdictLine {
@@ -86,7 +87,8 @@ export interface SoakOutcome {
   counts: { faults: number; passed: number; failed: number; incomplete: number; notStarted: string[] };
   verdicts: FaultVerdict[];
   stability: StabilityReport | null;
-  final: Record<string, unknown>;
+  /** The end-of-run picture; null when the soak ran no tick. */
+  final: RunSummary | null;
   state: ModeState[][];
   notes: string[];
 }
