@@ -2,8 +2,8 @@ import { LitElement, css, html, nothing, unsafeCSS } from 'lit';
 import type { SessionInfo } from '../../../src/protocol/messages.js';
 import type { CatalogueEntry, CatalogueResponse } from '../data/prediction-data.js';
 import { formatHz, formatNumber, formatSeconds } from '../data/engineering.js';
-import { CAUTION, FAULT, GRID, LOCKED, MUTED, panelStyles } from '../theme.js';
-import { modeName } from './pattern-text.js';
+import { CAUTION, FAULT, GRID, LOCKED, MUTED, UNWANTED, panelStyles } from '../theme.js';
+import { modeName, spreadText } from './pattern-text.js';
 
 const KIND_WORDS: Record<string, string> = {
   'in-phase': 'in-phase',
@@ -129,6 +129,15 @@ export class CataloguePanel extends LitElement {
         background: #15202b;
         margin-left: 6px;
       }
+      .badge.defect {
+        background: ${unsafeCSS(UNWANTED)};
+        display: block;
+        width: max-content;
+        margin-top: 3px;
+      }
+      tr.defect td {
+        background: #f6f0fb;
+      }
       .chip {
         display: inline-block;
         font-size: 13px;
@@ -190,11 +199,15 @@ export class CataloguePanel extends LitElement {
 
   private renderCatalogue(c: CatalogueResponse) {
     const stable = c.patterns.filter((p) => p.stability === 'stable').length;
+    // older servers' catalogues lack wantedMode: read it off the carrying mode
+    const defects = c.patterns.filter((p) => p.stability === 'stable' && !isWanted(p)).length;
     const live = this.live;
     const broken = c.computedFor.links.filter((l) => l.weight === 0).length;
     return html`
       <p class="facts" data-testid="catalogue-facts">
-        <b>${c.patterns.length}</b> locked patterns, <b style="color:${LOCKED}">${stable} stable</b> ·
+        <b>${c.patterns.length}</b> locked patterns, <b style="color:${LOCKED}">${stable} stable</b>${defects
+          ? html` (<b style="color:${UNWANTED}">${defects} of them on an unwanted mode</b>: a board that locks there puts out that mode's frequency, a design defect)`
+          : nothing} ·
         symmetry group of order ${c.group.order}${c.group.graphOrder !== c.group.order ? html` (the graph alone has ${c.group.graphOrder}; the detuning breaks the rest)` : nothing}
         ${broken ? html` · ${broken} broken link${broken > 1 ? 's' : ''}` : nothing}
         <br />
@@ -202,7 +215,7 @@ export class CataloguePanel extends LitElement {
           ? html`The live run is in <b>#${live.index}</b>${live.near ? '' : ' (nearest of its kind)'}.`
           : html`<span class="muted">The live run is not locked to any listed pattern.</span>`}
         ${c.initial.settled && c.initial.pattern !== null ? html` The scenario's start settles into #${c.initial.pattern}.` : nothing}
-        <span class="muted">Computed in ${formatNumber(c.wallSeconds, 2)} s${c.fromCache ? ' (cached)' : ''}${this.session ? `; shifts in Hz at ${formatHz(this.session.nominalFrequencyHz)}` : ''}.</span>
+        <span class="muted">Computed in ${formatNumber(c.wallSeconds, 2)} s${c.fromCache ? ' (cached)' : ''}; output frequencies against the wanted mode's nominal frequency${this.session ? `, in Hz at ${formatHz(this.session.nominalFrequencyHz)}` : ''}.</span>
         ${this.loading ? html` <span class="stale">Updating for the new parameters…</span>` : this.stale ? html` <span class="stale">The live parameters changed.</span>` : nothing}
       </p>
       <div class="scroll">
@@ -216,7 +229,7 @@ export class CataloguePanel extends LitElement {
               <th class="r" title="largest real part of the eigenvalues with the symmetry zeros removed, per slow time unit ε·τ">margin /slow</th>
               <th class="r" title="1 / |margin|: how fast a disturbance dies out (stable) or grows (unstable)">time constant</th>
               <th class="r" title="mean over the nodes of the carrying mode's |a|, and its smallest and largest value">amplitude |a|</th>
-              <th class="r" title="collective frequency shift of the locked pattern">frequency shift</th>
+              <th class="r" title="frequency of the locked output against the wanted mode's nominal frequency; below it, the carrying mode's own collective shift from its own nominal frequency">output frequency</th>
             </tr>
           </thead>
           <tbody>
@@ -230,23 +243,28 @@ export class CataloguePanel extends LitElement {
 
   private renderRow(p: CatalogueEntry) {
     const isLive = this.live?.index === p.index;
-    const classes = [isLive ? 'live' : '', this.selected === p.index ? 'selected' : ''].join(' ');
+    const wanted = isWanted(p);
+    const classes = [isLive ? 'live' : '', this.selected === p.index ? 'selected' : '', wanted ? '' : 'defect'].join(' ');
     const amplitudes = p.amplitudes.map((row) => row[p.mode]);
     const shift = p.frequencyShiftPpm[p.mode];
+    const output = p.outputOffsetPpm ?? shift;
     const hz = this.session?.nominalFrequencyHz ?? 0;
     return html`
       <tr class=${classes} data-index=${p.index} data-kind=${p.kind} data-stability=${p.stability} ?data-live=${isLive} @click=${() => this.choose(p.index)}>
         <td class="num">${p.index}</td>
         <td>
           <span class="kind">${KIND_WORDS[p.kind] ?? p.kind}${p.q !== undefined ? ` q = ${p.q}` : ''}</span>${isLive ? html`<span class="badge live">LIVE</span>` : nothing}
-          <span class="small">${modeName(p.mode)}${p.clusters ? ` · ${p.clusters.length} clusters` : ''}${seedNote(p)}</span>
+          <span class="small">${modeName(p.mode)}${p.clusters ? ` · ${p.clusters.length} clusters` : ''}${seedNote(p)}${p.spread !== undefined && p.spread !== null && p.kind === 'in-phase' ? ` · spread ${spreadText(p.spread)}` : ''}</span>
         </td>
         <td>
           ${p.symmetry.slice(0, SYMMETRY_SHOWN).map((s) => html`<span class="chip">${s.element}</span>`)}
           ${p.symmetry.length > SYMMETRY_SHOWN ? html`<span class="chip">+${p.symmetry.length - SYMMETRY_SHOWN}</span>` : nothing}
           <span class="small">${p.symmetry.length} element${p.symmetry.length === 1 ? '' : 's'}</span>
         </td>
-        <td><span class="badge ${p.stability}">${p.stability.toUpperCase()}</span></td>
+        <td>
+          <span class="badge ${p.stability}">${p.stability.toUpperCase()}</span>
+          ${wanted ? nothing : html`<span class="badge defect" title="the output would sit at unwanted mode ${p.mode}'s frequency">DESIGN DEFECT</span>`}
+        </td>
         <td class="r" title=${`marginal band ± ${formatNumber(p.marginTolerance, 2)} per slow unit`}>${formatNumber(p.margin, 3)}</td>
         <td class="r">
           ${p.timeConstant
@@ -255,7 +273,11 @@ export class CataloguePanel extends LitElement {
         </td>
         <td class="r">${formatNumber(p.meanAmplitude[p.mode], 3)}<span class="small">${formatNumber(Math.min(...amplitudes), 3)} … ${formatNumber(Math.max(...amplitudes), 3)}</span></td>
         <td class="r">
-          ${shift === null || shift === undefined ? '—' : html`${formatSignedPpm(shift)}<span class="small">${hz > 0 ? formatSignedHz(shift * 1e-6 * hz) : ''}</span>`}
+          ${output === null || output === undefined
+            ? '—'
+            : html`${formatSignedPpm(output)}<span class="small">${hz > 0 ? formatSignedHz(output * 1e-6 * hz) : ''}</span>${!wanted && shift !== null && shift !== undefined
+                  ? html`<span class="small">own mode ${formatSignedPpm(shift)}</span>`
+                  : nothing}`}
         </td>
       </tr>
     `;
@@ -275,6 +297,10 @@ function seedNote(p: CatalogueEntry): string {
   if (seed.exact) return '';
   const sameShape = seed.type === p.kind && (seed.q ?? null) === (p.q ?? null);
   return sameShape ? ' · symmetry approximate' : ` · grew from ${KIND_WORDS[seed.type] ?? seed.type}${seed.q !== undefined ? ` q = ${seed.q}` : ''}`;
+}
+
+function isWanted(p: CatalogueEntry): boolean {
+  return p.wantedMode ?? p.mode === 0;
 }
 
 function formatSignedPpm(ppm: number): string {

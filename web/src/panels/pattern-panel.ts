@@ -5,8 +5,8 @@ import { formatHz, formatNumber, formatSeconds, marginTimeConstant, type RunScal
 import type { WireFrame } from '../../../src/protocol/messages.js';
 import type { LivePrediction } from '../../../src/predict/live.js';
 import { tauToSeconds } from '../../../src/scenario/units.js';
-import { CAUTION, FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
-import { modeName, patternLabel, symmetryPhase } from './pattern-text.js';
+import { CAUTION, FAULT, LOCKED, MUTED, UNWANTED, panelStyles } from '../theme.js';
+import { destinationText, modeName, modeOffset, patternLabel, spreadText, symmetryPhase, unwantedModeText } from './pattern-text.js';
 
 const MAX_ELEMENTS_SHOWN = 8;
 
@@ -87,6 +87,10 @@ export class PatternPanel extends LitElement {
         color: ${unsafeCSS(FAULT)};
         font-weight: 700;
       }
+      .defect {
+        color: ${unsafeCSS(UNWANTED)};
+        font-weight: 700;
+      }
       h3 {
         margin: 0;
         font-size: 14px;
@@ -114,11 +118,14 @@ export class PatternPanel extends LitElement {
     const seconds = (tau: number) => formatSeconds(tauToSeconds(tau, scales.nominalFrequencyHz, scales.omega0));
     const margin = frame.guide.margin;
     const constant = margin === null ? null : marginTimeConstant(margin, scales);
-    const colour = frame.status === 'halted' ? FAULT : p.locked ? LOCKED : CAUTION;
+    // fields added to frames later than the first protocol version; old logs lack them
+    const status = p.status ?? (p.locked ? 'locked' : 'unlocked');
+    const unwanted = p.locked && p.mode !== 0;
+    const colour = frame.status === 'halted' ? FAULT : unwanted ? UNWANTED : status === 'locked' ? LOCKED : CAUTION;
     const warnings = this.warnings();
-    // Fields added to frames later than the first protocol version; old logs lack them.
     const aligned = (frame.divergence as { aligned?: number }).aligned;
     const prediction = (frame as { prediction?: LivePrediction | null }).prediction ?? null;
+    const slowUnits = (tau: number) => formatNumber(tau * scales.epsilon, 3);
     return html`
       <h2>Pattern</h2>
       <section data-testid="pattern-full">
@@ -126,10 +133,20 @@ export class PatternPanel extends LitElement {
           ${frame.status === 'halted' ? 'halted' : p.locked ? p.kind : 'not locked'}
           <span class="sub">${patternLabel(p, { short: true })}</span>
         </div>
-        <div class="line">
-          ${p.locked && p.lockedSince !== null ? html`locked since τ = ${formatNumber(p.lockedSince, 4)} (${seconds(p.lockedSince)})` : html`not locked yet (shape ${p.shape})`}
-          · phase wander ${formatNumber(p.excursion, 2)} rad
+        <div class="line" data-testid="lock-state">
+          ${status === 'locked' && p.lockedSince !== null
+            ? html`locked since τ = ${formatNumber(p.lockedSince, 4)} (${seconds(p.lockedSince)})${p.settledSince !== undefined && p.settledSince !== null && p.settledSince > p.lockedSince ? html`, settled again at τ = ${formatNumber(p.settledSince, 4)}` : nothing}`
+            : status === 'settling'
+              ? html`<b style="color:${CAUTION}">settling</b> for ${slowUnits(frame.tau - (p.settlingSince ?? frame.tau))} slow units: moved ${formatNumber(p.move, 2)} rad so far, no cycle slip (a slip is a move of π)`
+              : html`not locked (shape ${p.shape})`}
+          · phase wander ${formatNumber(p.excursion, 2)} rad${p.slips ? html` · ${p.slips} cycle slip${p.slips === 1 ? '' : 's'} so far` : nothing}
         </div>
+        ${p.spread !== undefined
+          ? html`<div class="line" data-testid="array-output" title="spread: largest phase distance of a node from the array's mean phase; combining loss: 20 log10(|mean a| / mean |a|), the summed output against N parts in phase">
+              array output: phase spread ${spreadText(p.spread)} · combining loss ${p.combiningLossDb === null ? '—' : `${formatNumber(p.combiningLossDb, 2)} dB`}
+            </div>`
+          : nothing}
+        ${unwanted ? html`<div class="line defect" data-testid="unwanted-mode">${unwantedModeText(p.mode, modeOffset(p.mode, session.omega, scales.nominalFrequencyHz), formatHz)}</div>` : nothing}
       </section>
       <section data-testid="pattern-symmetry">
         <h3>Symmetry: ${p.symmetry.length} element${p.symmetry.length === 1 ? '' : 's'} γ with γ·a = e<sup>iφ</sup>a</h3>
@@ -158,7 +175,7 @@ export class PatternPanel extends LitElement {
           <dd title="largest |a_full − a_guide| over nodes and modes; 'aligned' removes the common phase that noise makes drift, leaving the part that is a different pattern">
             max |Δa| = ${formatNumber(frame.divergence.max, 3)} (${formatNumber(100 * frame.divergence.relative, 2)} %)${aligned !== undefined ? html` · aligned ${formatNumber(aligned, 3)}` : nothing}
           </dd>
-          ${prediction ? this.renderPrediction(prediction, scales) : nothing}
+          ${prediction ? this.renderPrediction(prediction, scales, session.omega) : nothing}
           <dt>integrator</dt>
           <dd>${integratorText(frame)}</dd>
         </dl>
@@ -174,19 +191,15 @@ export class PatternPanel extends LitElement {
     `;
   }
 
-  private renderPrediction(p: LivePrediction, scales: RunScales) {
+  private renderPrediction(p: LivePrediction, scales: RunScales, omega: readonly number[]) {
     const verdictClass = p.verdict === 'persists' ? 'stable' : p.verdict === 'lost' ? 'unstable' : '';
     const next = p.pattern;
-    const constant = p.margin === null ? null : marginTimeConstant(p.margin, scales);
     return html`<dt>after last change</dt>
       <dd data-testid="prediction">
         <span class=${verdictClass}>${p.verdict}</span> (at τ = ${formatNumber(p.tau, 4)}): ${p.message}
         ${next
-          ? html`<br /><span class="muted"
-                >→ ${next.kind}${next.q !== undefined ? ` q = ${next.q}` : ''} on ${modeName(next.mode)}${constant
-                  ? `, settles in ≈ ${formatSeconds(constant.seconds)} (${formatNumber(constant.slow, 3)} slow units)`
-                  : ''}</span
-              >`
+          ? html`<br /><span class="muted">${destinationText(next, scales)}</span>
+              ${next.locked && next.mode !== 0 ? html`<br /><span class="defect">${unwantedModeText(next.mode, modeOffset(next.mode, omega, scales.nominalFrequencyHz), formatHz)}</span>` : nothing}`
           : nothing}
       </dd>`;
   }
@@ -203,7 +216,7 @@ export class PatternPanel extends LitElement {
     }
     for (const w of session.warnings) out.push({ text: w, fault: false });
     if (events.some((e) => e.kind === 'guide-failure')) out.push({ text: 'the guiding system failed; its prediction is stale', fault: true });
-    if (frame.full.dominantMode !== 0) out.push({ text: `${modeName(frame.full.dominantMode)} carries most of the energy`, fault: true });
+    if (frame.full.dominantMode !== 0) out.push({ text: `${modeName(frame.full.dominantMode)} carries most of the energy: the output is at that mode's frequency`, fault: true });
     return out;
   }
 }

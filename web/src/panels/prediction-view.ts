@@ -3,7 +3,8 @@ import type { LivePrediction } from '../../../src/predict/live.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { fetchJson, livePatternIndex, predictionKey, type CatalogueResponse } from '../data/prediction-data.js';
-import { formatNumber, formatSeconds, marginTimeConstant } from '../data/engineering.js';
+import { formatNumber } from '../data/engineering.js';
+import { destinationText } from './pattern-text.js';
 import { FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
 import './catalogue-panel.js';
 import './what-if-panel.js';
@@ -192,17 +193,12 @@ export class LivePredictionCard extends LitElement {
     const p = this.prediction;
     if (!p) return html`<h2>Live prediction</h2><p class="muted">No change yet: after each fault the guiding system predicts whether the live pattern persists.</p>`;
     const next = p.pattern;
-    const constant = p.margin !== null && this.scales ? marginTimeConstant(p.margin, this.scales) : null;
     return html`
       <h2>Live prediction after the last change</h2>
       <p data-testid="live-prediction">
         <span class=${p.verdict === 'persists' ? 'persists' : p.verdict === 'lost' ? 'lost' : ''}>${p.verdict.toUpperCase()}</span>
         at τ = ${formatNumber(p.tau, 4)}: ${p.message}
-        ${next
-          ? html`<br /><span class="muted"
-                >→ ${next.kind}${next.q !== undefined ? ` q = ${next.q}` : ''} on mode ${next.mode}${constant ? `, settles in ≈ ${formatSeconds(constant.seconds)}` : ''}</span
-              >`
-          : nothing}
+        ${next ? html`<br /><span class="muted">${destinationText(next, this.scales)}</span>` : nothing}
       </p>
     `;
   }

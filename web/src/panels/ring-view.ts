@@ -221,9 +221,10 @@ export class RingView extends LitElement {
     if (!frame) return svg`<text x=${c} y=${cy} text-anchor="middle" font-size="20" fill=${MUTED}>no frames yet</text>`;
     const p = frame.full.pattern;
     const halted = frame.status === 'halted';
-    const colour = halted ? FAULT : p.locked ? LOCKED : CAUTION;
+    const unwanted = p.locked && p.mode !== 0;
+    const colour = halted ? FAULT : unwanted ? UNWANTED : p.status === 'settling' ? CAUTION : p.locked ? LOCKED : CAUTION;
     const headline = halted ? 'HALTED' : p.locked ? p.kind.toUpperCase() : 'UNLOCKED';
-    const sub = halted ? 'blow-up: state kept' : p.locked ? patternLabel(p, { short: true }) : `seeking · shape ${p.shape}`;
+    const sub = halted ? 'blow-up: state kept' : unwanted ? `on unwanted mode ${p.mode}: design defect` : p.locked ? patternLabel(p, { short: true }) : `seeking · shape ${p.shape}`;
     const r = p.q !== undefined ? p.orderParameters[p.q] : Math.max(0, ...p.orderParameters);
     return svg`
       <g data-testid="ring-centre">

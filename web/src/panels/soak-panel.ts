@@ -200,6 +200,15 @@ export class SoakPanel extends LitElement {
         color: ${unsafeCSS(FAULT)};
         display: block;
       }
+      .notes {
+        font-size: 13px;
+        color: ${unsafeCSS(MUTED)};
+        display: block;
+      }
+      .open {
+        color: ${unsafeCSS(MUTED)};
+        font-weight: 700;
+      }
       .small {
         font-size: 13px;
         color: ${unsafeCSS(MUTED)};
@@ -335,7 +344,7 @@ export class SoakPanel extends LitElement {
         <div class="name"><span>${s.name}</span><span class="badge" style="background:${v.colour}">${v.text}</span></div>
         <div class="bar"><span style="width:${(100 * fraction).toFixed(1)}%;background:${v.colour}"></span></div>
         <div class="line">
-          ${formatNumber(100 * fraction, 3)} % · ${s.faults ? `${s.faults.judged} judged, ${s.faults.failed} failed` : `${s.verdictsTotal} verdicts`}
+          ${formatNumber(100 * fraction, 3)} % · ${s.faults ? `${s.faults.judged} judged, ${s.faults.failed} failed${s.faults.incomplete ? `, ${s.faults.incomplete} incomplete` : ''}` : `${s.verdictsTotal} verdicts`}
           ${s.state === 'running' && s.progress ? html` · ETA ${s.progress.eta}` : nothing}
         </div>
       </button>
@@ -346,7 +355,8 @@ export class SoakPanel extends LitElement {
     const v = verdictOf(s);
     const p = s.progress;
     const fraction = p?.fraction ?? (s.state === 'finished' ? 1 : 0);
-    const failed = s.verdicts.filter((r) => !r.pass).length;
+    const failed = s.verdicts.filter((r) => outcomeOf(r) === 'fail').length;
+    const incomplete = s.faults?.incomplete ?? s.verdicts.filter((r) => outcomeOf(r) === 'incomplete').length;
     return html`
       <div class="head">
         <h3 data-testid="soak-name">${s.name}</h3>
@@ -366,7 +376,9 @@ export class SoakPanel extends LitElement {
               <span>ETA <b>${s.state === 'running' ? p.eta : '—'}</b></span>
               <span>wall <b>${formatSeconds(p.wallSeconds)}</b></span>`
           : nothing}
-        <span>faults <b>${s.faults?.judged ?? s.verdictsTotal}</b> judged${s.faults ? ` of ${s.faults.started} started` : ''}, <b class=${failed > 0 ? 'no' : 'yes'}>${s.faults?.failed ?? failed}</b> failed</span>
+        <span>faults <b>${s.faults?.judged ?? s.verdictsTotal}</b> judged${s.faults ? ` of ${s.faults.started} started` : ''}, <b class=${failed > 0 ? 'no' : 'yes'}>${s.faults?.failed ?? failed}</b> failed${incomplete
+            ? html`, <b style="color:${MUTED}" title="judging stopped before the outcome was decided; does not fail the soak unless --fail-incomplete">${incomplete}</b> incomplete`
+            : nothing}</span>
         ${s.exitCode !== null ? html`<span>exit code <b>${s.exitCode}</b></span>` : nothing}
       </div>
       ${s.state === 'interrupted'
@@ -443,10 +455,10 @@ export class SoakPanel extends LitElement {
     `;
   }
 
-  /** A persisted pattern was never lost; a lost one re-locked after some time, or never. */
+  /** A pattern never lost needs no re-lock; a lost one re-locked after some time, or never. */
   private relockText(r: Partial<VerdictRow>) {
     if (r.persisted === undefined) return '—';
-    if (r.persisted) return html`<span class="small">never lost</span>`;
+    if (r.persisted || (r.recovered && !r.timeToRelock)) return html`<span class="small">never lost</span>`;
     if (r.timeToRelock) return html`${formatSeconds(r.timeToRelock.seconds)}<span class="small"> ${formatNumber(r.timeToRelock.slow, 3)} slow</span>`;
     return html`<span class="no">${r.complete === false ? 'not yet' : 'never'}</span>`;
   }
@@ -454,24 +466,40 @@ export class SoakPanel extends LitElement {
   private renderVerdict(r: Partial<VerdictRow> & { id: string; pass: boolean }, slow: (tau: number | null | undefined) => string) {
     // status.json of an older soak may carry only id and pass.
     const detailed = r.action !== undefined;
+    const outcome = outcomeOf(r);
     const yesNo = (value: boolean | null | undefined, yes = 'yes', no = 'no') => (value === null || value === undefined ? '—' : html`<span class=${value ? 'yes' : 'no'}>${value ? yes : no}</span>`);
+    const persisted = !detailed ? '—' : r.persisted ? yesNo(true) : outcome === 'incomplete' ? html`<span class="open">not yet</span>` : yesNo(false, 'yes', r.slipped ? 'no (slip)' : 'no');
+    const badge = BADGES[outcome];
     return html`
-      <tr data-fault=${r.id} data-pass=${String(r.pass)}>
+      <tr data-fault=${r.id} data-pass=${String(r.pass)} data-outcome=${outcome}>
         <td><b>${r.id}</b>${detailed ? html`<span class="small"> ${r.action}${r.source === 'random' ? ' (random)' : ''}</span>` : nothing}</td>
         <td class="r">${detailed ? slow(r.appliedAt) : '—'}</td>
         <td>${detailed ? html`${r.before} → ${r.final === r.before ? 'the same' : r.final}${!r.persisted && r.became && r.became.length ? html`<span class="small"> via ${r.became.join(', ')}</span>` : nothing}` : '—'}</td>
-        <td>${detailed ? yesNo(r.persisted) : '—'}</td>
+        <td>${persisted}</td>
         <td class="r">${this.relockText(r)}</td>
         <td class="r">${detailed ? `${formatNumber(r.maxPhaseExcursion, 3)} rad` : '—'}</td>
         <td class="r">${r.divergence ? formatNumber(r.divergence.max, 3) : '—'}</td>
         <td>${r.prediction ? yesNo(r.prediction.agreed, 'agreed', 'disagreed') : '—'}</td>
         <td>
-          <span class="badge" style="background:${r.pass ? LOCKED : FAULT}">${r.pass ? 'PASS' : 'FAIL'}</span>
-          ${!r.pass && r.reasons?.length ? html`<span class="reasons">${r.reasons.join('; ')}</span>` : nothing}
+          <span class="badge" style="background:${badge.colour}">${badge.text}</span>
+          ${outcome === 'fail' && r.reasons?.length ? html`<span class="reasons">${r.reasons.join('; ')}</span>` : nothing}
+          ${r.notes?.length ? html`<span class="notes">${r.notes.join('; ')}</span>` : nothing}
         </td>
       </tr>
     `;
   }
+}
+
+/** PASS, FAIL, and INCOMPLETE in a neutral colour: judging stopped before the outcome was decided. */
+const BADGES = {
+  pass: { text: 'PASS', colour: LOCKED },
+  fail: { text: 'FAIL', colour: FAULT },
+  incomplete: { text: 'INCOMPLETE', colour: MUTED },
+} as const;
+
+/** Rows from soaks written before INCOMPLETE existed carry only `pass`. */
+function outcomeOf(r: { pass: boolean; outcome?: VerdictRow['outcome'] }): VerdictRow['outcome'] {
+  return r.outcome ?? (r.pass ? 'pass' : 'fail');
 }
 
 customElements.define('sr-soak-panel', SoakPanel);
