@@ -1,7 +1,7 @@
 import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
-import { formatHz, formatNumber, formatSeconds, marginTimeConstant, type RunScales } from '../data/engineering.js';
+import { formatNumber, formatSeconds, formatSimulatedSeconds, frequencyBasis, marginTimeConstant, runScalesOf, type RunScales } from '../data/engineering.js';
 import type { WireFrame } from '../../../src/protocol/messages.js';
 import type { LivePrediction } from '../../../src/predict/live.js';
 import { tauToSeconds } from '../../../src/scenario/units.js';
@@ -110,8 +110,8 @@ export class PatternPanel extends LitElement {
     if (!session || !frame) return html`<h2>Pattern</h2><p class="muted">No frame yet.</p>`;
     const p = frame.full.pattern;
     const g = frame.guide.pattern;
-    const scales = { epsilon: session.epsilon, nominalFrequencyHz: session.nominalFrequencyHz, omega0: session.omega[0] };
-    const seconds = (tau: number) => formatSeconds(tauToSeconds(tau, scales.nominalFrequencyHz, scales.omega0));
+    const scales = runScalesOf(session);
+    const seconds = (tau: number) => formatSimulatedSeconds(tauToSeconds(tau, scales.nominalFrequencyHz, scales.omega0), scales);
     const margin = frame.guide.margin;
     const constant = margin === null ? null : marginTimeConstant(margin, scales);
     const colour = frame.status === 'halted' ? FAULT : p.locked ? LOCKED : CAUTION;
@@ -152,7 +152,7 @@ export class PatternPanel extends LitElement {
           </dd>
           ${constant
             ? html`<dt>time constant</dt>
-                <dd>${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈ ${formatSeconds(constant.seconds)} at ${formatHz(scales.nominalFrequencyHz)}</dd>`
+                <dd>${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈ ${formatSeconds(constant.seconds)} ${frequencyBasis(scales)}</dd>`
             : nothing}
           <dt>full − guide</dt>
           <dd title="largest |a_full − a_guide| over nodes and modes; 'aligned' removes the common phase that noise makes drift, leaving the part that is a different pattern">
@@ -184,7 +184,7 @@ export class PatternPanel extends LitElement {
         ${next
           ? html`<br /><span class="muted"
                 >→ ${next.kind}${next.q !== undefined ? ` q = ${next.q}` : ''} on ${modeName(next.mode)}${constant
-                  ? `, settles in ≈ ${formatSeconds(constant.seconds)} (${formatNumber(constant.slow, 3)} slow units)`
+                  ? `, settles in ≈ ${formatSimulatedSeconds(constant.seconds, scales)} (${formatNumber(constant.slow, 3)} slow units)`
                   : ''}</span
               >`
           : nothing}

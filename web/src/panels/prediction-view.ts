@@ -3,7 +3,7 @@ import type { LivePrediction } from '../../../src/predict/live.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { fetchJson, livePatternIndex, predictionKey, type CatalogueResponse } from '../data/prediction-data.js';
-import { formatNumber, formatSeconds, marginTimeConstant } from '../data/engineering.js';
+import { formatNumber, formatSimulatedSeconds, marginTimeConstant, runScalesOf, type RunScales } from '../data/engineering.js';
 import { FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
 import './catalogue-panel.js';
 import './what-if-panel.js';
@@ -145,7 +145,7 @@ export class PredictionView extends LitElement {
           .selected=${this.selected}
           ?stale=${stale}
         ></sr-catalogue-panel>
-        <sr-live-prediction .prediction=${prediction} .scales=${session ? { epsilon: session.epsilon, nominalFrequencyHz: session.nominalFrequencyHz, omega0: session.omega[0] } : null}></sr-live-prediction>
+        <sr-live-prediction .prediction=${prediction} .scales=${session ? runScalesOf(session) : null}></sr-live-prediction>
       </div>
       <div class="column">
         <sr-what-if-panel .session=${session} .catalogue=${this.catalogue} .livePattern=${live?.index ?? -1} .selected=${this.selected}></sr-what-if-panel>
@@ -180,7 +180,7 @@ export class LivePredictionCard extends LitElement {
   ];
 
   declare prediction: LivePrediction | null;
-  declare scales: { epsilon: number; nominalFrequencyHz: number; omega0: number } | null;
+  declare scales: RunScales | null;
 
   constructor() {
     super();
@@ -192,7 +192,8 @@ export class LivePredictionCard extends LitElement {
     const p = this.prediction;
     if (!p) return html`<h2>Live prediction</h2><p class="muted">No change yet: after each fault the guiding system predicts whether the live pattern persists.</p>`;
     const next = p.pattern;
-    const constant = p.margin !== null && this.scales ? marginTimeConstant(p.margin, this.scales) : null;
+    const scales = this.scales;
+    const constant = p.margin !== null && scales ? marginTimeConstant(p.margin, scales) : null;
     return html`
       <h2>Live prediction after the last change</h2>
       <p data-testid="live-prediction">
@@ -200,7 +201,7 @@ export class LivePredictionCard extends LitElement {
         at τ = ${formatNumber(p.tau, 4)}: ${p.message}
         ${next
           ? html`<br /><span class="muted"
-                >→ ${next.kind}${next.q !== undefined ? ` q = ${next.q}` : ''} on mode ${next.mode}${constant ? `, settles in ≈ ${formatSeconds(constant.seconds)}` : ''}</span
+                >→ ${next.kind}${next.q !== undefined ? ` q = ${next.q}` : ''} on mode ${next.mode}${constant && scales ? `, settles in ≈ ${formatSimulatedSeconds(constant.seconds, scales)}` : ''}</span
               >`
           : nothing}
       </p>
