@@ -9,6 +9,7 @@ import { Hub, type HubOptions } from './ws/hub.js';
 import { closeBackground, createApp } from './http/app.js';
 import { loadScenario, UsageError } from './scenario-file.js';
 import type { OriginPolicy } from './ws/origin.js';
+import { SIMULATION_CAUTION } from '../src/campaign/cautions.js';
 
 export interface ServeOptions {
   /** 0 picks a free port. Default: PORT, else 8300. */
@@ -89,7 +90,7 @@ export async function serve(options: ServeOptions = {}): Promise<RunningServer> 
         `  operator: ${operatorUrl}\n` +
         (logDir ? `  session log: ${live.log?.path}\n` : '') +
         `  soaks: ${soaksDir}\n` +
-        'Simulation does not replace qualification of real hardware.\n',
+        `${SIMULATION_CAUTION}\n`,
     );
   }
   let closing: Promise<void> | null = null;

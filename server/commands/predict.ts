@@ -6,6 +6,7 @@ import { continueBranch, type Branch } from '../../src/predict/continuation.js';
 import { CONTINUATION_SYNTAX, parseContinuationParameter } from '../../src/predict/continuation-parameter.js';
 import { lookAhead } from '../../src/predict/look-ahead.js';
 import { UsageError, loadScenario } from '../scenario-file.js';
+import { ASSUMED_FREQUENCY_NOTE } from '../../src/scenario/units.js';
 
 export interface PredictArgs {
   scenario: string;
@@ -74,10 +75,12 @@ export function predict(args: PredictArgs): Record<string, unknown> {
     nodes: model.nodes,
     modes: model.modes,
     epsilon: model.params.epsilon,
+    nominalFrequency: { hz: scenario.units.nominalFrequencyHz, assumed: scenario.units.nominalFrequencyAssumed },
     group: catalogue.group,
     parts: catalogue.parts,
     notes: {
       units: 'eigenvalues, margins and rotation rates are in slow time (per unit eps tau); timeConstant = 1/|margin| in slow time, tau, carrier periods and seconds',
+      seconds: scenario.units.nominalFrequencyAssumed ? ASSUMED_FREQUENCY_NOTE : `seconds at the scenario's nominal frequency, ${scenario.units.nominalFrequencyHz} Hz`,
       marginal: 'a pattern is marginal when |margin| <= marginTolerance = eps rateScale K / omega_min + 1e-8 max(1, rateScale), K the coupling rate: the first-order guiding system cannot resolve its sign',
     },
     patterns: catalogue.patterns.map((p, index) => ({ index, ...p })),

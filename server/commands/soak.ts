@@ -1,9 +1,10 @@
 import { CampaignError } from '../../src/campaign/errors.js';
 import { runSoak, type SoakOptions } from '../soak/runner.js';
 import { UsageError } from '../scenario-file.js';
+import { PASS_CAUTION } from '../../src/campaign/cautions.js';
 
 /**
- * `syncring soak`: run a campaign headless, print one JSON line (pass, exit code, counts, the
+ * `syncring soak`: run a campaign headless, print one JSON line (pass with what it means, exit code, counts, the
  * summary's path) and return the exit code: 0 no verdict failed (INCOMPLETE ones are reported
  * beside the pass), 1 a verdict failed (or was INCOMPLETE under --fail-incomplete), 3 the run
  * halted (blow-up); 2 is bad input.
@@ -15,7 +16,7 @@ export async function soak(options: SoakOptions): Promise<number> {
   try {
     const result = await runSoak(options);
     const s = result.summary as { pass: boolean; tau: number; counts: unknown; status: string };
-    process.stdout.write(`${JSON.stringify({ pass: s.pass, exitCode: result.exitCode, status: s.status, tau: s.tau, counts: s.counts, summary: result.summaryPath })}\n`);
+    process.stdout.write(`${JSON.stringify({ pass: s.pass, caution: PASS_CAUTION, exitCode: result.exitCode, status: s.status, tau: s.tau, counts: s.counts, summary: result.summaryPath })}\n`);
     return result.exitCode;
   } catch (error) {
     if (error instanceof CampaignError) throw new UsageError(error.message);

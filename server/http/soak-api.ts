@@ -61,6 +61,8 @@ export interface SoakListing {
   scenario: string | null;
   campaign: string | null;
   epsilon: number | null;
+  /** What the soak's seconds rest on: its scenario's nominal frequency, or the default it assumed (null: not known yet). */
+  nominalFrequency: { hz: number; assumed: boolean } | null;
   verdicts: VerdictRow[];
   verdictsTotal: number;
   updatedAt: string;
@@ -170,6 +172,7 @@ async function listSoak(root: string, name: string, reader: JsonFileCache, tailO
     scenario: typeof summary?.scenario === 'string' ? summary.scenario : null,
     campaign: typeof summary?.campaign === 'string' ? summary.campaign : null,
     epsilon: num(timeBase?.epsilon) ?? (slowTime !== null && tau ? slowTime / tau : null),
+    nominalFrequency: nominalFrequencyOf(summary?.timeBase) ?? nominalFrequencyOf(status),
     verdicts: allVerdicts.slice(-VERDICTS_LISTED).map(verdictRow),
     verdictsTotal: allVerdicts.length,
     updatedAt: typeof status?.updatedAt === 'string' ? status.updatedAt : new Date(0).toISOString(),
@@ -217,6 +220,13 @@ function lastLine(path: string): string | null {
   } catch {
     return null;
   }
+}
+
+/** The nominal frequency as the summary's time base or status.json records it; older soaks recorded no assumption (read as given). */
+function nominalFrequencyOf(record: unknown): SoakListing['nominalFrequency'] {
+  const r = record as { nominalFrequencyHz?: unknown; nominalFrequencyAssumed?: unknown } | null | undefined;
+  const hz = num(r?.nominalFrequencyHz);
+  return hz === null ? null : { hz, assumed: r?.nominalFrequencyAssumed === true };
 }
 
 function verdictRow(v: FaultVerdict): VerdictRow {

@@ -66,6 +66,7 @@ export class SessionRunner {
       modes: p.modes,
       epsilon: p.epsilon,
       nominalFrequencyHz: s.units.nominalFrequencyHz,
+      nominalFrequencyAssumed: s.units.nominalFrequencyAssumed,
       omega: Array.from(p.omega),
       links: Array.from(p.linkFrom, (from, e) => ({ from, to: p.linkTo[e], weight: p.linkWeight[e], nominal: p.linkNominal[e] })),
       detuning: Array.from(p.detuning),

@@ -1,6 +1,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { analyzeStability, type FaultVerdict, type PhaseSample, type StabilityReport } from '../../src/campaign/index.js';
+import { DEFAULT_NOMINAL_FREQUENCY_HZ, tauToSeconds } from '../../src/scenario/units.js';
 import { UsageError } from '../scenario-file.js';
 import { describeProblems, readSoakLog, type SoakHeaderRecord } from '../soak/resume.js';
 import { SUMMARY_FILE } from '../soak/outputs.js';
@@ -21,6 +22,8 @@ export interface ReportData {
   epsilon: number;
   secondsPerTau: number;
   nominalFrequencyHz: number;
+  /** The scenario gave no nominal frequency (its JSON in the log header leaves it out): seconds rest on the default. */
+  nominalFrequencyAssumed: boolean;
   campaignName: string;
   campaignUnit: string;
   tauPerUnit: number;
@@ -45,15 +48,16 @@ export function loadReportData(dir: string): ReportData {
     else if (record.record === 'verdict') verdicts.push((record as unknown as { verdict: FaultVerdict }).verdict);
     if (typeof record.tau === 'number') lastTau = Math.max(lastTau, record.tau);
   }
-  const scenario = header.scenario as { epsilon: number; nominalFrequencyHz: number; modes: { omega: number }[] };
+  const scenario = header.scenario as { epsilon: number; nominalFrequencyHz?: number; modes: { omega: number }[] };
+  const nominalFrequencyHz = scenario.nominalFrequencyHz ?? DEFAULT_NOMINAL_FREQUENCY_HZ;
   const campaign = header.soak.campaign as { name?: string; timeUnit?: string };
   const timeBase = (summary?.timeBase ?? null) as { secondsPerTau: number; tauPerCampaignUnit: number } | null;
-  const secondsPerTau = timeBase?.secondsPerTau ?? scenario.modes[0].omega / (2 * Math.PI * scenario.nominalFrequencyHz);
+  const secondsPerTau = timeBase?.secondsPerTau ?? tauToSeconds(1, nominalFrequencyHz, scenario.modes[0].omega);
   const unit = campaign.timeUnit ?? 'tau';
   const tauPerUnit = timeBase?.tauPerCampaignUnit ?? (unit === 'slow' ? 1 / scenario.epsilon : unit === 'seconds' ? 1 / secondsPerTau : 1);
   const stability =
     (summary?.stability as StabilityReport | null | undefined) ??
-    analyzeStability(stabilitySamples(samples), header.soak.stride * header.soak.macroStep * secondsPerTau, scenario.nominalFrequencyHz);
+    analyzeStability(stabilitySamples(samples), header.soak.stride * header.soak.macroStep * secondsPerTau, nominalFrequencyHz);
   return {
     dir,
     header,
@@ -64,7 +68,8 @@ export function loadReportData(dir: string): ReportData {
     stability,
     epsilon: scenario.epsilon,
     secondsPerTau,
-    nominalFrequencyHz: scenario.nominalFrequencyHz,
+    nominalFrequencyHz,
+    nominalFrequencyAssumed: scenario.nominalFrequencyHz === undefined,
     campaignName: campaign.name ?? 'Untitled campaign',
     campaignUnit: unit,
     tauPerUnit,

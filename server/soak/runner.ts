@@ -26,7 +26,8 @@ import {
 import { LOG_FORMAT_VERSION } from '../../src/protocol/log-records.js';
 import { scenarioToJSON } from '../../src/scenario/parse.js';
 import type { Scenario } from '../../src/scenario/types.js';
-import { tauToSeconds } from '../../src/scenario/units.js';
+import { ASSUMED_FREQUENCY_NOTE, tauToSeconds } from '../../src/scenario/units.js';
+import { PASS_CAUTION } from '../../src/campaign/cautions.js';
 import { CoSimulation, type Frame, type SessionOptions } from '../../src/session/session.js';
 import { SegmentedLog, cutAfter, listSegments, segmentPathFor, syncDirectory, type LogLine } from '../log/segments.js';
 import { Progress, formatSeconds } from '../progress.js';
@@ -137,7 +138,7 @@ function finishedAlready(out: string, point: ResumePoint, scenario: Scenario, ca
 }
 
 function summaryHead(result: SoakOutcome): Record<string, unknown> {
-  return { format: 'syncring-soak-summary', formatVersion: 1, pass: result.pass, exitCode: result.exitCode };
+  return { format: 'syncring-soak-summary', formatVersion: 1, pass: result.pass, caution: PASS_CAUTION, exitCode: result.exitCode };
 }
 
 /** How times convert, for readers of the summary. */
@@ -146,11 +147,21 @@ function timeBaseOf(scenario: Scenario, campaign: Campaign, macroStep: number, s
     epsilon: scenario.epsilon,
     secondsPerTau: tauToSeconds(1, scenario.units.nominalFrequencyHz, scenario.modes[0].omega),
     nominalFrequencyHz: scenario.units.nominalFrequencyHz,
+    ...nominalFrequencyFields(scenario),
     campaignUnit: campaign.timeUnit,
     tauPerCampaignUnit: campaign.tauPerUnit,
     macroStep,
     sampleStrideTicks: stride,
   };
+}
+
+/**
+ * Whether the seconds of this soak rest on the default nominal frequency, with the sentence that
+ * says so: in the summary's time base and in status.json, for readers of either.
+ */
+function nominalFrequencyFields(scenario: Scenario): { nominalFrequencyAssumed: boolean; secondsNote?: string } {
+  const assumed = scenario.units.nominalFrequencyAssumed;
+  return assumed ? { nominalFrequencyAssumed: true, secondsNote: ASSUMED_FREQUENCY_NOTE } : { nominalFrequencyAssumed: false };
 }
 
 function readResumes(out: string): unknown[] {
@@ -475,6 +486,8 @@ class SoakRunner {
         incomplete: this.durableVerdicts.filter((v) => v.outcome === 'incomplete').length,
       },
       verdicts: this.durableVerdicts.slice(-50),
+      nominalFrequencyHz: this.scenario.units.nominalFrequencyHz,
+      ...nominalFrequencyFields(this.scenario),
       updatedAt: new Date().toISOString(),
     });
   }

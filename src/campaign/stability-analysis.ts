@@ -45,6 +45,9 @@ export interface StabilityReport {
   /**
    * Overlapping ADEV of each series divided by the single part's, per tau (the single part is
    * the reference a designer compares the array with); absent without an uncoupled twin.
+   * `node` (a coupled node against an uncoupled part) is what the coupling itself does for one
+   * part; `ensemble` is mostly plain averaging, as `uncoupledEnsemble` shows without coupling.
+   * Both approach 1/sqrt(N) only when the parts' noise is independent.
    */
   ratioToSinglePart: { tau: number[]; ensemble: number[]; node: number[]; uncoupledEnsemble: number[] } | null;
   note: string | null;

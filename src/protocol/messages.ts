@@ -36,6 +36,12 @@ export interface SessionInfo {
   modes: number;
   epsilon: number;
   nominalFrequencyHz: number;
+  /**
+   * True when the scenario gave no nominalFrequencyHz and the default stands in: every time in
+   * seconds the dashboard shows is then an assumption and is labelled as one. Absent from
+   * servers older than the field (read as given).
+   */
+  nominalFrequencyAssumed: boolean;
   omega: number[];
   links: LinkState[];
   detuning: number[];

@@ -7,7 +7,6 @@ export {
   defaultMacroPeriods,
   MAX_NODES,
   DEFAULT_NAME,
-  DEFAULT_NOMINAL_FREQUENCY_HZ,
   DEFAULT_AVERAGING_GRID,
 } from './parse.js';
 export type { ScenarioJSON } from './parse.js';
@@ -20,5 +19,8 @@ export {
   omegaToOffsetPpm,
   tauToSeconds,
   secondsToTau,
+  DEFAULT_NOMINAL_FREQUENCY_HZ,
+  ASSUMED_FREQUENCY_TAG,
+  ASSUMED_FREQUENCY_NOTE,
 } from './units.js';
 export type * from './types.js';

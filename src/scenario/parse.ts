@@ -17,8 +17,9 @@
  *   the fitted Adams method at eps <= 1e-4 where it applies, else RK4's rule, 56 at eps = 1e-3), averagingGrid 8, and macroPeriods
  *   max(1, round(1 / (2 pi 100 eps))) (1 when eps = 0), so one macro tick is about 1/100 of
  *   a slow time unit 1/eps.
- * - Engineering units (mapped in units.ts only): `nominalFrequencyHz` (default 10e6),
- *   `detuningPpm`, per-mode `offsetPpm` instead of `omega` and `quality` instead of `loss`.
+ * - Engineering units (mapped in units.ts only): `nominalFrequencyHz` (default 10e6, marked
+ *   `units.nominalFrequencyAssumed` when it was left out), `detuningPpm`, per-mode `offsetPpm`
+ *   instead of `omega` and `quality` instead of `loss`.
  */
 import { ScenarioError } from './errors.js';
 import type {
@@ -32,13 +33,12 @@ import type {
   Scenario,
   Topology,
 } from './types.js';
-import { offsetPpmToOmega, ppmToDelta, qualityToLoss } from './units.js';
+import { DEFAULT_NOMINAL_FREQUENCY_HZ, offsetPpmToOmega, ppmToDelta, qualityToLoss } from './units.js';
 import { defaultStepsPerPeriod } from '../integrate/default-steps.js';
 import { child, describeValue, fieldChecks, has, item, type Check, type JsonObject } from '../util/json-fields.js';
 
 export const MAX_NODES = 4096;
 export const DEFAULT_NAME = 'Untitled scenario';
-export const DEFAULT_NOMINAL_FREQUENCY_HZ = 10e6;
 export const DEFAULT_AVERAGING_GRID = 8;
 const DEFAULT_NOISE: NoiseSpec = { intensity: 0, seed: 1, detuningWalk: 0 };
 const DEFAULT_INITIAL_RANDOM = { seed: 1, amplitude: 0.1 };
@@ -369,7 +369,7 @@ function parseUnsourced(raw: unknown): Scenario {
     noise,
     initial,
     integrator,
-    units: { nominalFrequencyHz },
+    units: { nominalFrequencyHz, nominalFrequencyAssumed: !has(top, 'nominalFrequencyHz') },
   };
   if (integrator.stepsPerPeriod === 0) integrator.stepsPerPeriod = defaultStepsPerPeriod(scenario);
   return scenario;
@@ -381,7 +381,8 @@ export interface ScenarioJSON {
   nodes: number;
   topology: 'ring-one-way' | 'ring-two-way' | { edges: [number, number, number][] };
   epsilon: number;
-  nominalFrequencyHz: number;
+  /** Left out when the scenario did not give it (the default then stands in, as an assumption). */
+  nominalFrequencyHz?: number;
   modes: ModeSpec[];
   coupling: CouplingSpec;
   detuning: number[];
@@ -391,8 +392,10 @@ export interface ScenarioJSON {
 }
 
 /**
- * The normalized, dimensionless JSON form of a scenario: every default written out, no
- * engineering-unit fields except nominalFrequencyHz. `parseScenario` of it gives back an equal
+ * The normalized, dimensionless JSON form of a scenario: every default written out except the
+ * nominal frequency, no engineering-unit fields except nominalFrequencyHz. A nominal frequency
+ * the scenario did not give stays out, so that whoever reads a log header or a session's scenario
+ * can tell that its seconds rest on the default. `parseScenario` of it gives back an equal
  * Scenario. The result shares no arrays or objects with `s`.
  */
 export function scenarioToJSON(s: Scenario): ScenarioJSON {
@@ -405,7 +408,7 @@ export function scenarioToJSON(s: Scenario): ScenarioJSON {
     nodes: s.nodes,
     topology,
     epsilon: s.epsilon,
-    nominalFrequencyHz: s.units.nominalFrequencyHz,
+    ...(s.units.nominalFrequencyAssumed ? {} : { nominalFrequencyHz: s.units.nominalFrequencyHz }),
     modes: s.modes.map((m) => ({ omega: m.omega, gain: m.gain, loss: m.loss })),
     coupling: { ...s.coupling },
     detuning: [...s.detuning],

@@ -64,6 +64,11 @@ export interface IntegratorSpec {
 export interface UnitsSpec {
   /** Frequency in Hz that mode 0 (omega_0) stands for; tau = omega_0-periods * 2 pi. */
   nominalFrequencyHz: number;
+  /**
+   * True when the scenario did not give `nominalFrequencyHz` and DEFAULT_NOMINAL_FREQUENCY_HZ
+   * stands in: every time in seconds is then an assumption, and is shown as one.
+   */
+  nominalFrequencyAssumed: boolean;
 }
 
 export interface Scenario {

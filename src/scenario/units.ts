@@ -29,6 +29,19 @@
 const PPM = 1e-6;
 const TWO_PI = 2 * Math.PI;
 
+/** The nominal frequency f0 that stands in when a scenario gives no `nominalFrequencyHz`. */
+export const DEFAULT_NOMINAL_FREQUENCY_HZ = 10e6;
+
+/**
+ * Said beside a reading in seconds (or ns, ms, ...) when the scenario gave no nominal frequency:
+ * every such reading scales with 1/f0, so it is only as good as the default. One wording for
+ * the dashboard, the report and the command line.
+ */
+export const ASSUMED_FREQUENCY_TAG = `at an assumed ${DEFAULT_NOMINAL_FREQUENCY_HZ / 1e6} MHz`;
+
+/** The same assumption as a sentence with its reason, for notes and headers. */
+export const ASSUMED_FREQUENCY_NOTE = `The scenario gives no nominalFrequencyHz, so every time in seconds assumes f0 = ${DEFAULT_NOMINAL_FREQUENCY_HZ / 1e6} MHz.`;
+
 function requirePositive(name: string, value: number): void {
   if (!(Number.isFinite(value) && value > 0)) {
     throw new RangeError(`${name} must be a finite number > 0 (got ${value})`);

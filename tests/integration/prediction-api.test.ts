@@ -1,11 +1,11 @@
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { execFile, spawnSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import { cpSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { serve, type RunningServer } from '../../server/main.js';
 import { TestClient } from '../support/ws-client.js';
-import { adlerPairScenario } from '../support/adler-pair.js';
+import { runPairSoak } from '../support/pair-soak.js';
 
 /**
  * The dashboard's prediction and soak endpoints on a real server (port 0) running the demo board:
@@ -13,8 +13,6 @@ import { adlerPairScenario } from '../support/adler-pair.js';
  * fault), what-if errors that name the bad field, a continuation, and the soak listing with a
  * real soak run through the CLI beside hand-written status files.
  */
-const root = new URL('../../', import.meta.url).pathname;
-const bin = join(root, 'bin/syncring.js');
 
 interface Pattern {
   index: number;
@@ -36,26 +34,6 @@ interface Catalogue {
 async function getJson<T>(url: string): Promise<{ status: number; body: T }> {
   const response = await fetch(url);
   return { status: response.status, body: (await response.json()) as T };
-}
-
-/** A two-node soak (the pair of tests/integration/soak-verdicts.test.ts): runs in a few seconds. */
-function runPairSoak(dir: string, out: string): Promise<number> {
-  const scenario = join(dir, 'pair.json');
-  writeFileSync(scenario, JSON.stringify(adlerPairScenario()));
-  const campaign = join(dir, 'campaign.json');
-  // Delta_0 = 0.025 = kappa sigma / 2 is half the locking limit (Adler, Proc. IRE 34, 1946: locked
-  // while |dw| <= K), applied once the pair has locked (a short lock window, 5 slow units).
-  writeFileSync(campaign, JSON.stringify({
-    name: 'half the locking limit',
-    detector: { lockWindow: 5 },
-    faults: [{ id: 'half-limit', start: 2000, action: 'set-detuning', params: { node: 0, delta: 0.025 }, duration: 1500 }],
-    stability: { uncoupledReference: false },
-  }));
-  return new Promise((resolve) => {
-    execFile('node', [bin, 'soak', scenario, '--campaign', campaign, '--until', '6000', '--out', out], { cwd: root, timeout: 60_000 }, (error) =>
-      resolve(error ? ((error as { code?: number }).code ?? -1) : 0),
-    );
-  });
 }
 
 describe('prediction and soak API', () => {
@@ -167,7 +145,7 @@ describe('prediction and soak API', () => {
     const work = mkdtempSync(join(tmpdir(), 'syncring-soak-work-'));
     try {
       const finished = join(soaksDir, 'pair-finished');
-      const code = await runPairSoak(work, finished);
+      const { code } = await runPairSoak(work, finished);
       const summary = JSON.parse(readFileSync(join(finished, 'summary.json'), 'utf8')) as { pass: boolean; verdicts: { id: string; pass: boolean }[] };
       // inside the Adler limit the pattern persists: the soak passes with exit code 0
       expect(code).toBe(0);
@@ -201,7 +179,7 @@ describe('prediction and soak API', () => {
       // Not a soak: ignored.
       mkdirSync(join(soaksDir, 'notes'));
 
-      const { status: code200, body } = await getJson<{ soaks: { name: string; state: string; pass: boolean | null; progress: { fraction: number; slowTime: number } | null; verdicts: { id: string; pass: boolean; action?: string }[]; report: { url: string } }[] }>(
+      const { status: code200, body } = await getJson<{ soaks: { name: string; state: string; pass: boolean | null; nominalFrequency: { hz: number; assumed: boolean } | null; progress: { fraction: number; slowTime: number } | null; verdicts: { id: string; pass: boolean; action?: string }[]; report: { url: string } }[] }>(
         new URL('api/soaks', base).href,
       );
       expect(code200).toBe(200);
@@ -211,6 +189,8 @@ describe('prediction and soak API', () => {
       expect(done.state).toBe('finished');
       expect(done.pass).toBe(summary.pass);
       expect(done.progress?.fraction).toBe(1);
+      // the pair's scenario gives no nominal frequency: its seconds rest on the 10 MHz default
+      expect(done.nominalFrequency).toEqual({ hz: 10e6, assumed: true });
       expect(done.verdicts.map((v) => [v.id, v.pass])).toEqual(summary.verdicts.map((v) => [v.id, v.pass]));
       const live = byName.get('pair-running')!;
       expect(live.state).toBe('running');

@@ -92,7 +92,9 @@ describe('soak verdicts against the Adler locking limit', () => {
     expect(html).toContain('Neighbour phase differences');
     expect(html).toContain('dw-1.6K');
     expect(html).toContain('class="status fail">FAIL');
-    expect(html).toContain('Simulation does not replace qualification of real hardware. Timing equipment in telecom, power or navigation service follows its own standards and licensed practice.');
+    expect(html).toContain("Simulation does not replace qualification of real hardware. A PASS or a stability figure here holds under the simulated noise model only and does not mean compliance with any standard's mask. Qualify real hardware to the standards that apply, with accredited practice.");
+    // a failed soak has no PASS to qualify at its head
+    expect(html).not.toContain('data-testid="pass-caution"');
   });
 
   test('dw = 0.5 K (inside): the pattern persists, shifted to sin psi = 0.5, and the soak passes with exit code 0', async () => {

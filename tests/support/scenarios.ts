@@ -42,6 +42,6 @@ export function makeScenario(options: {
       macroPeriods: options.macroPeriods ?? 1,
       averagingGrid: options.averagingGrid ?? 8,
     },
-    units: { nominalFrequencyHz: 10e6 },
+    units: { nominalFrequencyHz: 10e6, nominalFrequencyAssumed: false },
   };
 }

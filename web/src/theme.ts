@@ -44,8 +44,19 @@ export const panelStyles = css`
     align-items: center;
     gap: 8px;
   }
+  /* symbols in a heading keep their case: phi is not Phi, |a| is not |A| (heading-text.ts) */
+  h2 .symbol {
+    text-transform: none;
+    letter-spacing: 0.02em;
+  }
   .num {
     font-variant-numeric: tabular-nums;
+  }
+  /* the second line of a seconds heading (seconds-heading.ts) */
+  .assumed-frequency {
+    font-weight: 400;
+    font-size: 11px;
+    color: ${unsafeCSS(MUTED)};
   }
   .muted {
     color: ${unsafeCSS(MUTED)};

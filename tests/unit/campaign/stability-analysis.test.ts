@@ -52,6 +52,39 @@ describe('stability analysis of a soak record', () => {
     expect(report.series.find((s) => s.name === 'singlePart')!.oadevSlope).toBeCloseTo(-0.5, 1);
   });
 
+  test('a coupled node against an uncoupled part: near 1/sqrt(N) with independent noise, much less gain with a shared part of it', () => {
+    // A node held by the coupling follows the array's mean phase, here with a residual walk of
+    // its own at half the parts' size; a free-running part carries its whole walk. The variance
+    // of a mean of N independent random walks is 1/N of one (common practice), so the node's
+    // ADEV ratio is sqrt(1/N + 1/4) and the array output's sqrt(1/N). A walk shared by every
+    // part (one supply, one temperature) does not average out: with a shared walk as large as
+    // each part's own, the node's ratio is sqrt((1 + 1/N + 1/4) / 2) (same arithmetic).
+    const n = 4;
+    const ratios = (shared: number) => {
+      const random = new Random(21);
+      const own = new Float64Array(n);
+      let common = 0;
+      let residual = 0;
+      const record = samples(20000, () => {
+        common += shared * random.normal() * 1e-3;
+        for (let k = 0; k < n; k++) own[k] += random.normal() * 1e-3;
+        residual += 0.5 * random.normal() * 1e-3;
+        const array = common + own.reduce((a, b) => a + b, 0) / n;
+        return [array, array + residual, array, common + own[0]];
+      });
+      const report = analyzeStability(record, tau0, f0)!;
+      const m = report.series[0].sweep.m;
+      const upTo64 = (values: number[]) => values.filter((_, i) => m[i] <= 64);
+      return { node: upTo64(report.ratioToSinglePart!.node), ensemble: upTo64(report.ratioToSinglePart!.ensemble) };
+    };
+    // at m <= 64 of 20000 samples each estimate scatters by about 3% (edf ~ 3N / 2m); 10% allowed
+    const near = (values: number[], expected: number) => values.forEach((r) => expect(Math.abs(r / expected - 1)).toBeLessThan(0.1));
+    const independent = ratios(0);
+    near(independent.node, Math.sqrt(1 / n + 0.25));
+    near(independent.ensemble, Math.sqrt(1 / n));
+    near(ratios(1).node, Math.sqrt((1 + 1 / n + 0.25) / 2));
+  });
+
   test('too few samples give no report; a stopped twin shortens only its own series', () => {
     expect(analyzeStability(samples(10, () => [0, 0, 0, 0]), tau0, f0)).toBeNull();
     const record = samples(100, (i) => [i * 1e-3, i * 2e-3, i < 50 ? i * 1e-3 : 0, i * 1e-3]).map((s, i) => (i >= 50 ? { ...s, uncoupledEnsemble: null, singlePart: null } : s));

@@ -19,7 +19,7 @@ describe('defaults', () => {
     expect(s.detuning).toEqual([0, 0, 0, 0]);
     expect(s.noise).toEqual({ intensity: 0, seed: 1, detuningWalk: 0 });
     expect(s.initial).toEqual({ random: { seed: 1, amplitude: 0.1 } });
-    expect(s.units).toEqual({ nominalFrequencyHz: 10e6 });
+    expect(s.units).toEqual({ nominalFrequencyHz: 10e6, nominalFrequencyAssumed: true });
     // macroPeriods = max(1, round(1 / (2 pi 100 eps))): 1 / (0.2 pi) = 1.59 -> 2 (hand arithmetic)
     // 8 ceil(1700 sqrt(1e-3) / 8) = 8 ceil(6.72) = 56
     expect(s.integrator).toEqual({ stepsPerPeriod: 56, macroPeriods: 2, averagingGrid: 8 });
@@ -95,9 +95,22 @@ describe('engineering-unit fields are mapped to the dimensionless model', () => 
 
   test('the output never carries engineering fields except units.nominalFrequencyHz', () => {
     const s = parseScenario(minimal({ epsilon: 1e-5, nominalFrequencyHz: 32768, detuningPpm: [1, 0, 0, 0] }));
-    expect(s.units.nominalFrequencyHz).toBe(32768);
+    expect(s.units).toEqual({ nominalFrequencyHz: 32768, nominalFrequencyAssumed: false });
     expect(Object.keys(s)).not.toContain('detuningPpm');
     expect(Object.keys(s.modes[0]!).sort()).toEqual(['gain', 'loss', 'omega']);
+  });
+});
+
+describe('an assumed nominal frequency', () => {
+  test('a scenario without nominalFrequencyHz is marked assumed, and its JSON form leaves the field out so the mark survives', () => {
+    const assumed = parseScenario(minimal());
+    const json = scenarioToJSON(assumed);
+    expect('nominalFrequencyHz' in json).toBe(false);
+    expect(parseScenario(JSON.parse(JSON.stringify(json))).units).toEqual({ nominalFrequencyHz: 10e6, nominalFrequencyAssumed: true });
+    // the same 10 MHz written out is a given frequency, not an assumption
+    const given = parseScenario(minimal({ nominalFrequencyHz: 10e6 }));
+    expect(given.units.nominalFrequencyAssumed).toBe(false);
+    expect(scenarioToJSON(given).nominalFrequencyHz).toBe(10e6);
   });
 });
 

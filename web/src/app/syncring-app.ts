@@ -8,6 +8,7 @@ import type { CommandDetail, NoticeDetail } from '../panels/commands.js';
 import type { ScenarioChoice } from '../panels/control-panel.js';
 import type { ToastStack } from '../panels/toast-stack.js';
 import { MUTED } from '../theme.js';
+import { SIMULATION_CAUTION } from '../../../src/campaign/cautions.js';
 import '../panels/status-header.js';
 import '../panels/connection-banner.js';
 import '../panels/ring-view.js';
@@ -338,10 +339,7 @@ export class SyncringApp extends LitElement {
         </div>
       </main>
       <footer>
-        <span class="caution" data-testid="caution">
-          Simulation does not replace qualification of real hardware. Timing equipment in telecom, power or navigation service follows its own
-          standards and licensed practice.
-        </span>
+        <span class="caution" data-testid="caution">${SIMULATION_CAUTION}</span>
         <span>syncring · full equations beside the averaged guiding system, one clock</span>
       </footer>
       <sr-toast-stack></sr-toast-stack>

@@ -2,10 +2,11 @@ import { html } from 'lit';
 import type { Chart, ChartConfiguration, ChartDataset } from 'chart.js';
 import type { FrameStore, StoreChange } from '../data/frame-store.js';
 import { nodeColour } from '../theme.js';
-import { axis, leftAxis, RIGHT_AXIS_WIDTH, StreamingChart } from './streaming-chart.js';
+import { axis, leftAxis, plainTickLabel, RIGHT_AXIS_WIDTH, StreamingChart } from './streaming-chart.js';
 import { SeriesCache } from './series-cache.js';
 import { applySeries, perturbationTimes } from './chart-data.js';
 import { streamingOptions } from './chart-controller.js';
+import { symbol, type HeadingPart } from '../panels/heading-text.js';
 
 /** Lowest amplitude drawn; anything smaller sits on the floor of the log axis. */
 const FLOOR = 1e-4;
@@ -18,8 +19,8 @@ export class AmplitudeChart extends StreamingChart {
   private readonly cache = new SeriesCache((p) => p.full.amplitude.flatMap((row) => row.map((a) => Math.max(FLOOR, a))));
   private shape = '';
 
-  get heading(): string {
-    return 'Mode amplitudes |a| per node';
+  get heading(): readonly HeadingPart[] {
+    return ['Mode amplitudes ', symbol('|a|'), ' per node'];
   }
 
   protected override legend() {
@@ -50,7 +51,7 @@ export class AmplitudeChart extends StreamingChart {
             afterBuildTicks: (scale) => {
               scale.ticks = [1e-4, 1e-3, 1e-2, 0.1, 1].map((value) => ({ value }));
             },
-            ticks: { ...axis('').ticks, callback: (v) => String(Number(v)) },
+            ticks: { ...axis('').ticks, callback: plainTickLabel },
           },
         },
         plugins: { ...base.plugins, eventMarkers: {} },

@@ -2,10 +2,11 @@ import { html } from 'lit';
 import type { Chart, ChartConfiguration } from 'chart.js';
 import type { FrameStore, StoreChange } from '../data/frame-store.js';
 import { CAUTION, INK, LOCKED } from '../theme.js';
-import { axis, leftAxis, RIGHT_AXIS_WIDTH, StreamingChart } from './streaming-chart.js';
+import { axis, leftAxis, plainTickLabel, RIGHT_AXIS_WIDTH, StreamingChart } from './streaming-chart.js';
 import { SeriesCache } from './series-cache.js';
 import { applySeries, perturbationTimes } from './chart-data.js';
 import { streamingOptions } from './chart-controller.js';
+import { symbol, type HeadingPart } from '../panels/heading-text.js';
 
 const DIVERGENCE_FLOOR = 1e-5;
 
@@ -16,8 +17,8 @@ const DIVERGENCE_FLOOR = 1e-5;
 export class LockChart extends StreamingChart {
   private readonly cache = new SeriesCache((p) => [p.locked ? 1 : 0, p.orderParameter, Math.max(DIVERGENCE_FLOOR, p.divergence)]);
 
-  get heading(): string {
-    return 'Lock, order parameter and divergence';
+  get heading(): readonly HeadingPart[] {
+    return ['Lock, order parameter ', symbol('R'), ' and divergence'];
   }
 
   protected override legend() {
@@ -43,7 +44,14 @@ export class LockChart extends StreamingChart {
         ...base,
         scales: {
           x: { type: 'linear', ...axis('slow time ε·τ') },
-          y: { type: 'linear', min: 0, max: 1.02, ...leftAxis('R'), afterBuildTicks: (s) => void (s.ticks = [0, 0.25, 0.5, 0.75, 1].map((value) => ({ value }))) },
+          y: {
+            type: 'linear',
+            min: 0,
+            max: 1.02,
+            ...leftAxis('R'),
+            afterBuildTicks: (s) => void (s.ticks = [0, 0.25, 0.5, 0.75, 1].map((value) => ({ value }))),
+            ticks: { ...axis('').ticks, callback: plainTickLabel },
+          },
           divergence: {
             type: 'logarithmic',
             position: 'right',
@@ -53,7 +61,7 @@ export class LockChart extends StreamingChart {
             afterFit: (scale: { width: number }) => void (scale.width = RIGHT_AXIS_WIDTH),
             grid: { display: false },
             afterBuildTicks: (s) => void (s.ticks = [1e-4, 1e-2, 1].map((value) => ({ value }))),
-            ticks: { ...axis('').ticks, callback: (v) => String(Number(v)) },
+            ticks: { ...axis('').ticks, callback: plainTickLabel },
           },
         },
         plugins: { ...base.plugins, eventMarkers: {} },

@@ -6,6 +6,7 @@ import { axis, leftAxis, RIGHT_AXIS_WIDTH, StreamingChart } from './streaming-ch
 import { SeriesCache } from './series-cache.js';
 import { applySeries, perturbationTimes } from './chart-data.js';
 import { streamingOptions } from './chart-controller.js';
+import { symbol, type HeadingPart } from '../panels/heading-text.js';
 
 /**
  * Neighbour phase differences phi_{k+1} - phi_k of the wanted mode over slow time, in units of
@@ -16,8 +17,8 @@ export class PhaseChart extends StreamingChart {
   private readonly cache = new SeriesCache((p) => [...p.full.phaseDifferences, ...p.guide.phaseDifferences].map((d) => d / Math.PI), 1);
   private nodes = 0;
 
-  get heading(): string {
-    return 'Phase differences φₖ₊₁ − φₖ (wanted mode)';
+  get heading(): readonly HeadingPart[] {
+    return ['Phase differences ', symbol('φₖ₊₁ − φₖ'), ' (wanted mode)'];
   }
 
   protected override legend() {

@@ -4,6 +4,7 @@ import type { FrameStore, StoreChange } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { GRID, MUTED, panelStyles } from '../theme.js';
 import { ChartController } from './chart-controller.js';
+import { headingMarkup, headingText, type HeadingPart } from '../panels/heading-text.js';
 
 /**
  * A panel with one chart fed from the store: subclasses say how to configure the chart, how
@@ -81,7 +82,7 @@ export abstract class StreamingChart extends LitElement {
     });
   }
 
-  abstract get heading(): string;
+  abstract get heading(): readonly HeadingPart[];
   protected abstract configure(): ChartConfiguration;
   protected abstract fill(chart: Chart, store: FrameStore, change: StoreChange): number;
   protected legend(): TemplateResult | string {
@@ -97,9 +98,9 @@ export abstract class StreamingChart extends LitElement {
 
   override render() {
     return html`
-      <h2>${this.heading}</h2>
+      <h2>${headingMarkup(this.heading)}</h2>
       <div class="legend">${this.legend()}</div>
-      <div class="frame"><canvas role="img" aria-label=${this.heading}></canvas></div>
+      <div class="frame"><canvas role="img" aria-label=${headingText(this.heading)}></canvas></div>
     `;
   }
 }
@@ -111,6 +112,14 @@ export const RIGHT_AXIS_WIDTH = 62;
 /** A left (value) axis of the standard width. */
 export function leftAxis(title: string) {
   return { ...axis(title), afterFit: (scale: { width: number }) => void (scale.width = LEFT_AXIS_WIDTH) };
+}
+
+/**
+ * A tick label that is the tick's value as written. chart.js's default label rounds to the
+ * decimals of the tick spacing, so ticks placed at 0.25 and 0.75 would read 0.3 and 0.8.
+ */
+export function plainTickLabel(value: number | string): string {
+  return String(Number(value));
 }
 
 /** Axis styling shared by the charts. */

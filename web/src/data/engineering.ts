@@ -1,4 +1,5 @@
-import { deltaToPpm, ppmToDelta, tauToSeconds } from '../../../src/scenario/units.js';
+import { ASSUMED_FREQUENCY_TAG, deltaToPpm, ppmToDelta, tauToSeconds } from '../../../src/scenario/units.js';
+import type { SessionInfo } from '../../../src/protocol/messages.js';
 
 /**
  * Engineering readings of dimensionless quantities for display. The mapping itself lives in
@@ -8,8 +9,36 @@ import { deltaToPpm, ppmToDelta, tauToSeconds } from '../../../src/scenario/unit
 export interface RunScales {
   epsilon: number;
   nominalFrequencyHz: number;
+  /** The scenario gave no nominal frequency: seconds rest on the default and say so. */
+  nominalFrequencyAssumed: boolean;
   /** omega_0 */
   omega0: number;
+}
+
+/** What converting a dimensionless time to seconds needs. */
+type TimeScales = Omit<RunScales, 'nominalFrequencyAssumed'>;
+
+/** The scales of a session (a server older than nominalFrequencyAssumed sends none: read as given). */
+export function runScalesOf(session: SessionInfo): RunScales {
+  return {
+    epsilon: session.epsilon,
+    nominalFrequencyHz: session.nominalFrequencyHz,
+    nominalFrequencyAssumed: session.nominalFrequencyAssumed === true,
+    omega0: session.omega[0],
+  };
+}
+
+/** What the seconds of a run rest on, e.g. "at 10 MHz" or "at an assumed 10 MHz". */
+export function frequencyBasis(scales: Pick<RunScales, 'nominalFrequencyHz' | 'nominalFrequencyAssumed'>): string {
+  return scales.nominalFrequencyAssumed ? ASSUMED_FREQUENCY_TAG : `at ${formatHz(scales.nominalFrequencyHz)}`;
+}
+
+/**
+ * Simulated (board) seconds, with the assumption beside them when the scenario gave no nominal
+ * frequency; wall-clock durations use formatSeconds alone.
+ */
+export function formatSimulatedSeconds(seconds: number, scales: Pick<RunScales, 'nominalFrequencyAssumed'>): string {
+  return scales.nominalFrequencyAssumed ? `${formatSeconds(seconds)} ${ASSUMED_FREQUENCY_TAG}` : formatSeconds(seconds);
 }
 
 /**
@@ -17,7 +46,7 @@ export interface RunScales {
  * seconds: the formula of timeConstantOf in src/predict/describe.ts, which needs a whole guide
  * model; the dashboard only has the session's scales.
  */
-export function marginTimeConstant(margin: number, scales: RunScales): { slow: number; tau: number; periods: number; seconds: number } | null {
+export function marginTimeConstant(margin: number, scales: TimeScales): { slow: number; tau: number; periods: number; seconds: number } | null {
   if (!(Math.abs(margin) > 0) || !(scales.epsilon > 0)) return null;
   const slow = 1 / Math.abs(margin);
   const tau = slow / scales.epsilon;
@@ -40,7 +69,7 @@ export function rateAsPpm(rate: number, epsilon: number): number {
 }
 
 /** Simulated seconds per wall second at a pace given in slow-time units per second. */
-export function simulatedSecondsPerSecond(slowPerSecond: number, scales: RunScales): number | null {
+export function simulatedSecondsPerSecond(slowPerSecond: number, scales: TimeScales): number | null {
   if (!(scales.epsilon > 0) || !Number.isFinite(slowPerSecond)) return null;
   return tauToSeconds(slowPerSecond / scales.epsilon, scales.nominalFrequencyHz, scales.omega0);
 }

@@ -1,7 +1,8 @@
 import { LitElement, css, html, nothing, unsafeCSS } from 'lit';
 import type { SessionInfo } from '../../../src/protocol/messages.js';
 import type { CatalogueEntry, CatalogueResponse } from '../data/prediction-data.js';
-import { formatHz, formatNumber, formatSeconds } from '../data/engineering.js';
+import { formatHz, formatNumber, formatSeconds, frequencyBasis, runScalesOf } from '../data/engineering.js';
+import { secondsHeading } from './seconds-heading.js';
 import { CAUTION, FAULT, GRID, LOCKED, MUTED, UNWANTED, panelStyles } from '../theme.js';
 import { modeName, spreadText } from './pattern-text.js';
 
@@ -203,6 +204,7 @@ export class CataloguePanel extends LitElement {
     const defects = c.patterns.filter((p) => p.stability === 'stable' && !isWanted(p)).length;
     const live = this.live;
     const broken = c.computedFor.links.filter((l) => l.weight === 0).length;
+    const scales = this.session ? runScalesOf(this.session) : null;
     return html`
       <p class="facts" data-testid="catalogue-facts">
         <b>${c.patterns.length}</b> locked patterns, <b style="color:${LOCKED}">${stable} stable</b>${defects
@@ -215,7 +217,7 @@ export class CataloguePanel extends LitElement {
           ? html`The live run is in <b>#${live.index}</b>${live.near ? '' : ' (nearest of its kind)'}.`
           : html`<span class="muted">The live run is not locked to any listed pattern.</span>`}
         ${c.initial.settled && c.initial.pattern !== null ? html` The scenario's start settles into #${c.initial.pattern}.` : nothing}
-        <span class="muted">Computed in ${formatNumber(c.wallSeconds, 2)} s${c.fromCache ? ' (cached)' : ''}; output frequencies against the wanted mode's nominal frequency${this.session ? `, in Hz at ${formatHz(this.session.nominalFrequencyHz)}` : ''}.</span>
+        <span class="muted">Computed in ${formatNumber(c.wallSeconds, 2)} s${c.fromCache ? ' (cached)' : ''}; output frequencies against the wanted mode's nominal frequency${scales ? `, in Hz ${frequencyBasis(scales)}` : ''}.</span>
         ${this.loading ? html` <span class="stale">Updating for the new parameters…</span>` : this.stale ? html` <span class="stale">The live parameters changed.</span>` : nothing}
       </p>
       <div class="scroll">
@@ -227,7 +229,7 @@ export class CataloguePanel extends LitElement {
               <th>symmetry</th>
               <th>stability</th>
               <th class="r" title="largest real part of the eigenvalues with the symmetry zeros removed, per slow time unit ε·τ">margin /slow</th>
-              <th class="r" title="1 / |margin|: how fast a disturbance dies out (stable) or grows (unstable)">time constant</th>
+              <th class="r" title="1 / |margin|: how fast a disturbance dies out (stable) or grows (unstable)" data-testid="catalogue-seconds">${secondsHeading('time constant', scales?.nominalFrequencyAssumed === true)}</th>
               <th class="r" title="mean over the nodes of the carrying mode's |a|, and its smallest and largest value">amplitude |a|</th>
               <th class="r" title="frequency of the locked output against the wanted mode's nominal frequency; below it, the carrying mode's own collective shift from its own nominal frequency">output frequency</th>
             </tr>

@@ -2,7 +2,7 @@ import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
 import type { SessionInfo, Speed } from '../../../src/protocol/messages.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
-import { formatNumber, formatSeconds, rateAsPpm, simulatedSecondsPerSecond } from '../data/engineering.js';
+import { formatNumber, formatSimulatedSeconds, rateAsPpm, runScalesOf, simulatedSecondsPerSecond } from '../data/engineering.js';
 import { MUTED, panelStyles } from '../theme.js';
 import { commandEvent } from './commands.js';
 import { lockIcon } from './icons.js';
@@ -156,7 +156,7 @@ export class ControlPanel extends LitElement {
         <div class="unit">Replay: play or scrub in the bar above. The values below are the ones in force at this point of the log.</div>
       </fieldset>`;
     }
-    const scales = { epsilon: s.epsilon, nominalFrequencyHz: s.nominalFrequencyHz, omega0: s.omega[0] };
+    const scales = runScalesOf(s);
     const pace = typeof s.speed === 'number' ? simulatedSecondsPerSecond(s.speed, scales) : null;
     const paused = s.status === 'paused';
     return html`
@@ -177,7 +177,7 @@ export class ControlPanel extends LitElement {
               ${SPEEDS.some((v) => String(v) === String(s.speed)) ? nothing : html`<option selected value=${String(s.speed)}>${formatNumber(s.speed as number)} slow/s</option>`}
             </select></label
           >
-          <span class="unit">${pace !== null ? `≈ ${formatSeconds(pace)} simulated per second` : s.speed === 'max' ? 'as fast as the server can' : ''}</span>
+          <span class="unit">${pace !== null ? `≈ ${formatSimulatedSeconds(pace, scales)} simulated per second` : s.speed === 'max' ? 'as fast as the server can' : ''}</span>
         </div>
       </fieldset>
     `;

@@ -2,7 +2,8 @@ import { LitElement, css, unsafeCSS, html } from 'lit';
 import type { SessionEvent, SessionEventKind } from '../../../src/session/session.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
-import { formatNumber, formatSeconds } from '../data/engineering.js';
+import { formatNumber, formatSeconds, runScalesOf } from '../data/engineering.js';
+import { secondsHeading } from './seconds-heading.js';
 import { tauToSeconds } from '../../../src/scenario/units.js';
 import { CAUTION, FAULT, LOCKED, MUTED, BRAND, UNWANTED, panelStyles } from '../theme.js';
 
@@ -84,14 +85,14 @@ export class EventTimeline extends LitElement {
   override render() {
     const events = this.store?.events ?? [];
     const session = this.store?.session;
-    const seconds = (e: SessionEvent) =>
-      session ? formatSeconds(tauToSeconds(e.tau, session.nominalFrequencyHz, session.omega[0])) : '—';
+    const scales = session ? runScalesOf(session) : null;
+    const seconds = (e: SessionEvent) => (scales ? formatSeconds(tauToSeconds(e.tau, scales.nominalFrequencyHz, scales.omega0)) : '—');
     return html`
       <h2>Timeline · ${events.length} event${events.length === 1 ? '' : 's'}</h2>
       <div class="scroll">
         <table data-testid="timeline">
           <thead>
-            <tr><th>τ</th><th>time</th><th>who</th><th>what</th></tr>
+            <tr><th>τ</th><th data-testid="timeline-seconds">${secondsHeading('time', scales?.nominalFrequencyAssumed === true)}</th><th>who</th><th>what</th></tr>
           </thead>
           <tbody>
             ${[...events].reverse().map(

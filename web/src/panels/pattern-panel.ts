@@ -1,7 +1,7 @@
 import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
-import { formatHz, formatNumber, formatSeconds, marginTimeConstant, type RunScales } from '../data/engineering.js';
+import { formatHz, formatNumber, formatSeconds, formatSimulatedSeconds, frequencyBasis, marginTimeConstant, runScalesOf, type RunScales } from '../data/engineering.js';
 import type { WireFrame } from '../../../src/protocol/messages.js';
 import type { LivePrediction } from '../../../src/predict/live.js';
 import { tauToSeconds } from '../../../src/scenario/units.js';
@@ -114,8 +114,8 @@ export class PatternPanel extends LitElement {
     if (!session || !frame) return html`<h2>Pattern</h2><p class="muted">No frame yet.</p>`;
     const p = frame.full.pattern;
     const g = frame.guide.pattern;
-    const scales = { epsilon: session.epsilon, nominalFrequencyHz: session.nominalFrequencyHz, omega0: session.omega[0] };
-    const seconds = (tau: number) => formatSeconds(tauToSeconds(tau, scales.nominalFrequencyHz, scales.omega0));
+    const scales = runScalesOf(session);
+    const seconds = (tau: number) => formatSimulatedSeconds(tauToSeconds(tau, scales.nominalFrequencyHz, scales.omega0), scales);
     const margin = frame.guide.margin;
     const constant = margin === null ? null : marginTimeConstant(margin, scales);
     // fields added to frames later than the first protocol version; old logs lack them
@@ -146,7 +146,7 @@ export class PatternPanel extends LitElement {
               array output: phase spread ${spreadText(p.spread)} · combining loss ${p.combiningLossDb === null ? '—' : `${formatNumber(p.combiningLossDb, 2)} dB`}
             </div>`
           : nothing}
-        ${unwanted ? html`<div class="line defect" data-testid="unwanted-mode">${unwantedModeText(p.mode, modeOffset(p.mode, session.omega, scales.nominalFrequencyHz), formatHz)}</div>` : nothing}
+        ${unwanted ? html`<div class="line defect" data-testid="unwanted-mode">${unwantedModeText(p.mode, modeOffset(p.mode, session.omega, scales.nominalFrequencyHz), (hz) => `${formatHz(hz)} ${frequencyBasis(scales)}`)}</div>` : nothing}
       </section>
       <section data-testid="pattern-symmetry">
         <h3>Symmetry: ${p.symmetry.length} element${p.symmetry.length === 1 ? '' : 's'} γ with γ·a = e<sup>iφ</sup>a</h3>
@@ -169,7 +169,7 @@ export class PatternPanel extends LitElement {
           </dd>
           ${constant
             ? html`<dt>time constant</dt>
-                <dd>${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈ ${formatSeconds(constant.seconds)} at ${formatHz(scales.nominalFrequencyHz)}</dd>`
+                <dd>${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈ ${formatSeconds(constant.seconds)} ${frequencyBasis(scales)}</dd>`
             : nothing}
           <dt>full − guide</dt>
           <dd title="largest |a_full − a_guide| over nodes and modes; 'aligned' removes the common phase that noise makes drift, leaving the part that is a different pattern">
@@ -199,7 +199,7 @@ export class PatternPanel extends LitElement {
         <span class=${verdictClass}>${p.verdict}</span> (at τ = ${formatNumber(p.tau, 4)}): ${p.message}
         ${next
           ? html`<br /><span class="muted">${destinationText(next, scales)}</span>
-              ${next.locked && next.mode !== 0 ? html`<br /><span class="defect">${unwantedModeText(next.mode, modeOffset(next.mode, omega, scales.nominalFrequencyHz), formatHz)}</span>` : nothing}`
+              ${next.locked && next.mode !== 0 ? html`<br /><span class="defect">${unwantedModeText(next.mode, modeOffset(next.mode, omega, scales.nominalFrequencyHz), (hz) => `${formatHz(hz)} ${frequencyBasis(scales)}`)}</span>` : nothing}`
           : nothing}
       </dd>`;
   }

@@ -1,6 +1,6 @@
 import type { PatternReport, SymmetryElement } from '../../../src/session/pattern-tracker.js';
 import type { PredictedPattern } from '../../../src/predict/live.js';
-import { formatNumber, formatSeconds, marginTimeConstant, type RunScales } from '../data/engineering.js';
+import { formatNumber, formatSimulatedSeconds, marginTimeConstant, type RunScales } from '../data/engineering.js';
 
 /** Name of mode j for people: mode 0 is the one the board is built for. */
 export function modeName(mode: number): string {
@@ -59,7 +59,7 @@ export function destinationText(next: PredictedPattern, scales: RunScales | null
   const constant = next.margin !== null && scales ? marginTimeConstant(next.margin, scales) : null;
   const transit = next.transit ?? null;
   const head = `→ ${next.kind}${next.q !== undefined ? ` q = ${next.q}` : ''} on ${modeName(next.mode)}`;
-  const tc = constant ? `, time constant ${formatSeconds(constant.seconds)} (${formatNumber(constant.slow, 3)} slow units)` : '';
-  const arrival = !next.locked ? '' : transit ? `; the look-ahead gets there in ≈ ${formatSeconds(transit.seconds)} (${formatNumber(transit.slowTime, 3)} slow units)` : '; transit time not predicted';
+  const tc = constant ? `, time constant ${formatSimulatedSeconds(constant.seconds, scales!)} (${formatNumber(constant.slow, 3)} slow units)` : '';
+  const arrival = !next.locked ? '' : transit ? `; the look-ahead gets there in ≈ ${scales ? formatSimulatedSeconds(transit.seconds, scales) : ''} (${formatNumber(transit.slowTime, 3)} slow units)` : '; transit time not predicted';
   return `${head}${tc}${arrival}`;
 }

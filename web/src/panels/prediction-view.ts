@@ -3,7 +3,7 @@ import type { LivePrediction } from '../../../src/predict/live.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { fetchJson, livePatternIndex, predictionKey, type CatalogueResponse } from '../data/prediction-data.js';
-import { formatNumber } from '../data/engineering.js';
+import { formatNumber, runScalesOf, type RunScales } from '../data/engineering.js';
 import { destinationText } from './pattern-text.js';
 import { FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
 import './catalogue-panel.js';
@@ -146,7 +146,7 @@ export class PredictionView extends LitElement {
           .selected=${this.selected}
           ?stale=${stale}
         ></sr-catalogue-panel>
-        <sr-live-prediction .prediction=${prediction} .scales=${session ? { epsilon: session.epsilon, nominalFrequencyHz: session.nominalFrequencyHz, omega0: session.omega[0] } : null}></sr-live-prediction>
+        <sr-live-prediction .prediction=${prediction} .scales=${session ? runScalesOf(session) : null}></sr-live-prediction>
       </div>
       <div class="column">
         <sr-what-if-panel .session=${session} .catalogue=${this.catalogue} .livePattern=${live?.index ?? -1} .selected=${this.selected}></sr-what-if-panel>
@@ -181,7 +181,7 @@ export class LivePredictionCard extends LitElement {
   ];
 
   declare prediction: LivePrediction | null;
-  declare scales: { epsilon: number; nominalFrequencyHz: number; omega0: number } | null;
+  declare scales: RunScales | null;
 
   constructor() {
     super();

@@ -3,7 +3,9 @@ import type { SoakListing, VerdictRow } from '../../../server/http/soak-api.js';
 import { fetchJson } from '../data/prediction-data.js';
 import { apiUrl, tokenFrom } from '../data/page-address.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
-import { BRAND, CAUTION, FAULT, GRID, LOCKED, MUTED, panelStyles } from '../theme.js';
+import { secondsHeading } from './seconds-heading.js';
+import { PASS_CAUTION, PASS_CAUTION_SHORT } from '../../../src/campaign/cautions.js';
+import { BRAND, CAUTION, FAULT, GRID, INK, LOCKED, MUTED, panelStyles } from '../theme.js';
 import { postSoakControl } from './soak-start-form.js';
 import './soak-start-form.js';
 
@@ -240,6 +242,20 @@ export class SoakPanel extends LitElement {
         font-size: 14px;
         margin: 6px 0 0;
       }
+      .caution {
+        border-left: 4px solid ${unsafeCSS(CAUTION)};
+        padding: 3px 10px;
+        font-size: 14px;
+        color: ${unsafeCSS(INK)};
+        max-width: 62ch;
+      }
+      .caution.short {
+        display: block;
+        border: 0;
+        padding: 2px 0 0;
+        font-size: 12px;
+        color: ${unsafeCSS(MUTED)};
+      }
       code {
         background: #eef3f6;
         padding: 1px 5px;
@@ -347,6 +363,7 @@ export class SoakPanel extends LitElement {
           ${formatNumber(100 * fraction, 3)} % · ${s.faults ? `${s.faults.judged} judged, ${s.faults.failed} failed${s.faults.incomplete ? `, ${s.faults.incomplete} incomplete` : ''}` : `${s.verdictsTotal} verdicts`}
           ${s.state === 'running' && s.progress ? html` · ETA ${s.progress.eta}` : nothing}
         </div>
+        ${s.pass === true ? html`<span class="caution short" title=${PASS_CAUTION}>PASS: ${PASS_CAUTION_SHORT}</span>` : nothing}
       </button>
     `;
   }
@@ -364,6 +381,7 @@ export class SoakPanel extends LitElement {
         <a class="report" data-testid="soak-report" href=${apiUrl(s.report.url)} target="_blank" rel="noopener">Open report ↗</a>
         <span class="small">${s.report.file ? 'report.html' : 'report made from the log on request'}</span>
         ${this.renderControl(s)}
+        ${s.pass === true ? html`<span class="caution" data-testid="soak-pass-caution">${PASS_CAUTION}</span>` : nothing}
       </div>
       ${this.action && this.action.soak === s.name && !this.action.busy
         ? html`<p class="action ${this.action.failed ? 'no' : 'small'}" data-testid="soak-action-result" role="status">${this.action.text}</p>`
@@ -440,7 +458,7 @@ export class SoakPanel extends LitElement {
             <th class="r">at (${eps > 0 ? 'slow' : 'τ'})</th>
             <th>before → after</th>
             <th>persisted</th>
-            <th class="r">re-lock</th>
+            <th class="r" data-testid="relock-heading">${secondsHeading('re-lock', s.nominalFrequency?.assumed === true)}</th>
             <th class="r">max phase excursion</th>
             <th class="r">full − guide</th>
             <th>prediction</th>
@@ -451,6 +469,7 @@ export class SoakPanel extends LitElement {
           ${shown.map((r) => this.renderVerdict(r, slow))}
         </tbody>
       </table>
+      ${s.pass !== true && shown.some((r) => r.pass) ? html`<p class="caution" data-testid="verdicts-pass-caution">${PASS_CAUTION}</p>` : nothing}
       <p class="small">${newestFirst ? 'Newest first.' : 'In the order the faults were applied.'}${s.verdictsTotal > s.verdicts.length ? ` ${s.verdictsTotal - s.verdicts.length} older verdicts are in the report.` : ''}</p>
     `;
   }
@@ -482,6 +501,7 @@ export class SoakPanel extends LitElement {
         <td>${r.prediction ? yesNo(r.prediction.agreed, 'agreed', 'disagreed') : '—'}</td>
         <td>
           <span class="badge" style="background:${badge.colour}">${badge.text}</span>
+          ${outcome === 'pass' ? html`<span class="caution short" title=${PASS_CAUTION}>${PASS_CAUTION_SHORT}</span>` : nothing}
           ${outcome === 'fail' && r.reasons?.length ? html`<span class="reasons">${r.reasons.join('; ')}</span>` : nothing}
           ${r.notes?.length ? html`<span class="notes">${r.notes.join('; ')}</span>` : nothing}
         </td>

@@ -3,8 +3,9 @@ import type { Role } from '../../../src/protocol/messages.js';
 import type { ConnectionState } from '../data/connection.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
-import { formatHz, formatNumber, formatSeconds } from '../data/engineering.js';
+import { formatHz, formatNumber, formatSimulatedSeconds, runScalesOf } from '../data/engineering.js';
 import { BRAND, CAUTION, FAULT, LOCKED, UNWANTED } from '../theme.js';
+import { ASSUMED_FREQUENCY_NOTE } from '../../../src/scenario/units.js';
 
 /**
  * The top bar: what run this is, who I am in it (operator, viewer, replay), whether the live
@@ -152,7 +153,11 @@ export class StatusHeader extends LitElement {
       ${s
         ? html`<div class="scenario" data-testid="scenario">
             ${s.scenarioName}
-            <small>${s.nodes} nodes · ${s.modes} mode${s.modes > 1 ? 's' : ''} · ε = ${formatNumber(s.epsilon)} · f₀ = ${formatHz(s.nominalFrequencyHz)}</small>
+            <small title=${s.nominalFrequencyAssumed ? ASSUMED_FREQUENCY_NOTE : ''}
+              >${s.nodes} nodes · ${s.modes} mode${s.modes > 1 ? 's' : ''} · ε = ${formatNumber(s.epsilon)} · f₀ = ${formatHz(s.nominalFrequencyHz)}${s.nominalFrequencyAssumed
+                ? ' assumed (not in the scenario)'
+                : ''}</small
+            >
           </div>`
         : nothing}
       ${badge}
@@ -161,7 +166,7 @@ export class StatusHeader extends LitElement {
         ${f
           ? html`<span>τ <b data-testid="tau">${formatNumber(f.tau, 6)}</b></span>
               <span>ε·τ <b>${formatNumber(f.slowTime, 4)}</b></span>
-              <span>t <b>${formatSeconds(f.seconds)}</b></span>
+              <span data-testid="clock-seconds">t <b>${s ? formatSimulatedSeconds(f.seconds, runScalesOf(s)) : '—'}</b></span>
               <span>${this.replaying ? 'sample' : 'frame'} <b data-testid="frame-count">${this.store?.frameCount ?? 0}</b></span>`
           : nothing}
       </div>

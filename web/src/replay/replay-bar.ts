@@ -1,5 +1,5 @@
 import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
-import { formatNumber, formatSeconds } from '../data/engineering.js';
+import { formatNumber, formatSimulatedSeconds } from '../data/engineering.js';
 import { UNWANTED } from '../theme.js';
 import type { ReplayLog } from './replay-log.js';
 
@@ -131,7 +131,7 @@ export class ReplayBar extends LitElement {
         <input type="range" min="0" max=${last} .value=${String(this.index)} aria-label="replay position" data-testid="scrubber"
           @input=${(e: Event) => { this.stop(); this.scrub(Number((e.target as HTMLInputElement).value)); }} />
       </div>
-      <span class="pos">sample ${this.index + 1} / ${last + 1} · τ = ${formatNumber(frame.tau, 5)} · ${formatSeconds(frame.seconds)}</span>
+      <span class="pos">sample ${this.index + 1} / ${last + 1} · τ = ${formatNumber(frame.tau, 5)} · ${formatSimulatedSeconds(frame.seconds, r.scenario.units)}</span>
       ${r.problems.length ? html`<span class="problems" title=${r.problems.map((p) => `line ${p.line}: ${p.reason}`).join('\n')}>${r.problems.length} log problem(s)</span>` : nothing}
       <button data-action="back-to-live" @click=${() => this.dispatchEvent(new CustomEvent('sr-leave-replay', { bubbles: true, composed: true }))}>⟲ Back to live</button>
     </div>`;

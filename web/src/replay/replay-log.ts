@@ -81,6 +81,7 @@ export class ReplayLog {
       modes: s.modes.length,
       epsilon: s.epsilon,
       nominalFrequencyHz: s.units.nominalFrequencyHz,
+      nominalFrequencyAssumed: s.units.nominalFrequencyAssumed,
       omega: s.modes.map((m) => m.omega),
       links: s.links.map((l) => ({ from: l.from, to: l.to, weight: l.weight, nominal: l.weight })),
       detuning: [...s.detuning],

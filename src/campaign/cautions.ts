@@ -1,0 +1,23 @@
+/**
+ * What a PASS and a stability figure do and do not mean, in plain words. The one source of the
+ * caution texts: the dashboard, the soak report, the soak's summary and the server's start-up
+ * lines all take them from here, so the wording cannot drift apart.
+ */
+
+const NOT_A_MASK = "It does not mean compliance with any standard's mask.";
+const QUALIFY = 'Qualify real hardware to the standards that apply, with accredited practice.';
+
+/** Beside every PASS: a verdict judges this campaign's own criteria, nothing more. */
+export const PASS_CAUTION = `PASS means this campaign's criteria were met under the simulated noise model. ${NOT_A_MASK} ${QUALIFY}`;
+
+/** Beside every frequency-stability result (ADEV, TDEV, MTIE, offsets, ratios). */
+export const STABILITY_CAUTION = `These stability figures come from the simulated noise model, not from a measured part. ${NOT_A_MASK} ${QUALIFY}`;
+
+/**
+ * Where a PASS sits in a row among many (a verdict table), the full text beside each one would
+ * bury the table: this short form goes beside each, with PASS_CAUTION once beside the table.
+ */
+export const PASS_CAUTION_SHORT = "simulated criteria, not a standard's mask";
+
+/** The page-wide caution (header, footer, start-up), covering both kinds of result. */
+export const SIMULATION_CAUTION = `Simulation does not replace qualification of real hardware. A PASS or a stability figure here holds under the simulated noise model only and does not mean compliance with any standard's mask. ${QUALIFY}`;
