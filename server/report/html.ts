@@ -39,6 +39,7 @@ export function reportHtml(d: ReportData): string {
       ` Started ${esc(String(d.header.createdAt))}, syncring ${esc(d.header.software.version)}, noise seed ${d.header.seeds.noise}.</p>`,
     d.nominalFrequencyAssumed ? `<p class="assumed" data-testid="assumed-frequency">${esc(ASSUMED_FREQUENCY_NOTE)}</p>` : '',
     `${caution(SIMULATION_CAUTION, 'caution')}</header>`,
+    unwantedModeNote(d),
     d.problems ? `<section class="problems"><h2>Log problems</h2><pre>${esc(d.problems)}</pre></section>` : '',
     keyNumbers(d),
     `<section><h2>Frequency stability</h2>${stabilityPlots(d)}</section>`,
@@ -68,6 +69,7 @@ h3 { font-size: 15px; margin: 18px 0 6px; }
 .status { display: inline-block; font-weight: 700; font-size: 18px; padding: 4px 14px; border-radius: 4px; color: #fff; }
 .status.pass { background: #2b8a3e; } .status.fail { background: #c0392b; } .status.running { background: #8a6d00; }
 .facts { margin: 10px 0; }
+.defect { background: #f6f0fb; border-left: 4px solid #7b2fbf; padding: 8px 12px; margin: 12px 0; font-weight: 600; }
 .caution { background: #fff6db; border-left: 4px solid #d1a000; padding: 8px 12px; margin: 12px 0; }
 .assumed { background: #eef4fb; border-left: 4px solid #1f5fa8; padding: 8px 12px; margin: 12px 0; }
 figure .caution, td .caution { font-size: 12px; padding: 4px 8px; margin: 6px 0 0; max-width: 760px; }
@@ -342,6 +344,16 @@ function definitions(d: ReportData): string {
 }
 
 /** A plot with its caption; a stability plot also carries the stability caution beside it. */
+/** A ring that ended locked on an unwanted mode: a design defect, said at the top. */
+function unwantedModeNote(d: ReportData): string {
+  const pattern = (d.summary?.final as { pattern?: { locked?: boolean; carryingMode?: number; kind?: string } } | null | undefined)?.pattern;
+  if (!pattern?.locked || !pattern.carryingMode) return '';
+  const omega = (d.header.scenario as { modes?: { omega?: number }[] }).modes?.map((m) => m.omega ?? 1) ?? [];
+  const ppm = omega.length > pattern.carryingMode ? (omega[pattern.carryingMode] / omega[0] - 1) * 1e6 : null;
+  const where = ppm === null ? '' : `, about ${ppm >= 0 ? '+' : ''}${fmt(ppm)} ppm (${fmtHz(Math.abs(ppm) * 1e-6 * d.nominalFrequencyHz)} ${basis(d)}) from the wanted frequency`;
+  return `<p class="defect" data-testid="unwanted-mode">Design defect: the soak ended with the ring locked (${esc(pattern.kind ?? '')}) on unwanted mode ${pattern.carryingMode}; the board's output then sits at that mode's frequency${esc(where)}.</p>`;
+}
+
 function figure(svg: string, caption: string, stability = false): string {
   return `<figure>${svg}<figcaption>${esc(caption)}</figcaption>${stability ? caution(STABILITY_CAUTION, 'stability-caution') : ''}</figure>`;
 }

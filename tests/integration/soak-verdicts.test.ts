@@ -111,6 +111,47 @@ describe('soak verdicts against the Adler locking limit', () => {
     expect(summary.state[0][0]).toEqual({ x: expect.any(Number), xdot: expect.any(Number) });
   });
 
+  test('a soak that ends inside a window: INCOMPLETE, exit code 0, and 1 under --fail-incomplete', async () => {
+    const c = setUp(0.5);
+    const until = String(start + 2000);
+    const plain = await soak([c.scenario, '--campaign', c.campaign, '--until', until, '--out', c.out]);
+    expect(plain.code).toBe(0);
+    const summary = JSON.parse(readFileSync(join(c.out, 'summary.json'), 'utf8'));
+    expect(summary.counts).toMatchObject({ faults: 1, passed: 0, failed: 0, incomplete: 1 });
+    expect(summary.verdicts[0].outcome).toBe('incomplete');
+    expect(summary.pass).toBe(true);
+    expect(summary.notes.join(' ')).toMatch(/1 fault was INCOMPLETE/);
+    const strict = await soak([c.scenario, '--campaign', c.campaign, '--until', until, '--out', `${c.out}-strict`, '--fail-incomplete']);
+    expect(strict.code).toBe(1);
+    expect(JSON.parse(strict.stdout)).toMatchObject({ pass: false, exitCode: 1 });
+  });
+
+  test('a ring locked on the unwanted mode fails every fault as a design defect, and the report says so at the top', async () => {
+    // two modes, the second (1500 ppm up) with the larger gain and started alone: it wins and locks
+    const dir = mkdtempSync(join(tmpdir(), 'syncring-unwanted-'));
+    const scenario = join(dir, 'pair.json');
+    writeFileSync(scenario, JSON.stringify({
+      ...adlerPairScenario(eps, kappaSigma),
+      modes: [{ omega: 1, gain: 1, loss: 0.5 }, { omega: 1.0015, gain: 1, loss: 0 }],
+      initial: { pattern: { q: 0, amplitude: 2, mode: 1 } },
+      nominalFrequencyHz: 10e6,
+    }));
+    const campaign = join(dir, 'campaign.json');
+    writeFileSync(campaign, JSON.stringify({ faults: [{ id: 'nudge', start, action: 'kick-mode', params: { node: 0, mode: 1, amount: 0.05 } }], stability: { uncoupledReference: false } }));
+    const out = join(dir, 'out');
+    const result = await soak([scenario, '--campaign', campaign, '--until', String(start + 12000), '--out', out]);
+    expect(result.code).toBe(1);
+    const summary = JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8'));
+    const v = summary.verdicts[0];
+    expect(v.before).toBe('in-phase q=0 on mode 1');
+    expect(v.outcome).toBe('fail');
+    expect(v.reasons[0]).toMatch(/^the ring was locked on unwanted mode 1 before the fault: a design defect/);
+    expect(summary.final.pattern).toMatchObject({ carryingMode: 1, wantedMode: false });
+    const written = await report(out);
+    const html = readFileSync(JSON.parse(written.stdout).report, 'utf8');
+    expect(html).toMatch(/Design defect: the soak ended with the ring locked \(in-phase\) on unwanted mode 1; the board's output then sits at that mode's frequency, about \+1500 ppm \(15 kHz at 10 MHz\)/);
+  });
+
   test('a bad campaign is refused with exit code 2 naming the field', async () => {
     const c = setUp(0.5);
     writeFileSync(c.campaign, JSON.stringify({ faults: [{ start: 1, action: 'set-detuning', params: { node: 5, delta: 0 }, duration: 1 }] }));
