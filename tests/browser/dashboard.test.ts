@@ -126,8 +126,41 @@ describe.runIf(available)('dashboard in Chromium', () => {
     expect(await textOf(operator, '[data-testid=last-command]')).toMatch(/break-link accepted/);
     // Let the charts show a few slow units after the break before taking the pictures.
     await operator.waitForTimeout(2500);
+    // opening one direction of one link moves the locked ring to its continued state: no loss of lock
+    expect(await operator.locator('sr-event-timeline tr[data-kind=unlock], sr-event-timeline tr[data-kind=pattern-change]').count()).toBe(0);
+    expect(await textOf(operator, '[data-testid=array-output]')).toMatch(/^array output: phase spread ±\d\.\d\d rad \(±\d+°\) · combining loss -?\d/);
     await operator.screenshot({ path: join(DOCS, 'dashboard.png') });
     await viewer.screenshot({ path: join(DOCS, 'dashboard-viewer.png') });
+  });
+
+  test('an amplitude kick on the wanted mode shows as settling, not as a pattern change', async () => {
+    const lockState = () => textOf(operator, '[data-testid=lock-state]');
+    await expect.poll(lockState, { timeout: 30_000 }).toMatch(/^locked since/);
+    const kicks = await operator.locator('sr-event-timeline tr[data-kind=perturbation]').count();
+    // watch the read-out from inside the page so a short settling is not missed between polls
+    await operator.evaluate(() => {
+      const w = window as unknown as { seen: string[] };
+      w.seen = [];
+      const find = (root: Document | ShadowRoot): Element | null => {
+        const hit = root.querySelector('[data-testid=lock-state]');
+        if (hit) return hit;
+        for (const el of root.querySelectorAll('*')) if (el.shadowRoot) { const inner = find(el.shadowRoot); if (inner) return inner; }
+        return null;
+      };
+      const tick = () => {
+        const text = find(document)?.textContent ?? '';
+        if (w.seen.at(-1) !== text) w.seen.push(text);
+        requestAnimationFrame(tick);
+      };
+      tick();
+    });
+    const panel = operator.locator('sr-control-panel');
+    await panel.locator('fieldset:has(legend:text("Kick a mode")) select').nth(1).selectOption('0');
+    await panel.locator('button[data-action=kick-mode]').click();
+    await expect.poll(() => operator.locator('sr-event-timeline tr[data-kind=perturbation]').count()).toBeGreaterThan(kicks);
+    await expect.poll(() => operator.evaluate(() => (window as unknown as { seen: string[] }).seen.some((t) => /settling/.test(t))), { timeout: 15_000 }).toBe(true);
+    await expect.poll(lockState, { timeout: 30_000 }).toMatch(/^locked since/);
+    expect(await operator.locator('sr-event-timeline tr[data-kind=unlock], sr-event-timeline tr[data-kind=pattern-change]').count()).toBe(0);
   });
 
   test('a viewer cannot issue commands: controls are disabled and a forced command is refused', async () => {

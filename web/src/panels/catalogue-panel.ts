@@ -309,13 +309,14 @@ function formatSignedPpm(ppm: number): string {
   return `${ppm > 0 ? '+' : ''}${formatNumber(ppm, 3)} ppm`;
 }
 
-/** Hz with mHz / µHz for the tiny shifts of a weakly coupled board. */
+/** Hz with mHz / µHz for the tiny shifts of a weakly coupled board, kHz and up for an unwanted mode's offset. */
 function formatSignedHz(hz: number): string {
   const sign = hz > 0 ? '+' : hz < 0 ? '−' : '';
   const a = Math.abs(hz);
   if (a === 0) return '0 Hz';
   if (a < 1e-3) return `${sign}${formatNumber(a * 1e6, 3)} µHz`;
   if (a < 1) return `${sign}${formatNumber(a * 1e3, 3)} mHz`;
+  if (a >= 1e3) return `${sign}${formatHz(a)}`;
   return `${sign}${formatNumber(a, 3)} Hz`;
 }
 
