@@ -1,7 +1,7 @@
 import { initialRotatingState } from '../../src/model/initial.js';
 import { nearResonances } from '../../src/guide/resonance.js';
 import { GuideModel } from '../../src/predict/guide-model.js';
-import { CATALOGUE_SIZE_LIMIT, dynamicalSymmetries, patternCatalogue, sameUpToSymmetry, type CataloguePattern } from '../../src/predict/catalogue.js';
+import { CATALOGUE_SIZE_LIMIT, patternCatalogue, type CataloguePattern } from '../../src/predict/catalogue.js';
 import { continueBranch, type Branch } from '../../src/predict/continuation.js';
 import { CONTINUATION_SYNTAX, parseContinuationParameter } from '../../src/predict/continuation-parameter.js';
 import { lookAhead } from '../../src/predict/look-ahead.js';
@@ -63,12 +63,10 @@ export function predict(args: PredictArgs): Record<string, unknown> {
   const started = Date.now();
   const initial = initialRotatingState(scenario, model.params);
   const destination = lookAhead(model, initial);
+  // The start's destination is an extra seed: it can add an entry but not change the others, and
+  // the catalogue says which entry (copies alike, mirror images apart) it landed in.
   const catalogue = patternCatalogue(model, destination.settled ? { seeds: [destination.state] } : {});
-  const group = dynamicalSymmetries(model).elements;
-  const parts = model.parts();
-  const settledIndex = destination.settled
-    ? catalogue.patterns.findIndex((p) => sameUpToSymmetry(Float64Array.from(p.state), destination.state, group, model.nodes, model.modes, parts, 1e-4))
-    : -1;
+  const settledIndex = destination.settled ? (catalogue.seedPatterns[0] ?? -1) : -1;
 
   const result: Record<string, unknown> = {
     scenario: scenario.name,
@@ -81,6 +79,7 @@ export function predict(args: PredictArgs): Record<string, unknown> {
     notes: {
       units: 'eigenvalues, margins and rotation rates are in slow time (per unit eps tau); timeConstant = 1/|margin| in slow time, tau, carrier periods and seconds',
       seconds: scenario.units.nominalFrequencyAssumed ? ASSUMED_FREQUENCY_NOTE : `seconds at the scenario's nominal frequency, ${scenario.units.nominalFrequencyHz} Hz`,
+      mirror: 'rotations and phase shifts make copies of a pattern (one entry; candidate.conjugates counts them); a reflection makes its mirror image (a rotating wave q becomes N - q), an entry of its own linked through mirror.partner, or mirror.relation "self" when the image is a copy',
       marginal: 'a pattern is marginal when |margin| <= marginTolerance = eps rateScale K / omega_min + 1e-8 max(1, rateScale), K the coupling rate: the first-order guiding system cannot resolve its sign',
     },
     patterns: catalogue.patterns.map((p, index) => ({ index, ...p })),
@@ -92,6 +91,9 @@ export function predict(args: PredictArgs): Record<string, unknown> {
     warnings: nearResonances(model.params.omega, model.params.epsilon).map((w) => w.message),
     classesExamined: catalogue.classesExamined,
     solves: catalogue.solves,
+    mirrors: catalogue.mirrors,
+    numbering: catalogue.numbering,
+    search: catalogue.search,
   };
 
   if (parameter) {

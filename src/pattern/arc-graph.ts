@@ -94,8 +94,11 @@ function compressedRows(
   return { start, node: nodeOut, cls: clsOut };
 }
 
-/** Class id per weight: sorted weights share a class until the gap to the previous one exceeds `threshold`. */
-function weightClasses(weights: number[], threshold: number): Int32Array {
+/**
+ * Class id per value: sorted values share a class until the gap to the previous one exceeds
+ * `threshold`. Ids are ranks in sorted order, so they do not depend on the order of the input.
+ */
+export function weightClasses(weights: readonly number[], threshold: number): Int32Array {
   const order = weights.map((_, i) => i).sort((a, b) => weights[a] - weights[b]);
   const classes = new Int32Array(weights.length);
   let id = -1;

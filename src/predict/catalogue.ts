@@ -1,65 +1,113 @@
 /**
- * The catalogue of locked patterns of the guiding system (design section 4, issue 4):
- * 1. the coupling graph's automorphism group (computed from the current link weights, so a
- *    broken link lowers the symmetry) and the isotropy subgroups of group x circle on one mode's
- *    amplitudes, up to conjugacy (isotropy.ts);
- * 2. for each class, seeds inside its fixed-point subspace: the Fourier shapes e^{2 pi i q k / N}
- *    projected onto it and, for larger subspaces, generic points of it, each with every non-zero
- *    modulus set to the lone oscillator's amplitude (the stiff-amplitude guess);
- * 3. Newton inside the fixed-point subspace (parametrised by its real basis), then refinement in
- *    the full space with the common rotation factored out (locked-state.ts);
- * 4. stability with the symmetry directions removed by construction and a marginal band;
- * 5. duplicates (states related by a group element and phase shifts) are dropped.
- * Extra seeds (such as the current state) are solved in the full space. When the ring order is
- * broken (no rotation k -> k + 1 left), the intact ring's rotating waves are still tried as
- * full-space seeds, so the patterns that survive the break in deformed form are found.
+ * The catalogue of locked patterns of the guiding system.
+ *
+ * Independent of the numbering. All the work is done on a copy renumbered in the network's own
+ * order (renumbering.ts), so the order in which a scenario numbers its nodes cannot change what
+ * is found, and the copy carries a fixed placeholder initial state, so the scenario's own start
+ * is never read; only the descriptions are made in the caller's numbering. Extra seeds
+ * (options.seeds) are solved last and can only add entries.
+ *
+ * Seeds, in this order, each solved by Newton (locked-state.ts) inside the fixed-point subspace
+ * of its own isotropy subgroup when it has one (the averaged flow leaves that subspace
+ * invariant), then refined in the full space:
+ * 1. the isotropy classes of the symmetry group (graph automorphisms at the current link
+ *    weights that keep the detuning) in group x circle (isotropy.ts): in each fixed-point
+ *    subspace its basis vector when it is a line, the projections of the structural shapes and
+ *    a few generic points when it is larger;
+ * 2. the structural shapes (structural-shapes.ts): in-phase, and the twisted waves along every
+ *    cycle of the coupling graph (coupling-cycles.ts, bounded in number and length);
+ * 3. seeded random starts of the guiding system followed until they settle on a stable state
+ *    (random-starts.ts), keeping each new one;
+ * 4. the extra seeds.
+ * Each non-zero modulus of a seed is set to the lone oscillator's amplitude (the stiff-amplitude
+ * guess); a seed that equals one already solved up to a symmetry and a phase is skipped.
+ *
+ * Copies and mirror images. Rotations and phase shifts make copies of a pattern, which are one
+ * entry; a reflection turns the direction of the ring round and makes the mirror image, which is
+ * a pattern of its own (a ring running the wave q shows no match with N - q): mirror images are
+ * two entries, linked (mirror-symmetry.ts defines the split for any graph; catalogue-entries.ts
+ * keeps the list). The same rule covers every kind: a standing wave or a cluster that a reflection
+ * maps onto a copy of itself is one entry marked as its own mirror image, and a chiral cluster is
+ * listed twice like a rotating wave. Stability is that of the relative equilibrium with the
+ * symmetry directions removed by construction (locked-state.ts), with a marginal band.
  */
 import { Matrix } from 'ml-matrix';
 import { graphAutomorphisms } from '../pattern/automorphisms.js';
 import { describeElement } from '../pattern/permutation.js';
+import type { CycleSearchStop } from '../pattern/cycles.js';
 import { Random } from '../util/random.js';
 import { carryingMode } from '../observe/amplitudes.js';
 import type { GuideModel } from './guide-model.js';
 import {
-  conjugateClass,
-  fixedPointBasisWithin,
-  fourierVector,
+  fixedPointBasis,
   groupTable,
   isotropyClasses,
   isotropyOf,
   projectOnto,
   subgroupKey,
-  unitRotation,
   type ComplexVector,
   type GroupTable,
   type IsotropyClass,
 } from './isotropy.js';
-import { lockedStateStability, solveLockedState, type LockedState } from './locked-state.js';
+import { lockedStateStability, solveLockedState, type LockedStability, type LockedState } from './locked-state.js';
 import { describeLockedState, type LockedPatternDescription } from './describe.js';
+import { canonicalRenumbering, movedLockedState, movedState, relabelledPermutation, type Renumbering } from './renumbering.js';
+import { couplingCycles, type CouplingCycles } from './coupling-cycles.js';
+import { mirrorRelation, type MirrorRelation } from './mirror-symmetry.js';
+import { structuralShapes, type StructuralShape } from './structural-shapes.js';
+import { RANDOM_STARTS, RANDOM_STARTS_LARGE, runRandomStarts } from './random-starts.js';
+import { EntryList, sameUpToSymmetry, type Entry } from './catalogue-entries.js';
+import { callerRing, candidateInfo, candidateName, mirroredRecipe, type CallerRing, type Recipe } from './catalogue-candidates.js';
 
-export type CandidateType = 'in-phase' | 'anti-phase' | 'rotating-wave' | 'standing-wave' | 'cluster' | 'seed';
+export { sameUpToSymmetry } from './catalogue-entries.js';
+
+export type CandidateType = 'in-phase' | 'anti-phase' | 'rotating-wave' | 'standing-wave' | 'cluster' | 'cycle-wave' | 'random-start' | 'seed';
 
 export interface CandidateInfo {
-  /** The symmetry type the pattern was seeded from. */
+  /**
+   * What the pattern was seeded from: a symmetry type, a twisted wave along a cycle that is not the
+   * ring in node order ('cycle-wave'), a random start of the guiding system, or an extra seed.
+   */
   type: CandidateType;
+  /** Wave number: along k -> k + 1 for the ring types, along `cycle` for a cycle wave. */
   q?: number;
   /** Mode the seed excited. */
   mode: number;
   /** Complex dimension of the fixed-point subspace Newton worked in (N for a full-space seed). */
   fixDimension: number;
-  /** Order of the isotropy subgroup of group x circle (1 for a full-space seed). */
+  /** Order of the isotropy subgroup of group x circle kept by the solve (1 for a full-space seed). */
   symmetryOrder: number;
-  /** Number of conjugate copies (the same pattern moved by the group), 1 for a full-space seed. */
+  /**
+   * How many distinct states (up to phase) this entry stands for: its copies under the
+   * orientation-keeping symmetries (rotations). Its mirror image is a separate entry.
+   */
   conjugates: number;
   /**
-   * True when solved inside the type's fixed-point subspace (the symmetry is exact); false for a
-   * full-space solve from the shape, as when detuning or a broken link has removed the symmetry.
+   * True when solved inside the seed's fixed-point subspace (the symmetry is exact); false for a
+   * full-space solve, as when detuning or a broken link has removed the symmetry.
    */
   exact: boolean;
+  /** For a wave seeded along a cycle: the cycle's nodes in the order the seed's phase advances by 2 pi q / L. */
+  cycle?: number[];
+  /** Present (true) when the entry is the mirror image of its partner's solution; the seed described is then the mirror image of the partner's. */
+  mirrored?: boolean;
+}
+
+/** How an entry relates to its mirror image (its image under a symmetry that reverses the ring's direction). */
+export interface MirrorLink {
+  /**
+   * 'pair': the mirror image is the entry `partner`, another pattern (for a rotating wave, q and
+   * N - q); 'self': the mirror image is a copy of this entry; 'none': no symmetry of the network
+   * reverses its direction (see PatternCatalogue.mirrors.reason).
+   */
+  relation: 'pair' | 'self' | 'none';
+  /** Index in `patterns` of the mirror image for 'pair', null otherwise. */
+  partner: number | null;
 }
 
 export interface CataloguePattern extends LockedPatternDescription {
   candidate: CandidateInfo;
+  mirror: MirrorLink;
 }
 
 export interface PatternCatalogue {
@@ -72,6 +120,22 @@ export interface PatternCatalogue {
   /** Isotropy classes examined and Newton solves run. */
   classesExamined: number;
   solves: number;
+  /** Which symmetries make mirror images: one reversing element (null when none) and why. */
+  mirrors: { reversing: string | null; keepingOrder: number; reason: string };
+  /** Whether any numbering of the same network gives this catalogue (up to the relabelling), and why. */
+  numbering: { independent: boolean; reason: string };
+  /** What the seeding covered. */
+  search: {
+    cycles: number;
+    longestCycle: number;
+    cyclesStoppedBy: CycleSearchStop;
+    shapes: number;
+    randomStarts: number;
+    randomStartsSettled: number;
+    foundByRandomStarts: number;
+  };
+  /** Per extra seed (options.seeds), the index in `patterns` of the entry it was solved into, or null. */
+  seedPatterns: (number | null)[];
   patterns: CataloguePattern[];
 }
 
@@ -80,10 +144,12 @@ export interface CatalogueOptions {
   maxFixDimension?: number;
   /** Only seed these candidate types. */
   types?: readonly CandidateType[];
-  /** Extra full-space seeds (rotating-frame states), such as the current state. */
+  /** Extra full-space seeds (rotating-frame states in the caller's numbering), such as the current state. */
   seeds?: readonly Float64Array[];
   /** Generic seeds per class with a fixed-point subspace of dimension > 1; default 2 (0 above 16 nodes). */
   randomSeeds?: number;
+  /** Most random starts of the guiding system; default RANDOM_STARTS (RANDOM_STARTS_LARGE above 16 nodes); fewer when they stop bringing news. */
+  randomStarts?: number;
   /** Largest group listed (graphAutomorphisms limit); default 512. */
   groupLimit?: number;
   /** Modes to seed; default every mode whose gain exceeds its loss. */
@@ -93,7 +159,10 @@ export interface CatalogueOptions {
 /** Above this many slow variables the dense Jacobians make a catalogue too slow to be useful. */
 export const CATALOGUE_SIZE_LIMIT = 256;
 
-const TYPE_ORDER: CandidateType[] = ['in-phase', 'anti-phase', 'rotating-wave', 'standing-wave', 'cluster', 'seed'];
+/** Above this many nodes the defaults seed less (one-dimensional classes, no generic points, fewer random starts). */
+const LARGE_NETWORK = 16;
+
+const TYPE_ORDER: CandidateType[] = ['in-phase', 'anti-phase', 'rotating-wave', 'standing-wave', 'cluster', 'cycle-wave', 'random-start', 'seed'];
 
 /**
  * The symmetry group of the guiding system: automorphisms of the coupling graph (current link
@@ -144,38 +213,6 @@ export function stiffSeed(v: ComplexVector, nodes: number, modes: number, mode: 
   return y;
 }
 
-/** Candidate type of an isotropy class on a ring numbered in order (unit rotation present). */
-function classifyClass(table: GroupTable, cls: IsotropyClass, nodes: number, rotation: number): { type: CandidateType; q?: number } {
-  const sub = cls.subgroup;
-  const at = rotation >= 0 ? sub.elements.indexOf(rotation) : -1;
-  if (at >= 0) {
-    const q = (((Math.round((-sub.phases[at] * nodes) / (2 * Math.PI)) % nodes) + nodes) % nodes);
-    return { type: q === 0 ? 'in-phase' : 2 * q === nodes ? 'anti-phase' : 'rotating-wave', q };
-  }
-  if (rotation >= 0) {
-    const own = subgroupKey(sub);
-    for (let q = 1; 2 * q < nodes; q++) {
-      const line = fixedPointBasisWithin(table, sub, [fourierVector(nodes, q), fourierVector(nodes, nodes - q)]);
-      if (line.length === 1 && subgroupKey(isotropyOf(table, line[0])) === own) return { type: 'standing-wave', q };
-    }
-  }
-  if (cls.fixDimension === 1 && sub.elements.length === table.elements.length && sub.phases.every((p) => p === 0)) return { type: 'in-phase', q: 0 };
-  return { type: 'cluster' };
-}
-
-/** For a rotating-wave class, the conjugate with the smallest wave number (q <= N/2 on a two-way ring). */
-function preferredMember(table: GroupTable, cls: IsotropyClass, nodes: number, rotation: number): IsotropyClass {
-  if (rotation < 0 || !cls.subgroup.elements.includes(rotation)) return cls;
-  let best = cls;
-  let bestQ = classifyClass(table, cls, nodes, rotation).q ?? 0;
-  for (let h = 0; h < table.elements.length && bestQ > 0; h++) {
-    const member = conjugateClass(table, cls, h);
-    const q = classifyClass(table, member, nodes, rotation).q ?? 0;
-    if (q < bestQ) [best, bestQ] = [member, q];
-  }
-  return best;
-}
-
 /** Parts of the graph merged into orbits of the given permutations (a generator must commute with them). */
 function mergeParts(parts: readonly Int32Array[], permutations: readonly Int32Array[], nodes: number): Int32Array[] {
   const partOf = new Int32Array(nodes);
@@ -199,151 +236,255 @@ function mergeParts(parts: readonly Int32Array[], permutations: readonly Int32Ar
   return [...merged.values()].map((list) => Int32Array.from(list.sort((a, b) => a - b)));
 }
 
-/**
- * True when b = (gamma.a) with one phase shift per (mode, part) for some listed gamma, within a
- * relative distance `tolerance`.
- */
-export function sameUpToSymmetry(a: Float64Array, b: Float64Array, group: readonly Int32Array[], nodes: number, modes: number, parts: readonly Int32Array[], tolerance = 1e-5): boolean {
-  let normB = 0;
-  for (let i = 0; i < b.length; i++) normB += b[i] * b[i];
-  for (const g of group) {
-    const inverse = new Int32Array(nodes);
-    for (let k = 0; k < nodes; k++) inverse[g[k]] = k;
-    let misfit = 0;
-    for (const part of parts) {
-      for (let j = 0; j < modes; j++) {
-        // best phase phi minimising sum |e^{i phi} a_{g^-1(k)} - b_k|^2 over the part
-        let re = 0;
-        let im = 0;
-        let sa = 0;
-        let sb = 0;
-        for (const k of part) {
-          const ia = 2 * (inverse[k] * modes + j);
-          const ib = 2 * (k * modes + j);
-          const ar = a[ia], ai = -a[ia + 1], br = b[ib], bi = -b[ib + 1];
-          re += ar * br + ai * bi;
-          im += ar * bi - ai * br;
-          sa += ar * ar + ai * ai;
-          sb += br * br + bi * bi;
-        }
-        misfit += Math.max(0, sa + sb - 2 * Math.hypot(re, im));
-      }
-    }
-    if (misfit <= tolerance * tolerance * Math.max(normB, 1e-300)) return true;
-  }
-  return false;
-}
-
 /** The catalogue of locked patterns for the model's current parameters (see the module header). */
 export function patternCatalogue(model: GuideModel, options: CatalogueOptions = {}): PatternCatalogue {
-  const { nodes, modes } = model.params;
   if (model.size > CATALOGUE_SIZE_LIMIT) {
     throw new RangeError(`the catalogue needs dense Jacobians of ${model.size} slow variables; at most ${CATALOGUE_SIZE_LIMIT} (nodes x modes x 2) are supported`);
   }
-  const large = nodes > 16;
-  const maxFixDimension = options.maxFixDimension ?? (large ? 1 : 4);
-  const randomSeeds = options.randomSeeds ?? (large ? 0 : 2);
-  const allowed = (type: CandidateType): boolean => !options.types || options.types.includes(type);
-  const listed = dynamicalSymmetries(model, options.groupLimit ?? 512);
-  // A truncated listing is not closed under products, so it has no subgroups to speak of: then
-  // only the full-space seeds are used (and symmetry is reported against the listed elements).
-  const table = listed.truncated ? null : groupTable(listed.elements);
-  const group = listed.elements;
-  const rotation = table ? unitRotation(table) : -1;
-  const parts = model.parts();
-  const seedModes = options.modes ?? Array.from(model.params.gain, (g, j) => (g > model.params.loss[j] ? j : -1)).filter((j) => j >= 0);
-  const classes = table ? isotropyClasses(table, nodes, { maxFixDimension, pairLimit: 128 }) : [];
-  const random = new Random(4242);
-  const found: CataloguePattern[] = [];
-  let solves = 0;
+  const limit = options.groupLimit ?? 512;
+  const callerGroup = dynamicalSymmetries(model, limit);
+  const search = new CatalogueSearch(canonicalRenumbering(model, callerGroup), options, limit);
+  search.seedClasses();
+  search.seedShapes();
+  search.seedRandomStarts();
+  const seedEntries = search.seedExtra(options.seeds ?? []);
+  return search.result(model, callerGroup, seedEntries);
+}
 
-  const record = (locked: LockedState, candidate: CandidateInfo): void => {
-    if (!locked.converged) return;
-    for (const p of found) {
-      if (sameUpToSymmetry(Float64Array.from(p.state), locked.state, group, nodes, modes, parts)) return;
+/** One catalogue computation on the renumbered copy (see the module header for the steps). */
+class CatalogueSearch {
+  private readonly work: GuideModel;
+  private readonly nodes: number;
+  private readonly modes: number;
+  private readonly group: Int32Array[];
+  private readonly table: GroupTable | null;
+  private readonly parts: Int32Array[];
+  private readonly ring: CallerRing;
+  private readonly mirrors: MirrorRelation;
+  private readonly entries: EntryList<Recipe>;
+  private readonly shapes: StructuralShape[];
+  private readonly cycles: CouplingCycles;
+  private readonly seedModes: number[];
+  private readonly large: boolean;
+  /** Stiff seeds already solved, per mode: a seed equal to one of them up to a symmetry and a phase is skipped. */
+  private readonly solvedSeeds: { seed: Float64Array; signature: number }[][];
+  private classes: IsotropyClass[] = [];
+  private solves = 0;
+  private randomStarts = { tried: 0, settled: 0, found: 0 };
+
+  constructor(private readonly renumbering: Renumbering, private readonly options: CatalogueOptions, limit: number) {
+    this.work = renumbering.model;
+    const { nodes, modes, gain, loss } = this.work.params;
+    this.nodes = nodes;
+    this.modes = modes;
+    this.large = nodes > LARGE_NETWORK;
+    const listed = dynamicalSymmetries(this.work, limit);
+    this.group = listed.elements;
+    // A truncated listing is not closed under products, so it has no subgroups to speak of: then
+    // only the full-space seeds are used (and symmetry is reported against the listed elements).
+    this.table = listed.truncated ? null : groupTable(listed.elements);
+    this.parts = this.work.parts();
+    this.ring = callerRing(renumbering, this.table);
+    this.cycles = couplingCycles(this.work.params);
+    this.mirrors = mirrorRelation(this.group, listed.truncated, this.cycles.listing, this.cycles.current);
+    const reversing = this.mirrors.reversing;
+    this.entries = new EntryList<Recipe>(this.mirrors, nodes, modes, this.parts, (r) => (reversing ? mirroredRecipe(r, this.table, reversing) : r));
+    this.shapes = structuralShapes(this.cycles.graph, this.cycles.listing.cycles);
+    this.seedModes = options.modes ? [...options.modes] : Array.from(gain, (g, j) => (g > loss[j] ? j : -1)).filter((j) => j >= 0);
+    this.solvedSeeds = Array.from({ length: modes }, () => []);
+  }
+
+  private allowed(recipe: Recipe): boolean {
+    const types = this.options.types;
+    return !types || types.includes(candidateName(recipe, this.table, this.renumbering, this.ring).type);
+  }
+
+  private amplitude(mode: number): number {
+    return loneAmplitude(this.work.params.gain[mode], this.work.params.loss[mode]);
+  }
+
+  /** Step 1: the isotropy classes, each seeded inside its fixed-point subspace. */
+  seedClasses(): void {
+    const table = this.table;
+    if (!table) return;
+    const maxFixDimension = this.options.maxFixDimension ?? (this.large ? 1 : 4);
+    const randomSeeds = this.options.randomSeeds ?? (this.large ? 0 : 2);
+    this.classes = isotropyClasses(table, this.nodes, { maxFixDimension, pairLimit: 128 });
+    const random = new Random(4242);
+    for (const cls of this.classes) {
+      const seeds = classSeeds(table, cls, this.shapes, randomSeeds, random);
+      for (const mode of this.seedModes) {
+        const recipe: Recipe = { origin: { kind: 'class', cls }, mode, fixDimension: cls.fixDimension, symmetryOrder: cls.subgroup.elements.length, exact: true, mirrored: false };
+        if (!this.allowed(recipe)) continue;
+        for (const v of seeds) this.solveSeed(stiffSeed(v, this.nodes, this.modes, mode, this.amplitude(mode)), cls.subgroup.elements, cls.basis, recipe);
+      }
     }
-    const stability = lockedStateStability(model.field, locked, modes, model.accuracy);
-    found.push({ ...describeLockedState(model, locked, stability, group), candidate });
-  };
+  }
 
-  const solveIn = (basis: Matrix | undefined, seed: Float64Array, generatorParts: readonly Int32Array[]): LockedState | null => {
-    solves++;
-    let locked = solveLockedState(model.field, seed, modes, { parts: generatorParts, basis });
+  /** Step 2: in-phase and the twisted waves along the cycles, in their own fixed-point subspace when they have symmetry. */
+  seedShapes(): void {
+    for (const shape of this.shapes) {
+      const isotropy = this.table ? isotropyOf(this.table, shape.shape) : null;
+      const symmetric = this.table && isotropy && isotropy.elements.length > 1 ? { elements: isotropy.elements, basis: fixedPointBasis(this.table, isotropy, this.nodes) } : null;
+      for (const mode of this.seedModes) {
+        const recipe: Recipe = {
+          origin: { kind: 'shape', cycle: shape.cycle, q: shape.q },
+          mode,
+          fixDimension: symmetric ? symmetric.basis.length : this.nodes,
+          symmetryOrder: symmetric ? symmetric.elements.length : 1,
+          exact: symmetric !== null,
+          mirrored: false,
+        };
+        if (!this.allowed(recipe)) continue;
+        this.solveSeed(stiffSeed(shape.shape, this.nodes, this.modes, mode, this.amplitude(mode)), symmetric?.elements ?? null, symmetric?.basis ?? null, recipe);
+      }
+    }
+  }
+
+  /** Step 3: seeded random starts followed to the stable state they settle on. */
+  seedRandomStarts(): void {
+    const recipeFor = (mode: number): Recipe => ({ origin: { kind: 'random-start' }, mode, fixDimension: this.nodes, symmetryOrder: 1, exact: false, mirrored: false });
+    if (!this.allowed(recipeFor(0))) return;
+    const count = this.options.randomStarts ?? (this.large ? RANDOM_STARTS_LARGE : RANDOM_STARTS);
+    const run = runRandomStarts(this.work, this.seedModes, count, (mode) => this.amplitude(mode), (s) => {
+      const added = hasEnergy(s.locked) && this.record(s.locked, recipeFor(s.mode), s.stability).added;
+      if (added) this.randomStarts.found++;
+      return added;
+    });
+    this.randomStarts.tried = run.tried;
+    this.randomStarts.settled = run.settled;
+  }
+
+  /** Step 4: the caller's extra seeds, solved in the full space; the entry each one lands in. */
+  seedExtra(seeds: readonly Float64Array[]): (Entry<Recipe> | null)[] {
+    const recipe = (mode: number): Recipe => ({ origin: { kind: 'seed' }, mode, fixDimension: this.nodes, symmetryOrder: 1, exact: false, mirrored: false });
+    if (!this.allowed(recipe(0))) return seeds.map(() => null);
+    return seeds.map((y) => {
+      const moved = movedState(y, this.renumbering.rank, this.modes);
+      const locked = this.solve(moved, null, null);
+      return locked ? this.record(locked, recipe(carryingMode(moved, this.nodes, this.modes))).entry : null;
+    });
+  }
+
+  /**
+   * Solves one stiff seed unless an equal one (up to a symmetry and a phase) was solved before:
+   * inside the fixed-point subspace `basis` when given (keeping the symmetry `elements`), then refined in full.
+   */
+  private solveSeed(seed: Float64Array, elements: readonly number[] | null, basis: readonly ComplexVector[] | null, recipe: Recipe): void {
+    const solved = this.solvedSeeds[recipe.mode];
+    const signature = linkCorrelation(this.work, seed);
+    const near = (a: number): boolean => Math.abs(a - signature) <= 1e-9 * Math.max(1, Math.abs(signature));
+    if (solved.some((s) => near(s.signature) && sameUpToSymmetry(s.seed, seed, this.group, this.nodes, this.modes, this.parts))) return;
+    solved.push({ seed, signature });
+    const locked = this.solve(seed, elements, basis ? realBasisForMode(basis, this.nodes, this.modes, recipe.mode) : null);
+    if (locked) this.record(locked, recipe);
+  }
+
+  private solve(seed: Float64Array, elements: readonly number[] | null, basis: Matrix | null): LockedState | null {
+    const field = this.work.field;
+    this.solves++;
+    const generatorParts = elements ? mergeParts(this.parts, elements.map((e) => this.group[e]), this.nodes) : this.parts;
+    let locked = solveLockedState(field, seed, this.modes, { parts: generatorParts, basis: basis ?? undefined });
     if (!locked.converged) return null;
     if (basis) {
-      solves++;
-      locked = solveLockedState(model.field, locked.state, modes, { parts });
+      this.solves++;
+      locked = solveLockedState(field, locked.state, this.modes, { parts: this.parts });
     }
-    return hasEnergy(locked) ? locked : null;
-  };
+    return locked.converged && hasEnergy(locked) ? locked : null;
+  }
 
-  for (const found0 of classes) {
-    if (!table) break; // (classes is empty without a table)
-    const cls = preferredMember(table, found0, nodes, rotation);
-    const { type, q } = classifyClass(table, cls, nodes, rotation);
-    if (!allowed(type)) continue;
-    const key = subgroupKey(cls.subgroup);
-    const seeds: ComplexVector[] = [];
-    const addSeed = (v: ComplexVector): void => {
-      if (subgroupKey(isotropyOf(table, v)) !== key) return;
-      if (seeds.some((s) => Math.abs(overlap(s, v)) > 1 - 1e-9)) return;
-      seeds.push(v);
+  /** Adds a solved state unless it is held already (its stability is computed only when it is new). */
+  private record(locked: LockedState, recipe: Recipe, stability?: LockedStability): { entry: Entry<Recipe>; added: boolean } {
+    return this.entries.add(locked, () => stability ?? lockedStateStability(this.work.field, locked, this.modes, this.work.accuracy), recipe);
+  }
+
+  /** The catalogue in the caller's numbering, sorted by type, wave number and margin. */
+  result(model: GuideModel, callerGroup: ReturnType<typeof dynamicalSymmetries>, seedEntries: (Entry<Recipe> | null)[]): PatternCatalogue {
+    const { order } = this.renumbering;
+    const named = this.entries.entries.map((entry) => {
+      const name = candidateName(entry.recipe, this.table, this.renumbering, this.ring);
+      const locked = movedLockedState(entry.locked, order, this.modes);
+      const description = describeLockedState(model, locked, entry.stability, callerGroup.elements);
+      return { entry, pattern: { ...description, candidate: candidateInfo(entry.recipe, name, this.entries.copies(entry)), mirror: { relation: 'none', partner: null } as MirrorLink } };
+    });
+    named.sort((a, b) => TYPE_ORDER.indexOf(a.pattern.candidate.type) - TYPE_ORDER.indexOf(b.pattern.candidate.type) || (a.pattern.candidate.q ?? 0) - (b.pattern.candidate.q ?? 0) || a.pattern.margin - b.pattern.margin);
+    const indexOf = new Map(named.map((n, i) => [n.entry, i]));
+    for (const { entry, pattern } of named) {
+      if (entry.mirror === 'self') pattern.mirror = { relation: 'self', partner: null };
+      else if (entry.mirror) pattern.mirror = { relation: 'pair', partner: indexOf.get(entry.mirror) ?? null };
+    }
+    const cycles = this.cycles.listing.cycles;
+    const reversing = this.mirrors.reversing;
+    return {
+      nodes: this.nodes,
+      modes: this.modes,
+      group: { order: callerGroup.elements.length, graphOrder: callerGroup.graphOrder, truncated: callerGroup.truncated, elements: callerGroup.elements.map((g) => describeElement(g).text) },
+      parts: model.parts().map((p) => Array.from(p)),
+      classesExamined: this.classes.length,
+      solves: this.solves,
+      mirrors: {
+        reversing: reversing ? describeElement(relabelledPermutation(reversing, order)).text : null,
+        keepingOrder: this.mirrors.keeping.length,
+        reason: this.mirrors.reason,
+      },
+      numbering: { independent: this.renumbering.unique, reason: this.renumbering.reason },
+      search: {
+        cycles: cycles.length,
+        longestCycle: Math.max(0, ...cycles.map((c) => c.length)),
+        cyclesStoppedBy: this.cycles.listing.stoppedBy,
+        shapes: this.shapes.length,
+        randomStarts: this.randomStarts.tried,
+        randomStartsSettled: this.randomStarts.settled,
+        foundByRandomStarts: this.randomStarts.found,
+      },
+      seedPatterns: seedEntries.map((e) => (e ? (indexOf.get(e) ?? null) : null)),
+      patterns: named.map((n) => n.pattern),
     };
-    for (let k = 0; k < nodes; k++) {
-      const p = projectOnto(cls.basis, fourierVector(nodes, k));
-      if (squaredNorm(p) > 0.05) addSeed(normalised(p));
-    }
-    if (cls.fixDimension > 1) {
-      for (let r = 0; r < randomSeeds; r++) {
-        addSeed(normalised(combineBasis(cls.basis, random)));
-      }
-    }
-    const symmetryParts = mergeParts(parts, cls.subgroup.elements.map((e) => group[e]), nodes);
-    for (const j of seedModes) {
-      const basis = realBasisForMode(cls.basis, nodes, modes, j);
-      const r0 = loneAmplitude(model.params.gain[j], model.params.loss[j]);
-      for (const v of seeds) {
-        const locked = solveIn(basis, stiffSeed(v, nodes, modes, j, r0), symmetryParts);
-        if (locked) {
-          const candidate: CandidateInfo = { type, mode: j, fixDimension: cls.fixDimension, symmetryOrder: cls.subgroup.elements.length, conjugates: cls.conjugates, exact: true };
-          if (q !== undefined) candidate.q = q;
-          record(locked, candidate);
-        }
-      }
-    }
   }
+}
 
-  const fullSeeds: { y: Float64Array; type: CandidateType; q?: number; mode: number }[] = [];
-  if ((rotation < 0 || !table) && nodes > 1) {
-    // The ring order is broken (a link, or detuning): the intact ring's waves, solved in full.
-    for (const j of seedModes) {
-      const r0 = loneAmplitude(model.params.gain[j], model.params.loss[j]);
-      for (let q = 0; q < nodes; q++) {
-        const type: CandidateType = q === 0 ? 'in-phase' : 2 * q === nodes ? 'anti-phase' : 'rotating-wave';
-        if (allowed(type)) fullSeeds.push({ y: stiffSeed(fourierVector(nodes, q), nodes, modes, j, r0), type, q, mode: j });
-      }
-    }
-  }
-  if (allowed('seed')) for (const y of options.seeds ?? []) fullSeeds.push({ y: Float64Array.from(y), type: 'seed', mode: carryingMode(y, nodes, modes) });
-  for (const seed of fullSeeds) {
-    const locked = solveIn(undefined, seed.y, parts);
-    if (locked) {
-      const candidate: CandidateInfo = { type: seed.type, mode: seed.mode, fixDimension: nodes, symmetryOrder: 1, conjugates: 1, exact: false };
-      if (seed.q !== undefined) candidate.q = seed.q;
-      record(locked, candidate);
-    }
-  }
-
-  found.sort((a, b) => TYPE_ORDER.indexOf(a.candidate.type) - TYPE_ORDER.indexOf(b.candidate.type) || (a.candidate.q ?? 0) - (b.candidate.q ?? 0) || a.margin - b.margin);
-  return {
-    nodes,
-    modes,
-    group: { order: group.length, graphOrder: listed.graphOrder, truncated: listed.truncated, elements: group.map((g) => describeElement(g).text) },
-    parts: parts.map((p) => Array.from(p)),
-    classesExamined: classes.length,
-    solves,
-    patterns: found,
+/**
+ * Seeds inside a class's fixed-point subspace: its basis vector when it is a line; otherwise the
+ * projections of the structural shapes that keep the class's own isotropy and `randomSeeds`
+ * generic points, at most one per direction.
+ */
+function classSeeds(table: GroupTable, cls: IsotropyClass, shapes: readonly StructuralShape[], randomSeeds: number, random: Random): ComplexVector[] {
+  const key = subgroupKey(cls.subgroup);
+  const seeds: ComplexVector[] = [];
+  const addSeed = (v: ComplexVector): void => {
+    if (subgroupKey(isotropyOf(table, v)) !== key) return;
+    if (seeds.some((s) => Math.abs(overlap(s, v)) > 1 - 1e-9)) return;
+    seeds.push(v);
   };
+  if (cls.fixDimension === 1) addSeed(cls.basis[0]);
+  for (const s of shapes) {
+    const p = projectOnto(cls.basis, s.shape);
+    // shapes have unit moduli: compare with the projection of a unit vector
+    if (squaredNorm(p) > 0.05 * squaredNorm(s.shape)) addSeed(normalised(p));
+  }
+  if (cls.fixDimension > 1) for (let r = 0; r < randomSeeds; r++) addSeed(normalised(combineBasis(cls.basis, random)));
+  return seeds;
+}
+
+/**
+ * sum over links of weight Re(conj(a_from) a_to), every mode, relative to sum |a|^2: unchanged by
+ * the symmetries (they keep the weighted links) and by phase shifts, so two seeds that differ in
+ * it cannot be equal up to either, which spares most of the full comparisons.
+ */
+function linkCorrelation(model: GuideModel, y: Float64Array): number {
+  const { linkFrom, linkTo, linkWeight, modes } = model.params;
+  let sum = 0;
+  let norm = 0;
+  for (let i = 0; i < y.length; i++) norm += y[i] * y[i];
+  for (let e = 0; e < linkFrom.length; e++) {
+    for (let j = 0; j < modes; j++) {
+      const a = 2 * (linkFrom[e] * modes + j);
+      const b = 2 * (linkTo[e] * modes + j);
+      // a = u - i v: Re(conj(a_from) a_to) = u_f u_t + v_f v_t
+      sum += linkWeight[e] * (y[a] * y[b] + y[a + 1] * y[b + 1]);
+    }
+  }
+  return sum / Math.max(norm, 1e-300);
 }
 
 /**
@@ -391,4 +532,3 @@ function combineBasis(basis: readonly ComplexVector[], random: Random): ComplexV
   }
   return v;
 }
-

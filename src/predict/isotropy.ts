@@ -352,16 +352,17 @@ export function isotropyClasses(table: GroupTable, nodes: number, options: Isotr
 /** The class member h K h^-1 with its fixed-point basis h.basis (same dimension and class). */
 export function conjugateClass(table: GroupTable, cls: IsotropyClass, h: number): IsotropyClass {
   const g = table.elements[h];
-  const basis = cls.basis.map((b) => {
-    const v: ComplexVector = { re: new Float64Array(b.re.length), im: new Float64Array(b.re.length) };
-    // (h.b)_{h(j)} = b_j
-    for (let j = 0; j < b.re.length; j++) {
-      v.re[g[j]] = b.re[j];
-      v.im[g[j]] = b.im[j];
-    }
-    return v;
-  });
-  return { ...cls, subgroup: conjugate(table, cls.subgroup, h), basis };
+  return { ...cls, subgroup: conjugate(table, cls.subgroup, h), basis: cls.basis.map((b) => movedVector(b, g)) };
+}
+
+/** g.v: the entry of node j moved to node g(j), (g.v)_{g(j)} = v_j. */
+export function movedVector(v: ComplexVector, g: ArrayLike<number>): ComplexVector {
+  const out: ComplexVector = { re: new Float64Array(v.re.length), im: new Float64Array(v.re.length) };
+  for (let j = 0; j < v.re.length; j++) {
+    out.re[g[j]] = v.re[j];
+    out.im[g[j]] = v.im[j];
+  }
+  return out;
 }
 
 /** Readable list of a twisted subgroup: element names with their phases. */

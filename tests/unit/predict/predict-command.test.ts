@@ -23,7 +23,9 @@ describe('syncring predict', () => {
     expect(result.nodes).toBe(5);
     expect(result.group.order).toBe(5);
     for (const p of result.patterns) {
-      for (const field of ['kind', 'symmetry', 'stable', 'margin', 'eigenvalues', 'phaseDifferences', 'amplitudes', 'timeConstant', 'frequencyShiftPpm']) expect(p).toHaveProperty(field);
+      for (const field of ['kind', 'symmetry', 'stable', 'margin', 'eigenvalues', 'phaseDifferences', 'amplitudes', 'timeConstant', 'frequencyShiftPpm', 'mirror']) expect(p).toHaveProperty(field);
+      // a one-way ring has no reflection, so no entry has a mirror image of its own
+      expect(p.mirror).toEqual({ relation: 'none', partner: null });
       expect(p.phaseDifferences).toHaveLength(5);
       expect(p.amplitudes).toHaveLength(5);
       expect(Number.isFinite(p.margin)).toBe(true);
