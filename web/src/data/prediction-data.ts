@@ -21,6 +21,9 @@ export interface CatalogueResponse {
   modes: number;
   epsilon: number;
   group: PatternCatalogue['group'];
+  /** Absent from servers older than mirror pairs and numbering-independent seeding. */
+  mirrors?: PatternCatalogue['mirrors'];
+  numbering?: PatternCatalogue['numbering'];
   parts: number[][];
   patterns: CatalogueEntry[];
   initial: { settled: boolean; slowTime: number | null; pattern: number | null };

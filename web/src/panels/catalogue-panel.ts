@@ -53,7 +53,7 @@ export class CataloguePanel extends LitElement {
       table {
         width: 100%;
         border-collapse: collapse;
-        font-size: 17px;
+        font-size: 15px;
         font-variant-numeric: tabular-nums;
       }
       th {
@@ -61,7 +61,7 @@ export class CataloguePanel extends LitElement {
         font-size: 13px;
         font-weight: 700;
         color: ${unsafeCSS(MUTED)};
-        padding: 4px 8px 6px;
+        padding: 4px 6px 6px;
         border-bottom: 2px solid ${unsafeCSS(GRID)};
         position: sticky;
         top: 0;
@@ -69,7 +69,7 @@ export class CataloguePanel extends LitElement {
         white-space: nowrap;
       }
       td {
-        padding: 8px 8px;
+        padding: 7px 6px;
         border-bottom: 1px solid #e6eaee;
         vertical-align: top;
       }
@@ -94,7 +94,7 @@ export class CataloguePanel extends LitElement {
       }
       .kind {
         font-weight: 700;
-        font-size: 18px;
+        font-size: 16px;
         white-space: nowrap;
       }
       .small {
@@ -211,6 +211,7 @@ export class CataloguePanel extends LitElement {
           ? html` (<b style="color:${UNWANTED}">${defects} of them on an unwanted mode</b>: a board that locks there puts out that mode's frequency, a design defect)`
           : nothing} ·
         symmetry group of order ${c.group.order}${c.group.graphOrder !== c.group.order ? html` (the graph alone has ${c.group.graphOrder}; the detuning breaks the rest)` : nothing}
+        ${c.mirrors ? html` · <span title=${c.mirrors.reason}>${c.mirrors.reversing ? 'mirror images listed as pairs' : 'no mirror symmetry'}</span>` : nothing}
         ${broken ? html` · ${broken} broken link${broken > 1 ? 's' : ''}` : nothing}
         <br />
         ${live
@@ -219,6 +220,7 @@ export class CataloguePanel extends LitElement {
         ${c.initial.settled && c.initial.pattern !== null ? html` The scenario's start settles into #${c.initial.pattern}.` : nothing}
         <span class="muted">Computed in ${formatNumber(c.wallSeconds, 2)} s${c.fromCache ? ' (cached)' : ''}; output frequencies against the wanted mode's nominal frequency${scales ? `, in Hz ${frequencyBasis(scales)}` : ''}.</span>
         ${this.loading ? html` <span class="stale">Updating for the new parameters…</span>` : this.stale ? html` <span class="stale">The live parameters changed.</span>` : nothing}
+        ${c.numbering && !c.numbering.independent ? html`<br /><span class="stale" data-testid="numbering-warning">This list may depend on how the nodes are numbered: ${c.numbering.reason}.</span>` : nothing}
       </p>
       <div class="scroll">
         <table data-testid="catalogue">
@@ -235,7 +237,7 @@ export class CataloguePanel extends LitElement {
             </tr>
           </thead>
           <tbody>
-            ${c.patterns.map((p) => this.renderRow(p))}
+            ${c.patterns.map((p) => this.renderRow(p, c))}
           </tbody>
         </table>
       </div>
@@ -243,7 +245,7 @@ export class CataloguePanel extends LitElement {
     `;
   }
 
-  private renderRow(p: CatalogueEntry) {
+  private renderRow(p: CatalogueEntry, c: CatalogueResponse) {
     const isLive = this.live?.index === p.index;
     const wanted = isWanted(p);
     const classes = [isLive ? 'live' : '', this.selected === p.index ? 'selected' : '', wanted ? '' : 'defect'].join(' ');
@@ -257,6 +259,15 @@ export class CataloguePanel extends LitElement {
         <td>
           <span class="kind">${KIND_WORDS[p.kind] ?? p.kind}${p.q !== undefined ? ` q = ${p.q}` : ''}</span>${isLive ? html`<span class="badge live">LIVE</span>` : nothing}
           <span class="small">${modeName(p.mode)}${p.clusters ? ` · ${p.clusters.length} clusters` : ''}${seedNote(p)}${p.spread !== undefined && p.spread !== null && p.kind === 'in-phase' ? ` · spread ${spreadText(p.spread)}` : ''}</span>
+          ${p.mirror?.relation === 'pair' && p.mirror.partner !== null
+            ? html`<a class="small mirror" href="#prediction" data-mirror=${p.mirror.partner} @click=${(e: Event) => {
+                e.preventDefault();
+                e.stopPropagation();
+                this.choose(p.mirror.partner!);
+              }}>mirror image of #${p.mirror.partner}${p.q !== undefined ? ` (q = ${p.q} ↔ ${(c.nodes - p.q) % c.nodes})` : ''}</a>`
+            : p.mirror?.relation === 'self'
+              ? html`<span class="small">its own mirror image</span>`
+              : nothing}
         </td>
         <td>
           ${p.symmetry.slice(0, SYMMETRY_SHOWN).map((s) => html`<span class="chip">${s.element}</span>`)}
@@ -296,6 +307,8 @@ export class CataloguePanel extends LitElement {
  */
 function seedNote(p: CatalogueEntry): string {
   const seed = p.candidate;
+  if (seed.type === 'random-start') return ' · found from a random start';
+  if (seed.type === 'cycle-wave') return ` · grew from a twisted wave q = ${seed.q} along the cycle ${seed.cycle?.join('→') ?? ''}`;
   if (seed.exact) return '';
   const sameShape = seed.type === p.kind && (seed.q ?? null) === (p.q ?? null);
   return sameShape ? ' · symmetry approximate' : ` · grew from ${KIND_WORDS[seed.type] ?? seed.type}${seed.q !== undefined ? ` q = ${seed.q}` : ''}`;
