@@ -510,14 +510,15 @@ function durableEntry(v: FaultVerdict): { id: string; pass: boolean; outcome: Ve
 
 function verdictLine(v: FaultVerdict, base: TimeBase): string {
   const at = (v.appliedAt * base.epsilon).toFixed(1);
+  const lost = v.slipped || v.became.length > 0;
   const detail =
     v.before === 'unlocked'
       ? 'not judged'
       : v.persisted
         ? `persisted, excursion ${v.maxPhaseExcursion.toFixed(3)} rad`
-        : v.settled || !v.became.length
-          ? `no loss, not settled, excursion ${v.maxPhaseExcursion.toFixed(3)} rad`
-          : `lost (${v.became.join(' -> ') || 'slip'}), ${v.recovered ? `re-locked after ${v.timeToRelock?.slow.toFixed(2) ?? '?'} slow units` : 'did not re-lock'}`;
+        : lost
+          ? `lost (${v.became.join(' -> ') || 'slip'}), ${v.recovered ? `re-locked after ${v.timeToRelock?.slow.toFixed(2) ?? '?'} slow units` : 'did not re-lock'}`
+          : `not lost, not settled, excursion ${v.maxPhaseExcursion.toFixed(3)} rad`;
   const remarks = [...v.reasons, ...v.notes];
   return `soak: ${v.outcome.toUpperCase()} ${v.id} (${v.action} at slow ${at}): ${detail}${remarks.length ? ` -- ${remarks.join('; ')}` : ''}`;
 }

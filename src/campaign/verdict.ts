@@ -234,7 +234,7 @@ export class FaultEvaluation {
 
     const notes: string[] = [];
     if (cutShort) notes.push(`judged until the next fault (${cutShort.by}) at tau ${cutShort.at.toPrecision(6)} (slow ${(cutShort.at * base.epsilon).toPrecision(4)}), settled: ${settled ? 'yes' : 'no'}`);
-    if (settled && !wasLost) notes.push(settleNote(shift, fromContinued, settledSpan));
+    if (settled && !wasLost) notes.push(settleNote({ shift, largest: track.maxExcursion, restored: s.restoredAt !== null, fromContinued, after: settledSpan, tolerance: s.lockTolerance }));
     if (settled && fromContinued !== null && fromContinued > CONTINUED_NOTE) notes.push(`settled ${fromContinued.toFixed(2)} rad from the predicted continued state`);
     const outcome: VerdictOutcome = reasons.length > 0 ? 'fail' : open ? 'incomplete' : 'pass';
     if (outcome === 'incomplete') {
@@ -290,10 +290,12 @@ export class FaultEvaluation {
 /** A settled state farther than this (rad) from the predicted continued state is worth a note. */
 const CONTINUED_NOTE = 0.1;
 
-function settleNote(shift: number, fromContinued: number | null, after: Span | null): string {
-  const to = fromContinued !== null && fromContinued <= CONTINUED_NOTE ? ' to the continued state' : '';
-  const when = after ? `, settled in ${after.slow.toPrecision(3)} slow units` : '';
-  return `moved ${shift.toFixed(2)} rad${to}${when}`;
+/** How far the fault moved a ring that kept its pattern, and how long it took to settle. */
+function settleNote(m: { shift: number; largest: number; restored: boolean; fromContinued: number | null; after: Span | null; tolerance: number }): string {
+  const toContinued = m.fromContinued !== null && m.fromContinued <= CONTINUED_NOTE;
+  const when = m.after && m.after.slow > 0 ? `, settled in ${m.after.slow.toPrecision(3)} slow units${m.restored ? ' after the restore' : ''}` : ', never left the lock tolerance';
+  if (m.restored) return `moved up to ${m.largest.toFixed(2)} rad during the fault and came back to within ${m.shift.toFixed(2)} rad${toContinued ? ' of the continued state' : ''}${when}`;
+  return `moved ${m.shift.toFixed(2)} rad${toContinued ? ' to the continued state' : ''}${when}`;
 }
 
 function lossDescription(track: SystemTrackState): string {

@@ -8,15 +8,20 @@ import { accumulateExcursion, SLIP_EXCURSION } from './phase-excursion.js';
  * A ring is locked when it is frequency-locked: the phase differences of its coupled pairs stay
  * bounded, with no cycle slip. The detector reads one tick at a time and is in one of three states:
  *
- * - `unlocked`: not (yet) locked. It locks once, over the last `window` ticks, every phase
- *   difference has stayed within `tolerance` of its newest value, the carrying mode oscillates
- *   (mean amplitude above `amplitudeFloor`) and the pattern's identity (a label the caller
- *   computes from the snapshot) has been the same for the whole window. That identity becomes
- *   the committed pattern.
- * - `locked`: settled. The phase differences converge within the tolerance (or, once locked,
- *   within `hysteresis` times it, so noise near the threshold does not flap) and the snapshot
- *   has the committed identity.
- * - `settling`: still frequency-locked, but moving: the differences moved more than the
+ * Settled means the phase differences no longer move: over the last `window` ticks the drift
+ * between the window's two halves (the mean of the newer half minus that of the older) stays
+ * below half the `tolerance`, i.e. a steady move of less than the tolerance over the window.
+ * Noise may spread the differences more widely than that without moving them, and a noisy lock
+ * is still a lock.
+ *
+ * - `unlocked`: not (yet) locked. It locks once the window is settled, no difference strays more
+ *   than a quarter turn from its newest value (ACQUIRE_SPREAD: far from slipping), the carrying
+ *   mode oscillates (mean amplitude above `amplitudeFloor`) and the pattern's identity (a label
+ *   the caller computes from the snapshot) has been the same for the whole window. That identity
+ *   becomes the committed pattern.
+ * - `locked`: settled, or in the band up to `hysteresis` times the settling drift, so noise near
+ *   the threshold does not flap; the snapshot has the committed identity.
+ * - `settling`: still frequency-locked, but moving: the differences drift by more than the
  *   hysteresis band over the window, or the snapshot's shape differs from the committed pattern
  *   and has not yet held over a window (an amplitude kick deforms the shape for a moment). A
  *   transient is not a pattern change. The caller may keep the committed identity for a state it
@@ -36,6 +41,9 @@ import { accumulateExcursion, SLIP_EXCURSION } from './phase-excursion.js';
  * every eps.
  */
 export type LockStatus = 'unlocked' | 'settling' | 'locked';
+
+/** A lock is acquired only while every difference stays within a quarter turn over the window. */
+export const ACQUIRE_SPREAD = Math.PI / 2;
 
 /** Why a ring counts as unlocked after having been locked. */
 export type UnlockCause = 'slip' | 'amplitude' | 'mode';
@@ -147,11 +155,16 @@ export class LockDetector {
     const oscillating = meanAmplitude > this.amplitudeFloor;
     const excursion = this.excursion(differences);
     this.windowExcursion = excursion;
-    const converged = this.count === this.window && excursion < this.tolerance;
+    const full = this.count === this.window;
     const steadyIdentity = this.candidateTicks >= this.window;
 
+    // noise may spread the differences over the window; what matters is whether they still
+    // move, which the drift between the window's halves measures
+    const drift = this.drift(differences);
+    const converged = full && drift < this.tolerance / 2;
+
     if (this.status === 'unlocked') {
-      if (!(oscillating && converged && steadyIdentity)) return null;
+      if (!(oscillating && converged && excursion < ACQUIRE_SPREAD && steadyIdentity)) return null;
       this.status = 'locked';
       this.label = identity;
       this.lockedSince = tau;
@@ -184,11 +197,35 @@ export class LockDetector {
       this.enterLocked(tau, differences);
       return { kind: 'pattern-change', from: was, to: identity, move };
     }
-    if (this.status === 'locked' && (identity !== was || transientShape || excursion >= this.hysteresis * this.tolerance)) {
+    if (this.status === 'locked' && (identity !== was || transientShape || drift >= (this.hysteresis * this.tolerance) / 2)) {
       this.status = 'settling';
       this.settlingSince = tau;
     }
     return null;
+  }
+
+  /**
+   * Largest drift of a phase difference over the window: the mean of the newer half minus the
+   * mean of the older half (each measured from the newest value, so wrapping does not matter).
+   * A steady move of d over the window drifts by d / 2; noise averages out of the means.
+   */
+  drift(newest: ArrayLike<number>): number {
+    const n = this.count;
+    if (n < 2) return 0;
+    const half = Math.floor(n / 2);
+    let worst = 0;
+    for (let k = 0; k < this.size; k++) {
+      let older = 0;
+      let newer = 0;
+      for (let i = 0; i < n; i++) {
+        const slot = (this.head - n + i + 2 * this.window) % this.window;
+        const d = wrapAngle(this.history[slot * this.size + k] - newest[k]);
+        if (i < half) older += d;
+        else newer += d;
+      }
+      worst = Math.max(worst, Math.abs(newer / (n - half) - older / half));
+    }
+    return worst;
   }
 
   /** Largest excursion of any phase difference from its newest value over the window. */

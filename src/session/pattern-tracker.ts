@@ -54,11 +54,14 @@ export interface PatternReport {
 }
 
 /**
- * Where the prediction says the committed pattern goes under the current parameters: a settled
- * state this close to it is the same pattern, continued, whatever its snapshot shape.
+ * Where a pattern lies under the current parameters (the live prediction's continued state, or
+ * the exact locked state the guiding system sits on): a state this close to it is that pattern,
+ * whatever its snapshot shape. `label` is the pattern's identity, `kind` and `q` its name.
  */
 export interface ContinuationHint {
   label: string;
+  kind: PatternKind;
+  q?: number;
   mode: number;
   phaseDifferences: number[];
 }
@@ -169,7 +172,13 @@ export class PatternTracker {
     const pairDifferences = this.pairs.differences(observed.phase, mode, this.pairDifferences);
     const transition = this.detector.push(tau, pairDifferences, meanAmplitude, identity, this.pairs.watched, own) ?? modeTransition;
     if (transition?.kind === 'lock' || transition?.kind === 'pattern-change') {
-      this.committed = shape ? { kind: shape.kind, ...(shape.q !== undefined ? { q: shape.q } : {}), ...(shape.clusters ? { clusters: shape.clusters } : {}) } : null;
+      const hint = this.hint;
+      this.committed =
+        identity !== own && hint
+          ? { kind: hint.kind, ...(hint.q !== undefined ? { q: hint.q } : {}) }
+          : shape
+            ? { kind: shape.kind, ...(shape.q !== undefined ? { q: shape.q } : {}), ...(shape.clusters ? { clusters: shape.clusters } : {}) }
+            : null;
     }
     if (!this.detector.locked) this.committed = null;
     const symmetry = quiet
@@ -207,14 +216,18 @@ export class PatternTracker {
     return { report, transition };
   }
 
-  /** The snapshot's identity, or the committed one when the state sits on the predicted continuation. */
+  /**
+   * The snapshot's identity, or the hint's when the state sits near the hinted state: while
+   * locked, only a hint for the committed pattern counts (it names where that pattern went);
+   * while seeking, any hint on the carrying mode names the state it is settling on.
+   */
   private identityOf(own: string, mode: number, differences: ArrayLike<number>): string {
     const committed = this.detector.label;
     const hint = this.hint;
-    if (committed === null || own === committed || !hint || hint.label !== committed || hint.mode !== mode) return own;
+    if (own === committed || !hint || hint.mode !== mode || (committed !== null && hint.label !== committed)) return own;
     for (let k = 0; k < differences.length; k++) {
       if (Math.abs(wrapAngle(differences[k] - hint.phaseDifferences[k])) > this.matchTolerance) return own;
     }
-    return committed;
+    return hint.label;
   }
 }

@@ -9,7 +9,7 @@ import type { IntegratorMode, IntegratorRequest } from '../envelope/choice.js';
 import type { NoiseModel } from '../envelope/averaged-noise.js';
 import { GuideSystem } from '../guide/guide.js';
 import { nearResonances, type ResonanceWarning } from '../guide/resonance.js';
-import { divergence, readObservables, type Divergence, type SystemObservables } from '../observe/amplitudes.js';
+import { divergence, neighbourPhaseDifferences, readObservables, type Divergence, type SystemObservables } from '../observe/amplitudes.js';
 import { graphAutomorphisms } from '../pattern/automorphisms.js';
 import { lockedStateStability, solveLockedState } from '../predict/locked-state.js';
 import { GuideModel } from '../predict/guide-model.js';
@@ -437,9 +437,10 @@ export class CoSimulation {
       this.prediction = this.predictor.predict(this.params, this.guideBefore, this.guide.state, current, this.tau, kicked);
     }
     const p = this.prediction;
+    const current = p?.current;
     const hint =
-      p && (p.verdict === 'persists' || p.verdict === 'marginal') && p.pattern && p.current.locked
-        ? { label: patternIdentity(p.current.kind, p.current.q, p.current.mode), mode: p.pattern.mode, phaseDifferences: p.pattern.phaseDifferences }
+      p && current && current.locked && current.kind !== 'unlocked' && (p.verdict === 'persists' || p.verdict === 'marginal') && p.pattern
+        ? { label: patternIdentity(current.kind, current.q, current.mode), kind: current.kind, ...(current.q !== undefined ? { q: current.q } : {}), mode: p.pattern.mode, phaseDifferences: p.pattern.phaseDifferences }
         : null;
     this.fullTracker.expectContinuation(hint);
     this.guideTracker.expectContinuation(hint);
@@ -458,6 +459,32 @@ export class CoSimulation {
     // the collective frequency shift per mode (of the first part carrying it)
     const rotation = Array.from({ length: model.modes }, (_, j) => locked.rates[locked.generators.findIndex((g) => g.mode === j)] ?? 0);
     this.margin = { margin: stability.margin, rotation };
+    this.expectLockedStateOfGuide(locked.state, stability.verdict === 'stable');
     return this.margin;
+  }
+
+  /**
+   * The exact locked state the guide sits on is where its committed pattern lies under the
+   * current parameters: the trackers keep that pattern's name for a state near it (noise can push
+   * a snapshot across a shape boundary, a strained in-phase lock reads as a cluster), unless the
+   * latest prediction said the pattern is lost.
+   */
+  private expectLockedStateOfGuide(state: Float64Array, stable: boolean): void {
+    const p = this.prediction;
+    if (!stable || !this.guideTracker.locked || (p && p.verdict !== 'persists' && p.verdict !== 'marginal')) return;
+    const { nodes, modes } = this.params;
+    const committed = this.guideTracker.committedPattern();
+    if (committed.kind === 'unlocked') return;
+    const observed = readObservables(state, nodes, modes);
+    const mode = observed.dominantMode;
+    const hint = {
+      label: this.guideTracker.label,
+      kind: committed.kind,
+      ...(committed.q !== undefined ? { q: committed.q } : {}),
+      mode,
+      phaseDifferences: mode === 0 ? observed.phaseDifferences : neighbourPhaseDifferences(observed.phase, mode),
+    };
+    this.fullTracker.expectContinuation(hint);
+    this.guideTracker.expectContinuation(hint);
   }
 }

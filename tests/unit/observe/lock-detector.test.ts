@@ -164,3 +164,17 @@ describe('a state the caller knows to be the committed pattern continued', () =>
 function wrapTurn(v: number): number {
   return Math.atan2(Math.sin(v), Math.cos(v));
 }
+
+test('noise that spreads a locked ring beyond the tolerance, without drift, keeps it locked (not settling)', () => {
+  const detector = new LockDetector(2, 20, TOL);
+  feed(detector, 0, new Array(20).fill(0.3));
+  expect(detector.status).toBe('locked');
+  // +-0.1 rad of alternating noise: four times the tolerance in spread, no net motion
+  const noisy = Array.from({ length: 200 }, (_, i) => 0.3 + (i % 2 === 0 ? 0.1 : -0.1) * (1 + 0.3 * Math.sin(i)));
+  const transitions = feed(detector, 20, noisy).filter((t) => t !== null);
+  expect(transitions).toEqual([]);
+  expect(detector.status).toBe('locked');
+  // the same spread with a steady drift of 0.01 rad a tick moves it: settling
+  feed(detector, 220, Array.from({ length: 10 }, (_, i) => 0.3 + 0.01 * (i + 1) + (i % 2 === 0 ? 0.1 : -0.1)));
+  expect(detector.status).toBe('settling');
+});
