@@ -38,7 +38,8 @@ export function reportHtml(d: ReportData): string {
       `${s ? '' : ` (reached tau ${fmt(d.lastTau)} so far: the soak is running or was interrupted; resume it with --resume)`}.` +
       ` Started ${esc(String(d.header.createdAt))}, syncring ${esc(d.header.software.version)}, noise seed ${d.header.seeds.noise}.</p>`,
     d.nominalFrequencyAssumed ? `<p class="assumed" data-testid="assumed-frequency">${esc(ASSUMED_FREQUENCY_NOTE)}</p>` : '',
-    `${caution(SIMULATION_CAUTION, 'caution')}</header>`,
+    // a PASS carries its own caution above; the footer repeats the general one in every case
+    `${s?.pass ? '' : caution(SIMULATION_CAUTION, 'caution')}</header>`,
     unwantedModeNote(d),
     d.problems ? `<section class="problems"><h2>Log problems</h2><pre>${esc(d.problems)}</pre></section>` : '',
     keyNumbers(d),

@@ -293,7 +293,7 @@ const CONTINUED_NOTE = 0.1;
 /** How far the fault moved a ring that kept its pattern, and how long it took to settle. */
 function settleNote(m: { shift: number; largest: number; restored: boolean; fromContinued: number | null; after: Span | null; tolerance: number }): string {
   const toContinued = m.fromContinued !== null && m.fromContinued <= CONTINUED_NOTE;
-  const when = m.after && m.after.slow > 0 ? `, settled in ${m.after.slow.toPrecision(3)} slow units${m.restored ? ' after the restore' : ''}` : ', never left the lock tolerance';
+  const when = m.after && m.after.slow > 0 ? `, settled in ${Number(m.after.slow.toPrecision(2))} slow units${m.restored ? ' after the restore' : ''}` : ', never left the lock tolerance';
   if (m.restored) return `moved up to ${m.largest.toFixed(2)} rad during the fault and came back to within ${m.shift.toFixed(2)} rad${toContinued ? ' of the continued state' : ''}${when}`;
   return `moved ${m.shift.toFixed(2)} rad${toContinued ? ' to the continued state' : ''}${when}`;
 }

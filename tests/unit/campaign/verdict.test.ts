@@ -76,7 +76,7 @@ describe('a smooth move is not a loss', () => {
     expect(v.shift).toBeCloseTo(0.4, 4);
     expect(v.fromContinued).toBeLessThan(1e-3);
     expect(v.settledAfter?.tau).toBe(7); // first tick from which |psi - 0.4| <= 0.05 stays: t = 17
-    expect(v.notes).toEqual(['moved 0.40 rad to the continued state, settled in 0.0700 slow units']);
+    expect(v.notes).toEqual(['moved 0.40 rad to the continued state, settled in 0.07 slow units']);
     expect(v.recovered).toBe(true);
     expect(v.timeToRelock).toBeNull(); // never lost
     expect(v.outcome).toBe('pass');
@@ -88,7 +88,7 @@ describe('a smooth move is not a loss', () => {
     const v = evaluate(permanent, (t) => (t < 12 ? 0 : 0.4), () => ({}), 50, () => ({ prediction: { persists: true, tau: 10, message: null, continued } }));
     expect(v.fromContinued).toBeCloseTo(0.8, 12);
     expect(v.notes).toContain('settled 0.80 rad from the predicted continued state');
-    expect(v.notes[0]).toBe('moved 0.40 rad, settled in 0.0200 slow units');
+    expect(v.notes[0]).toBe('moved 0.40 rad, settled in 0.02 slow units');
   });
 });
 
