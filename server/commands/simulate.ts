@@ -21,8 +21,8 @@ const MAX_LOGGED_SAMPLES = 2000;
 
 /**
  * `syncring simulate`: run the co-simulation headless to tau = until and print one JSON object
- * (design section 7) with the pattern, the phase differences, the amplitudes, the guide's
- * pattern and margin, and the full state in the original coordinates.
+ * (README, '`syncring simulate`') with the pattern, the phase differences, the amplitudes, the
+ * guide's pattern and margin, and the full state in the original coordinates.
  */
 export function simulate(args: SimulateArgs): Record<string, unknown> {
   if (!(args.until > 0) || !Number.isFinite(args.until)) throw new UsageError(`--until must be a positive number (got ${args.until})`);

@@ -349,5 +349,3 @@ async function exited(pid: number, child: ChildProcess | undefined, ms: number):
   while (processAlive(pid) && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));
   return !processAlive(pid);
 }
-
-/** Constant-time comparison, as the WebSocket hub compares the operator token. */

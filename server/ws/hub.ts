@@ -233,7 +233,6 @@ export class Hub {
   }
 }
 
-
 function refuse(socket: Duplex, status: number, text: string, detail = ''): void {
   socket.write(`HTTP/1.1 ${status} ${text}\r\nConnection: close\r\nContent-Type: text/plain\r\n\r\n${detail}\n`);
   socket.destroy();

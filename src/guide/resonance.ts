@@ -2,8 +2,8 @@
  * Near-resonance check for the torus average. With a cubic (odd) nonlinearity the averaged
  * equations gain extra terms at the resonances p omega_0 = q omega_1 with |p| + |q| <= 4 and
  * p + q even: 1:1, 1:3 and 3:1. The first-order error then carries terms of size
- * eps / |p omega_0 - q omega_1| (design section 3), so the check warns when that distance is
- * within `warnWithin` multiples of eps.
+ * eps / |p omega_0 - q omega_1| (docs/model.md, 'First-order averaging'), so the check warns when
+ * that distance is within `warnWithin` multiples of eps.
  */
 export interface ResonanceWarning {
   /** "p:q" meaning p omega_0 = q omega_1. */

@@ -5,7 +5,8 @@ import { SlowField } from '../model/slow-field.js';
  * The averaged field fbar(y) = mean of f(y, theta) over the torus of fast angles (one angle per
  * mode), by the trapezoid rule on a P (M = 1) or P x P (M = 2) grid. The trapezoid rule is exact
  * for trigonometric polynomials of degree below P in each angle; the reference model's field has
- * degree at most 4, so any P >= 5 gives the exact first-order average (design section 3).
+ * degree at most 4 (docs/model.md, 'The frame', harmonic content), so any P >= 5 gives the exact
+ * first-order average.
  * Averaging treats the angles as independent, which is right only away from low-order
  * resonances p omega_0 = q omega_1 (see resonance.ts).
  */

@@ -31,10 +31,10 @@ export interface FullIntegrator {
 export const RUNAWAY_AMPLITUDE = 1e3;
 
 /**
- * The full coupled system on the multirate clock: micro steps (RK4 in the rotating frame)
- * resolve the carrier; each macro step then adds the exact noise increment and the detuning
- * random walk, and checks for blow-up. A step that produced a non-finite or runaway state is
- * undone, so no NaN ever leaves this object.
+ * The full coupled system on the multirate clock: micro steps in the rotating frame (MicroStepper:
+ * the fitted Adams method where it applies, RK4 otherwise) resolve the carrier; each macro step
+ * then adds the exact noise increment and the detuning random walk, and checks for blow-up. A step
+ * that produced a non-finite or runaway state is undone, so no NaN ever leaves this object.
  */
 export class FullSystem implements FullIntegrator {
   readonly stepper: MicroStepper;

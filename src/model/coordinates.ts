@@ -3,7 +3,7 @@ import type { ModelParameters } from './parameters.js';
 
 /**
  * Conversions between the original coordinates (x, x') and the rotating frame (u, v) of
- * design section 3, with theta_j = omega_j tau:
+ * docs/model.md, 'The frame', with theta_j = omega_j tau:
  *   x = u cos + v sin,  x'/omega = -u sin + v cos   <=>   u = x cos - (x'/omega) sin,  v = x sin + (x'/omega) cos.
  * The complex amplitude is a = u - i v, so x = Re(a e^{i theta}).
  */

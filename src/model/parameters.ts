@@ -1,7 +1,7 @@
 import type { Scenario } from '../scenario/types.js';
 
 /**
- * The compiled, mutable parameters of the reference model (design section 2).
+ * The compiled, mutable parameters of the reference model (docs/model.md, 'Reference model').
  * Everything the hot loop reads lives in typed arrays; run-time changes (detuning, link
  * weights, coupling, noise) write into them in place, so nothing is ever rebuilt.
  */

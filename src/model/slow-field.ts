@@ -4,7 +4,7 @@ import type { ModelParameters } from './parameters.js';
 const SLOTS = 2;
 
 /**
- * The rotating-frame vector field f(y, theta) of design section 3, without the factor eps:
+ * The rotating-frame vector field f(y, theta) of docs/model.md, 'The frame', without the factor eps:
  * y' = eps f(y, theta) with y = [u_00, v_00, u_01, v_01, ...] (node-major, mode-minor) and
  *   x = u cos(theta_j) + v sin(theta_j),   x' = omega_j (-u sin(theta_j) + v cos(theta_j)),
  *   u' = -(eps F / omega_j) sin(theta_j),   v' = (eps F / omega_j) cos(theta_j).

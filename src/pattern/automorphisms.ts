@@ -1,11 +1,11 @@
 /**
  * Automorphism group of a weighted directed coupling graph.
  *
- * The graph has A[to][from] = weight for every link (design section 2). A permutation p
- * (stored as perm[k] = p(k)) is an automorphism when A[p(i)][p(j)] = A[i][j] for all i, j: every
- * link i -> j of weight w is sent to a link p(i) -> p(j) of the same weight, and no link appears
- * from nowhere. For a one-way ring this is the cyclic group Z_N, for a two-way ring the dihedral
- * group D_N.
+ * The graph has A[to][from] = weight for every link (docs/model.md, 'Reference model'). A
+ * permutation p (stored as perm[k] = p(k)) is an automorphism when A[p(i)][p(j)] = A[i][j] for all
+ * i, j: every link i -> j of weight w is sent to a link p(i) -> p(j) of the same weight, and no
+ * link appears from nowhere. For a one-way ring this is the cyclic group Z_N, for a two-way ring
+ * the dihedral group D_N.
  *
  * Method. Node colours are refined until stable (an automorphism keeps every colour). Nodes are
  * placed in breadth-first order v_0, v_1, ..., so a node's image must be a neighbour of its

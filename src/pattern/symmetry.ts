@@ -1,5 +1,6 @@
 /**
- * Spatio-temporal symmetry of one snapshot of complex amplitudes a_k (design section 4).
+ * Spatio-temporal symmetry of one snapshot of complex amplitudes a_k (docs/model.md, 'Patterns and
+ * symmetry').
  *
  * Convention: a permutation gamma (perm[k] = gamma(k)) acts by moving node k's amplitude to node
  * gamma(k), that is (gamma.a)_k = a_{gamma^-1(k)}; this is a left action,

@@ -243,14 +243,15 @@ export interface Accuracy {
 /**
  * Margins this close to zero are not resolved. The guiding system is the first-order average; the
  * next term, eps <Df u> with u of size |f| / omega (Sanders, Verhulst, Murdock 2007, second-order
- * averaging; design section 5), shifts the Jacobian by eps |Df|^2 / omega in size. The eigenvalues
- * that decide locking belong to phase directions, which are exactly neutral at zero coupling to
- * every order of averaging (each node keeps its own phase symmetry), so their shift carries one
- * factor of the coupling rate K and one of the fastest rate: eps rateScale K / omega. Inside that
- * band the sign would be set by terms the model does not contain: the verdict is "marginal". A
- * floor of 1e-8 max(1, rateScale) covers the finite-difference Jacobian's rounding. (Eigenvalues
- * that do not vanish with the coupling, such as a second mode at the edge of winning, can carry
- * errors up to eps rateScale^2 / omega; the band does not widen for them.)
+ * averaging; docs/model.md, 'Second-order averaging (envelope mode)'), shifts the Jacobian by
+ * eps |Df|^2 / omega in size. The eigenvalues that decide locking belong to phase directions,
+ * which are exactly neutral at zero coupling to every order of averaging (each node keeps its own
+ * phase symmetry), so their shift carries one factor of the coupling rate K and one of the fastest
+ * rate: eps rateScale K / omega. Inside that band the sign would be set by terms the model does
+ * not contain: the verdict is "marginal". A floor of 1e-8 max(1, rateScale) covers the
+ * finite-difference Jacobian's rounding. (Eigenvalues that do not vanish with the coupling, such
+ * as a second mode at the edge of winning, can carry errors up to eps rateScale^2 / omega; the
+ * band does not widen for them.)
  */
 export function marginTolerance(rateScale: number, accuracy: Accuracy): number {
   return (accuracy.epsilon * rateScale * accuracy.couplingRate) / accuracy.omegaMin + 1e-8 * Math.max(1, rateScale);

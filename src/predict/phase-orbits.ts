@@ -1,10 +1,10 @@
 /**
- * The continuous symmetries of the guiding system: a common phase shift of one mode's amplitudes
- * on one weakly connected part of the coupling graph (design section 3). On a connected graph
- * this is one circle per mode; when broken links split the
- * graph, each part keeps its own phase freedom (and its own locked frequency), and each of those
- * directions must be removed from the stability problem too, or a spurious zero eigenvalue
- * remains.
+ * The continuous symmetries of the guiding system: a common phase shift of one mode's amplitudes on
+ * one weakly connected part of the coupling graph (docs/model.md, 'Relative equilibria and the
+ * phase-symmetry zero eigenvalues'). On a connected graph this is one circle per mode; when broken
+ * links split the graph, each part keeps its own phase freedom (and its own locked frequency), and
+ * each of those directions must be removed from the stability problem too, or a spurious zero
+ * eigenvalue remains.
  *
  * The generator of a shift on mode j and node set C maps (u, v) -> (v, -u) on those entries
  * (a -> i a with a = u - i v) and is zero elsewhere.

@@ -1,10 +1,10 @@
 """SciPy DOP853 on the bench's problem in the original coordinates z = [x, x'] per node and mode.
 
-Reads one JSON object on stdin (the model of design section 2 for two modes on a graph with at
-most two incoming links per node, the start z0, rtol, atol, maxPeriods, budgetSeconds), times a
-short pilot run, then integrates from tau = 0 over as many whole carrier periods as fit in the
-budget (at most maxPeriods) and prints one JSON object: periods, wall and CPU seconds of that run,
-right-hand-side evaluations and the final state.
+Reads one JSON object on stdin (the model of docs/model.md, 'Reference model', for two modes on a
+graph with at most two incoming links per node, the start z0, rtol, atol, maxPeriods,
+budgetSeconds), times a short pilot run, then integrates from tau = 0 over as many whole carrier
+periods as fit in the budget (at most maxPeriods) and prints one JSON object: periods, wall and CPU
+seconds of that run, right-hand-side evaluations and the final state.
 """
 import json
 import sys

@@ -2,11 +2,11 @@ import type { ModelParameters } from '../../src/model/parameters.js';
 
 /**
  * The comparison integrator of the benchmark: classic RK4 on the reference model in its original
- * coordinates z = [x, x'] per node and mode (design section 2), x'' = -omega^2 x + eps F, with no
- * rotating frame. It has to resolve the carrier itself, so its phase error of O((omega h)^5) per
- * step is what limits it. Written as carefully as the engine's kernel (neighbour slots, locals,
- * one fused pass per stage) so that the comparison measures the method, not the coding; two
- * modes on graphs with in-degree at most two (the rings of the benchmark) only.
+ * coordinates z = [x, x'] per node and mode (docs/model.md, 'Reference model'),
+ * x'' = -omega^2 x + eps F, with no rotating frame. It has to resolve the carrier itself, so its
+ * phase error of O((omega h)^5) per step is what limits it. Written as carefully as the engine's kernel (neighbour
+ * slots, locals, one fused pass per stage) so that the comparison measures the method, not the
+ * coding; two modes on graphs with in-degree at most two (the rings of the benchmark) only.
  */
 export class OriginalRk4 {
   readonly state: Float64Array;

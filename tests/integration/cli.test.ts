@@ -21,7 +21,7 @@ async function syncring(...args: string[]): Promise<{ code: number; stdout: stri
 }
 
 describe('npx syncring simulate', () => {
-  test('prints the design-section-7 JSON contract for the demo scenario', async () => {
+  test('prints the JSON contract of the README (`syncring simulate`) for the demo scenario', async () => {
     const { code, stdout } = await syncring('simulate', 'timing-board-8', '--until', '20000');
     expect(code).toBe(0);
     const result = JSON.parse(stdout);

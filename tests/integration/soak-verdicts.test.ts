@@ -9,7 +9,7 @@ import { adlerPairScenario } from '../support/adler-pair.js';
  * A fault beyond the predicted locking limit fails with the right verdict and a non-zero exit;
  * one inside it passes. Two nodes, one mode, two-way dissipative coupling (Adler, "A Study of
  * Locking Phenomena in Oscillators", Proc. IRE 34, 1946; the mapping dw = eps omega
- * (Delta_0 - Delta_1), K = eps kappa sigma is derived in ../shared/references.md): locked
+ * (Delta_0 - Delta_1), K = eps kappa sigma is derived in docs/model.md, 'Adler pair'): locked
  * when |dw| <= K at sin psi = dw / K, otherwise the phase slips with the beat period
  * 2 pi / sqrt(dw^2 - K^2).
  */

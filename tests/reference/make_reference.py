@@ -1,10 +1,11 @@
 #!/usr/bin/env python3
-"""Independent reference solutions of syncring's full coupled equations (design.md section 2).
+"""Independent reference solutions of syncring's full coupled equations (docs/model.md,
+'Reference model').
 
 Integrates the model in the ORIGINAL coordinates (x, x') with SciPy's DOP853, writes each case's
 scenario (tests/reference/<case>.scenario.json) and its samples (tests/reference/<case>.dop853.json).
 Nothing here shares code with the TypeScript engine: the right-hand side is written straight from
-the design notes, and the coupling matrix is expanded from the scenario JSON that is written out,
+docs/model.md, and the coupling matrix is expanded from the scenario JSON that is written out,
 so the samples belong to exactly that file.
 
 Run by hand (not by CI):  python3 tests/reference/make_reference.py
@@ -103,7 +104,7 @@ CASES = [
 ]
 
 
-# ---------------------------------------------------------------- model (design.md section 2)
+# ---------------------------------------------------------------- model (docs/model.md, 'Reference model')
 
 def coupling_matrix(scenario):
     """A[k][l] = weight of the link carrying node l's signal into node k."""
@@ -231,7 +232,8 @@ def check_rhs(scenario, model, trials=20):
 
 
 def complex_amplitudes(model, y, tau):
-    """a_kj with x = Re(a e^{i omega tau}), x' = Re(i omega a e^{i omega tau}) (design.md section 3)."""
+    """a_kj with x = Re(a e^{i omega tau}), x' = Re(i omega a e^{i omega tau}) (docs/model.md,
+    'The frame')."""
     size = model.n * model.m
     x = y[:size].reshape(model.n, model.m)
     xd = y[size:].reshape(model.n, model.m)
@@ -239,7 +241,8 @@ def complex_amplitudes(model, y, tau):
 
 
 def averaged_rhs(model, a):
-    """First-order guiding system in closed form (design.md section 3): per mode, self saturation
+    """First-order guiding system in closed form (docs/model.md, 'Closed form for M = 1' and 'Two
+    modes away from resonance'): per mode, self saturation
     |a_j|^2/4 and cross saturation |a_other|^2/2, coupling of like modes only (no resonance)."""
     power = np.abs(a) ** 2
     cross = power.sum(axis=1, keepdims=True) - power
@@ -275,7 +278,7 @@ def guiding_deviation(model, y0, taus, states):
 
 # ---------------------------------------------------------------- van der Pol period at eps = 1
 
-PUBLISHED_VDP_PERIOD = 6.66328686   # Sanders, Verhulst, Murdock 2007 (via /work/shared/references.md)
+PUBLISHED_VDP_PERIOD = 6.66328686   # Sanders, Verhulst, Murdock 2007 (docs/model.md, 'Reference values')
 PUBLISHED_VDP_MAX_X = 2.00861986    # same source: the cycle's largest x
 
 
@@ -308,7 +311,7 @@ def van_der_pol_limit_cycle(mu=1.0, rtol=CHECK_RTOL, atol=CHECK_ATOL):
         "publishedPeriod": PUBLISHED_VDP_PERIOD,
         "publishedMaxX": PUBLISHED_VDP_MAX_X,
         "source": "Sanders, Verhulst, Murdock, Averaging Methods in Nonlinear Dynamical Systems, "
-                  "2nd ed., Springer 2007 (as quoted in references.md)",
+                  "2nd ed., Springer 2007",
         "rtol": rtol,
         "atol": atol,
     }

@@ -1,7 +1,7 @@
 /**
  * The two-node scenario the soak tests run (two-way dissipative coupling, in-phase start, a
  * little noise): fast, and its locking limit is Adler's |dw| = K with dw = eps omega (Delta_0 -
- * Delta_1) and K = eps kappa sigma (../shared/references.md).
+ * Delta_1) and K = eps kappa sigma (docs/model.md, 'Adler pair').
  */
 export function adlerPairScenario(epsilon = 0.01, kappaSigma = 0.05): Record<string, unknown> {
   return {

@@ -1,6 +1,6 @@
 import type { Link, ModeSpec, Scenario } from '../../src/scenario/types.js';
 
-/** Ring links exactly as design section 2 defines them (A_{k,k-1} = 1, and A_{k,k+1} = 1 two-way). */
+/** Ring links as docs/model.md, 'Reference model', defines them (A_{k,k-1} = 1, and A_{k,k+1} = 1 two-way). */
 export function ringLinks(n: number, twoWay: boolean): Link[] {
   const links: Link[] = [];
   for (let k = 0; k < n; k++) {

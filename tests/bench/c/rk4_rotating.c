@@ -1,10 +1,10 @@
 /*
  * C yardstick of the benchmark: classic RK4 (Hairer, Norsett, Wanner, Solving ODEs I, II.1) on the
- * rotating-frame system y' = eps f(y, omega tau) of design section 3 for two modes, written to
- * mirror src/model/slow-field.ts (forcesTwoModes) and src/integrate/rk4-scheme.ts operation by
- * operation: the same fused stages, the same half-step rotation recurrence for the carrier angles,
- * reseeded from cos/sin every 1024 steps, and the same step grid (equal steps, at most the nominal
- * 2 pi / (S max omega)). Only the compiler's rounding choices differ.
+ * rotating-frame system y' = eps f(y, omega tau) of docs/model.md, 'The frame', for two modes,
+ * written to mirror src/model/slow-field.ts (forcesTwoModes) and src/integrate/rk4-scheme.ts
+ * operation by operation: the same fused stages, the same half-step rotation recurrence for the
+ * carrier angles, reseeded from cos/sin every 1024 steps, and the same step grid (equal steps, at
+ * most the nominal 2 pi / (S max omega)). Only the compiler's rounding choices differ.
  *
  * Input on stdin (whitespace-separated numbers):
  *   N steps_per_period periods trials eps

@@ -22,10 +22,10 @@ describe('campaign format', () => {
     const board = loadBuiltInScenario('timing-board-8');
     const c = parseCampaign(builtInCampaignRaw('timing-board-8-campaign'), board);
     expect(c.timeUnit).toBe('slow');
-    expect(c.tauPerUnit).toBeCloseTo(1e5, 6); // 1 / eps, eps = 1e-5 (design section 2)
+    expect(c.tauPerUnit).toBeCloseTo(1e5, 6); // 1 / eps, eps = 1e-5 (slow time is eps tau: README, 'Units')
     expect(c.faults[0].start).toBeCloseTo(60e5, 3);
     expect(c.faults.map((f) => f.perturbation.action)).toContain('kick-mode');
-    // ppm maps to Delta = ppm 1e-6 / eps (design section 2): 0.6 ppm -> 0.06
+    // ppm maps to Delta = ppm 1e-6 / eps (README, 'Units'): 0.6 ppm -> 0.06
     expect(c.faults[0].perturbation).toEqual({ action: 'set-detuning', node: 3, delta: expect.closeTo(0.06, 12) });
     expect(c.random?.actions.length).toBe(4);
     // a per-fault override keeps the campaign's other criteria

@@ -10,7 +10,8 @@ import { compiled, relativeGap, ringOfFour } from './problems.js';
  * second-order periodic averaging): away from resonance the rebuilt full state stays within
  * O(eps^2) of the true solution for tau in [0, L/eps], at a cost per slow time unit that does not
  * depend on eps. The reference is micro-stepping at 64 steps per period, whose own error here is
- * far below the envelope's (design section 5).
+ * far below the envelope's (RK4 at S steps per period: about 8.4e5 eps^2 / S^4 relative per 1000
+ * periods; README, 'Integrators and their error bounds').
  */
 const EPSILONS = [4e-3, 2e-3, 1e-3, 5e-4];
 const TICKS = 100;

@@ -6,8 +6,8 @@ import { compiled, ringOfFour } from './problems.js';
 
 /**
  * Small divisors: near p omega_0 = q omega_1 the harmonic (p, -q) has |m.omega| = |p omega_0 - q omega_1|
- * and the near-identity correction eps f_m / (m.omega) is no longer small (design section 3:
- * the tool must refuse within some tens of eps of 1:1, 1:3, 3:1).
+ * and the near-identity correction eps f_m / (m.omega) is no longer small, so the envelope must
+ * refuse within some tens of eps of 1:1, 1:3, 3:1 (docs/model.md, 'Integrators': small divisors).
  */
 describe('the envelope refuses near a resonance', () => {
   const eps = 1e-3;

@@ -49,7 +49,7 @@ describe('syncring simulate --mode', () => {
     const envelope = simulate({ scenario: far, until: fiveTicks, mode: 'envelope' });
     expect(envelope.mode).toBe('envelope');
     expect(envelope.integrator).toMatchObject({ ticks: { micro: 0, envelope: 5 } });
-    // the outside contract still holds: the final states agree (design section 7)
+    // the outside contract still holds: the final states agree (`state` in README, '`syncring simulate`')
     const flat = (r: Record<string, unknown>) => (r.state as { x: number; xdot: number }[][]).flat().flatMap((s) => [s.x, s.xdot]);
     const a = flat(envelope);
     const b = flat(micro);

@@ -5,8 +5,9 @@ import { Random } from '../../../src/util/random.js';
 import { makeScenario, ringLinks } from '../../support/scenarios.js';
 
 /**
- * Closed-form first-order averaged equations of design section 3 (derived there by hand; the
- * van der Pol part is the classical r' = (mu/2) r (1 - r^2/4), Sanders, Verhulst, Murdock 2007):
+ * Closed-form first-order averaged equations (derived by hand in docs/model.md, 'Closed form for
+ * M = 1' and 'Two modes away from resonance'; the van der Pol part is the classical
+ * r' = (mu/2) r (1 - r^2/4), Sanders, Verhulst, Murdock 2007):
  *   a'_kj = (eps/2) [ g_j (1 - |a_kj|^2/4 - |a_ko|^2/2) a_kj - d_j a_kj + 2 i omega_j Delta_k a_kj
  *                     + kappa sum_l A_kl (sigma - i rho/omega_j) (a_lj - a_kj) ]
  * with a = u - i v, returned here without the factor eps (the average fbar).

@@ -63,8 +63,11 @@ describe('micro stepper (RK4 in the rotating frame)', () => {
 // The field kernel the micro stepper runs on, the fitted Adams method, and method selection.
 
 
-/** f(y, theta) written straight from design sections 2 and 3 (dense A, original coordinates). */
-function fieldFromDesign(
+/**
+ * f(y, theta) written straight from docs/model.md, 'Reference model' and 'The frame' (dense A,
+ * original coordinates).
+ */
+function fieldFromModel(
   params: ModelParameters,
   theta: number[],
   y: Float64Array,
@@ -124,8 +127,8 @@ describe('field kernel (SlowField)', () => {
     { name: 'single node without links', nodes: 1, links: [], modes: MODES_3.slice(0, 1) },
     { name: 'three modes (general path)', nodes: 3, links: ringLinks(3, true), modes: MODES_3 },
   ];
-  test.each(graphs)('agrees with the design equations to 1e-13: $name', ({ nodes, links, modes }) => {
-    // Independent implementation of design sections 2-3 above; agreement to rounding (common practice).
+  test.each(graphs)('agrees with the model equations to 1e-13: $name', ({ nodes, links, modes }) => {
+    // Independent implementation of the model equations above; agreement to rounding (common practice).
     const scenario = makeScenario({
       nodes,
       links,
@@ -149,7 +152,7 @@ describe('field kernel (SlowField)', () => {
       const y = Float64Array.from({ length: size }, () => 2 * random.uniform() - 1);
       const theta = modes.map(() => 2 * Math.PI * random.uniform());
       field.evaluate(Float64Array.from(theta, Math.cos), Float64Array.from(theta, Math.sin), y, out);
-      const expected = fieldFromDesign(params, theta, y);
+      const expected = fieldFromModel(params, theta, y);
       const scale = Math.max(...expected.map(Math.abs));
       for (let i = 0; i < size; i++) expect(Math.abs(out[i] - expected[i])).toBeLessThan(1e-13 * scale);
     }

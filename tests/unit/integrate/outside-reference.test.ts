@@ -7,9 +7,9 @@ import { loadReference } from '../../support/reference-data.js';
 
 /**
  * Outside reference: SciPy's DOP853 (Hairer's 8th-order Dormand-Prince, scipy.integrate.solve_ivp)
- * at rtol 1e-12 on the original coordinates (x, x'), from an independent Python implementation
- * of design section 2 (tests/reference/make_reference.py). Its own error (self-check against
- * rtol 1e-13) is below 5e-10, far under the 1e-7 asserted here.
+ * at rtol 1e-12 on the original coordinates (x, x'), from an independent Python implementation of
+ * docs/model.md, 'Reference model' (tests/reference/make_reference.py). Its own error (self-check
+ * against rtol 1e-13) is below 5e-10, far under the 1e-7 asserted here.
  */
 describe.each(['one-way-two-mode', 'two-way-broken-link'])('full system against SciPy DOP853: %s', (name) => {
   const reference = loadReference(name);

@@ -49,7 +49,8 @@ function completeGraph(n: number): Link[] {
 
 describe('graphAutomorphisms on rings', () => {
   // The one-way ring carries the cyclic group Z_N of order N, the two-way ring the dihedral
-  // group D_N of order 2N (Golubitsky & Stewart, The Symmetry Perspective, 2002; design section 2).
+  // group D_N of order 2N (Golubitsky & Stewart, The Symmetry Perspective, 2002; docs/model.md,
+  // 'Reference model').
   for (let n = 3; n <= 12; n++) {
     test(`one-way ring of ${n}: Z_${n}, order ${n}, all rotations`, () => {
       const links = ringLinks('ring-one-way', n);

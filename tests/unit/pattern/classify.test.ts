@@ -19,7 +19,10 @@ function snapshot(n: number, shape: (k: number) => [number, number], c: [number,
   return { re, im };
 }
 
-/** Rotating wave built by its defining recursion a_{k+1} = e^{2 pi i q / N} a_k (design section 4). */
+/**
+ * Rotating wave built by its defining recursion a_{k+1} = e^{2 pi i q / N} a_k (docs/model.md,
+ * 'Patterns and symmetry').
+ */
 function rotatingWave(n: number, q: number, a0: [number, number] = [0.7, -0.2]): Snapshot {
   const re = new Float64Array(n);
   const im = new Float64Array(n);

@@ -8,7 +8,7 @@ import { makeScenario } from '../../support/scenarios.js';
  * obeys psi' = dw - K sin psi, locks at sin psi = dw / K when |dw| <= K and otherwise slips at
  * the beat frequency sqrt(dw^2 - K^2). For two nodes of the reference model with two-way
  * dissipative coupling and equal amplitudes, dw = eps omega (Delta_0 - Delta_1) and
- * K = eps kappa sigma (derived in ../shared/references.md; valid for kappa sigma << g).
+ * K = eps kappa sigma (derived in docs/model.md, 'Adler pair'; valid for kappa sigma << g).
  */
 const eps = 0.005;
 const coupling = 0.05; // kappa sigma, small against g = 1

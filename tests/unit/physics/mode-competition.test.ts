@@ -5,10 +5,10 @@ import { stateFromAmplitudes } from '../../support/states.js';
 
 /**
  * Two modes with equal gains on one sustaining element: averaging gives
- * a_j' = (eps/2) g (1 - |a_j|^2/4 - |a_o|^2/2) a_j (design section 3, cross-saturation twice the
- * self term), so both single-mode states are stable (the other mode's growth rate there is
- * g (1 - 4/2) < 0) and the winner depends on the start: winner-take-all mode competition
- * (common practice in multimode oscillator theory).
+ * a_j' = (eps/2) g (1 - |a_j|^2/4 - |a_o|^2/2) a_j (derived in docs/model.md, 'Two modes away from
+ * resonance': cross-saturation twice the self term), so both single-mode states are stable (the
+ * other mode's growth rate there is g (1 - 4/2) < 0) and the winner depends on the start:
+ * winner-take-all mode competition (common practice in multimode oscillator theory).
  */
 function node(mode0: number, mode1: number) {
   return new CoSimulation(

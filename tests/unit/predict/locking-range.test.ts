@@ -12,7 +12,7 @@ import { makeScenario } from '../../support/scenarios.js';
  * Locking range of a detuned pair by continuation, against Adler ("A Study of Locking Phenomena
  * in Oscillators", Proc. IRE 34, 1946): psi' = dw - K sin psi locks for |dw| <= K, the edge being
  * the saddle-node at sin psi = 1. For two nodes of the reference model with two-way dissipative
- * coupling, dw = eps omega (Delta_0 - Delta_1) and K = eps kappa sigma (../shared/references.md,
+ * coupling, dw = eps omega (Delta_0 - Delta_1) and K = eps kappa sigma (docs/model.md, 'Adler pair',
  * valid for kappa sigma << g), so the predicted limit in Delta_0 with Delta_1 = 0 is
  * kappa sigma / omega.
  */
@@ -50,7 +50,7 @@ describe('locking range of a detuned pair', () => {
       expect(Math.abs(limit.parameter - sign * coupling)).toBeLessThan(0.02 * coupling);
       // Adler 1946: the edge is at psi = +-pi/2 (psi = arg a_0 - arg a_1 = -phaseDifferences[0])
       expect(Math.abs(Math.abs(limit.point.phaseDifferences[0]) - Math.PI / 2)).toBeLessThan(0.01);
-      // engineering units: ppm = Delta eps / 1e-6 (design section 2)
+      // engineering units: ppm = Delta eps / 1e-6 (README, 'Units')
       expect(limit.ppm).toBeCloseTo(deltaToPpm(limit.parameter, eps), 9);
     }
     // the kept branch is stable from fold to fold (marginal only next to the folds, where the

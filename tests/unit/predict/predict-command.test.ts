@@ -48,7 +48,7 @@ describe('syncring predict', () => {
     // pair-adler: Delta_1 = -0.005, kappa sigma = 0.02, omega = 1, eps = 1e-3
     expect(Math.abs(range.upper - (-0.005 + 0.02))).toBeLessThan(0.02 * 0.02);
     expect(Math.abs(range.lower - (-0.005 - 0.02))).toBeLessThan(0.02 * 0.02);
-    // ppm = Delta eps / 1e-6 (design section 2)
+    // ppm = Delta eps / 1e-6 (README, 'Units')
     expect(range.upperPpm).toBeCloseTo((range.upper * 1e-3) / 1e-6, 6);
     expect(result.continuation.limits.increasing.kind).toBe('fold');
     expect(result.continuation.branch.length).toBeGreaterThan(5);

@@ -17,10 +17,10 @@ describe('built-in scenarios', () => {
     expect(s.nodes).toBe(8);
     expect(s.modes).toHaveLength(2);
     expect(s.topology).toBe('ring-two-way');
-    expect(s.links).toHaveLength(16); // two links into each of 8 nodes (design.md section 2)
+    expect(s.links).toHaveLength(16); // two links into each of 8 nodes (docs/model.md, 'Reference model')
     expect(s.detuning).toHaveLength(8);
     expect(s.units.nominalFrequencyHz).toBe(10e6);
-    // hand arithmetic with the mapping of design.md section 2 and the Q definition (common practice):
+    // hand arithmetic with the mapping of README, 'Units', and the Q definition (common practice):
     expect(s.modes[0]!.omega).toBe(1); // 0 ppm
     expect(s.modes[0]!.loss).toBeCloseTo(0.25, 14); // 1 / (1e-5 * 4e5)
     expect(s.modes[1]!.omega).toBeCloseTo(1.0015, 15); // 1500 ppm above mode 0

@@ -56,7 +56,7 @@ describe('defaults', () => {
 
 describe('engineering-unit fields are mapped to the dimensionless model', () => {
   test('detuningPpm becomes Delta = ppm * 1e-6 / eps', () => {
-    // hand arithmetic: 2 ppm / 1e-5 = 0.2, -0.5 ppm / 1e-5 = -0.05 (design.md section 2)
+    // hand arithmetic: 2 ppm / 1e-5 = 0.2, -0.5 ppm / 1e-5 = -0.05 (README, 'Units')
     const s = parseScenario(minimal({ epsilon: 1e-5, detuningPpm: [2, -0.5, 0, 1] }));
     expect(s.detuning[0]).toBeCloseTo(0.2, 14);
     expect(s.detuning[1]).toBeCloseTo(-0.05, 14);

@@ -27,8 +27,8 @@ function errorOf(raw: unknown, source?: string): ScenarioError {
 
 type Case = [label: string, breakIt: (s: Record<string, any>) => unknown, path: string, reason: string];
 
-// The expected messages are the contract of this module (design.md section 7: "a clear error
-// naming what is wrong and where"); each was written by hand from the rule it enforces.
+// The expected messages are the contract of this module (DEVELOPERS.md, 'Conventions': bad input
+// gets an error naming what and where); each was written by hand from the rule it enforces.
 const cases: Case[] = [
   ['root is not an object', () => [1, 2], '', 'must be an object (got an array)'],
   ['nodes missing', (s) => { delete s.nodes; return s; }, 'nodes', 'is required'],

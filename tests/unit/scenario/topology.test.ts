@@ -13,7 +13,7 @@ function parseRing(topology: 'ring-one-way' | 'ring-two-way', nodes: number) {
 
 const pairs = (links: Link[]) => links.map((l) => `${l.from}->${l.to}`);
 
-/** Directed pairs straight from design.md section 2: A_{k,k-1} = 1 (and A_{k,k+1} = 1 two-way). */
+/** Directed pairs straight from docs/model.md, 'Reference model': A_{k,k-1} = 1 (A_{k,k+1} = 1 two-way). */
 function pairsFromDefinition(two: boolean, n: number): Set<string> {
   const set = new Set<string>();
   for (let k = 0; k < n; k++) {
@@ -24,7 +24,8 @@ function pairsFromDefinition(two: boolean, n: number): Set<string> {
 }
 
 describe('ring expansion into links', () => {
-  // Hand-written lists for the small rings (design.md section 2: an edge carries `from` into `to`).
+  // Hand-written lists for the small rings (docs/model.md, 'Reference model': a link carries
+  // `from` into `to`).
   test('one-way, N = 2', () => {
     const s = parseRing('ring-one-way', 2);
     expect(pairs(s.links)).toEqual(['1->0', '0->1']);

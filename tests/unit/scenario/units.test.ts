@@ -12,7 +12,7 @@ import {
 
 describe('worked numbers', () => {
   test('2 ppm at eps = 1e-5 is Delta = 0.2', () => {
-    // hand arithmetic from design.md section 2: Delta = delta / eps = 2e-6 / 1e-5
+    // hand arithmetic from docs/model.md, 'Reference model': Delta = delta / eps = 2e-6 / 1e-5
     expect(ppmToDelta(2, 1e-5)).toBeCloseTo(0.2, 14);
     expect(deltaToPpm(0.2, 1e-5)).toBeCloseTo(2, 12);
   });

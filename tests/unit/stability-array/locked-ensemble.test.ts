@@ -12,7 +12,7 @@ import { makeScenario } from '../../support/scenarios.js';
  * parts shows 1/sqrt(N) at every tau (averaging N independent white-FM phases; common practice).
  *
  * Ring: N = 4, two-way, dissipative coupling, no detuning, white noise on every node. Linearized
- * phase dynamics (design section 3 closed form): phi_k' = (eps/2) kappa sigma sum_l (phi_l - phi_k),
+ * phase dynamics (docs/model.md, 'Phase equations'): phi_k' = (eps/2) kappa sigma sum_l (phi_l - phi_k),
  * so the slowest relative mode relaxes at eps kappa sigma (Laplacian eigenvalue 2 of the 4-ring):
  * the locking time constant is T_c = 1 / (eps kappa sigma) = 100 tau here.
  * The uncoupled twin has coupling 0 and the same seed, so it sees the same noise increments.

@@ -1,6 +1,6 @@
 /**
- * The small 9-point "NBS" set of NIST SP 1065 (fractional frequency, tau0 = 1), values from
- * /work/shared/references.md, "Frequency stability".
+ * The small 9-point "NBS" set of NIST SP 1065 (fractional frequency, tau0 = 1); the values and
+ * which of them are published are listed in docs/model.md, 'Reference values'.
  */
 import { describe, expect, it } from 'vitest';
 import { adev, oadev } from '../../../src/stability/index.js';
@@ -18,7 +18,7 @@ describe('NBS 9-point set', () => {
 
   it('has overlapping ADEV(2) = 85.95287', () => {
     const o = oadev(nbs, 1, 2, asFrequency);
-    expect(sevenDigits(o.deviation)).toBe(85.95287); // references.md, computed from the SP 1065 formula
+    expect(sevenDigits(o.deviation)).toBe(85.95287); // computed from the SP 1065 formula, not published
     expect(o.n).toBe(10 - 4); // 10 phase points, N - 2m terms
   });
 

@@ -1,7 +1,7 @@
 /**
  * The 1000-point validation set of NIST SP 1065 (W. J. Riley, Handbook of Frequency Stability
- * Analysis, 2008), treated as fractional frequency with tau0 = 1. The values below are those of
- * /work/shared/references.md, "Frequency stability".
+ * Analysis, 2008), treated as fractional frequency with tau0 = 1. The values below, and which of
+ * them are published, are listed in docs/model.md, 'Reference values'.
  */
 import { describe, expect, it } from 'vitest';
 import {
@@ -68,7 +68,7 @@ describe('NIST SP 1065 1000-point set, fractional frequency, tau0 = 1', () => {
   }
 
   it('matches the TDEV row within 1e-3 (row is from memory) and tau/sqrt(3) x published MDEV to 7 digits', () => {
-    // TDEV row of references.md: marked "from memory of the published table", so only 1e-3.
+    // TDEV row: the published table as recalled from memory, so only 1e-3.
     const fromMemory = [
       { m: 1, tdev: 0.1687202 },
       { m: 10, tdev: 0.3563623 },
@@ -86,7 +86,7 @@ describe('NIST SP 1065 1000-point set, fractional frequency, tau0 = 1', () => {
   });
 
   it('matches the HDEV row within 1e-3 (from memory): that row is the non-overlapping Hadamard deviation', () => {
-    // HDEV row of references.md, "from memory of the published table": tested with 1e-3 only.
+    // HDEV row: the published table as recalled from memory, tested with 1e-3 only.
     // Its m = 10 and m = 100 entries are reproduced by the non-overlapping estimator.
     const fromMemory = [
       { m: 1, hdev: 0.2943883 },
@@ -101,9 +101,9 @@ describe('NIST SP 1065 1000-point set, fractional frequency, tau0 = 1', () => {
   });
 
   it('gives the overlapping Hadamard deviation within 1e-3 of the published "Overlapping Hadamard" row (from memory)', () => {
-    // m = 1: overlapping and non-overlapping coincide, so the references.md value 0.2943883 applies.
+    // m = 1: overlapping and non-overlapping coincide, so the HDEV value 0.2943883 above applies.
     // m = 10, 100: the SP 1065 "Overlapping Hadamard" entries as this engineer remembers them
-    // (from memory, not in references.md): 0.09581083 and 0.03237638.
+    // (from memory, no second source): 0.09581083 and 0.03237638.
     const fromMemory = [
       { m: 1, hdev: 0.2943883 },
       { m: 10, hdev: 0.09581083 },

@@ -127,7 +127,8 @@ describe('linear frequency drift', () => {
   const y = Float64Array.from({ length: 4000 }, (_, i) => drift * i * tau0);
 
   it('gives ADEV = D tau / sqrt 2, overlapping or not', () => {
-    // references.md: sigma_y(tau) = D tau / sqrt 2 (follows from the definition).
+    // sigma_y(tau) = D tau / sqrt 2: averages over tau differ by D tau, so AVAR = (D tau)^2 / 2
+    // (follows from the definition; docs/model.md, 'Reference values').
     for (const m of [1, 7, 100, 1000]) {
       const expected = (drift * m * tau0) / Math.SQRT2;
       expect(adev(y, tau0, m, asFrequency).deviation / expected).toBeCloseTo(1, 9);

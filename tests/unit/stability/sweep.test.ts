@@ -15,7 +15,7 @@ import {
   type StabilityMetric,
 } from '../../../src/stability/index.js';
 
-/** NIST SP 1065 1000-point set (generator in references.md). */
+/** NIST SP 1065 1000-point set (generator in docs/model.md, 'Reference values'). */
 function nistSeries(count: number): Float64Array {
   const values = new Float64Array(count);
   let n = 1234567890;

@@ -252,7 +252,10 @@ export class RingView extends LitElement {
   }
 }
 
-/** The wanted mode's free-running amplitude 2 sqrt(1 - d/g) (design section 3 with M = 1); 2 when unknown. */
+/**
+ * The wanted mode's free-running amplitude 2 sqrt(1 - d/g) (docs/model.md, 'Closed form for M = 1');
+ * 2 when unknown.
+ */
 function freeRunningAmplitude(session: SessionInfo): number {
   const modes = (session.scenario as { modes?: { gain?: number; loss?: number }[] } | null)?.modes;
   const g = modes?.[0]?.gain;
