@@ -225,7 +225,7 @@ class SoakRunner {
     this.checkpointTicks =
       point?.header.soak.checkpointTicks ??
       Math.max(1, options.checkpointEvery ? Math.round(options.checkpointEvery / macroStep) : Math.max(50, Math.ceil(totalTicks / 64)));
-    this.faults = new CampaignRun(campaign, params, until, this.session.lockTolerance, this.base);
+    this.faults = new CampaignRun(campaign, params, until, this.session.lock, this.base);
     this.recorder = new PhaseRecorder(campaign.stability.from, this.stride, macroStep, withTwin);
     this.samples = point?.samples ?? [];
     this.verdicts = point?.verdicts ?? [];

@@ -1,4 +1,5 @@
 import type { ModelParameters } from '../model/parameters.js';
+import type { LockSettings } from '../observe/lock-detector.js';
 import type { Perturbation } from '../session/perturbation.js';
 import { FaultGenerator, type GeneratorState } from './generator.js';
 import { applyToView, appliesToUncoupled, previousValuesOf, viewOf } from './restore.js';
@@ -58,9 +59,9 @@ export class CampaignRun {
   /**
    * @param params the live parameters of the session (read for "previous" restore values)
    * @param until end of the soak (tau); random faults whose window would pass it are not drawn
-   * @param lockTolerance the session's lock tolerance (rad), for the settling times
+   * @param lock the session's lock detector settings: settling is judged with them
    */
-  constructor(readonly campaign: Campaign, private readonly params: ModelParameters, readonly until: number, readonly lockTolerance: number, readonly base: TimeBase) {
+  constructor(readonly campaign: Campaign, private readonly params: ModelParameters, readonly until: number, readonly lock: LockSettings, readonly base: TimeBase) {
     this.generator = campaign.random ? new FaultGenerator(campaign.random, params, until) : null;
     this.pendingRandom = this.generator?.next() ?? null;
   }
@@ -105,7 +106,7 @@ export class CampaignRun {
       const p = plan.perturbation;
       const restore = plan.restore === 'previous' ? previousValuesOf(p, view, this.params) : plan.restore === 'none' ? null : plan.restore;
       applyToView(p, view, this.params);
-      const evaluation = FaultEvaluation.begin(plan, tau, restore, this.lastView, this.lockTolerance);
+      const evaluation = FaultEvaluation.begin(plan, tau, restore, this.lastView, this.lock);
       // faults applied at the same tick are judged together: their effects cannot be told apart
       for (const other of this.open) {
         other.state.overlaps.push(plan.id);

@@ -2,6 +2,7 @@ import type { Perturbation } from '../session/perturbation.js';
 import { distanceTo, finalShift, lost, observeTrack, persisted, settledAfter, settledInBaseline, startTrack, type SystemTrackState } from './system-track.js';
 import type { SystemView, TickView } from './tick-view.js';
 import type { Criteria, FaultPlan } from './types.js';
+import type { LockSettings } from '../observe/lock-detector.js';
 
 /** A duration in the three time bases a reader may want. */
 export interface Span {
@@ -96,6 +97,11 @@ export interface EvaluationState {
   windowEnd: number;
   /** Lock tolerance of the detector (rad), for the settling time. */
   lockTolerance: number;
+  /**
+   * The detector's window (tau): a ring counts as settled only once a whole window has passed
+   * since the fault's latest perturbation (application or restore). Absent in older checkpoints.
+   */
+  lockWindow?: number;
   lastTau: number;
   full: SystemTrackState;
   guide: SystemTrackState;
@@ -117,7 +123,7 @@ export class FaultEvaluation {
   constructor(readonly state: EvaluationState) {}
 
   /** Start evaluating `plan`, applied at `appliedAt`; `before` is the last tick before it (null at the very start). */
-  static begin(plan: FaultPlan, appliedAt: number, restore: Perturbation | null, before: TickView | null, lockTolerance: number): FaultEvaluation {
+  static begin(plan: FaultPlan, appliedAt: number, restore: Perturbation | null, before: TickView | null, lock: LockSettings): FaultEvaluation {
     const restoreAt = plan.duration !== null ? appliedAt + plan.duration : null;
     const nothing: SystemView = { label: 'unlocked', status: 'unlocked', mode: 0, phaseDifferences: [], pairDifferences: [], watched: [], slips: 0 };
     return new FaultEvaluation({
@@ -127,7 +133,8 @@ export class FaultEvaluation {
       restoreAt,
       restoredAt: null,
       windowEnd: (restoreAt ?? appliedAt) + plan.criteria.relockWithin,
-      lockTolerance,
+      lockTolerance: lock.tolerance,
+      lockWindow: lock.window,
       lastTau: appliedAt,
       full: startTrack(before?.full ?? nothing),
       guide: startTrack(before?.guide ?? nothing),
@@ -181,9 +188,11 @@ export class FaultEvaluation {
     const s = this.state;
     const c: Criteria = s.plan.criteria;
     const track = s.full;
-    const fullPersisted = persisted(track);
     const wasLost = lost(track);
-    const settled = settledInBaseline(track);
+    // settled means the detector's window, all of it after the latest perturbation, saw no motion
+    const windowSeen = s.lastTau - (s.restoredAt ?? s.appliedAt) >= (s.lockWindow ?? 0) * (1 - 1e-9);
+    const settled = windowSeen && settledInBaseline(track);
+    const fullPersisted = windowSeen && persisted(track);
     const reference = s.restoreAt === null ? s.appliedAt : s.restoredAt;
     const recovered = !wasLost || track.relockedAt !== null;
     const relockTau = wasLost && track.relockedAt !== null && reference !== null ? Math.max(0, track.relockedAt - reference) : null;
@@ -222,7 +231,7 @@ export class FaultEvaluation {
     }
     // whether the pattern persisted is known once it was lost or has settled
     const decided = wasLost || settled;
-    const guidePersisted = persisted(s.guide);
+    const guidePersisted = windowSeen && persisted(s.guide);
     const prediction: FaultVerdict['prediction'] =
       s.predictedDuring !== null
         ? { source: 'frame', persists: s.predictedDuring.persists, agreed: decided ? s.predictedDuring.persists === fullPersisted : null, message: s.predictedDuring.message }
@@ -238,7 +247,13 @@ export class FaultEvaluation {
     if (settled && fromContinued !== null && fromContinued > CONTINUED_NOTE) notes.push(`settled ${fromContinued.toFixed(2)} rad from the predicted continued state`);
     const outcome: VerdictOutcome = reasons.length > 0 ? 'fail' : open ? 'incomplete' : 'pass';
     if (outcome === 'incomplete') {
-      const why = wasLost ? 'the re-lock was still due' : settled ? 'the window had not closed' : `the ring was still ${track.finalStatus}`;
+      const why = wasLost
+        ? 'the re-lock was still due'
+        : settled
+          ? 'the window had not closed'
+          : !windowSeen
+            ? `less than a lock window had passed since the ${s.restoredAt === null ? 'fault' : 'restore'}`
+            : `the ring was still ${track.finalStatus}`;
       notes.push(`undecided when judging stopped: ${why}`);
     }
 

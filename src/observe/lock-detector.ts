@@ -45,6 +45,12 @@ export type LockStatus = 'unlocked' | 'settling' | 'locked';
 /** A lock is acquired only while every difference stays within a quarter turn over the window. */
 export const ACQUIRE_SPREAD = Math.PI / 2;
 
+/** What a lock detector was set up with: its tolerance (rad) and its window (tau). */
+export interface LockSettings {
+  tolerance: number;
+  window: number;
+}
+
 /** Why a ring counts as unlocked after having been locked. */
 export type UnlockCause = 'slip' | 'amplitude' | 'mode';
 

@@ -16,7 +16,7 @@ import { GuideModel } from '../predict/guide-model.js';
 import { LivePredictor, type LivePrediction, type LivePredictorState } from '../predict/live.js';
 import { applyPerturbation, describePerturbation, parsePerturbation, type Perturbation } from './perturbation.js';
 import { PatternTracker, patternIdentity, type PatternReport, type PatternTrackerState } from './pattern-tracker.js';
-import type { LockTransition } from '../observe/lock-detector.js';
+import type { LockSettings, LockTransition } from '../observe/lock-detector.js';
 import { CoupledPairs } from '../observe/coupled-pairs.js';
 import type { RandomState } from '../util/random.js';
 
@@ -150,8 +150,8 @@ export class CoSimulation {
   tick = 0;
   halted: string | null = null;
   group: Int32Array[];
-  /** Largest phase-difference excursion over the lock window that counts as settled (rad). */
-  readonly lockTolerance: number;
+  /** The lock detector's tolerance (rad) and window (tau), as the soak verdicts need them. */
+  readonly lock: LockSettings;
   /** The coupled pairs whose phase differences the lock detectors watch (updated after link and coupling faults). */
   readonly pairs: CoupledPairs;
 
@@ -180,7 +180,7 @@ export class CoSimulation {
     const window = options.lockWindow ?? defaultLockWindow(this.params);
     const windowTicks = eps > 0 ? Math.min(MAX_LOCK_WINDOW_TICKS, Math.max(2, Math.round(window / (eps * this.macroStep)))) : 10;
     const lockTolerance = options.lockTolerance ?? 0.05;
-    this.lockTolerance = lockTolerance;
+    this.lock = { tolerance: lockTolerance, window: windowTicks * this.macroStep };
     const symmetryTolerance = options.symmetryTolerance ?? 0.02;
     this.pairs = new CoupledPairs(this.params);
     this.fullTracker = new PatternTracker(this.params.nodes, this.params.modes, this.pairs, windowTicks, lockTolerance, symmetryTolerance);

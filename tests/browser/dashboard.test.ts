@@ -235,7 +235,8 @@ describe.runIf(available)('dashboard in Chromium', () => {
     await first.close();
     const banner = page.locator('[data-testid=banner]');
     await banner.waitFor({ timeout: 10_000 });
-    expect(await banner.textContent()).toMatch(/Disconnected from the live run/);
+    // the banner alternates between waiting (with the countdown) and a new attempt; the waits grow
+    await expect.poll(() => banner.textContent(), { timeout: 10_000, interval: 100 }).toMatch(/Disconnected from the live run/);
     expect(await textOf(page, '[data-testid=connection]')).toBe('offline');
     expect(await page.locator('sr-control-panel button:not([disabled])').count()).toBe(0);
     const second = await serve({ port, token: TOKEN, logDir: null, speed: 'max', quiet: true, scenario: 'ring-one-way-5' });

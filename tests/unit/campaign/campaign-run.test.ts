@@ -18,7 +18,7 @@ const scenario = makeScenario({
 function drive(raw: unknown, until: number) {
   const session = new CoSimulation(scenario);
   const campaign = parseCampaign(raw, scenario);
-  const run = new CampaignRun(campaign, session.params, until, 0.05, { epsilon: 0.01, secondsPerTau: 1e-7 });
+  const run = new CampaignRun(campaign, session.params, until, session.lock, { epsilon: 0.01, secondsPerTau: 1e-7 });
   const log: { tau: number; by: string; uncoupled: boolean }[] = [];
   const verdicts = [];
   while (session.tau < until) {
@@ -96,14 +96,14 @@ describe('a campaign run against a session', () => {
     const session = new CoSimulation(scenario);
     const campaign = parseCampaign(raw, scenario);
     const base = { epsilon: 0.01, secondsPerTau: 1e-7 };
-    let run = new CampaignRun(campaign, session.params, 1200, 0.05, base);
+    let run = new CampaignRun(campaign, session.params, 1200, session.lock, base);
     let resumed = session;
     const verdicts = [];
     while (resumed.tau < 1200) {
       if (resumed.tick === 60) {
         const saved = JSON.parse(JSON.stringify({ s: resumed.checkpoint(), r: run.save() }));
         resumed = CoSimulation.fromCheckpoint(scenario, saved.s);
-        run = new CampaignRun(campaign, resumed.params, 1200, 0.05, base);
+        run = new CampaignRun(campaign, resumed.params, 1200, resumed.lock, base);
         run.load(saved.r);
       }
       for (const q of run.beforeTick(resumed.tau)) resumed.enqueue(q.perturbation, q.by);

@@ -11,7 +11,8 @@ import { Random } from '../../../src/util/random.js';
  */
 const LOCKED = 'in-phase q=0 on mode 0';
 const base = { epsilon: 0.01, secondsPerTau: 1e-7 };
-const TOLERANCE = 0.05;
+/** The detector's tolerance (rad) and window (tau, five ticks). */
+const LOCK = { tolerance: 0.05, window: 5 };
 
 const criteria = { mustPersist: true, mustRelock: true, relockWithin: 30, maxPhaseExcursion: null, maxDivergence: null, predictionMustAgree: false };
 const plan = (extra: Partial<FaultPlan> = {}): FaultPlan => ({
@@ -50,7 +51,7 @@ const wrap = (x: number) => Math.atan2(Math.sin(x), Math.cos(x));
 
 /** Ticks tau = 11..end; restore at 20 as the runner does; finish at the window end (50) or at `end`. */
 function evaluate(p: FaultPlan, psi: (t: number) => number, detector: (t: number) => Detector = () => ({}), end = 50, extra: (t: number) => Partial<TickView> = () => ({}), before: Detector = {}): FaultVerdict {
-  const e = FaultEvaluation.begin(p, 10, { action: 'set-detuning', node: 0, delta: 0 }, view(9, psi(9), before), TOLERANCE);
+  const e = FaultEvaluation.begin(p, 10, { action: 'set-detuning', node: 0, delta: 0 }, view(9, psi(9), before), LOCK);
   for (let t = 11; t <= end; t++) {
     if (e.restoreDue(t - 1)) e.markRestored(t - 1);
     e.observe(view(t, wrap(psi(t)), detector(t), extra(t)));
@@ -169,9 +170,24 @@ describe('INCOMPLETE: judging stopped before the outcome was decided', () => {
   });
 });
 
+test('less than a lock window after the fault nothing counts as settled yet, however still the ring looks', () => {
+  // the detector says locked throughout and the phases never move; the fault was applied at 10
+  const early = evaluate(permanent, () => 0, () => ({}), 13);
+  expect(early.settled).toBe(false);
+  expect(early.persisted).toBe(false);
+  expect(early.outcome).toBe('incomplete');
+  expect(early.notes).toEqual(['undecided when judging stopped: less than a lock window had passed since the fault']);
+  const cut = FaultEvaluation.begin(permanent, 10, null, view(9, 0), LOCK);
+  for (let t = 11; t <= 13; t++) cut.observe(view(t, 0));
+  expect(cut.finish(false, base, undefined, { at: 14, by: 'next' }).outcome).toBe('incomplete');
+  const later = FaultEvaluation.begin(permanent, 10, null, view(9, 0), LOCK);
+  for (let t = 11; t <= 15; t++) later.observe(view(t, 0));
+  expect(later.finish(false, base, undefined, { at: 16, by: 'next' }).outcome).toBe('pass');
+});
+
 describe('each fault judged on its own effect', () => {
   const cut = (settledByThen: boolean) => {
-    const e = FaultEvaluation.begin(permanent, 10, null, view(9, 0), TOLERANCE);
+    const e = FaultEvaluation.begin(permanent, 10, null, view(9, 0), LOCK);
     for (let t = 11; t <= 30; t++) e.observe(view(t, t < 14 ? 0.1 * (t - 10) : 0.4, { status: settledByThen || t < 14 ? 'locked' : 'settling' }));
     return e.finish(false, base, undefined, { at: 31, by: 'later' });
   };
@@ -193,7 +209,7 @@ describe('each fault judged on its own effect', () => {
 
 describe('other criteria', () => {
   test('a ring that was not locked when the fault began fails with that reason', () => {
-    const e = FaultEvaluation.begin(plan(), 10, null, view(9, 0, { label: 'unlocked' }), TOLERANCE);
+    const e = FaultEvaluation.begin(plan(), 10, null, view(9, 0, { label: 'unlocked' }), LOCK);
     e.observe(view(11, 0));
     const v = e.finish(true, base);
     expect(v.before).toBe('unlocked');
@@ -232,7 +248,7 @@ describe('other criteria', () => {
 
 test('an evaluation survives a JSON round trip mid-window (checkpoints)', () => {
   const run = (split: boolean) => {
-    let e = FaultEvaluation.begin(plan(), 10, null, view(9, 0), TOLERANCE);
+    let e = FaultEvaluation.begin(plan(), 10, null, view(9, 0), LOCK);
     for (let t = 11; t <= 50; t++) {
       if (split && t === 23) e = new FaultEvaluation(JSON.parse(JSON.stringify(e.state)));
       if (e.restoreDue(t - 1)) e.markRestored(t - 1);

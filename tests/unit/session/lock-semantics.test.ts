@@ -33,7 +33,7 @@ function run(scenario: Scenario, faults: unknown[], untilSlow: number, criteria:
   const session = new CoSimulation(scenario, { integrator: 'micro' });
   const campaign = parseCampaign({ timeUnit: 'slow', criteria, faults }, scenario);
   const until = untilSlow / scenario.epsilon;
-  const faultsRun = new CampaignRun(campaign, session.params, until, session.lockTolerance, { epsilon: scenario.epsilon, secondsPerTau: 1e-7 });
+  const faultsRun = new CampaignRun(campaign, session.params, until, session.lock, { epsilon: scenario.epsilon, secondsPerTau: 1e-7 });
   const frames: Frame[] = [];
   const events: SessionEvent[] = [];
   const verdicts: FaultVerdict[] = [];
