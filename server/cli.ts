@@ -91,7 +91,7 @@ export async function main(argv: string[]): Promise<number> {
         return 0;
       }
       case 'serve': {
-        const { serve } = await import('./main.js');
+        const { serve } = await import('./commands/serve.js');
         const parsed = parseArgs(rest, ['port', 'scenario', 'host', 'speed', 'soaks']);
         onlyFlags(parsed, ['port', 'scenario', 'host', 'speed', 'soaks']);
         const speed = parsed.flags.get('speed') === 'max' ? 'max' : numberFlag(parsed, 'speed');

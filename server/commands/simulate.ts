@@ -1,7 +1,7 @@
 import { CoSimulation, type Frame } from '../../src/session/session.js';
 import { INTEGRATOR_REQUESTS, type IntegratorRequest } from '../../src/envelope/choice.js';
 import { scenarioToJSON } from '../../src/scenario/parse.js';
-import { LOG_FORMAT_VERSION, sampleOf } from '../../src/protocol/log-records.js';
+import { logHeader, sampleOf } from '../../src/protocol/log-records.js';
 import { runSummaryOf } from '../../src/protocol/run-summary.js';
 import { NdjsonFile } from '../log/ndjson-file.js';
 import { Progress } from '../progress.js';
@@ -36,15 +36,7 @@ export function simulate(args: SimulateArgs): Record<string, unknown> {
   const events: Frame['events'] = [];
   const started = Date.now();
   const progress = new Progress('simulate', args.until);
-  log?.append({
-    record: 'header',
-    format: 'syncring-log',
-    formatVersion: LOG_FORMAT_VERSION,
-    software: { name: 'syncring', version: SOFTWARE_VERSION },
-    createdAt: new Date().toISOString(),
-    scenario: scenarioToJSON(scenario),
-    seeds: { noise: scenario.noise.seed, initial: 'random' in scenario.initial ? scenario.initial.random.seed : null },
-  });
+  log?.append(logHeader(scenario, scenarioToJSON(scenario), SOFTWARE_VERSION));
   const last = session.runUntil(args.until, (frame) => {
     for (const event of frame.events) {
       events.push(event);

@@ -25,13 +25,12 @@ export const WEB_ROOT = fileURLToPath(
  *   GET /api/catalogue, /api/what-if   prediction on the live parameters (prediction-api.ts)
  *   GET /api/soaks, /soaks/NAME/report.html   soak folders (soak-api.ts)
  *   GET /api/campaigns, POST /api/soaks[/NAME/stop|resume]   starting soaks (soak-control.ts)
- * `closeBackground(app)` stops the worker threads behind the slow endpoints.
+ * It returns the app with `close`, which stops the worker threads behind the slow endpoints.
  */
-export function createApp(live: LiveSession, viewers: () => number, options: { soaksDir?: string; control?: SoakControlOptions } = {}): Express {
+export function createApp(live: LiveSession, viewers: () => number, options: { soaksDir?: string; control?: SoakControlOptions } = {}): { app: Express; close(): Promise<void> } {
   const app = express();
   app.disable('x-powered-by');
   const background: { close(): Promise<void> }[] = [];
-  app.locals.closeBackground = () => Promise.all(background.map((b) => b.close()));
   app.get('/api/health', (_req, res) => {
     res.json({ ok: true });
   });
@@ -70,10 +69,10 @@ export function createApp(live: LiveSession, viewers: () => number, options: { s
   app.use((error: Error, _req: Request, res: Response, _next: NextFunction) => {
     res.status(500).json({ error: error.message });
   });
-  return app;
-}
-
-/** Stop the worker threads of the prediction and report endpoints (the server is closing). */
-export async function closeBackground(app: Express): Promise<void> {
-  await (app.locals.closeBackground as (() => Promise<unknown>) | undefined)?.();
+  return {
+    app,
+    close: async () => {
+      await Promise.all(background.map((b) => b.close()));
+    },
+  };
 }

@@ -1,21 +1,16 @@
-import { spawn, type ChildProcess } from 'node:child_process';
-import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readdirSync } from 'node:fs';
-import { join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import express, { Router, type NextFunction, type Request, type Response } from 'express';
-import { parseCampaign } from '../../src/campaign/index.js';
 import { scenarioToJSON } from '../../src/scenario/parse.js';
-import type { Scenario } from '../../src/scenario/types.js';
-import { builtInCampaignNames, builtInCampaignRaw, builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
+import { builtInCampaignNames, builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
 import { describeValue, fieldChecks, has, type JsonObject } from '../../src/util/json-fields.js';
 import type { LiveSession } from '../live/live-session.js';
-import { STATUS_FILE, SUMMARY_FILE, writeJsonAtomically } from '../soak/outputs.js';
+import { LaunchError, SoakLauncher, campaignProblem, type LaunchRefusal, type LaunchRequest } from '../soak/launcher.js';
+import { SAFE_NAME } from '../soak/soak-folder.js';
 import { checkUpgrade, type OriginPolicy } from '../ws/origin.js';
-import { SAFE_NAME, START_FILE, processAlive, stateOf, type StartRecord } from './soak-api.js';
 import { sameToken } from '../operator-token.js';
 
 /**
- * Starting, stopping and resuming soaks from the dashboard (the listing is soak-api.ts):
+ * Starting, stopping and resuming soaks from the dashboard (the listing is soak-api.ts): thin
+ * handlers over a SoakLauncher (server/soak/launcher.ts), which does the work.
  *   GET  /api/campaigns            the built-in campaigns with their titles and the built-in
  *                                  scenarios each one fits
  *   POST /api/soaks                { name, scenario?, campaign, until (slow units), pace? }:
@@ -25,10 +20,6 @@ import { sameToken } from '../operator-token.js';
  * The POSTs change things: they need the operator token (`Authorization: Bearer TOKEN`) and
  * pass the same Host/Origin check as the WebSocket upgrade (ws/origin.ts), so no other site
  * can make a browser start soaks. Viewers can still list.
- *
- * A started soak is its own process group with its output in SOAKS/NAME/soak.out and soak.err,
- * so it outlives the server; START_FILE in its folder keeps its arguments (for resume) and its
- * pid (so a stop only ever signals a process this server started).
  */
 
 export interface SoakControlOptions {
@@ -41,15 +32,11 @@ export interface SoakControlOptions {
   maxRunning?: number;
 }
 
-export const DEFAULT_MAX_RUNNING = 2;
 /** A soak request is a handful of short fields. */
 const BODY_LIMIT = '2kb';
 const NAME_MAX = 80;
-/** How long a stop waits for the process to end before it answers. */
-const STOP_WAIT_MS = 3000;
 
-/** The `syncring` command of this checkout: bin/ beside server/ (sources) or beside dist/ (compiled). */
-const BIN = fileURLToPath(new URL(import.meta.url.endsWith('.ts') ? '../../bin/syncring.js' : '../../../bin/syncring.js', import.meta.url));
+const STATUS_OF: Record<LaunchRefusal, number> = { invalid: 400, 'not-found': 404, conflict: 409, busy: 429, failed: 500 };
 
 /** A request refused with its HTTP status and a message naming what is wrong. */
 class ControlError extends Error {
@@ -62,31 +49,10 @@ const checks = fieldChecks((path, reason) => {
   throw new ControlError(400, `${path}: ${reason}`);
 });
 
-interface StartRequest {
-  name: string;
-  scenario: string;
-  campaign: string;
-  untilSlow: number;
-  pace: number | null;
-}
-
 export function registerSoakControl(app: express.Express, soaksDir: string, live: LiveSession, options: SoakControlOptions): void {
-  const root = resolve(soaksDir);
-  const maxRunning = options.maxRunning ?? DEFAULT_MAX_RUNNING;
-  /** Processes started by this server instance: their exit is known at once (no zombie to poll). */
-  const children = new Map<number, ChildProcess>();
-  const campaigns = builtInCampaignNames.map((name) => {
-    const raw = builtInCampaignRaw(name) as { name?: unknown; description?: unknown };
-    return {
-      name,
-      title: typeof raw.name === 'string' ? raw.name : name,
-      description: typeof raw.description === 'string' ? raw.description : '',
-      scenarios: builtInScenarioNames.filter((scenario) => campaignProblem(name, loadBuiltInScenario(scenario)) === null),
-    };
-  });
-
+  const launcher = new SoakLauncher(soaksDir, options.maxRunning);
   app.get('/api/campaigns', (_req, res) => {
-    res.json(campaigns);
+    res.json(launcher.campaigns);
   });
 
   const router = Router();
@@ -99,124 +65,22 @@ export function registerSoakControl(app: express.Express, soaksDir: string, live
     next();
   };
   const body = express.json({ limit: BODY_LIMIT, strict: true });
-  const launch = (dir: string, record: StartRecord, resume: boolean): number => {
-    const args = [BIN, ...record.args, ...(record.pace !== null ? ['--pace', String(record.pace)] : []), ...(resume ? ['--resume'] : [])];
-    const out = openSync(join(dir, 'soak.out'), 'a');
-    const err = openSync(join(dir, 'soak.err'), 'a');
-    let child: ChildProcess;
-    try {
-      const env = { ...process.env };
-      delete env.SYNCRING_TOKEN;
-      // cwd: the soak's own folder, where no file can shadow a built-in scenario or campaign name
-      child = spawn(process.execPath, args, { cwd: dir, detached: true, stdio: ['ignore', out, err], env });
-    } finally {
-      closeSync(out);
-      closeSync(err);
-    }
-    const pid = child.pid;
-    if (pid === undefined) throw new ControlError(500, `could not start node ${args.join(' ')}`);
-    children.set(pid, child);
-    child.once('exit', () => children.delete(pid));
-    child.once('error', () => children.delete(pid));
-    child.unref();
-    const runs = [...(record.runs ?? []), { pid, at: new Date().toISOString(), resume, pace: record.pace }];
-    writeJsonAtomically(dir, START_FILE, { ...record, pid, runs });
-    return pid;
-  };
-  /** Soaks started from the dashboard whose process is up (also those of an earlier server on this folder). */
-  const running = (): string[] =>
-    existsSync(root)
-      ? readdirSync(root, { withFileTypes: true })
-          .filter((d) => d.isDirectory() && SAFE_NAME.test(d.name))
-          .filter((d) => {
-            const start = readStart(join(root, d.name));
-            return start !== null && ours(start);
-          })
-          .map((d) => d.name)
-      : [];
-  const roomForOneMore = () => {
-    const now = running();
-    if (now.length >= maxRunning) {
-      throw new ControlError(429, `${now.length} soaks started here are running (${now.join(', ')}); at most ${maxRunning} run at once on this machine: stop one or wait for it to finish`);
-    }
-  };
 
   router.post('/api/soaks', guard, body, (req, res) => {
-    const request = startRequest(req.body, liveBuiltIn(live));
-    const dir = join(root, request.name);
-    if (existsSync(dir)) throw new ControlError(409, `name: a soak named ${JSON.stringify(request.name)} already exists in ${root}; choose another name`);
-    roomForOneMore();
-    const scenario = loadBuiltInScenario(request.scenario);
-    const until = Number((request.untilSlow / scenario.epsilon).toPrecision(15));
-    if (!Number.isFinite(until)) throw new ControlError(400, `until: ${request.untilSlow} slow time units is beyond the largest tau (epsilon ${scenario.epsilon})`);
-    mkdirSync(root, { recursive: true });
-    try {
-      mkdirSync(dir);
-    } catch (error) {
-      if ((error as NodeJS.ErrnoException).code === 'EEXIST') throw new ControlError(409, `name: a soak named ${JSON.stringify(request.name)} already exists in ${root}; choose another name`);
-      throw error;
-    }
-    const record: StartRecord = {
-      format: 'syncring-soak-start',
-      formatVersion: 1,
-      scenario: request.scenario,
-      campaign: request.campaign,
-      untilSlow: request.untilSlow,
-      until,
-      epsilon: scenario.epsilon,
-      pace: request.pace,
-      args: ['soak', request.scenario, '--campaign', request.campaign, '--until', String(until), '--out', dir],
-      pid: 0,
-      runs: [],
-    };
-    const pid = launch(dir, record, false);
-    res.status(202).json({ name: request.name, state: 'starting', pid, scenario: request.scenario, campaign: request.campaign, untilSlow: request.untilSlow, until, pace: request.pace, dir });
+    res.status(202).json(launcher.start(startRequest(req.body, liveBuiltIn(live))));
   });
-
   router.post('/api/soaks/:name/stop', guard, async (req, res) => {
-    const { dir, start } = startedHere(root, String(req.params.name), 'stopped');
-    const status = readJson(join(dir, STATUS_FILE));
-    const state = stateOf(status, readJson(join(dir, SUMMARY_FILE)), start);
-    if (state !== 'running' && state !== 'starting') throw new ControlError(409, `${req.params.name} is not running (it is ${state}); nothing to stop`);
-    const pid = start.pid;
-    const written = status && typeof status.pid === 'number' ? status.pid : null;
-    if (state === 'running' && written !== pid) throw new ControlError(409, `${STATUS_FILE} of ${req.params.name} names pid ${written}, not the process this server started (${pid}); stop it where it runs`);
-    if (!ours(start)) throw new ControlError(409, `pid ${pid} is not the soak process of ${req.params.name} any more; nothing to stop`);
-    // The soak is a process group of its own (detached): the signal reaches all of it.
-    process.kill(-pid, 'SIGTERM');
-    let signal: NodeJS.Signals = 'SIGTERM';
-    if (!(await exited(pid, children.get(pid), STOP_WAIT_MS))) {
-      process.kill(-pid, 'SIGKILL');
-      signal = 'SIGKILL';
-      await exited(pid, children.get(pid), STOP_WAIT_MS);
-    }
-    res.json({
-      name: req.params.name,
-      pid,
-      signal,
-      state: 'interrupted',
-      resumable: true,
-      note:
-        'the soak runner does not catch SIGTERM, so it ended at once, as after a kill: its log is crash-safe, and a resume continues from its last checkpoint and rewrites the records after it',
-    });
+    res.json(await launcher.stop(String(req.params.name)));
   });
-
   router.post('/api/soaks/:name/resume', guard, body, (req, res) => {
-    const { dir, start } = startedHere(root, String(req.params.name), 'resumed');
-    const state = stateOf(readJson(join(dir, STATUS_FILE)), readJson(join(dir, SUMMARY_FILE)), start);
-    if (state !== 'interrupted' && !(state === 'unknown' && !processAlive(start.pid))) {
-      throw new ControlError(409, `${req.params.name} is ${state}: only an interrupted soak can be resumed`);
-    }
-    const pace = resumePace(req.body, start.pace);
-    roomForOneMore();
-    const pid = launch(dir, { ...start, pace }, true);
-    res.status(202).json({ name: req.params.name, state: 'starting', pid, resume: true, pace });
+    res.status(202).json(launcher.resume(String(req.params.name), resumePace(req.body)));
   });
 
   router.use((error: unknown, _req: Request, res: Response, next: NextFunction) => {
     if (res.headersSent) return next(error);
     const e = error as { status?: number; type?: string; message?: string };
     if (error instanceof ControlError) res.status(error.status).json({ error: error.message });
+    else if (error instanceof LaunchError) res.status(STATUS_OF[error.kind]).json({ error: error.message });
     else if (e.type === 'entity.parse.failed') res.status(400).json({ error: `body: not valid JSON (${e.message})` });
     else if (e.type === 'entity.too.large') res.status(413).json({ error: `body: larger than ${BODY_LIMIT}; a soak request is a few short fields` });
     else if (typeof e.status === 'number' && e.status >= 400 && e.status < 500) res.status(e.status).json({ error: `body: ${e.message}` });
@@ -226,7 +90,7 @@ export function registerSoakControl(app: express.Express, soaksDir: string, live
 }
 
 /** The fields of POST /api/soaks, each checked; `fallbackScenario` stands in for a missing scenario. */
-function startRequest(body: unknown, fallbackScenario: string | null): StartRequest {
+function startRequest(body: unknown, fallbackScenario: string | null): LaunchRequest {
   if (body === undefined) throw new ControlError(400, 'body: send the soak as a JSON object with Content-Type: application/json');
   const obj = checks.expectObject(body, 'body', ['name', 'scenario', 'campaign', 'until', 'pace']);
   const name = checks.required(obj, 'name', '');
@@ -252,33 +116,23 @@ function startRequest(body: unknown, fallbackScenario: string | null): StartRequ
   if (typeof until !== 'number' || !Number.isFinite(until) || !(until > 0)) {
     throw new ControlError(400, `until: must be a positive number of slow time units (got ${describeValue(until)})`);
   }
-  return { name, scenario, campaign, untilSlow: until, pace: paceField(obj, null) };
+  return { name, scenario, campaign, untilSlow: until, pace: paceField(obj) ?? null };
 }
 
-/** The optional body of a resume: { pace } (a number, or null for as fast as possible); absent: the pace it was started with. */
-function resumePace(body: unknown, started: number | null): number | null {
-  if (body === undefined) return started;
-  return paceField(checks.expectObject(body, 'body', ['pace']), started);
+/** The optional body of a resume: { pace } (a number, or null for as fast as possible); undefined: the pace it was started with. */
+function resumePace(body: unknown): number | null | undefined {
+  if (body === undefined) return undefined;
+  return paceField(checks.expectObject(body, 'body', ['pace']));
 }
 
-function paceField(obj: JsonObject, fallback: number | null): number | null {
-  if (!Object.prototype.hasOwnProperty.call(obj, 'pace')) return fallback;
+function paceField(obj: JsonObject): number | null | undefined {
+  if (!Object.prototype.hasOwnProperty.call(obj, 'pace')) return undefined;
   const pace = obj.pace;
   if (pace === null) return null;
   if (typeof pace !== 'number' || !Number.isFinite(pace) || !(pace > 0)) {
     throw new ControlError(400, `pace: must be a positive number of slow time units per second, or null for as fast as possible (got ${describeValue(pace)})`);
   }
   return pace;
-}
-
-/** Why the built-in campaign cannot run on the scenario (a node or link it names is missing...), or null. */
-function campaignProblem(campaign: string, scenario: Scenario): string | null {
-  try {
-    parseCampaign(builtInCampaignRaw(campaign), scenario, `built-in campaign ${campaign}`);
-    return null;
-  } catch (error) {
-    return (error as Error).message;
-  }
 }
 
 /** The built-in scenario the live session runs (as loaded), or null when it runs another one. */
@@ -290,62 +144,4 @@ function liveBuiltIn(live: LiveSession): string | null {
     return null;
   }
   return builtInScenarioNames.find((name) => JSON.stringify(scenarioToJSON(loadBuiltInScenario(name))) === running) ?? null;
-}
-
-/** The folder and START_FILE of a soak started from the dashboard, or the error to answer with. */
-function startedHere(root: string, name: string, verb: string): { dir: string; start: StartRecord } {
-  const dir = join(root, name);
-  if (!SAFE_NAME.test(name) || !existsSync(dir)) throw new ControlError(404, `no soak named ${JSON.stringify(name)} in ${root}`);
-  const start = readStart(dir);
-  if (!start) throw new ControlError(409, `${name} was not started from the dashboard (no ${START_FILE}); it can only be ${verb} where it was started`);
-  return { dir, start };
-}
-
-function readStart(dir: string): StartRecord | null {
-  const start = readJson(join(dir, START_FILE)) as unknown as StartRecord | null;
-  return start && start.format === 'syncring-soak-start' && Number.isInteger(start.pid) && start.pid > 0 && Array.isArray(start.args) ? start : null;
-}
-
-function readJson(path: string): Record<string, unknown> | null {
-  try {
-    const value: unknown = JSON.parse(readFileSync(path, 'utf8'));
-    return value !== null && typeof value === 'object' && !Array.isArray(value) ? (value as Record<string, unknown>) : null;
-  } catch {
-    return null;
-  }
-}
-
-/**
- * Whether the newest process of a dashboard-started soak is up and still that soak: where /proc
- * exists its command line must be `syncring soak ... --out` its folder, so a pid reused by
- * another program after the soak ended is never signalled (nor counted as running).
- */
-function ours(start: StartRecord): boolean {
-  const pid = start.pid;
-  const out = start.args[start.args.indexOf('--out') + 1];
-  if (!processAlive(pid)) return false;
-  let cmdline: string;
-  try {
-    cmdline = readFileSync(`/proc/${pid}/cmdline`, 'utf8');
-  } catch {
-    return !existsSync('/proc/self/cmdline');
-  }
-  const words = cmdline.split('\0');
-  return words.includes(BIN) && words.includes('soak') && out !== undefined && words.includes(out);
-}
-
-/** Resolves true once the process has ended (its exit event, or polling when another server started it). */
-async function exited(pid: number, child: ChildProcess | undefined, ms: number): Promise<boolean> {
-  const deadline = Date.now() + ms;
-  if (child && child.exitCode === null && child.signalCode === null) {
-    await new Promise<void>((done) => {
-      const timer = setTimeout(done, ms);
-      child.once('exit', () => {
-        clearTimeout(timer);
-        done();
-      });
-    });
-  }
-  while (processAlive(pid) && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));
-  return !processAlive(pid);
 }

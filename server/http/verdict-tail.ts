@@ -2,7 +2,7 @@ import { open, stat } from 'node:fs/promises';
 import type { FaultVerdict } from '../../src/campaign/index.js';
 import { listSegments } from '../log/segments.js';
 import { soakLogDir } from '../soak/resume.js';
-import { SEGMENT_PREFIX } from '../soak/soak-records.js';
+import { SEGMENT_PREFIX } from '../../src/protocol/soak-files.js';
 
 const VERDICT_LINE = '{"record":"verdict"';
 

@@ -6,7 +6,7 @@ import { scenarioToJSON } from '../../src/scenario/parse.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import type { SessionCheckpoint, SessionEvent } from '../../src/session/session.js';
 import { DecimatingHistory } from '../../src/observe/decimating-history.js';
-import { LOG_FORMAT_VERSION } from '../../src/protocol/log-records.js';
+import { logHeader } from '../../src/protocol/log-records.js';
 import { ProtocolError, type ClientCommand, type HistoryPoint, type RunStatus, type SessionInfo, type Speed, type WireFrame } from '../../src/protocol/messages.js';
 import { SessionLog } from '../log/session-log.js';
 import { SOFTWARE_VERSION } from '../version.js';
@@ -181,15 +181,7 @@ export class LiveSession extends EventEmitter {
     if (!this.options.logDir || this.closed) return;
     this.log = new SessionLog(SessionLog.fileFor(this.options.logDir, label), (error) => this.emit('log-error', error));
     void this.log
-      .append({
-        record: 'header',
-        format: 'syncring-log',
-        formatVersion: LOG_FORMAT_VERSION,
-        software: { name: 'syncring', version: SOFTWARE_VERSION },
-        createdAt: new Date().toISOString(),
-        scenario: scenarioJson,
-        seeds: { noise: scenario.noise.seed, initial: 'random' in scenario.initial ? scenario.initial.random.seed : null },
-      })
+      .append(logHeader(scenario, scenarioJson, SOFTWARE_VERSION))
       .catch(() => undefined);
   }
 }

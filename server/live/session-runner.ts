@@ -5,7 +5,7 @@ import { deltaToPpm } from '../../src/scenario/units.js';
 import { builtInScenarioNames, builtInScenarioRaw } from '../../src/scenarios/index.js';
 import { ScenarioError } from '../../src/scenario/errors.js';
 import { PerturbationError, parsePerturbation } from '../../src/session/perturbation.js';
-import { sampleOf } from '../../src/protocol/log-records.js';
+import { sampleOf, type NewLogRecord } from '../../src/protocol/log-records.js';
 import { ProtocolError, historyPointOf, type ClientCommand, type HistoryPoint, type RunStatus, type SessionInfo, type Speed, type WireFrame } from '../../src/protocol/messages.js';
 
 /** What a runner reports; the same stream whether it runs in a worker or in the main thread. */
@@ -13,7 +13,7 @@ export type RunnerOutput =
   | { kind: 'frame'; frame: WireFrame; emittedAt: number }
   | { kind: 'event'; event: SessionEvent }
   | { kind: 'history'; points: HistoryPoint[] }
-  | { kind: 'log'; record: { record: string; [key: string]: unknown } }
+  | { kind: 'log'; record: NewLogRecord }
   | { kind: 'started'; scenario: unknown; label: string }
   | { kind: 'status'; info: SessionInfo; tau: number; tick: number };
 

@@ -1,4 +1,5 @@
 import { closeSync, fsyncSync, openSync, writeSync } from 'node:fs';
+import type { NewLogRecord } from '../../src/protocol/log-records.js';
 
 /**
  * A plain append-only NDJSON file for headless runs: one record per line, written in order,
@@ -13,7 +14,7 @@ export class NdjsonFile {
   }
 
   /** Append a record, stamping it with the next sequence number. */
-  append(record: { record: string; [key: string]: unknown }): number {
+  append(record: NewLogRecord): number {
     const seq = this.seq++;
     writeSync(this.fd, `${JSON.stringify({ ...record, seq })}\n`);
     return seq;

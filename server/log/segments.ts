@@ -15,11 +15,7 @@ import { closeSync, fsyncSync, mkdirSync, openSync, readdirSync, readFileSync, s
 import { open, type FileHandle } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { parseLog, type LogProblem } from '../../src/protocol/log-reader.js';
-
-export interface LogLine {
-  record: string;
-  [key: string]: unknown;
-}
+import type { LogRecord, NewLogRecord } from '../../src/protocol/log-records.js';
 
 export interface SegmentedLogOptions {
   /** File of segment `index` (0, 1, 2, ...). */
@@ -45,7 +41,8 @@ export function syncDirectory(dir: string): void {
   }
 }
 
-export class SegmentedLog {
+/** Writes records of type R (the log records of src/protocol unless a caller says otherwise). */
+export class SegmentedLog<R extends { record: string } = NewLogRecord> {
   private handle: FileHandle | null = null;
   private opening: Promise<void>;
   private queue: { line: string; resolve: () => void; reject: (error: Error) => void }[] = [];
@@ -84,7 +81,7 @@ export class SegmentedLog {
   }
 
   /** Queue a record; resolves with its sequence number once it is durable. */
-  append(record: LogLine): Promise<number> {
+  append(record: R): Promise<number> {
     if (this.failure) return Promise.reject(this.failure);
     const seq = this.seq++;
     const line = `${JSON.stringify({ ...record, seq })}\n`;
@@ -195,7 +192,7 @@ export interface SegmentProblem extends LogProblem {
 }
 
 export interface RecordAt {
-  record: LogLine & { seq: number };
+  record: LogRecord;
   /** Index of the segment it is in. */
   segment: number;
 }
@@ -251,13 +248,7 @@ export function readSegments(dir: string, prefix: string): SegmentedRead {
       if (isLast) result.tornTail = { path: file.path, bytes: Buffer.byteLength(text.slice(offset)) };
       else result.problems.push({ path: file.path, line: starts.length, offset: Buffer.byteLength(text.slice(0, offset)), reason: `segment ends in an unterminated line of ${parsed.tornTail} characters (only the last segment may)` });
     }
-    const ordered = [
-      ...(parsed.header ? [parsed.header] : []),
-      ...parsed.events,
-      ...parsed.samples,
-      ...parsed.checkpoints,
-      ...parsed.other,
-    ].sort((a, b) => a.seq - b.seq) as (LogLine & { seq: number })[];
+    const ordered = parsed.records;
     for (const record of ordered) result.records.push({ record, segment: file.index });
     if (ordered.length > 0) expected = ordered[ordered.length - 1].seq + 1;
     result.segments.push({

@@ -1,5 +1,6 @@
 import { join } from 'node:path';
-import { SegmentedLog, type LogLine } from './segments.js';
+import { SegmentedLog } from './segments.js';
+import type { NewLogRecord } from '../../src/protocol/log-records.js';
 
 /**
  * The live session's log: the crash-safe writer of segments.ts on a single file (no rotation).
@@ -32,7 +33,7 @@ export class SessionLog {
   }
 
   /** Queue a record; resolves with its sequence number once it is durable. */
-  append(record: LogLine): Promise<number> {
+  append(record: NewLogRecord): Promise<number> {
     return this.writer.append(record);
   }
 

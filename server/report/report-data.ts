@@ -3,18 +3,19 @@ import { join } from 'node:path';
 import { analyzeStability, type FaultVerdict, type PhaseSample, type StabilityReport } from '../../src/campaign/index.js';
 import { DEFAULT_NOMINAL_FREQUENCY_HZ, tauToSeconds } from '../../src/scenario/units.js';
 import { UsageError } from '../scenario-file.js';
-import { describeProblems, readSoakLog, type SoakHeaderRecord } from '../soak/resume.js';
-import { SUMMARY_FILE } from '../soak/outputs.js';
-import { stabilitySamples, type SampleLine } from '../soak/soak-records.js';
+import { describeProblems, readSoakLog, soakHeaderOf } from '../soak/resume.js';
+import type { SoakHeaderRecord } from '../../src/protocol/log-records.js';
+import { stabilitySamples, type SoakSampleRecord } from '../../src/protocol/soak-records.js';
+import { SUMMARY_FILE, readSoakSummary, type SoakSummary } from '../../src/protocol/soak-files.js';
 
 /** Everything the report shows, read from a soak folder (its log, and its summary once finished). */
 export interface ReportData {
   dir: string;
   header: SoakHeaderRecord;
   /** null while the soak runs or after a kill before its end. */
-  summary: Record<string, unknown> | null;
+  summary: SoakSummary | null;
   /** Trace points from the start of the run (stability phases null before the record starts). */
-  samples: SampleLine[];
+  samples: SoakSampleRecord[];
   /** The stability samples among them. */
   stabilitySamples: PhaseSample[];
   verdicts: FaultVerdict[];
@@ -35,28 +36,26 @@ export function loadReportData(dir: string): ReportData {
   if (!existsSync(dir)) throw new UsageError(`${dir}: no such folder`);
   const read = readSoakLog(dir);
   if (read.segments.length === 0) throw new UsageError(`${dir}: no soak log here (expected ${join(dir, 'log')}/soak-NNNNNN.ndjson)`);
-  const first = read.records[0]?.record;
-  if (!first || first.record !== 'header' || !('soak' in first)) throw new UsageError(`${dir}: the log does not start with a soak header`);
-  const header = first as unknown as SoakHeaderRecord;
+  const header = soakHeaderOf(read, `${dir}: the log`);
   const summaryPath = join(dir, SUMMARY_FILE);
-  const summary = existsSync(summaryPath) ? (JSON.parse(readFileSync(summaryPath, 'utf8')) as Record<string, unknown>) : null;
-  const samples: SampleLine[] = [];
+  const summary = existsSync(summaryPath) ? readSoakSummary(JSON.parse(readFileSync(summaryPath, 'utf8'))) : null;
+  const samples: SoakSampleRecord[] = [];
   const verdicts: FaultVerdict[] = [];
   let lastTau = 0;
   for (const { record } of read.records) {
-    if (record.record === 'soak-sample') samples.push(record as unknown as SampleLine);
-    else if (record.record === 'verdict') verdicts.push((record as unknown as { verdict: FaultVerdict }).verdict);
-    if (typeof record.tau === 'number') lastTau = Math.max(lastTau, record.tau);
+    if (record.record === 'soak-sample') samples.push(record);
+    else if (record.record === 'verdict') verdicts.push(record.verdict);
+    if ('tau' in record) lastTau = Math.max(lastTau, record.tau);
   }
   const scenario = header.scenario as { epsilon: number; nominalFrequencyHz?: number; modes: { omega: number }[] };
   const nominalFrequencyHz = scenario.nominalFrequencyHz ?? DEFAULT_NOMINAL_FREQUENCY_HZ;
   const campaign = header.soak.campaign as { name?: string; timeUnit?: string };
-  const timeBase = (summary?.timeBase ?? null) as { secondsPerTau: number; tauPerCampaignUnit: number } | null;
+  const timeBase = summary?.timeBase ?? null;
   const secondsPerTau = timeBase?.secondsPerTau ?? tauToSeconds(1, nominalFrequencyHz, scenario.modes[0].omega);
   const unit = campaign.timeUnit ?? 'tau';
   const tauPerUnit = timeBase?.tauPerCampaignUnit ?? (unit === 'slow' ? 1 / scenario.epsilon : unit === 'seconds' ? 1 / secondsPerTau : 1);
   const stability =
-    (summary?.stability as StabilityReport | null | undefined) ??
+    summary?.stability ??
     analyzeStability(stabilitySamples(samples), header.soak.stride * header.soak.macroStep * secondsPerTau, nominalFrequencyHz);
   return {
     dir,
@@ -64,7 +63,7 @@ export function loadReportData(dir: string): ReportData {
     summary,
     samples,
     stabilitySamples: stabilitySamples(samples),
-    verdicts: (summary?.verdicts as FaultVerdict[] | undefined) ?? verdicts,
+    verdicts: summary?.verdicts ?? verdicts,
     stability,
     epsilon: scenario.epsilon,
     secondsPerTau,

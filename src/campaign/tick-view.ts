@@ -71,31 +71,16 @@ export function tickViewOf(frame: Frame, pairs: CoupledPairs): TickView {
 }
 
 /**
- * A frame's own prediction for the current parameters, when frames carry one. Read defensively
- * (the live predictor is young): a `verdict` of "persists"/"marginal" (true) or "lost" (false),
- * else a boolean `locked` or `stable`, at the top or under `pattern`; anything else is none.
+ * A frame's own prediction for the current parameters: "persists" or "marginal" (the pattern
+ * holds, with where it settles) or "lost"; a prediction that could say neither (the guide was not
+ * locked, or the ring is above the live size limit) is none.
  */
 export function predictionOf(frame: Frame): PredictionView | null {
-  const prediction = (frame as unknown as { prediction?: unknown }).prediction;
-  if (prediction === null || typeof prediction !== 'object') return null;
-  const p = prediction as Record<string, unknown>;
-  const tau = typeof p.tau === 'number' ? p.tau : null;
-  const message = typeof p.message === 'string' ? p.message : null;
-  if (p.verdict === 'persists' || p.verdict === 'marginal') return { persists: true, tau, message, continued: continuedOf(p.pattern) };
-  if (p.verdict === 'lost') return { persists: false, tau, message, continued: null };
-  if (typeof p.verdict === 'string') return null;
-  for (const holder of [p, p.pattern]) {
-    if (holder === null || typeof holder !== 'object') continue;
-    const h = holder as Record<string, unknown>;
-    if (typeof h.locked === 'boolean') return { persists: h.locked, tau, message, continued: null };
-    if (typeof h.stable === 'boolean') return { persists: h.stable, tau, message, continued: null };
+  const p = frame.prediction;
+  if (p === null) return null;
+  if (p.verdict === 'persists' || p.verdict === 'marginal') {
+    return { persists: true, tau: p.tau, message: p.message, continued: p.pattern ? { mode: p.pattern.mode, phaseDifferences: p.pattern.phaseDifferences } : null };
   }
+  if (p.verdict === 'lost') return { persists: false, tau: p.tau, message: p.message, continued: null };
   return null;
-}
-
-function continuedOf(pattern: unknown): PredictionView['continued'] {
-  if (pattern === null || typeof pattern !== 'object') return null;
-  const { mode, phaseDifferences } = pattern as Record<string, unknown>;
-  if (typeof mode !== 'number' || !Array.isArray(phaseDifferences) || !phaseDifferences.every((d) => typeof d === 'number')) return null;
-  return { mode, phaseDifferences: phaseDifferences as number[] };
 }

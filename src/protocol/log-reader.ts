@@ -1,4 +1,4 @@
-import { LOG_FORMAT_VERSION, type CheckpointRecord, type EventRecord, type HeaderRecord, type SampleRecord } from './log-records.js';
+import { LOG_FORMAT_VERSION, asLogRecord, type CheckpointRecord, type EventRecord, type HeaderRecord, type LogRecord, type SampleRecord } from './log-records.js';
 
 /**
  * Reads a session log (NDJSON text) back. A record counts only when its line ends with a
@@ -13,12 +13,12 @@ export interface LogProblem {
 }
 
 export interface ParsedLog {
+  /** Every readable record, in order. */
+  records: LogRecord[];
   header: HeaderRecord | null;
   events: EventRecord[];
   samples: SampleRecord[];
   checkpoints: CheckpointRecord[];
-  /** Other record kinds (verdicts, summaries) in order. */
-  other: { record: string; seq: number; [key: string]: unknown }[];
   /** Characters of an unterminated last line that were ignored (0 if none). */
   tornTail: number;
   problems: LogProblem[];
@@ -27,7 +27,7 @@ export interface ParsedLog {
 }
 
 export function parseLog(text: string, options: { firstSeq?: number } = {}): ParsedLog {
-  const result: ParsedLog = { header: null, events: [], samples: [], checkpoints: [], other: [], tornTail: 0, problems: [], lastSeq: -1 };
+  const result: ParsedLog = { records: [], header: null, events: [], samples: [], checkpoints: [], tornTail: 0, problems: [], lastSeq: -1 };
   const end = text.lastIndexOf('\n') + 1;
   result.tornTail = text.length - end;
   const lines = text.slice(0, end).split('\n');
@@ -39,15 +39,16 @@ export function parseLog(text: string, options: { firstSeq?: number } = {}): Par
       result.problems.push({ line: at, reason: 'empty line' });
       return;
     }
-    let record: { record?: unknown; seq?: unknown; [key: string]: unknown };
+    let parsed: unknown;
     try {
-      record = JSON.parse(line);
+      parsed = JSON.parse(line);
     } catch (error) {
       result.problems.push({ line: at, reason: `not valid JSON (${(error as Error).message})` });
       return;
     }
-    if (record === null || typeof record !== 'object' || typeof record.record !== 'string' || typeof record.seq !== 'number') {
-      result.problems.push({ line: at, reason: 'not a log record (needs "record" and "seq")' });
+    const record = asLogRecord(parsed);
+    if (typeof record === 'string') {
+      result.problems.push({ line: at, reason: record });
       return;
     }
     if (expected !== null && record.seq !== expected) {
@@ -55,25 +56,22 @@ export function parseLog(text: string, options: { firstSeq?: number } = {}): Par
     }
     expected = record.seq + 1;
     result.lastSeq = Math.max(result.lastSeq, record.seq);
+    result.records.push(record);
     switch (record.record) {
-      case 'header': {
-        const header = record as unknown as HeaderRecord;
-        if (header.format !== 'syncring-log') result.problems.push({ line: at, reason: 'header: not a syncring log' });
-        else if (header.formatVersion > LOG_FORMAT_VERSION) result.problems.push({ line: at, reason: `header: format version ${header.formatVersion} is newer than this reader (${LOG_FORMAT_VERSION})` });
-        if (result.header === null) result.header = header;
+      case 'header':
+        if (record.format !== 'syncring-log') result.problems.push({ line: at, reason: 'header: not a syncring log' });
+        else if (record.formatVersion > LOG_FORMAT_VERSION) result.problems.push({ line: at, reason: `header: format version ${record.formatVersion} is newer than this reader (${LOG_FORMAT_VERSION})` });
+        if (result.header === null) result.header = record;
         break;
-      }
       case 'event':
-        result.events.push(record as unknown as EventRecord);
+        result.events.push(record);
         break;
       case 'sample':
-        result.samples.push(record as unknown as SampleRecord);
+        result.samples.push(record);
         break;
       case 'checkpoint':
-        result.checkpoints.push(record as unknown as CheckpointRecord);
+        result.checkpoints.push(record);
         break;
-      default:
-        result.other.push(record as ParsedLog['other'][number]);
     }
   });
   if (result.header === null && lines.length > 0) result.problems.unshift({ line: 1, reason: 'the log has no header record' });

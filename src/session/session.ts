@@ -122,6 +122,11 @@ export interface Frame {
   events: SessionEvent[];
 }
 
+/** The macro tick in tau: the scenario's number of carrier periods of mode 0. */
+export function macroStepOf(scenario: Scenario): number {
+  return (scenario.integrator.macroPeriods * 2 * Math.PI) / scenario.modes[0].omega;
+}
+
 /** Two coupling relaxation times in slow time, clamped to [2, 50]. */
 export function defaultLockWindow(params: ModelParameters): number {
   const rate = Math.abs(params.strength) * Math.hypot(params.dissipative, params.reactive / params.omega[0]);
@@ -174,7 +179,7 @@ export class CoSimulation {
     const initial = initialRotatingState(scenario, this.params);
     const micro = new FullSystem(this.params, initial, scenario.integrator.stepsPerPeriod, scenario.noise.seed);
     this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? 1e-10);
-    this.macroStep = (scenario.integrator.macroPeriods * 2 * Math.PI) / this.params.omega[0];
+    this.macroStep = macroStepOf(scenario);
     this.integrator = new IntegratorSwitch(this.params, micro, options.integrator ?? 'auto', this.macroStep, (kind, message) => this.record(kind, message, 'engine'), options.envelopeAutoError);
     const eps = this.params.epsilon;
     const window = options.lockWindow ?? defaultLockWindow(this.params);

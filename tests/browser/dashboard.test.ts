@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { serve } from '../../server/main.js';
+import { serve } from '../../server/commands/serve.js';
 import { CHROMIUM_PATH, chromiumAvailability, chromiumVersion, launchChromium } from './support/chromium.js';
 import { ensureDashboardBuilt, ensureServerCompiled, ROOT } from './support/build.js';
 import { chartPoints, collectPageErrors, linkMiddle, nodeCentre, numberIn, paintedPixels, textOf } from './support/dashboard-page.js';

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { serve, type RunningServer } from '../../server/main.js';
+import { serve, type RunningServer } from '../../server/commands/serve.js';
 import { parseLog } from '../../src/protocol/log-reader.js';
 import { TestClient, sleep } from '../support/ws-client.js';
 

@@ -3,7 +3,7 @@ import { spawnSync } from 'node:child_process';
 import { cpSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { serve, type RunningServer } from '../../server/main.js';
+import { serve, type RunningServer } from '../../server/commands/serve.js';
 import { TestClient } from '../support/ws-client.js';
 import { runPairSoak } from '../support/pair-soak.js';
 

@@ -3,7 +3,7 @@ import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { connect } from 'node:net';
-import { serve, type RunningServer } from '../../server/main.js';
+import { serve, type RunningServer } from '../../server/commands/serve.js';
 import { parseLog } from '../../src/protocol/log-reader.js';
 import { PROTOCOL_VERSION } from '../../src/protocol/messages.js';
 import { TestClient, sleep } from '../support/ws-client.js';

@@ -3,8 +3,8 @@ import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync } from 'node
 import { tmpdir } from 'node:os';
 import { request as httpRequest } from 'node:http';
 import { join } from 'node:path';
-import { serve, type RunningServer } from '../../server/main.js';
-import type { SoakListing } from '../../server/http/soak-api.js';
+import { serve, type RunningServer } from '../../server/commands/serve.js';
+import type { SoakListing } from '../../src/protocol/soak-files.js';
 import { sleep } from '../support/ws-client.js';
 
 /**

@@ -1,5 +1,5 @@
 import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from 'lit';
-import type { SoakListing, VerdictRow } from '../../../server/http/soak-api.js';
+import type { SoakListing, SoaksResponse, VerdictRow } from '../../../src/protocol/soak-files.js';
 import { fetchJson } from '../data/prediction-data.js';
 import { apiUrl, tokenFrom } from '../data/page-address.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
@@ -11,12 +11,6 @@ import './soak-start-form.js';
 
 /** How often the list is read again while the tab is shown (status.json is rewritten about once a second). */
 const POLL_MS = 2000;
-
-interface SoaksResponse {
-  dir: string;
-  soaks: SoakListing[];
-  note?: string;
-}
 
 /** The badge of a soak: running, its result once finished, or why it stopped. */
 function verdictOf(s: SoakListing): { text: string; colour: string } {

@@ -1,5 +1,5 @@
 import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from 'lit';
-import type { SoakListing } from '../../../server/http/soak-api.js';
+import type { SoakListing } from '../../../src/protocol/soak-files.js';
 import { fetchJson } from '../data/prediction-data.js';
 import { apiUrl } from '../data/page-address.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
