@@ -7,6 +7,7 @@ import { CONTINUATION_SYNTAX, parseContinuationParameter } from '../../src/predi
 import { lookAhead } from '../../src/predict/look-ahead.js';
 import { UsageError, loadScenario } from '../scenario-file.js';
 import { ASSUMED_FREQUENCY_NOTE } from '../../src/scenario/units.js';
+import type { ContinuationOutput, PredictOutput } from '../../src/protocol/predict-output.js';
 
 export interface PredictArgs {
   scenario: string;
@@ -40,7 +41,7 @@ function parseRange(text: string): { min?: number; max?: number } {
  * stability, what the scenario's initial state settles into, and with --continue the branch of
  * one pattern in one parameter with its limits (also in ppm for a detuning).
  */
-export function predict(args: PredictArgs): Record<string, unknown> {
+export function predict(args: PredictArgs): PredictOutput {
   const { scenario } = loadScenario(args.scenario);
   const model = new GuideModel(scenario);
   if (model.size > CATALOGUE_SIZE_LIMIT) {
@@ -68,7 +69,7 @@ export function predict(args: PredictArgs): Record<string, unknown> {
   const catalogue = patternCatalogue(model, destination.settled ? { seeds: [destination.state] } : {});
   const settledIndex = destination.settled ? (catalogue.seedPatterns[0] ?? -1) : -1;
 
-  const result: Record<string, unknown> = {
+  const result: PredictOutput = {
     scenario: scenario.name,
     nodes: model.nodes,
     modes: model.modes,
@@ -94,6 +95,7 @@ export function predict(args: PredictArgs): Record<string, unknown> {
     mirrors: catalogue.mirrors,
     numbering: catalogue.numbering,
     search: catalogue.search,
+    wallSeconds: 0,
   };
 
   if (parameter) {
@@ -109,11 +111,11 @@ export function predict(args: PredictArgs): Record<string, unknown> {
       throw error;
     }
     result.continuation = {
-      parameter: args.continueIn,
+      parameter: args.continueIn!,
       syntax: CONTINUATION_SYNTAX,
       pattern: { index: chosen, kind: catalogue.patterns[chosen].kind, q: catalogue.patterns[chosen].q ?? null, mode: catalogue.patterns[chosen].mode },
       ...summariseBranch(branch),
-    };
+    } satisfies ContinuationOutput;
   }
   result.wallSeconds = (Date.now() - started) / 1000;
   return result;
@@ -136,7 +138,7 @@ function choosePattern(patterns: readonly CataloguePattern[], requested: number 
   return best;
 }
 
-function summariseBranch(branch: Branch): Record<string, unknown> {
+function summariseBranch(branch: Branch): Omit<ContinuationOutput, 'parameter' | 'syntax' | 'pattern'> {
   const { decreasing, increasing } = branch.limits;
   return {
     name: branch.parameter.name,

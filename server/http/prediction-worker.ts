@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import { parentPort } from 'node:worker_threads';
 import { ScenarioError } from '../../src/scenario/errors.js';
 import { predict, type PredictArgs } from '../commands/predict.js';
+import type { PredictOutput } from '../../src/protocol/predict-output.js';
 import { UsageError } from '../scenario-file.js';
 import type { WorkerReply } from './worker-client.js';
 
@@ -29,7 +30,7 @@ port.on('message', (message: PredictionRequest & { id: number }) => {
   port.postMessage(answer(message));
 });
 
-function answer({ id, scenario, args }: PredictionRequest & { id: number }): WorkerReply<Record<string, unknown>> {
+function answer({ id, scenario, args }: PredictionRequest & { id: number }): WorkerReply<PredictOutput> {
   const dir = mkdtempSync(join(tmpdir(), 'syncring-predict-'));
   const file = join(dir, 'live-scenario.json');
   try {

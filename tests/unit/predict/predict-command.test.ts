@@ -43,25 +43,26 @@ describe('syncring predict', () => {
   });
 
   test('--continue detuning:0 on the detuned pair: the locking range in Delta and ppm (Adler 1946: |Delta_0 - Delta_1| = kappa sigma / omega)', () => {
-    const result = predict({ scenario: 'pair-adler', continueIn: 'detuning:0' }) as { continuation: { range: Record<string, number>; branch: unknown[]; limits: Record<string, { kind: string }> } };
-    const { range } = result.continuation;
+    const result = predict({ scenario: 'pair-adler', continueIn: 'detuning:0' });
+    const continuation = result.continuation!;
+    const range = { upper: continuation.range.upper!, lower: continuation.range.lower!, upperPpm: continuation.range.upperPpm! };
     // pair-adler: Delta_1 = -0.005, kappa sigma = 0.02, omega = 1, eps = 1e-3
     expect(Math.abs(range.upper - (-0.005 + 0.02))).toBeLessThan(0.02 * 0.02);
     expect(Math.abs(range.lower - (-0.005 - 0.02))).toBeLessThan(0.02 * 0.02);
     // ppm = Delta eps / 1e-6 (README, 'Units')
     expect(range.upperPpm).toBeCloseTo((range.upper * 1e-3) / 1e-6, 6);
-    expect(result.continuation.limits.increasing.kind).toBe('fold');
-    expect(result.continuation.branch.length).toBeGreaterThan(5);
+    expect(continuation.limits.increasing!.kind).toBe('fold');
+    expect(continuation.branch.length).toBeGreaterThan(5);
   });
 
   test('--continue link:4-0 --range 0.5:1 on the one-way 5-ring: the q = 1 wave survives down to about 0.905 of the weight', () => {
-    const result = predict({ scenario: 'ring-one-way-5', continueIn: 'link:4-0', range: '0.5:1' }) as { continuation: { pattern: { q: number }; range: Record<string, unknown> } };
-    expect(result.continuation.pattern.q).toBe(1);
-    expect(result.continuation.range.lowerKind).toBe('fold');
-    expect(result.continuation.range.upperKind).toBe('range');
+    const continuation = predict({ scenario: 'ring-one-way-5', continueIn: 'link:4-0', range: '0.5:1' }).continuation!;
+    expect(continuation.pattern.q).toBe(1);
+    expect(continuation.range.lowerKind).toBe('fold');
+    expect(continuation.range.upperKind).toBe('range');
     // consistent with the live predictor's loss at 9.5% of a link break (live-prediction tests)
-    expect(result.continuation.range.lower as number).toBeGreaterThan(0.85);
-    expect(result.continuation.range.lower as number).toBeLessThan(0.95);
+    expect(continuation.range.lower!).toBeGreaterThan(0.85);
+    expect(continuation.range.lower!).toBeLessThan(0.95);
   });
 
   test.each([

@@ -1,6 +1,5 @@
 import type { SessionInfo, WireFrame } from '../../../src/protocol/messages.js';
-import type { CataloguePattern, PatternCatalogue } from '../../../src/predict/catalogue.js';
-import type { BranchLimit, BranchPoint } from '../../../src/predict/continuation.js';
+import type { BranchLimit } from '../../../src/predict/continuation.js';
 import { apiUrl } from './page-address.js';
 
 /**
@@ -10,40 +9,10 @@ import { apiUrl } from './page-address.js';
  * what-if can continue in, their live values and default ranges, and the branch as chart series.
  */
 
-export type CatalogueEntry = CataloguePattern & { index: number };
+import type { CatalogueEntry, ContinuationOutput as Continuation } from '../../../src/protocol/predict-output.js';
 
-export interface CatalogueResponse {
-  fingerprint: string;
-  fromCache: boolean;
-  computedFor: { scenarioName: string; detuning: number[]; detuningPpm: number[]; coupling: SessionInfo['coupling']; links: { from: number; to: number; weight: number }[] };
-  scenario: string;
-  nodes: number;
-  modes: number;
-  epsilon: number;
-  group: PatternCatalogue['group'];
-  /** Absent from servers older than mirror pairs and numbering-independent seeding. */
-  mirrors?: PatternCatalogue['mirrors'];
-  numbering?: PatternCatalogue['numbering'];
-  parts: number[][];
-  patterns: CatalogueEntry[];
-  initial: { settled: boolean; slowTime: number | null; pattern: number | null };
-  warnings: string[];
-  wallSeconds: number;
-}
-
-export interface Continuation {
-  parameter: string;
-  pattern: { index: number; kind: string; q: number | null; mode: number };
-  name: string;
-  start: number;
-  startPpm: number | null;
-  limits: { decreasing: BranchLimit | null; increasing: BranchLimit | null };
-  startIndex: number;
-  steps: number;
-  branch: BranchPoint[];
-}
-
-export type WhatIfResponse = CatalogueResponse & { continuation: Continuation };
+export type { CatalogueEntry, CatalogueResponse, WhatIfResponse } from '../../../src/protocol/predict-output.js';
+export type { Continuation };
 
 /** GET a JSON endpoint; a failure throws with the server's own message (it names the bad field). */
 export async function fetchJson<T>(path: string, signal?: AbortSignal): Promise<T> {
