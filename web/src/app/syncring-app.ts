@@ -2,7 +2,8 @@ import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
 import type { Role, ServerMessage } from '../../../src/protocol/messages.js';
 import { ConnectionClient, socketUrl, type ConnectionState } from '../data/connection.js';
 import { FrameStore } from '../data/frame-store.js';
-import { apiUrl, tokenFrom } from '../data/page-address.js';
+import { tokenFrom } from '../data/page-address.js';
+import { getJson } from '../data/api-client.js';
 import { ReplayError, ReplayLog } from '../replay/replay-log.js';
 import type { CommandDetail, NoticeDetail } from '../panels/commands.js';
 import type { ScenarioChoice } from '../panels/control-panel.js';
@@ -275,9 +276,7 @@ export class SyncringApp extends LitElement {
 
   private async loadScenarios(): Promise<void> {
     try {
-      const response = await fetch(apiUrl('/api/scenarios'));
-      if (!response.ok) throw new Error(`HTTP ${response.status}`);
-      const list = (await response.json()) as ScenarioChoice[];
+      const list = await getJson<ScenarioChoice[]>('/api/scenarios');
       this.scenarios = Array.isArray(list) ? list.filter((c) => typeof c?.name === 'string').map((c) => ({ name: c.name, title: c.title ?? c.name })) : [];
     } catch (error) {
       console.warn('syncring: could not list the built-in scenarios', error);

@@ -1,7 +1,6 @@
 import type { SessionInfo, WireFrame } from '../../../src/protocol/messages.js';
 import type { CataloguePattern, PatternCatalogue } from '../../../src/predict/catalogue.js';
 import type { BranchLimit, BranchPoint } from '../../../src/predict/continuation.js';
-import { apiUrl } from './page-address.js';
 
 /**
  * What the dashboard reads from /api/catalogue and /api/what-if (server/http/prediction-api.ts,
@@ -44,15 +43,6 @@ export interface Continuation {
 }
 
 export type WhatIfResponse = CatalogueResponse & { continuation: Continuation };
-
-/** GET a JSON endpoint; a failure throws with the server's own message (it names the bad field). */
-export async function fetchJson<T>(path: string, signal?: AbortSignal): Promise<T> {
-  const response = await fetch(apiUrl(path), { signal });
-  const body = (await response.json().catch(() => null)) as (T & { error?: string }) | null;
-  if (!response.ok) throw new Error(body?.error ?? `HTTP ${response.status} from ${path}`);
-  if (body === null) throw new Error(`${path} did not answer with JSON`);
-  return body;
-}
 
 /** Changes whenever anything a prediction depends on changes in the live run. */
 export function predictionKey(session: SessionInfo | null): string {

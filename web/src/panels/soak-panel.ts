@@ -1,12 +1,12 @@
-import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from 'lit';
+import { LitElement, css, html, nothing, unsafeCSS } from 'lit';
 import type { SoakListing, VerdictRow } from '../../../server/http/soak-api.js';
-import { fetchJson } from '../data/prediction-data.js';
+import { getJson, postJson } from '../data/api-client.js';
+import { PollingController } from '../data/polling-controller.js';
 import { apiUrl, tokenFrom } from '../data/page-address.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
 import { secondsHeading } from './seconds-heading.js';
 import { PASS_CAUTION, PASS_CAUTION_SHORT } from '../../../src/campaign/cautions.js';
 import { BRAND, CAUTION, FAULT, GRID, INK, LOCKED, MUTED, panelStyles } from '../theme.js';
-import { postSoakControl } from './soak-start-form.js';
 import './soak-start-form.js';
 
 /** How often the list is read again while the tab is shown (status.json is rewritten about once a second). */
@@ -274,9 +274,8 @@ export class SoakPanel extends LitElement {
 
   /** The operator token from the page address; viewers have none and see no controls. */
   private readonly token = tokenFrom(location.search);
-  private timer: ReturnType<typeof setTimeout> | null = null;
-  private fetching = false;
-  private again = false;
+  /** Reads the list every POLL_MS while the tab is shown; a start, stop or resume asks for it at once. */
+  private readonly poller = new PollingController(this, { read: (signal) => this.readList(signal), active: () => this.active, everyMs: POLL_MS });
   /** A soak just started here, chosen before the list has it. */
   private awaited: string | null = null;
 
@@ -289,45 +288,16 @@ export class SoakPanel extends LitElement {
     this.action = null;
   }
 
-  override disconnectedCallback(): void {
-    super.disconnectedCallback();
-    this.stopPolling();
-  }
-
-  protected override updated(changed: PropertyValues): void {
-    if (!changed.has('active')) return;
-    if (this.active) void this.poll();
-    else this.stopPolling();
-  }
-
-  private stopPolling(): void {
-    if (this.timer !== null) clearTimeout(this.timer);
-    this.timer = null;
-  }
-
-  private async poll(): Promise<void> {
-    if (this.fetching) {
-      // a start, stop or resume wants the list now: read it again as soon as this read is back
-      this.again = true;
-      return;
-    }
-    this.stopPolling();
-    if (!this.active || !this.isConnected) return;
-    this.fetching = true;
+  private async readList(signal: AbortSignal): Promise<void> {
     try {
-      this.listing = await fetchJson<SoaksResponse>('/api/soaks');
+      this.listing = await getJson<SoaksResponse>('/api/soaks', signal);
       this.error = '';
       const names = this.listing.soaks.map((s) => s.name);
       if (this.awaited !== null && names.includes(this.awaited)) this.awaited = null;
       if (!names.includes(this.chosen) && this.chosen !== this.awaited) this.chosen = (this.listing.soaks.find((s) => s.state === 'running') ?? this.listing.soaks[0])?.name ?? '';
     } catch (error) {
+      if (signal.aborted) return;
       this.error = `Could not list the soaks: ${(error as Error).message}`;
-    } finally {
-      this.fetching = false;
-      if (this.again) {
-        this.again = false;
-        void this.poll();
-      } else if (this.active && this.isConnected) this.timer = setTimeout(() => void this.poll(), POLL_MS);
     }
   }
 
@@ -427,13 +397,13 @@ export class SoakPanel extends LitElement {
     if (!this.token) return;
     this.action = { soak: name, text: '', failed: false, busy: true };
     try {
-      const answer = await postSoakControl(`/api/soaks/${encodeURIComponent(name)}/${verb}`, this.token);
+      const answer = await postJson(`/api/soaks/${encodeURIComponent(name)}/${verb}`, this.token);
       const text = verb === 'stop' ? `Stopped (${String(answer.signal)}); ${String(answer.note ?? '')}.` : `Resumed as pid ${String(answer.pid)}.`;
       this.action = { soak: name, text, failed: false, busy: false };
     } catch (error) {
       this.action = { soak: name, text: `${verb === 'stop' ? 'Stop' : 'Resume'} refused: ${(error as Error).message}`, failed: true, busy: false };
     }
-    void this.poll();
+    this.poller.readNow();
   }
 
   /** A soak the form started: show it at once (it is listed as starting until its first status). */
@@ -441,7 +411,7 @@ export class SoakPanel extends LitElement {
     this.chosen = name;
     this.awaited = name;
     this.action = null;
-    void this.poll();
+    this.poller.readNow();
   }
 
   private renderVerdicts(s: SoakListing) {

@@ -4,7 +4,6 @@ import type { BranchLimit } from '../../../src/predict/continuation.js';
 import {
   branchX,
   defaultRange,
-  fetchJson,
   isLossLimit,
   LIMIT_WORDS,
   liveValue,
@@ -14,6 +13,7 @@ import {
   type WhatIfParameter,
   type WhatIfResponse,
 } from '../data/prediction-data.js';
+import { getJson } from '../data/api-client.js';
 import { deltaOf, formatNumber, ppmOf } from '../data/engineering.js';
 import { FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
 import '../charts/branch-chart.js';
@@ -222,7 +222,7 @@ export class WhatIfPanel extends LitElement {
     this.error = '';
     this.startClock();
     try {
-      const result = await fetchJson<WhatIfResponse>(`/api/what-if?${query}`, abort.signal);
+      const result = await getJson<WhatIfResponse>(`/api/what-if?${query}`, abort.signal);
       if (abort.signal.aborted) return;
       this.result = result;
     } catch (error) {
