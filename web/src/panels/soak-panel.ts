@@ -6,7 +6,7 @@ import { apiUrl, tokenFrom } from '../data/page-address.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
 import { secondsHeading } from './seconds-heading.js';
 import { PASS_CAUTION, PASS_CAUTION_SHORT } from '../../../src/campaign/cautions.js';
-import { BRAND, CAUTION, FAULT, GRID, INK, LOCKED, MUTED, panelStyles } from '../theme.js';
+import { BRAND, CAUTION, CHIP, CHOSEN_ITEM, FAULT, GRID, INK, INSET_SURFACE, LOCKED, MUTED, ON_SOLID, PROGRESS_TRACK, SOFT_BORDER, SOFT_INK, SURFACE, panelStyles, tableStyles } from '../theme.js';
 import './soak-start-form.js';
 
 /** How often the list is read again while the tab is shown (status.json is rewritten about once a second). */
@@ -46,6 +46,7 @@ export class SoakPanel extends LitElement {
   };
   static override styles = [
     panelStyles,
+    tableStyles,
     css`
       :host {
         display: grid;
@@ -63,7 +64,7 @@ export class SoakPanel extends LitElement {
         }
       }
       .card {
-        background: #fff;
+        background: ${unsafeCSS(SURFACE)};
         border: 1px solid ${unsafeCSS(GRID)};
         border-radius: 10px;
         padding: 10px 14px 12px;
@@ -78,8 +79,8 @@ export class SoakPanel extends LitElement {
       }
       button.soak {
         text-align: left;
-        background: #f7f9fb;
-        border: 1px solid #d3dce3;
+        background: ${unsafeCSS(INSET_SURFACE)};
+        border: 1px solid ${unsafeCSS(SOFT_BORDER)};
         border-radius: 8px;
         padding: 8px 10px;
         display: block;
@@ -87,7 +88,7 @@ export class SoakPanel extends LitElement {
       }
       button.soak.chosen {
         border: 2px solid ${unsafeCSS(BRAND)};
-        background: #eef6f5;
+        background: ${unsafeCSS(CHOSEN_ITEM)};
       }
       .name {
         font-weight: 700;
@@ -104,7 +105,7 @@ export class SoakPanel extends LitElement {
         letter-spacing: 0.08em;
         padding: 2px 8px;
         border-radius: 4px;
-        color: #fff;
+        color: ${unsafeCSS(ON_SOLID)};
       }
       .badge.big {
         font-size: 22px;
@@ -114,7 +115,7 @@ export class SoakPanel extends LitElement {
         position: relative;
         height: 10px;
         border-radius: 5px;
-        background: #e3e8ec;
+        background: ${unsafeCSS(PROGRESS_TRACK)};
         overflow: hidden;
         margin: 6px 0 3px;
       }
@@ -134,11 +135,11 @@ export class SoakPanel extends LitElement {
         align-items: center;
         justify-content: center;
         font-size: 16px;
-        color: #15202b;
+        color: ${unsafeCSS(INK)};
       }
       .line {
         font-size: 14px;
-        color: #33404d;
+        color: ${unsafeCSS(SOFT_INK)};
         font-variant-numeric: tabular-nums;
       }
       .head {
@@ -165,37 +166,20 @@ export class SoakPanel extends LitElement {
       a.report {
         font-size: 16px;
         font-weight: 700;
-        color: #fff;
+        color: ${unsafeCSS(ON_SOLID)};
         background: ${unsafeCSS(BRAND)};
         border-radius: 6px;
         padding: 5px 12px;
         text-decoration: none;
       }
       table {
-        width: 100%;
-        border-collapse: collapse;
         font-size: 16px;
-        font-variant-numeric: tabular-nums;
       }
       th {
-        text-align: left;
-        font-size: 13px;
-        color: ${unsafeCSS(MUTED)};
         padding: 4px 8px 6px;
-        border-bottom: 2px solid ${unsafeCSS(GRID)};
-        position: sticky;
-        top: 0;
-        background: #fff;
-        white-space: nowrap;
       }
       td {
         padding: 6px 8px;
-        border-bottom: 1px solid #e6eaee;
-        vertical-align: top;
-      }
-      td.r,
-      th.r {
-        text-align: right;
       }
       .reasons {
         font-size: 13px;
@@ -225,7 +209,7 @@ export class SoakPanel extends LitElement {
       }
       .empty {
         font-size: 16px;
-        color: #33404d;
+        color: ${unsafeCSS(SOFT_INK)};
         line-height: 1.5;
       }
       button.act {
@@ -236,7 +220,7 @@ export class SoakPanel extends LitElement {
       button.act.stop {
         border-color: ${unsafeCSS(FAULT)};
         color: ${unsafeCSS(FAULT)};
-        background: #fff;
+        background: ${unsafeCSS(SURFACE)};
       }
       .action {
         font-size: 14px;
@@ -257,7 +241,7 @@ export class SoakPanel extends LitElement {
         color: ${unsafeCSS(MUTED)};
       }
       code {
-        background: #eef3f6;
+        background: ${unsafeCSS(CHIP)};
         padding: 1px 5px;
         border-radius: 4px;
         font-size: 14px;

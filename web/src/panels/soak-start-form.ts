@@ -2,7 +2,7 @@ import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from '
 import type { SoakListing } from '../../../server/http/soak-api.js';
 import { getJson, postJson } from '../data/api-client.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
-import { FAULT, MUTED, panelStyles } from '../theme.js';
+import { FAULT, INSET_SURFACE, MUTED, OUTLINE, SOFT_BORDER, SURFACE, panelStyles } from '../theme.js';
 import type { ScenarioChoice } from './control-panel.js';
 
 /** GET /api/campaigns (server/http/soak-control.ts). */
@@ -65,8 +65,8 @@ export class SoakStartForm extends LitElement {
     panelStyles,
     css`
       :host {
-        background: #f7f9fb;
-        border-color: #d3dce3;
+        background: ${unsafeCSS(INSET_SURFACE)};
+        border-color: ${unsafeCSS(SOFT_BORDER)};
         margin: 4px 0 12px;
       }
       form {
@@ -85,9 +85,9 @@ export class SoakStartForm extends LitElement {
         width: 100%;
         box-sizing: border-box;
         padding: 3px 5px;
-        border: 1px solid #9aa7b3;
+        border: 1px solid ${unsafeCSS(OUTLINE)};
         border-radius: 4px;
-        background: #fff;
+        background: ${unsafeCSS(SURFACE)};
       }
       .with-unit {
         display: flex;
