@@ -4,6 +4,7 @@ import { fileURLToPath } from 'node:url';
 import express, { type Express, type NextFunction, type Request, type Response } from 'express';
 import { builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
 import type { LiveSession } from '../live/live-session.js';
+import type { ScenarioChoice } from '../../src/protocol/catalogue-lists.js';
 import { registerPredictionApi } from './prediction-api.js';
 import { registerSoakApi } from './soak-api.js';
 import { registerSoakControl, type SoakControlOptions } from './soak-control.js';
@@ -38,7 +39,7 @@ export function createApp(live: LiveSession, viewers: () => number, options: { s
     res.json({ ...live.info(), viewers: viewers(), tau: live.tau, tick: live.tick });
   });
   app.get('/api/scenarios', (_req, res) => {
-    res.json(builtInScenarioNames.map((name) => ({ name, title: loadBuiltInScenario(name).name })));
+    res.json(builtInScenarioNames.map((name): ScenarioChoice => ({ name, title: loadBuiltInScenario(name).name })));
   });
   app.get('/api/log', async (_req, res, next) => {
     const log = live.log;

@@ -6,6 +6,7 @@ import { parseCampaign } from '../../src/campaign/index.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { builtInCampaignNames, builtInCampaignRaw, builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
 import { SOAK_ERR, SOAK_OUT, START_FILE, type StartRecord } from '../../src/protocol/soak-files.js';
+import type { CampaignChoice } from '../../src/protocol/catalogue-lists.js';
 import { writeJsonAtomically } from './outputs.js';
 import { SAFE_NAME, processAlive, readSoakFiles, stateOf } from './soak-folder.js';
 
@@ -43,13 +44,6 @@ export interface LaunchRequest {
   pace: number | null;
 }
 
-export interface CampaignChoice {
-  name: string;
-  title: string;
-  description: string;
-  /** The built-in scenarios this campaign fits. */
-  scenarios: string[];
-}
 
 export class SoakLauncher {
   readonly root: string;

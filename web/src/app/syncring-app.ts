@@ -2,12 +2,13 @@ import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
 import type { Role, ServerMessage } from '../../../src/protocol/messages.js';
 import { ConnectionClient, socketUrl, type ConnectionState } from '../data/connection.js';
 import { FrameStore } from '../data/frame-store.js';
-import { apiUrl, tokenFrom } from '../data/page-address.js';
+import { tokenFrom } from '../data/page-address.js';
+import { getJson } from '../data/api-client.js';
 import { ReplayError, ReplayLog } from '../replay/replay-log.js';
 import type { CommandDetail, NoticeDetail } from '../panels/commands.js';
-import type { ScenarioChoice } from '../panels/control-panel.js';
+import type { ScenarioChoice } from '../../../src/protocol/catalogue-lists.js';
 import type { ToastStack } from '../panels/toast-stack.js';
-import { MUTED } from '../theme.js';
+import { BRAND, FOOTER_INK, INK, MUTED, PAGE, SURFACE, TAB_BORDER, UNWANTED } from '../theme.js';
 import { SIMULATION_CAUTION } from '../../../src/campaign/cautions.js';
 import '../panels/status-header.js';
 import '../panels/connection-banner.js';
@@ -57,7 +58,7 @@ export class SyncringApp extends LitElement {
       display: flex;
       flex-direction: column;
       height: 100vh;
-      background: #e9edf1;
+      background: ${unsafeCSS(PAGE)};
     }
     main {
       flex: 1;
@@ -84,7 +85,7 @@ export class SyncringApp extends LitElement {
       display: flex;
       gap: 4px;
       padding: 6px 12px 0;
-      border-bottom: 1px solid #cfd7de;
+      border-bottom: 1px solid ${unsafeCSS(TAB_BORDER)};
     }
     nav.views button {
       font: inherit;
@@ -100,14 +101,14 @@ export class SyncringApp extends LitElement {
       cursor: pointer;
     }
     nav.views button:hover {
-      color: #15202b;
+      color: ${unsafeCSS(INK)};
     }
     nav.views button[aria-selected='true'] {
-      color: #15202b;
-      background: #fff;
-      border-color: #cfd7de;
+      color: ${unsafeCSS(INK)};
+      background: ${unsafeCSS(SURFACE)};
+      border-color: ${unsafeCSS(TAB_BORDER)};
       margin-bottom: -1px;
-      box-shadow: inset 0 3px 0 #0b6e69;
+      box-shadow: inset 0 3px 0 ${unsafeCSS(BRAND)};
     }
     main[hidden],
     .view[hidden] {
@@ -119,7 +120,7 @@ export class SyncringApp extends LitElement {
     }
     main.replaying sr-ring-view,
     main.replaying sr-pattern-panel {
-      outline: 3px solid #7b2fbf;
+      outline: 3px solid ${unsafeCSS(UNWANTED)};
       outline-offset: -1px;
     }
     footer {
@@ -133,7 +134,7 @@ export class SyncringApp extends LitElement {
     }
     footer .caution {
       font-weight: 600;
-      color: #3a4754;
+      color: ${unsafeCSS(FOOTER_INK)};
     }
     @media (max-width: 1250px), (max-height: 800px) {
       :host {
@@ -275,9 +276,7 @@ export class SyncringApp extends LitElement {
 
   private async loadScenarios(): Promise<void> {
     try {
-      const response = await fetch(apiUrl('/api/scenarios'));
-      if (!response.ok) throw new Error(`HTTP ${response.status}`);
-      const list = (await response.json()) as ScenarioChoice[];
+      const list = await getJson<ScenarioChoice[]>('/api/scenarios');
       this.scenarios = Array.isArray(list) ? list.filter((c) => typeof c?.name === 'string').map((c) => ({ name: c.name, title: c.title ?? c.name })) : [];
     } catch (error) {
       console.warn('syncring: could not list the built-in scenarios', error);

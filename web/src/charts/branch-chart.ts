@@ -3,7 +3,7 @@ import type { Chart, ChartConfiguration, Plugin, ScriptableLineSegmentContext } 
 import type { BranchLimit } from '../../../src/predict/continuation.js';
 import { branchSeries, branchX, isLossLimit, type BranchQuantity, type BranchXY, type Continuation } from '../data/prediction-data.js';
 import { formatNumber, ppmOf } from '../data/engineering.js';
-import { FAULT, INK, MUTED, nodeColour } from '../theme.js';
+import { FAULT, HOLDS_BAND, HOLDS_LABEL, INK, LABEL_GROUND, MUTED, SOFT_INK, SURFACE, columnStyles, nodeColour } from '../theme.js';
 import { ChartController } from './chart-controller.js';
 import { axis, leftAxis, legendKeyStyles } from './streaming-chart.js';
 
@@ -39,9 +39,9 @@ export const branchMarkers: Plugin<'line', BranchMarkerOptions> = {
     const right = Math.min(chartArea.right, x.getPixelForValue(Math.max(options.band.from, options.band.to)));
     if (!(right > left)) return;
     ctx.save();
-    ctx.fillStyle = 'rgba(11, 122, 85, 0.10)';
+    ctx.fillStyle = HOLDS_BAND;
     ctx.fillRect(left, chartArea.top, right - left, chartArea.bottom - chartArea.top);
-    ctx.fillStyle = 'rgba(11, 122, 85, 0.85)';
+    ctx.fillStyle = HOLDS_LABEL;
     ctx.font = '600 14px sans-serif';
     ctx.textAlign = 'center';
     ctx.textBaseline = 'bottom';
@@ -69,7 +69,7 @@ export const branchMarkers: Plugin<'line', BranchMarkerOptions> = {
       const width = ctx.measureText(line.label).width + 12;
       const boxX = Math.min(chartArea.right - width, Math.max(chartArea.left, px - width / 2));
       const boxY = chartArea.top + 4 + line.row * 26;
-      ctx.fillStyle = 'rgba(255, 255, 255, 0.92)';
+      ctx.fillStyle = LABEL_GROUND;
       ctx.fillRect(boxX, boxY, width, 22);
       ctx.strokeStyle = line.colour;
       ctx.lineWidth = 1.5;
@@ -83,7 +83,7 @@ export const branchMarkers: Plugin<'line', BranchMarkerOptions> = {
       if (dot.x < x.min || dot.x > x.max || dot.y < y.min || dot.y > y.max) continue;
       ctx.beginPath();
       ctx.arc(x.getPixelForValue(dot.x), y.getPixelForValue(dot.y), 6.5, 0, 2 * Math.PI);
-      ctx.fillStyle = '#ffffff';
+      ctx.fillStyle = SURFACE;
       ctx.fill();
       ctx.lineWidth = 3;
       ctx.strokeStyle = dot.colour;
@@ -123,18 +123,14 @@ export class BranchChart extends LitElement {
   };
   static override styles = [
     legendKeyStyles,
+    columnStyles,
     css`
-    :host {
-      display: flex;
-      flex-direction: column;
-      min-height: 0;
-    }
     .legend {
       display: flex;
       flex-wrap: wrap;
       gap: 4px 14px;
       font-size: 14px;
-      color: #33404d;
+      color: ${unsafeCSS(SOFT_INK)};
       margin: 2px 0 4px;
     }
     .frame {

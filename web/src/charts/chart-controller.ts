@@ -10,6 +10,7 @@ import {
   type ChartConfiguration,
   type Plugin,
 } from 'chart.js';
+import { EVENT_MARKER } from '../theme.js';
 
 Chart.register(LineController, LineElement, PointElement, LinearScale, LogarithmicScale, Filler);
 
@@ -76,7 +77,7 @@ export interface EventMarkerOptions {
 /** Vertical lines where operators or the schedule changed something, so cause and effect line up. */
 export const eventMarkers: Plugin<'line', EventMarkerOptions> = {
   id: 'eventMarkers',
-  defaults: { at: [], colour: 'rgba(198, 40, 40, 0.55)' },
+  defaults: { at: [], colour: EVENT_MARKER },
   afterDatasetsDraw(chart, _args, options) {
     const x = chart.scales.x;
     if (!x || options.at.length === 0) return;

@@ -1,7 +1,7 @@
 import { html } from 'lit';
 import type { Chart, ChartConfiguration } from 'chart.js';
 import type { FrameStore, StoreChange } from '../data/frame-store.js';
-import { CAUTION, INK, LOCKED } from '../theme.js';
+import { CAUTION, INK, LOCKED, LOCKED_BAND } from '../theme.js';
 import { axis, leftAxis, plainTickLabel, RIGHT_AXIS_WIDTH, StreamingChart } from './streaming-chart.js';
 import { SeriesCache } from './series-cache.js';
 import { applySeries, perturbationTimes } from './chart-data.js';
@@ -35,7 +35,7 @@ export class LockChart extends StreamingChart {
       type: 'line',
       data: {
         datasets: [
-          { label: 'locked', data: [], stepped: 'before', borderWidth: 0, fill: 'origin', backgroundColor: 'rgba(11, 122, 85, 0.18)', yAxisID: 'y' },
+          { label: 'locked', data: [], stepped: 'before', borderWidth: 0, fill: 'origin', backgroundColor: LOCKED_BAND, yAxisID: 'y' },
           { label: 'R', data: [], borderColor: INK, borderWidth: 2.5, yAxisID: 'y' },
           { label: 'divergence', data: [], borderColor: CAUTION, borderWidth: 2, yAxisID: 'divergence' },
         ],

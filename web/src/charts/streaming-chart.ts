@@ -1,8 +1,8 @@
-import { LitElement, css, html, type PropertyDeclarations, type TemplateResult } from 'lit';
+import { LitElement, css, html, unsafeCSS, type PropertyDeclarations, type TemplateResult } from 'lit';
 import type { Chart, ChartConfiguration } from 'chart.js';
 import type { FrameStore, StoreChange } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
-import { GRID, MUTED, panelStyles } from '../theme.js';
+import { GRID, MUTED, OUTLINE, SOFT_INK, panelStyles } from '../theme.js';
 import { ChartController } from './chart-controller.js';
 import { headingMarkup, headingText, type HeadingPart } from '../panels/heading-text.js';
 
@@ -54,7 +54,7 @@ export abstract class StreamingChart extends LitElement {
         flex-wrap: wrap;
         gap: 4px 12px;
         font-size: 13px;
-        color: #33404d;
+        color: ${unsafeCSS(SOFT_INK)};
         margin-bottom: 4px;
         min-height: 18px;
       }
@@ -126,7 +126,7 @@ export function plainTickLabel(value: number | string): string {
 export function axis(title: string) {
   return {
     grid: { color: GRID },
-    border: { color: '#9aa7b3' },
+    border: { color: OUTLINE },
     ticks: { color: MUTED, font: { size: 14 }, includeBounds: false },
     title: { display: true, text: title, color: MUTED, font: { size: 14 } },
   };

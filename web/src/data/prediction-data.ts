@@ -1,6 +1,5 @@
 import type { SessionInfo, WireFrame } from '../../../src/protocol/messages.js';
 import type { BranchLimit } from '../../../src/predict/continuation.js';
-import { apiUrl } from './page-address.js';
 
 /**
  * What the dashboard reads from /api/catalogue and /api/what-if (server/http/prediction-api.ts,
@@ -13,15 +12,6 @@ import type { CatalogueEntry, ContinuationOutput as Continuation } from '../../.
 
 export type { CatalogueEntry, CatalogueResponse, WhatIfResponse } from '../../../src/protocol/predict-output.js';
 export type { Continuation };
-
-/** GET a JSON endpoint; a failure throws with the server's own message (it names the bad field). */
-export async function fetchJson<T>(path: string, signal?: AbortSignal): Promise<T> {
-  const response = await fetch(apiUrl(path), { signal });
-  const body = (await response.json().catch(() => null)) as (T & { error?: string }) | null;
-  if (!response.ok) throw new Error(body?.error ?? `HTTP ${response.status} from ${path}`);
-  if (body === null) throw new Error(`${path} did not answer with JSON`);
-  return body;
-}
 
 /** Changes whenever anything a prediction depends on changes in the live run. */
 export function predictionKey(session: SessionInfo | null): string {

@@ -3,7 +3,7 @@ import type { SessionInfo } from '../../../src/protocol/messages.js';
 import type { CatalogueEntry, CatalogueResponse } from '../data/prediction-data.js';
 import { formatHz, formatNumber, formatSeconds, frequencyBasis, runScalesOf } from '../data/engineering.js';
 import { secondsHeading } from './seconds-heading.js';
-import { CAUTION, FAULT, GRID, LOCKED, MUTED, UNWANTED, panelStyles } from '../theme.js';
+import { CAUTION, CHIP, DEFECT_ROW, FAULT, INK, LIVE_ROW, LOCKED, MUTED, ON_SOLID, ROW_HOVER, SELECTED_ROW, SOFT_BORDER, SOFT_INK, UNWANTED, columnStyles, panelStyles, tableStyles } from '../theme.js';
 import { modeName, spreadText } from './pattern-text.js';
 
 const KIND_WORDS: Record<string, string> = {
@@ -33,15 +33,12 @@ export class CataloguePanel extends LitElement {
   };
   static override styles = [
     panelStyles,
+    columnStyles,
+    tableStyles,
     css`
-      :host {
-        display: flex;
-        flex-direction: column;
-        min-height: 0;
-      }
       .facts {
         font-size: 15px;
-        color: #33404d;
+        color: ${unsafeCSS(SOFT_INK)};
         margin: 0 0 8px;
         line-height: 1.45;
       }
@@ -51,43 +48,25 @@ export class CataloguePanel extends LitElement {
         min-height: 0;
       }
       table {
-        width: 100%;
-        border-collapse: collapse;
         font-size: 15px;
-        font-variant-numeric: tabular-nums;
       }
       th {
-        text-align: left;
-        font-size: 13px;
-        font-weight: 700;
-        color: ${unsafeCSS(MUTED)};
         padding: 4px 6px 6px;
-        border-bottom: 2px solid ${unsafeCSS(GRID)};
-        position: sticky;
-        top: 0;
-        background: #fff;
-        white-space: nowrap;
       }
       td {
         padding: 7px 6px;
-        border-bottom: 1px solid #e6eaee;
-        vertical-align: top;
-      }
-      td.r,
-      th.r {
-        text-align: right;
       }
       tbody tr {
         cursor: pointer;
       }
       tbody tr:hover {
-        background: #f4f7f9;
+        background: ${unsafeCSS(ROW_HOVER)};
       }
       tr.selected {
-        background: #eef5f4;
+        background: ${unsafeCSS(SELECTED_ROW)};
       }
       tr.live td {
-        background: #e4f3ec;
+        background: ${unsafeCSS(LIVE_ROW)};
       }
       tr.live td:first-child {
         box-shadow: inset 6px 0 0 ${unsafeCSS(LOCKED)};
@@ -114,7 +93,7 @@ export class CataloguePanel extends LitElement {
         letter-spacing: 0.06em;
         padding: 2px 8px;
         border-radius: 4px;
-        color: #fff;
+        color: ${unsafeCSS(ON_SOLID)};
         white-space: nowrap;
       }
       .badge.stable {
@@ -127,7 +106,7 @@ export class CataloguePanel extends LitElement {
         background: ${unsafeCSS(CAUTION)};
       }
       .badge.live {
-        background: #15202b;
+        background: ${unsafeCSS(INK)};
         margin-left: 6px;
       }
       .badge.defect {
@@ -137,13 +116,13 @@ export class CataloguePanel extends LitElement {
         margin-top: 3px;
       }
       tr.defect td {
-        background: #f6f0fb;
+        background: ${unsafeCSS(DEFECT_ROW)};
       }
       .chip {
         display: inline-block;
         font-size: 13px;
-        background: #eef3f6;
-        border: 1px solid #d3dce3;
+        background: ${unsafeCSS(CHIP)};
+        border: 1px solid ${unsafeCSS(SOFT_BORDER)};
         border-radius: 10px;
         padding: 0 7px;
         margin: 1px 3px 1px 0;

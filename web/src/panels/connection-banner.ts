@@ -1,39 +1,37 @@
-import { LitElement, css, html, nothing } from 'lit';
+import { LitElement, css, html, nothing, unsafeCSS } from 'lit';
 import type { ConnectionState } from '../data/connection.js';
+import { CAUTION, FAULT, ON_SOLID, stripButtonStyles } from '../theme.js';
 
 /** A loud strip across the top while the live connection is down, with the retry countdown. */
 export class ConnectionBanner extends LitElement {
   static override properties = { state: { attribute: false }, now: { state: true } };
-  static override styles = css`
-    .banner {
-      display: flex;
-      align-items: center;
-      gap: 14px;
-      background: #c62828;
-      color: #fff;
-      font-size: 17px;
-      font-weight: 600;
-      padding: 8px 18px;
-    }
-    .banner.connecting {
-      background: #b86e00;
-    }
-    button {
-      font: inherit;
-      font-size: 14px;
-      background: #fff;
-      color: #c62828;
-      border: 0;
-      border-radius: 5px;
-      padding: 3px 10px;
-      cursor: pointer;
-    }
-    .why {
-      font-weight: 400;
-      opacity: 0.9;
-      font-size: 14px;
-    }
-  `;
+  static override styles = [
+    stripButtonStyles,
+    css`
+      .banner {
+        display: flex;
+        align-items: center;
+        gap: 14px;
+        background: ${unsafeCSS(FAULT)};
+        color: ${unsafeCSS(ON_SOLID)};
+        font-size: 17px;
+        font-weight: 600;
+        padding: 8px 18px;
+      }
+      .banner.connecting {
+        background: ${unsafeCSS(CAUTION)};
+      }
+      button {
+        color: ${unsafeCSS(FAULT)};
+        padding: 3px 10px;
+      }
+      .why {
+        font-weight: 400;
+        opacity: 0.9;
+        font-size: 14px;
+      }
+    `,
+  ];
 
   declare state: ConnectionState | null;
   declare now: number;

@@ -3,15 +3,12 @@ import type { SessionInfo, Speed } from '../../../src/protocol/messages.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { formatNumber, formatSimulatedSeconds, rateAsPpm, runScalesOf, simulatedSecondsPerSecond } from '../data/engineering.js';
-import { MUTED, panelStyles } from '../theme.js';
+import { DIVIDER, MUTED, NOTICE_BORDER, NOTICE_GROUND, NOTICE_INK, panelStyles } from '../theme.js';
 import { commandEvent } from './commands.js';
+import type { ScenarioChoice } from '../../../src/protocol/catalogue-lists.js';
 import { lockIcon } from './icons.js';
 import './detuning-editor.js';
 
-export interface ScenarioChoice {
-  name: string;
-  title: string;
-}
 
 /** Pace presets in slow-time units per wall second. */
 const SPEEDS: Speed[] = [0.1, 0.3, 1, 3, 10, 30, 'max'];
@@ -36,7 +33,7 @@ export class ControlPanel extends LitElement {
     css`
       fieldset {
         border: 0;
-        border-top: 1px solid #e3e8ec;
+        border-top: 1px solid ${unsafeCSS(DIVIDER)};
         margin: 0;
         padding: 7px 0 8px;
       }
@@ -69,9 +66,9 @@ export class ControlPanel extends LitElement {
         color: ${unsafeCSS(MUTED)};
       }
       .readonly {
-        background: #fff4e0;
-        border: 1px solid #f0c47a;
-        color: #7a4a00;
+        background: ${unsafeCSS(NOTICE_GROUND)};
+        border: 1px solid ${unsafeCSS(NOTICE_BORDER)};
+        color: ${unsafeCSS(NOTICE_INK)};
         border-radius: 6px;
         padding: 6px 8px;
         font-size: 14px;

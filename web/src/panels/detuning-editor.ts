@@ -1,6 +1,6 @@
-import { LitElement, css, html, type PropertyValues } from 'lit';
+import { LitElement, css, html, unsafeCSS, type PropertyValues } from 'lit';
 import { deltaOf, formatNumber, ppmOf } from '../data/engineering.js';
-import { panelStyles } from '../theme.js';
+import { MUTED, POPOVER_SHADOW, panelStyles } from '../theme.js';
 import { commandEvent } from './commands.js';
 
 /**
@@ -24,7 +24,7 @@ export class DetuningEditor extends LitElement {
     css`
       :host {
         padding: 10px 12px;
-        box-shadow: 0 6px 24px rgba(21, 32, 43, 0.25);
+        box-shadow: 0 6px 24px ${unsafeCSS(POPOVER_SHADOW)};
       }
       :host([inline]) {
         box-shadow: none;
@@ -39,11 +39,11 @@ export class DetuningEditor extends LitElement {
       }
       label {
         font-size: 13px;
-        color: #5b6875;
+        color: ${unsafeCSS(MUTED)};
       }
       .eq {
         font-size: 13px;
-        color: #5b6875;
+        color: ${unsafeCSS(MUTED)};
       }
       .actions {
         display: flex;

@@ -5,7 +5,7 @@ import { StoreController } from '../data/store-controller.js';
 import { formatNumber, formatSeconds, runScalesOf } from '../data/engineering.js';
 import { secondsHeading } from './seconds-heading.js';
 import { tauToSeconds } from '../../../src/scenario/units.js';
-import { CAUTION, FAULT, LOCKED, MUTED, BRAND, UNWANTED, panelStyles } from '../theme.js';
+import { CAUTION, FAINT_RULE, FAULT, LOCKED, MUTED, BRAND, ON_SOLID, SURFACE, UNWANTED, columnStyles, panelStyles } from '../theme.js';
 
 const KIND_COLOUR: Record<SessionEventKind, string> = {
   perturbation: BRAND,
@@ -23,11 +23,8 @@ export class EventTimeline extends LitElement {
   static override properties = { store: { attribute: false } };
   static override styles = [
     panelStyles,
+    columnStyles,
     css`
-      :host {
-        display: flex;
-        flex-direction: column;
-      }
       .scroll {
         flex: 1 1 0;
         min-height: 120px;
@@ -45,13 +42,13 @@ export class EventTimeline extends LitElement {
         font-weight: 600;
         position: sticky;
         top: 0;
-        background: #fff;
+        background: ${unsafeCSS(SURFACE)};
         padding: 2px 6px 4px 0;
       }
       td {
         padding: 3px 6px 3px 0;
         vertical-align: top;
-        border-top: 1px solid #eef1f4;
+        border-top: 1px solid ${unsafeCSS(FAINT_RULE)};
       }
       td.num {
         white-space: nowrap;
@@ -62,7 +59,7 @@ export class EventTimeline extends LitElement {
         font-size: 11px;
         font-weight: 700;
         text-transform: uppercase;
-        color: #fff;
+        color: ${unsafeCSS(ON_SOLID)};
         border-radius: 4px;
         padding: 0 5px;
         margin-right: 4px;

@@ -5,7 +5,7 @@ import { formatHz, formatNumber, formatSeconds, formatSimulatedSeconds, frequenc
 import type { WireFrame } from '../../../src/protocol/messages.js';
 import type { LivePrediction } from '../../../src/predict/live.js';
 import { tauToSeconds } from '../../../src/scenario/units.js';
-import { CAUTION, FAULT, LOCKED, MUTED, UNWANTED, panelStyles } from '../theme.js';
+import { CAUTION, CHIP, DIVIDER, FAULT, INK, LOCKED, MUTED, SOFT_BORDER, SOFT_INK, UNWANTED, panelStyles } from '../theme.js';
 import { destinationText, modeName, modeOffset, patternLabel, spreadText, symmetryPhase, unwantedModeText } from './pattern-text.js';
 
 const MAX_ELEMENTS_SHOWN = 8;
@@ -28,13 +28,13 @@ export class PatternPanel extends LitElement {
       .sub {
         font-size: 17px;
         font-weight: 600;
-        color: #15202b;
+        color: ${unsafeCSS(INK)};
         margin-left: 10px;
         letter-spacing: 0;
       }
       .line {
         font-size: 14px;
-        color: #33404d;
+        color: ${unsafeCSS(SOFT_INK)};
       }
       dl {
         display: grid;
@@ -54,7 +54,7 @@ export class PatternPanel extends LitElement {
       section + section {
         margin-top: 7px;
         padding-top: 6px;
-        border-top: 1px solid #e3e8ec;
+        border-top: 1px solid ${unsafeCSS(DIVIDER)};
       }
       .chips {
         display: flex;
@@ -64,8 +64,8 @@ export class PatternPanel extends LitElement {
       }
       .chip {
         font-size: 13px;
-        background: #eef3f6;
-        border: 1px solid #d3dce3;
+        background: ${unsafeCSS(CHIP)};
+        border: 1px solid ${unsafeCSS(SOFT_BORDER)};
         border-radius: 12px;
         padding: 1px 8px;
         white-space: nowrap;

@@ -2,7 +2,9 @@ import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from '
 import type { LivePrediction } from '../../../src/predict/live.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
-import { fetchJson, livePatternIndex, predictionKey, type CatalogueResponse } from '../data/prediction-data.js';
+import { livePatternIndex, predictionKey, type CatalogueResponse } from '../data/prediction-data.js';
+import { getJson } from '../data/api-client.js';
+import { PollingController } from '../data/polling-controller.js';
 import { formatNumber, runScalesOf, type RunScales } from '../data/engineering.js';
 import { destinationText } from './pattern-text.js';
 import { FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
@@ -22,7 +24,6 @@ export class PredictionView extends LitElement {
     store: { attribute: false },
     active: { type: Boolean },
     catalogue: { state: true },
-    loading: { state: true },
     error: { state: true },
     selected: { state: true },
   };
@@ -60,20 +61,25 @@ export class PredictionView extends LitElement {
   declare store: FrameStore | null;
   declare active: boolean;
   declare catalogue: CatalogueResponse | null;
-  declare loading: boolean;
   declare error: string;
   declare selected: number;
 
   private requestedKey = '';
-  private timer: ReturnType<typeof setTimeout> | null = null;
-  private abort: AbortController | null = null;
+  /** A newer set of parameters abandons the catalogue being computed for the older one. */
+  private readonly reader = new PollingController(this, {
+    read: (signal) => this.readCatalogue(signal),
+    due: () => {
+      const key = predictionKey(this.store?.session ?? null);
+      return key !== '' && key !== this.requestedKey;
+    },
+    whileReading: 'supersede',
+  });
 
   constructor() {
     super();
     this.store = null;
     this.active = false;
     this.catalogue = null;
-    this.loading = false;
     this.error = '';
     this.selected = -1;
     // Twice a second is enough for the live row and the prediction text; parameters are checked each time.
@@ -84,46 +90,28 @@ export class PredictionView extends LitElement {
     this.addEventListener('sr-select-pattern', (e) => (this.selected = (e as CustomEvent<number>).detail));
   }
 
-  override disconnectedCallback(): void {
-    super.disconnectedCallback();
-    if (this.timer !== null) clearTimeout(this.timer);
-    this.timer = null;
-    this.abort?.abort();
-  }
-
   protected override updated(changed: PropertyValues): void {
     if (changed.has('active')) this.scheduleFetch();
   }
 
   /** Ask for the catalogue when the tab is shown and the live parameters differ from the last request. */
   private scheduleFetch(): void {
-    const key = predictionKey(this.store?.session ?? null);
-    if (!this.active || !key || key === this.requestedKey || this.timer !== null) return;
-    this.timer = setTimeout(() => {
-      this.timer = null;
-      void this.fetchCatalogue();
-    }, this.catalogue ? REFETCH_DELAY_MS : 0);
+    if (this.active) this.reader.readSoon(this.catalogue ? REFETCH_DELAY_MS : 0);
   }
 
-  private async fetchCatalogue(): Promise<void> {
-    const key = predictionKey(this.store?.session ?? null);
-    if (!key || key === this.requestedKey) return;
-    this.requestedKey = key;
-    this.abort?.abort();
-    const abort = (this.abort = new AbortController());
-    this.loading = true;
+  private async readCatalogue(signal: AbortSignal): Promise<void> {
+    this.requestedKey = predictionKey(this.store?.session ?? null);
     try {
-      const catalogue = await fetchJson<CatalogueResponse>('/api/catalogue', abort.signal);
-      if (abort.signal.aborted) return;
+      const catalogue = await getJson<CatalogueResponse>('/api/catalogue', signal);
+      if (signal.aborted) return;
       if (catalogue.computedFor.scenarioName !== this.catalogue?.computedFor.scenarioName) this.selected = -1;
       this.catalogue = catalogue;
       this.error = '';
     } catch (error) {
-      if (abort.signal.aborted) return;
+      if (signal.aborted) return;
       // Not asked again for the same parameters (the answer would be the same); a change retries.
       this.error = `The catalogue could not be computed: ${(error as Error).message}`;
     } finally {
-      if (this.abort === abort) this.loading = false;
       // The parameters may have moved on while this one was computed.
       this.scheduleFetch();
     }
@@ -140,7 +128,7 @@ export class PredictionView extends LitElement {
         <sr-catalogue-panel
           .catalogue=${this.catalogue}
           .session=${session}
-          ?loading=${this.loading}
+          ?loading=${this.reader.busy}
           .error=${this.error}
           .live=${live}
           .selected=${this.selected}

@@ -3,7 +3,7 @@ import type { LinkState, SessionInfo, WireFrame } from '../../../src/protocol/me
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { formatNumber, formatSigned } from '../data/engineering.js';
-import { CAUTION, FAULT, INK, LOCKED, MUTED, UNWANTED, BRAND, nodeColour, panelStyles } from '../theme.js';
+import { CAUTION, FAULT, INK, LINK_LINE, LOCKED, MUTED, NODE_RIM, SURFACE, UNWANTED, BRAND, nodeColour, panelStyles } from '../theme.js';
 import { CENTRE, VIEW_HEIGHT, VIEW_WIDTH, labelPosition, linkLayout, nodeLayout, nodeRadius, type LinkLayout, type NodeLayout } from './ring-geometry.js';
 import { commandEvent, noticeEvent } from './commands.js';
 import { patternLabel } from './pattern-text.js';
@@ -142,7 +142,7 @@ export class RingView extends LitElement {
         ${this.editing !== null && this.editing < n ? this.renderEditor(nodes[this.editing], session) : nothing}
       </div>
       <div class="note">
-        <span class="key"><svg width="18" height="18" viewBox="-9 -9 18 18"><circle r="8" fill="#2457c5" opacity="0.85"></circle><line x2="8" stroke=${INK} stroke-width="2.5"></line></svg>fill = |a| of wanted mode, hand = its phase</span>
+        <span class="key"><svg width="18" height="18" viewBox="-9 -9 18 18"><circle r="8" fill=${nodeColour(0)} opacity="0.85"></circle><line x2="8" stroke=${INK} stroke-width="2.5"></line></svg>fill = |a| of wanted mode, hand = its phase</span>
         <span class="key"><svg width="14" height="14" viewBox="-7 -7 14 14"><path d="M 6 0 L -5 -5 L -5 5 Z" fill="none" stroke=${INK} stroke-width="1.5"></path></svg>guide phase</span>
         ${session.modes > 1 ? html`<span class="key" style="color:${UNWANTED}">◌ unwanted mode dominates</span>` : ''}
         ${this.canEdit
@@ -155,7 +155,7 @@ export class RingView extends LitElement {
   private renderLink(layout: LinkLayout, width: number) {
     const { link, path, arrow, middle } = layout;
     const isBroken = link.weight === 0;
-    const colour = isBroken ? FAULT : '#41505e';
+    const colour = isBroken ? FAULT : LINK_LINE;
     const action = isBroken ? 'restore' : 'break';
     const s = 10;
     return svg`
@@ -165,15 +165,15 @@ export class RingView extends LitElement {
         <title>link ${link.from} → ${link.to}, weight ${formatNumber(link.weight)} of ${formatNumber(link.nominal)}${this.canEdit ? ` — click to ${action}` : ''}</title>
         <path class="link-line" d=${path} fill="none" stroke=${colour} stroke-width=${isBroken ? 4 : width}
               stroke-dasharray=${isBroken ? '9 7' : 'none'} stroke-linecap="round"></path>
-        <polygon class="link-arrow" points=${arrow} fill=${isBroken ? '#ffffff' : colour} stroke=${colour} stroke-width=${isBroken ? 2 : 0}></polygon>
+        <polygon class="link-arrow" points=${arrow} fill=${isBroken ? SURFACE : colour} stroke=${colour} stroke-width=${isBroken ? 2 : 0}></polygon>
         ${isBroken
           ? svg`<g transform="translate(${middle.x.toFixed(1)} ${middle.y.toFixed(1)})">
-              <circle r="17" fill="#ffffff" stroke=${FAULT} stroke-width="3"></circle>
+              <circle r="17" fill=${SURFACE} stroke=${FAULT} stroke-width="3"></circle>
               <path d="M ${-s} ${-s} L ${s} ${s} M ${-s} ${s} L ${s} ${-s}" stroke=${FAULT} stroke-width="5" stroke-linecap="round"></path>
             </g>`
           : link.weight !== link.nominal
             ? svg`<text x=${middle.x} y=${middle.y} font-size="14" text-anchor="middle" dominant-baseline="central" fill=${INK}
-                   stroke="#fff" stroke-width="4" paint-order="stroke">×${formatNumber(link.weight / (link.nominal || 1), 2)}</text>`
+                   stroke=${SURFACE} stroke-width="4" paint-order="stroke">×${formatNumber(link.weight / (link.nominal || 1), 2)}</text>`
             : nothing}
         <path class="link-hit" d=${path}></path>
       </g>`;
@@ -197,17 +197,17 @@ export class RingView extends LitElement {
       <g class="node" data-node=${k} transform="translate(${p.x.toFixed(1)} ${p.y.toFixed(1)})" @click=${() => this.onNode(k)}>
         <title>node ${k}: |a₀| = ${formatNumber(a0)}${session.modes > 1 ? `, |a₁| = ${formatNumber(a1)}` : ''}, detuning ${formatSigned(ppm)} ppm${this.canEdit ? ' — click to edit' : ''}</title>
         ${unwanted ? svg`<circle r=${r + 9} fill="none" stroke=${UNWANTED} stroke-width="5" stroke-dasharray="6 4"></circle>` : nothing}
-        <circle class="rim" r=${r} fill="#ffffff" stroke="#8794a1" stroke-width="1.5"></circle>
+        <circle class="rim" r=${r} fill=${SURFACE} stroke=${NODE_RIM} stroke-width="1.5"></circle>
         <circle r=${fill.toFixed(2)} fill=${nodeColour(k)} opacity="0.88"></circle>
         ${session.modes > 1 && a1 > 0.01 * reference
           ? svg`<circle r=${second.toFixed(2)} fill="none" stroke=${UNWANTED} stroke-width="3"></circle>`
           : nothing}
-        ${tri ? svg`<polygon points=${tri} fill="#ffffff" stroke=${INK} stroke-width="2"></polygon>` : nothing}
+        ${tri ? svg`<polygon points=${tri} fill=${SURFACE} stroke=${INK} stroke-width="2"></polygon>` : nothing}
         ${hand ? svg`<line x1="0" y1="0" x2=${hand.x.toFixed(2)} y2=${hand.y.toFixed(2)} stroke=${INK} stroke-width="4.5" stroke-linecap="round"></line>` : nothing}
         <circle r="4.5" fill=${INK}></circle>
         ${unwanted
           ? svg`<text x=${(-Math.cos(p.angle) * (r + 24)).toFixed(1)} y=${(-Math.sin(p.angle) * (r + 24)).toFixed(1)} text-anchor="middle"
-                  dominant-baseline="central" font-size="15" font-weight="800" fill=${UNWANTED} stroke="#fff" stroke-width="4" paint-order="stroke">MODE ${frame?.full.amplitude[k]?.indexOf(Math.max(...(frame?.full.amplitude[k] ?? [0]))) ?? 1}</text>`
+                  dominant-baseline="central" font-size="15" font-weight="800" fill=${UNWANTED} stroke=${SURFACE} stroke-width="4" paint-order="stroke">MODE ${frame?.full.amplitude[k]?.indexOf(Math.max(...(frame?.full.amplitude[k] ?? [0]))) ?? 1}</text>`
           : nothing}
       </g>
       <g class="node-label" transform="translate(${label.x.toFixed(1)} ${label.y.toFixed(1)})">
@@ -228,8 +228,8 @@ export class RingView extends LitElement {
     const r = p.q !== undefined ? p.orderParameters[p.q] : Math.max(0, ...p.orderParameters);
     return svg`
       <g data-testid="ring-centre">
-        <rect x=${c - 135} y=${cy - 52} width="270" height="100" rx="14" fill="#ffffff" opacity="0.85"></rect>
-        <g stroke="#ffffff" stroke-width="6" stroke-linejoin="round" paint-order="stroke">
+        <rect x=${c - 135} y=${cy - 52} width="270" height="100" rx="14" fill=${SURFACE} opacity="0.85"></rect>
+        <g stroke=${SURFACE} stroke-width="6" stroke-linejoin="round" paint-order="stroke">
           <text x=${c} y=${cy - 18} text-anchor="middle" font-size="30" font-weight="800" fill=${colour} letter-spacing="1">${headline}</text>
           <text x=${c} y=${cy + 12} text-anchor="middle" font-size="18" fill=${INK}>${sub}</text>
           <text x=${c} y=${cy + 38} text-anchor="middle" font-size="16" fill=${MUTED}>R = ${r.toFixed(3)}</text>

@@ -1,12 +1,12 @@
-import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from 'lit';
+import { LitElement, css, html, nothing, unsafeCSS } from 'lit';
 import type { SoakListing, SoaksResponse, VerdictRow } from '../../../src/protocol/soak-files.js';
-import { fetchJson } from '../data/prediction-data.js';
+import { getJson, postJson } from '../data/api-client.js';
+import { PollingController } from '../data/polling-controller.js';
 import { apiUrl, tokenFrom } from '../data/page-address.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
 import { secondsHeading } from './seconds-heading.js';
 import { PASS_CAUTION, PASS_CAUTION_SHORT } from '../../../src/campaign/cautions.js';
-import { BRAND, CAUTION, FAULT, GRID, INK, LOCKED, MUTED, panelStyles } from '../theme.js';
-import { postSoakControl } from './soak-start-form.js';
+import { BRAND, CAUTION, CHIP, CHOSEN_ITEM, FAULT, GRID, INK, INSET_SURFACE, LOCKED, MUTED, ON_SOLID, PROGRESS_TRACK, SOFT_BORDER, SOFT_INK, SURFACE, panelStyles, tableStyles } from '../theme.js';
 import './soak-start-form.js';
 
 /** How often the list is read again while the tab is shown (status.json is rewritten about once a second). */
@@ -40,6 +40,7 @@ export class SoakPanel extends LitElement {
   };
   static override styles = [
     panelStyles,
+    tableStyles,
     css`
       :host {
         display: grid;
@@ -57,7 +58,7 @@ export class SoakPanel extends LitElement {
         }
       }
       .card {
-        background: #fff;
+        background: ${unsafeCSS(SURFACE)};
         border: 1px solid ${unsafeCSS(GRID)};
         border-radius: 10px;
         padding: 10px 14px 12px;
@@ -72,8 +73,8 @@ export class SoakPanel extends LitElement {
       }
       button.soak {
         text-align: left;
-        background: #f7f9fb;
-        border: 1px solid #d3dce3;
+        background: ${unsafeCSS(INSET_SURFACE)};
+        border: 1px solid ${unsafeCSS(SOFT_BORDER)};
         border-radius: 8px;
         padding: 8px 10px;
         display: block;
@@ -81,7 +82,7 @@ export class SoakPanel extends LitElement {
       }
       button.soak.chosen {
         border: 2px solid ${unsafeCSS(BRAND)};
-        background: #eef6f5;
+        background: ${unsafeCSS(CHOSEN_ITEM)};
       }
       .name {
         font-weight: 700;
@@ -98,7 +99,7 @@ export class SoakPanel extends LitElement {
         letter-spacing: 0.08em;
         padding: 2px 8px;
         border-radius: 4px;
-        color: #fff;
+        color: ${unsafeCSS(ON_SOLID)};
       }
       .badge.big {
         font-size: 22px;
@@ -108,7 +109,7 @@ export class SoakPanel extends LitElement {
         position: relative;
         height: 10px;
         border-radius: 5px;
-        background: #e3e8ec;
+        background: ${unsafeCSS(PROGRESS_TRACK)};
         overflow: hidden;
         margin: 6px 0 3px;
       }
@@ -128,11 +129,11 @@ export class SoakPanel extends LitElement {
         align-items: center;
         justify-content: center;
         font-size: 16px;
-        color: #15202b;
+        color: ${unsafeCSS(INK)};
       }
       .line {
         font-size: 14px;
-        color: #33404d;
+        color: ${unsafeCSS(SOFT_INK)};
         font-variant-numeric: tabular-nums;
       }
       .head {
@@ -159,37 +160,20 @@ export class SoakPanel extends LitElement {
       a.report {
         font-size: 16px;
         font-weight: 700;
-        color: #fff;
+        color: ${unsafeCSS(ON_SOLID)};
         background: ${unsafeCSS(BRAND)};
         border-radius: 6px;
         padding: 5px 12px;
         text-decoration: none;
       }
       table {
-        width: 100%;
-        border-collapse: collapse;
         font-size: 16px;
-        font-variant-numeric: tabular-nums;
       }
       th {
-        text-align: left;
-        font-size: 13px;
-        color: ${unsafeCSS(MUTED)};
         padding: 4px 8px 6px;
-        border-bottom: 2px solid ${unsafeCSS(GRID)};
-        position: sticky;
-        top: 0;
-        background: #fff;
-        white-space: nowrap;
       }
       td {
         padding: 6px 8px;
-        border-bottom: 1px solid #e6eaee;
-        vertical-align: top;
-      }
-      td.r,
-      th.r {
-        text-align: right;
       }
       .reasons {
         font-size: 13px;
@@ -219,7 +203,7 @@ export class SoakPanel extends LitElement {
       }
       .empty {
         font-size: 16px;
-        color: #33404d;
+        color: ${unsafeCSS(SOFT_INK)};
         line-height: 1.5;
       }
       button.act {
@@ -230,7 +214,7 @@ export class SoakPanel extends LitElement {
       button.act.stop {
         border-color: ${unsafeCSS(FAULT)};
         color: ${unsafeCSS(FAULT)};
-        background: #fff;
+        background: ${unsafeCSS(SURFACE)};
       }
       .action {
         font-size: 14px;
@@ -251,7 +235,7 @@ export class SoakPanel extends LitElement {
         color: ${unsafeCSS(MUTED)};
       }
       code {
-        background: #eef3f6;
+        background: ${unsafeCSS(CHIP)};
         padding: 1px 5px;
         border-radius: 4px;
         font-size: 14px;
@@ -268,9 +252,8 @@ export class SoakPanel extends LitElement {
 
   /** The operator token from the page address; viewers have none and see no controls. */
   private readonly token = tokenFrom(location.search);
-  private timer: ReturnType<typeof setTimeout> | null = null;
-  private fetching = false;
-  private again = false;
+  /** Reads the list every POLL_MS while the tab is shown; a start, stop or resume asks for it at once. */
+  private readonly poller = new PollingController(this, { read: (signal) => this.readList(signal), active: () => this.active, everyMs: POLL_MS });
   /** A soak just started here, chosen before the list has it. */
   private awaited: string | null = null;
 
@@ -283,45 +266,16 @@ export class SoakPanel extends LitElement {
     this.action = null;
   }
 
-  override disconnectedCallback(): void {
-    super.disconnectedCallback();
-    this.stopPolling();
-  }
-
-  protected override updated(changed: PropertyValues): void {
-    if (!changed.has('active')) return;
-    if (this.active) void this.poll();
-    else this.stopPolling();
-  }
-
-  private stopPolling(): void {
-    if (this.timer !== null) clearTimeout(this.timer);
-    this.timer = null;
-  }
-
-  private async poll(): Promise<void> {
-    if (this.fetching) {
-      // a start, stop or resume wants the list now: read it again as soon as this read is back
-      this.again = true;
-      return;
-    }
-    this.stopPolling();
-    if (!this.active || !this.isConnected) return;
-    this.fetching = true;
+  private async readList(signal: AbortSignal): Promise<void> {
     try {
-      this.listing = await fetchJson<SoaksResponse>('/api/soaks');
+      this.listing = await getJson<SoaksResponse>('/api/soaks', signal);
       this.error = '';
       const names = this.listing.soaks.map((s) => s.name);
       if (this.awaited !== null && names.includes(this.awaited)) this.awaited = null;
       if (!names.includes(this.chosen) && this.chosen !== this.awaited) this.chosen = (this.listing.soaks.find((s) => s.state === 'running') ?? this.listing.soaks[0])?.name ?? '';
     } catch (error) {
+      if (signal.aborted) return;
       this.error = `Could not list the soaks: ${(error as Error).message}`;
-    } finally {
-      this.fetching = false;
-      if (this.again) {
-        this.again = false;
-        void this.poll();
-      } else if (this.active && this.isConnected) this.timer = setTimeout(() => void this.poll(), POLL_MS);
     }
   }
 
@@ -421,13 +375,13 @@ export class SoakPanel extends LitElement {
     if (!this.token) return;
     this.action = { soak: name, text: '', failed: false, busy: true };
     try {
-      const answer = await postSoakControl(`/api/soaks/${encodeURIComponent(name)}/${verb}`, this.token);
+      const answer = await postJson(`/api/soaks/${encodeURIComponent(name)}/${verb}`, this.token);
       const text = verb === 'stop' ? `Stopped (${String(answer.signal)}); ${String(answer.note ?? '')}.` : `Resumed as pid ${String(answer.pid)}.`;
       this.action = { soak: name, text, failed: false, busy: false };
     } catch (error) {
       this.action = { soak: name, text: `${verb === 'stop' ? 'Stop' : 'Resume'} refused: ${(error as Error).message}`, failed: true, busy: false };
     }
-    void this.poll();
+    this.poller.readNow();
   }
 
   /** A soak the form started: show it at once (it is listed as starting until its first status). */
@@ -435,7 +389,7 @@ export class SoakPanel extends LitElement {
     this.chosen = name;
     this.awaited = name;
     this.action = null;
-    void this.poll();
+    this.poller.readNow();
   }
 
   private renderVerdicts(s: SoakListing) {

@@ -1,34 +1,12 @@
 import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from 'lit';
 import type { SoakListing } from '../../../src/protocol/soak-files.js';
-import { fetchJson } from '../data/prediction-data.js';
-import { apiUrl } from '../data/page-address.js';
+import { getJson, postJson } from '../data/api-client.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
-import { FAULT, MUTED, panelStyles } from '../theme.js';
-import type { ScenarioChoice } from './control-panel.js';
-
-/** GET /api/campaigns (server/http/soak-control.ts). */
-export interface CampaignChoice {
-  name: string;
-  title: string;
-  description: string;
-  /** Built-in scenarios the campaign fits. */
-  scenarios: string[];
-}
+import { FAULT, INSET_SURFACE, MUTED, OUTLINE, SOFT_BORDER, SURFACE, panelStyles } from '../theme.js';
+import type { CampaignChoice, ScenarioChoice } from '../../../src/protocol/catalogue-lists.js';
 
 /** Default length of a soak started here: past the fixed faults of the built-in campaign (the last re-lock window closes by 245). */
 const DEFAULT_UNTIL_SLOW = 300;
-
-/** A soak-control POST with the operator token; a refusal throws with the server's message (it names the field). */
-export async function postSoakControl(path: string, token: string, body?: unknown): Promise<Record<string, unknown>> {
-  const response = await fetch(apiUrl(path), {
-    method: 'POST',
-    headers: { Authorization: `Bearer ${token}`, ...(body !== undefined ? { 'Content-Type': 'application/json' } : {}) },
-    body: body !== undefined ? JSON.stringify(body) : undefined,
-  });
-  const answer = (await response.json().catch(() => null)) as (Record<string, unknown> & { error?: string }) | null;
-  if (!response.ok) throw new Error(answer?.error ?? `HTTP ${response.status} from ${path}`);
-  return answer ?? {};
-}
 
 /** NAME-MMDD-HHMM, with -2, -3 ... until no soak has it. */
 export function uniqueSoakName(base: string, taken: ReadonlySet<string>, now = new Date()): string {
@@ -78,8 +56,8 @@ export class SoakStartForm extends LitElement {
     panelStyles,
     css`
       :host {
-        background: #f7f9fb;
-        border-color: #d3dce3;
+        background: ${unsafeCSS(INSET_SURFACE)};
+        border-color: ${unsafeCSS(SOFT_BORDER)};
         margin: 4px 0 12px;
       }
       form {
@@ -98,9 +76,9 @@ export class SoakStartForm extends LitElement {
         width: 100%;
         box-sizing: border-box;
         padding: 3px 5px;
-        border: 1px solid #9aa7b3;
+        border: 1px solid ${unsafeCSS(OUTLINE)};
         border-radius: 4px;
-        background: #fff;
+        background: ${unsafeCSS(SURFACE)};
       }
       .with-unit {
         display: flex;
@@ -171,7 +149,7 @@ export class SoakStartForm extends LitElement {
 
   private async load(): Promise<void> {
     try {
-      const [scenarios, campaigns] = await Promise.all([fetchJson<ScenarioChoice[]>('/api/scenarios'), fetchJson<CampaignChoice[]>('/api/campaigns')]);
+      const [scenarios, campaigns] = await Promise.all([getJson<ScenarioChoice[]>('/api/scenarios'), getJson<CampaignChoice[]>('/api/campaigns')]);
       this.scenarios = scenarios;
       this.campaigns = campaigns;
       this.campaign ||= campaigns[0]?.name ?? '';
@@ -219,7 +197,7 @@ export class SoakStartForm extends LitElement {
     const body: Record<string, unknown> = { name: this.name.trim(), scenario: this.scenario, campaign: this.campaign, until: this.until.trim() === '' ? null : Number(this.until) };
     if (this.pace.trim() !== '') body.pace = Number(this.pace);
     try {
-      await postSoakControl('/api/soaks', this.token, body);
+      await postJson('/api/soaks', this.token, body);
       this.nameTyped = false;
       this.dispatchEvent(new CustomEvent<string>('sr-soak-started', { detail: String(body.name), bubbles: true, composed: true }));
       this.name = uniqueSoakName(this.scenario, new Set([...this.soaks.map((s) => s.name), String(body.name)]));

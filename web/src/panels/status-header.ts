@@ -1,10 +1,10 @@
-import { LitElement, css, html, nothing } from 'lit';
+import { LitElement, css, html, nothing, unsafeCSS } from 'lit';
 import type { Role } from '../../../src/protocol/messages.js';
 import type { ConnectionState } from '../data/connection.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { formatHz, formatNumber, formatSimulatedSeconds, runScalesOf } from '../data/engineering.js';
-import { BRAND, CAUTION, FAULT, LOCKED, UNWANTED } from '../theme.js';
+import { BRAND, CAUTION, FAULT, HEADER_BADGE, HEADER_HOVER, HEADER_OUTLINE, INK, LOCKED, LOGO_NODES, LOGO_RING, ON_SOLID, UNWANTED, stripStyles } from '../theme.js';
 import { ASSUMED_FREQUENCY_NOTE } from '../../../src/scenario/units.js';
 
 /**
@@ -19,90 +19,88 @@ export class StatusHeader extends LitElement {
     connection: { attribute: false },
     viewers: { type: Number },
   };
-  static override styles = css`
-    :host {
-      display: block;
-      background: #15202b;
-      color: #fff;
-    }
-    .bar {
-      display: flex;
-      align-items: center;
-      gap: 18px;
-      padding: 8px 18px;
-      flex-wrap: wrap;
-    }
-    .brand {
-      display: flex;
-      align-items: center;
-      gap: 8px;
-      font-size: 24px;
-      font-weight: 800;
-      letter-spacing: 0.02em;
-    }
-    .scenario {
-      font-size: 17px;
-      font-weight: 600;
-    }
-    .scenario small {
-      display: block;
-      font-size: 13px;
-      font-weight: 400;
-      opacity: 0.75;
-    }
-    .badge {
-      font-size: 13px;
-      font-weight: 800;
-      letter-spacing: 0.1em;
-      padding: 3px 10px;
-      border-radius: 4px;
-      background: #3c4a57;
-    }
-    .clock {
-      font-variant-numeric: tabular-nums;
-      font-size: 16px;
-      display: flex;
-      gap: 14px;
-    }
-    .clock b {
-      font-weight: 700;
-    }
-    .clock span {
-      opacity: 0.95;
-    }
-    .spacer {
-      flex: 1;
-    }
-    .pill {
-      display: inline-flex;
-      align-items: center;
-      gap: 6px;
-      font-size: 15px;
-    }
-    .dot {
-      width: 11px;
-      height: 11px;
-      border-radius: 50%;
-      display: inline-block;
-    }
-    a,
-    label.open {
-      color: #fff;
-      font-size: 14px;
-      border: 1px solid #6b7a88;
-      border-radius: 6px;
-      padding: 4px 10px;
-      text-decoration: none;
-      cursor: pointer;
-    }
-    a:hover,
-    label.open:hover {
-      background: #2b3946;
-    }
-    input[type='file'] {
-      display: none;
-    }
-  `;
+  static override styles = [
+    stripStyles,
+    css`
+      :host {
+        background: ${unsafeCSS(INK)};
+      }
+      .bar {
+        gap: 18px;
+        flex-wrap: wrap;
+      }
+      .brand {
+        display: flex;
+        align-items: center;
+        gap: 8px;
+        font-size: 24px;
+        font-weight: 800;
+        letter-spacing: 0.02em;
+      }
+      .scenario {
+        font-size: 17px;
+        font-weight: 600;
+      }
+      .scenario small {
+        display: block;
+        font-size: 13px;
+        font-weight: 400;
+        opacity: 0.75;
+      }
+      .badge {
+        font-size: 13px;
+        font-weight: 800;
+        letter-spacing: 0.1em;
+        padding: 3px 10px;
+        border-radius: 4px;
+        background: ${unsafeCSS(HEADER_BADGE)};
+      }
+      .clock {
+        font-variant-numeric: tabular-nums;
+        font-size: 16px;
+        display: flex;
+        gap: 14px;
+      }
+      .clock b {
+        font-weight: 700;
+      }
+      .clock span {
+        opacity: 0.95;
+      }
+      .spacer {
+        flex: 1;
+      }
+      .pill {
+        display: inline-flex;
+        align-items: center;
+        gap: 6px;
+        font-size: 15px;
+      }
+      .dot {
+        width: 11px;
+        height: 11px;
+        border-radius: 50%;
+        display: inline-block;
+      }
+      a,
+      label.open {
+        color: ${unsafeCSS(ON_SOLID)};
+        font-size: 14px;
+        border: 1px solid ${unsafeCSS(HEADER_OUTLINE)};
+        border-radius: 6px;
+        padding: 4px 10px;
+        text-decoration: none;
+        cursor: pointer;
+      }
+      a:hover,
+      label.open:hover {
+        background: ${unsafeCSS(HEADER_HOVER)};
+      }
+      input[type='file'] {
+        display: none;
+      }
+    `,
+  ];
 
   declare store: FrameStore | null;
   declare role: Role | null;
@@ -143,10 +141,10 @@ export class StatusHeader extends LitElement {
     return html`<div class="bar">
       <div class="brand">
         <svg width="30" height="30" viewBox="0 0 32 32" aria-hidden="true">
-          <circle cx="16" cy="16" r="11" fill="none" stroke="#4fd1c5" stroke-width="3.5"></circle>
-          <circle cx="16" cy="5" r="4" fill="#ff9d3d"></circle>
-          <circle cx="25.5" cy="21.5" r="4" fill="#7cb7ff"></circle>
-          <circle cx="6.5" cy="21.5" r="4" fill="#b2f28c"></circle>
+          <circle cx="16" cy="16" r="11" fill="none" stroke=${LOGO_RING} stroke-width="3.5"></circle>
+          <circle cx="16" cy="5" r="4" fill=${LOGO_NODES[0]}></circle>
+          <circle cx="25.5" cy="21.5" r="4" fill=${LOGO_NODES[1]}></circle>
+          <circle cx="6.5" cy="21.5" r="4" fill=${LOGO_NODES[2]}></circle>
         </svg>
         syncring
       </div>
@@ -177,7 +175,7 @@ export class StatusHeader extends LitElement {
               ><span class="dot" style="background:${live ? LOCKED : FAULT}"></span><span data-testid="connection">${live ? 'live' : 'offline'}</span></span
             >
             <span class="pill" title="browsers connected to this run" data-testid="viewers">
-              <svg width="20" height="14" viewBox="0 0 20 14" aria-hidden="true"><path d="M1 7 Q10 -3 19 7 Q10 17 1 7 Z" fill="none" stroke="#fff" stroke-width="1.8"></path><circle cx="10" cy="7" r="3" fill="#fff"></circle></svg>
+              <svg width="20" height="14" viewBox="0 0 20 14" aria-hidden="true"><path d="M1 7 Q10 -3 19 7 Q10 17 1 7 Z" fill="none" stroke=${ON_SOLID} stroke-width="1.8"></path><circle cx="10" cy="7" r="3" fill=${ON_SOLID}></circle></svg>
               ${this.viewers} watching
             </span>`}
       ${this.replaying ? nothing : html`<a href="./api/log" download="syncring-session.ndjson" data-testid="save-log" title="download the live run's session log (NDJSON)">⤓ Save log</a>`}

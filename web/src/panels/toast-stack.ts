@@ -1,5 +1,5 @@
 import { LitElement, css, unsafeCSS, html } from 'lit';
-import { FAULT, INK } from '../theme.js';
+import { FAULT, INK, ON_SOLID, TOAST_SHADOW } from '../theme.js';
 
 interface Toast {
   id: number;
@@ -26,10 +26,10 @@ export class ToastStack extends LitElement {
       gap: 10px;
       align-items: flex-start;
       background: ${unsafeCSS(INK)};
-      color: #fff;
+      color: ${unsafeCSS(ON_SOLID)};
       padding: 10px 14px;
       border-radius: 8px;
-      box-shadow: 0 6px 20px rgba(0, 0, 0, 0.3);
+      box-shadow: 0 6px 20px ${unsafeCSS(TOAST_SHADOW)};
       font-size: 15px;
       line-height: 1.35;
     }

@@ -4,7 +4,6 @@ import type { BranchLimit } from '../../../src/predict/continuation.js';
 import {
   branchX,
   defaultRange,
-  fetchJson,
   isLossLimit,
   LIMIT_WORDS,
   liveValue,
@@ -14,8 +13,9 @@ import {
   type WhatIfParameter,
   type WhatIfResponse,
 } from '../data/prediction-data.js';
+import { getJson } from '../data/api-client.js';
 import { deltaOf, formatNumber, ppmOf } from '../data/engineering.js';
-import { FAULT, LOCKED, MUTED, panelStyles } from '../theme.js';
+import { BRAND_HOVER, FAULT, LOCKED, MUTED, SOFT_INK, columnStyles, panelStyles } from '../theme.js';
 import '../charts/branch-chart.js';
 
 /**
@@ -41,12 +41,8 @@ export class WhatIfPanel extends LitElement {
   };
   static override styles = [
     panelStyles,
+    columnStyles,
     css`
-      :host {
-        display: flex;
-        flex-direction: column;
-        min-height: 0;
-      }
       .note {
         font-size: 14px;
         color: ${unsafeCSS(MUTED)};
@@ -78,7 +74,7 @@ export class WhatIfPanel extends LitElement {
         padding: 5px 14px;
       }
       button.primary:hover:not(:disabled) {
-        background: #095a56;
+        background: ${unsafeCSS(BRAND_HOVER)};
       }
       .headline {
         font-size: 21px;
@@ -114,7 +110,7 @@ export class WhatIfPanel extends LitElement {
       }
       .busy {
         font-size: 15px;
-        color: #33404d;
+        color: ${unsafeCSS(SOFT_INK)};
         margin: 0 0 6px;
       }
       sr-branch-chart {
@@ -222,7 +218,7 @@ export class WhatIfPanel extends LitElement {
     this.error = '';
     this.startClock();
     try {
-      const result = await fetchJson<WhatIfResponse>(`/api/what-if?${query}`, abort.signal);
+      const result = await getJson<WhatIfResponse>(`/api/what-if?${query}`, abort.signal);
       if (abort.signal.aborted) return;
       this.result = result;
     } catch (error) {

@@ -1,6 +1,6 @@
 import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
 import { formatNumber, formatSimulatedSeconds } from '../data/engineering.js';
-import { UNWANTED } from '../theme.js';
+import { ON_SOLID, REPLAY_NOTE_GROUND, REPLAY_TICK, UNWANTED, stripButtonStyles, stripStyles } from '../theme.js';
 import type { ReplayLog } from './replay-log.js';
 
 /** Samples advanced per second while playing. */
@@ -12,68 +12,61 @@ const PLAY_RATE = 30;
  */
 export class ReplayBar extends LitElement {
   static override properties = { replay: { attribute: false }, index: { type: Number }, playing: { state: true } };
-  static override styles = css`
-    :host {
-      display: block;
-      background: ${unsafeCSS(UNWANTED)};
-      color: #fff;
-    }
-    .bar {
-      display: flex;
-      align-items: center;
-      gap: 14px;
-      padding: 8px 18px;
-      font-size: 15px;
-    }
-    .title {
-      font-weight: 800;
-      letter-spacing: 0.08em;
-    }
-    .track {
-      position: relative;
-      flex: 1;
-      min-width: 200px;
-    }
-    input[type='range'] {
-      width: 100%;
-      accent-color: #fff;
-    }
-    .ticks {
-      position: absolute;
-      left: 0;
-      right: 0;
-      top: -4px;
-      height: 6px;
-      pointer-events: none;
-    }
-    .tick {
-      position: absolute;
-      width: 2px;
-      height: 8px;
-      background: #ffd166;
-    }
-    button {
-      font: inherit;
-      font-size: 14px;
-      background: #fff;
-      color: ${unsafeCSS(UNWANTED)};
-      border: 0;
-      border-radius: 5px;
-      padding: 4px 12px;
-      cursor: pointer;
-      font-weight: 700;
-    }
-    .pos {
-      font-variant-numeric: tabular-nums;
-      white-space: nowrap;
-    }
-    .problems {
-      background: #fff3;
-      border-radius: 4px;
-      padding: 1px 6px;
-      font-size: 13px;
-    }
-  `;
+  static override styles = [
+    stripStyles,
+    stripButtonStyles,
+    css`
+      :host {
+        background: ${unsafeCSS(UNWANTED)};
+      }
+      .bar {
+        gap: 14px;
+        font-size: 15px;
+      }
+      .title {
+        font-weight: 800;
+        letter-spacing: 0.08em;
+      }
+      .track {
+        position: relative;
+        flex: 1;
+        min-width: 200px;
+      }
+      input[type='range'] {
+        width: 100%;
+        accent-color: ${unsafeCSS(ON_SOLID)};
+      }
+      .ticks {
+        position: absolute;
+        left: 0;
+        right: 0;
+        top: -4px;
+        height: 6px;
+        pointer-events: none;
+      }
+      .tick {
+        position: absolute;
+        width: 2px;
+        height: 8px;
+        background: ${unsafeCSS(REPLAY_TICK)};
+      }
+      button {
+        color: ${unsafeCSS(UNWANTED)};
+        padding: 4px 12px;
+        font-weight: 700;
+      }
+      .pos {
+        font-variant-numeric: tabular-nums;
+        white-space: nowrap;
+      }
+      .problems {
+        background: ${unsafeCSS(REPLAY_NOTE_GROUND)};
+        border-radius: 4px;
+        padding: 1px 6px;
+        font-size: 13px;
+      }
+    `,
+  ];
 
   declare replay: ReplayLog | null;
   declare index: number;
