@@ -2,7 +2,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { analyzeStability, type FaultVerdict, type PhaseSample, type StabilityReport } from '../../src/campaign/index.js';
 import { DEFAULT_NOMINAL_FREQUENCY_HZ, tauToSeconds } from '../../src/scenario/units.js';
-import { UsageError } from '../scenario-file.js';
+import { UsageError } from '../usage-error.js';
 import { describeProblems, readSoakLog, type SoakHeaderRecord } from '../soak/resume.js';
 import { SUMMARY_FILE } from '../soak/outputs.js';
 import { stabilitySamples, type SampleLine } from '../soak/soak-records.js';

@@ -2,7 +2,7 @@ import { join } from 'node:path';
 import type { FaultVerdict, PhaseSample } from '../../src/campaign/index.js';
 import type { HeaderRecord } from '../../src/protocol/log-records.js';
 import { readSegments, type RecordAt, type SegmentedRead } from '../log/segments.js';
-import { UsageError } from '../scenario-file.js';
+import { UsageError } from '../usage-error.js';
 import { LOG_FOLDER, SEGMENT_PREFIX, stabilitySamples, type CheckpointLine, type EndLine, type SampleLine, type SoakHeader, type VerdictLine } from './soak-records.js';
 
 export type SoakHeaderRecord = HeaderRecord & { soak: SoakHeader };
