@@ -1,6 +1,6 @@
-import { ScenarioError } from '../src/scenario/errors.js';
+import { InputError } from '../src/util/input-error.js';
 import { simulate } from './commands/simulate.js';
-import { UsageError } from './scenario-file.js';
+import { UsageError, callError } from './usage-error.js';
 
 const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson] [--mode micro|envelope|auto]
@@ -32,7 +32,7 @@ export function parseArgs(argv: string[], valued: readonly string[]): Parsed {
     const [name, inline] = word.slice(2).split('=', 2);
     if (valued.includes(name)) {
       const value = inline ?? argv[++i];
-      if (value === undefined) throw new UsageError(`--${name} needs a value`);
+      if (value === undefined) throw callError(`--${name} needs a value`);
       flags.set(name, value);
     } else if (inline === undefined) {
       flags.set(name, true);
@@ -45,7 +45,7 @@ export function parseArgs(argv: string[], valued: readonly string[]): Parsed {
 
 function onlyFlags(parsed: Parsed, allowed: readonly string[]): void {
   for (const name of parsed.flags.keys()) {
-    if (!allowed.includes(name)) throw new UsageError(`unknown option --${name}`);
+    if (!allowed.includes(name)) throw callError(`unknown option --${name}`);
   }
 }
 
@@ -64,9 +64,9 @@ export async function main(argv: string[]): Promise<number> {
       case 'simulate': {
         const parsed = parseArgs(rest, ['until', 'out', 'mode']);
         onlyFlags(parsed, ['until', 'out', 'mode']);
-        if (parsed.positional.length !== 1) throw new UsageError('simulate needs exactly one SCENARIO');
+        if (parsed.positional.length !== 1) throw callError('simulate needs exactly one SCENARIO');
         const until = numberFlag(parsed, 'until');
-        if (until === undefined) throw new UsageError('simulate needs --until TAU');
+        if (until === undefined) throw callError('simulate needs --until TAU');
         const out = parsed.flags.get('out');
         const mode = parsed.flags.get('mode');
         const result = simulate({ scenario: parsed.positional[0], until, out: typeof out === 'string' ? out : undefined, mode: typeof mode === 'string' ? mode : undefined });
@@ -77,7 +77,7 @@ export async function main(argv: string[]): Promise<number> {
         const valued = ['continue', 'pattern', 'range', 'max-steps'];
         const parsed = parseArgs(rest, valued);
         onlyFlags(parsed, valued);
-        if (parsed.positional.length !== 1) throw new UsageError('predict needs exactly one SCENARIO');
+        if (parsed.positional.length !== 1) throw callError('predict needs exactly one SCENARIO');
         const text = (name: string): string | undefined => parsed.flags.get(name) as string | undefined;
         const { predict } = await import('./commands/predict.js');
         const result = predict({
@@ -112,14 +112,14 @@ export async function main(argv: string[]): Promise<number> {
         const valued = ['campaign', 'until', 'out', 'pace', 'segment-bytes', 'checkpoint-every'];
         const parsed = parseArgs(rest, valued);
         onlyFlags(parsed, [...valued, 'resume', 'fail-incomplete']);
-        if (parsed.positional.length !== 1) throw new UsageError('soak needs exactly one SCENARIO');
+        if (parsed.positional.length !== 1) throw callError('soak needs exactly one SCENARIO');
         const campaign = parsed.flags.get('campaign');
         const out = parsed.flags.get('out');
-        if (typeof campaign !== 'string') throw new UsageError('soak needs --campaign CAMPAIGN.json');
-        if (typeof out !== 'string') throw new UsageError('soak needs --out DIR');
+        if (typeof campaign !== 'string') throw callError('soak needs --campaign CAMPAIGN.json');
+        if (typeof out !== 'string') throw callError('soak needs --out DIR');
         const resume = parsed.flags.get('resume') === true;
         const until = numberFlag(parsed, 'until');
-        if (until === undefined && !resume) throw new UsageError('soak needs --until TAU');
+        if (until === undefined && !resume) throw callError('soak needs --until TAU');
         const { soak } = await import('./commands/soak.js');
         return await soak({
           scenario: parsed.positional[0],
@@ -136,7 +136,7 @@ export async function main(argv: string[]): Promise<number> {
       case 'report': {
         const parsed = parseArgs(rest, ['out']);
         onlyFlags(parsed, ['out']);
-        if (parsed.positional.length !== 1) throw new UsageError('report needs exactly one DIR (the --out folder of a soak)');
+        if (parsed.positional.length !== 1) throw callError('report needs exactly one DIR (the --out folder of a soak)');
         const out = parsed.flags.get('out');
         const { report } = await import('./commands/report.js');
         const written = report(parsed.positional[0], typeof out === 'string' ? out : undefined);
@@ -149,12 +149,12 @@ export async function main(argv: string[]): Promise<number> {
         process.stdout.write(`${USAGE}\n`);
         return command === undefined ? 2 : 0;
       default:
-        throw new UsageError(`unknown command ${JSON.stringify(command)}`);
+        throw callError(`unknown command ${JSON.stringify(command)}`);
     }
   } catch (error) {
-    if (error instanceof UsageError || error instanceof ScenarioError) {
+    if (error instanceof InputError) {
       process.stderr.write(`syncring: ${error.message}\n`);
-      if (error instanceof UsageError && /command|needs|option/.test(error.message)) process.stderr.write(`${USAGE}\n`);
+      if (error instanceof UsageError && error.showUsage) process.stderr.write(`${USAGE}\n`);
       return 2;
     }
     throw error;

@@ -2,14 +2,11 @@ import { existsSync, readFileSync } from 'node:fs';
 import { parseScenario } from '../src/scenario/parse.js';
 import type { Scenario } from '../src/scenario/types.js';
 import { builtInScenarioNames, builtInScenarioRaw } from '../src/scenarios/index.js';
+import { InputError } from '../src/util/input-error.js';
 import { jsonErrorOffset } from './json-error-offset.js';
 
-/** Thrown for input the user must fix; the CLI prints the message and exits non-zero. */
-export class UsageError extends Error {
-  override name = 'UsageError';
-}
 
-/** Parse JSON text, turning a syntax error into a message with the file and line. */
+/** Parse JSON text, turning a syntax error into an InputError whose source is the file, with the line. */
 export function parseJsonText(text: string, source: string): unknown {
   try {
     return JSON.parse(text);
@@ -20,9 +17,9 @@ export function parseJsonText(text: string, source: string): unknown {
       const before = text.slice(0, offset);
       const line = before.split('\n').length;
       const column = offset - before.lastIndexOf('\n');
-      throw new UsageError(`${source}: not valid JSON at line ${line}, column ${column}: ${message}`);
+      throw new InputError('', `not valid JSON at line ${line}, column ${column}: ${message}`, { source });
     }
-    throw new UsageError(`${source}: not valid JSON: ${message}`);
+    throw new InputError('', `not valid JSON: ${message}`, { source });
   }
 }
 
@@ -42,13 +39,13 @@ export function loadJsonInput(pathOrName: string, builtIns: BuiltIns): { raw: un
     if (builtIns.names.includes(pathOrName)) {
       return { raw: builtIns.raw(pathOrName), source: `built-in:${pathOrName}`, label: `built-in ${builtIns.kind} ${pathOrName}` };
     }
-    throw new UsageError(`${pathOrName}: no such file (built-in ${builtIns.kind}s: ${builtIns.names.join(', ')})`);
+    throw new InputError('', `no such file (built-in ${builtIns.kind}s: ${builtIns.names.join(', ')})`, { source: pathOrName });
   }
   let text: string;
   try {
     text = readFileSync(pathOrName, 'utf8');
   } catch (error) {
-    throw new UsageError(`${pathOrName}: cannot be read: ${(error as Error).message}`);
+    throw new InputError('', `cannot be read: ${(error as Error).message}`, { source: pathOrName });
   }
   return { raw: parseJsonText(text, pathOrName), source: pathOrName, label: pathOrName };
 }

@@ -3,11 +3,15 @@ import { nearResonances } from '../../src/guide/resonance.js';
 import { GuideModel } from '../../src/predict/guide-model.js';
 import { CATALOGUE_SIZE_LIMIT, patternCatalogue, type CataloguePattern } from '../../src/predict/catalogue.js';
 import { continueBranch, type Branch } from '../../src/predict/continuation.js';
-import { CONTINUATION_SYNTAX, parseContinuationParameter } from '../../src/predict/continuation-parameter.js';
+import { CONTINUATION_SYNTAX } from '../../src/predict/continuation-parameter.js';
 import { lookAhead } from '../../src/predict/look-ahead.js';
-import { UsageError, loadScenario } from '../scenario-file.js';
+import type { Scenario } from '../../src/scenario/types.js';
 import { ASSUMED_FREQUENCY_NOTE } from '../../src/scenario/units.js';
 import type { ContinuationOutput, PredictOutput } from '../../src/protocol/predict-output.js';
+import { InputError } from '../../src/util/input-error.js';
+import { loadScenario } from '../scenario-file.js';
+import { UsageError, callError } from '../usage-error.js';
+import { FLAG_NAMES, continuationArgument, type ArgumentNames } from './predict-arguments.js';
 
 export interface PredictArgs {
   scenario: string;
@@ -22,17 +26,17 @@ export interface PredictArgs {
 }
 
 /** "MIN:MAX" with either side optional ("0:", ":0.3"). */
-function parseRange(text: string): { min?: number; max?: number } {
+function parseRange(text: string, names: ArgumentNames): { min?: number; max?: number } {
   const match = /^\s*([^:]*):([^:]*)\s*$/.exec(text);
-  if (!match) throw new UsageError(`--range must look like MIN:MAX, e.g. -0.1:0.1 (got ${JSON.stringify(text)})`);
+  if (!match) throw new UsageError(`${names.range} must look like MIN:MAX, e.g. -0.1:0.1 (got ${JSON.stringify(text)})`);
   const side = (word: string, name: string): number | undefined => {
     if (word.trim() === '') return undefined;
     const value = Number(word);
-    if (!Number.isFinite(value)) throw new UsageError(`--range: ${name} ${JSON.stringify(word)} is not a number`);
+    if (!Number.isFinite(value)) throw new InputError(names.range, `${name} ${JSON.stringify(word)} is not a number`);
     return value;
   };
   const range = { min: side(match[1], 'MIN'), max: side(match[2], 'MAX') };
-  if (range.min !== undefined && range.max !== undefined && !(range.min < range.max)) throw new UsageError(`--range: MIN must be below MAX (got ${text})`);
+  if (range.min !== undefined && range.max !== undefined && !(range.min < range.max)) throw new InputError(names.range, `MIN must be below MAX (got ${text})`);
   return range;
 }
 
@@ -43,23 +47,24 @@ function parseRange(text: string): { min?: number; max?: number } {
  */
 export function predict(args: PredictArgs): PredictOutput {
   const { scenario } = loadScenario(args.scenario);
+  return predictScenario(scenario, args.scenario, args, FLAG_NAMES);
+}
+
+/**
+ * predict on a scenario already read from `source` (named in errors about the scenario), with
+ * errors about the arguments worded in `names` (the command line's flags or the API's query fields).
+ */
+export function predictScenario(scenario: Scenario, source: string, args: Omit<PredictArgs, 'scenario'>, names: ArgumentNames): PredictOutput {
   const model = new GuideModel(scenario);
   if (model.size > CATALOGUE_SIZE_LIMIT) {
-    throw new UsageError(`${args.scenario}: ${scenario.nodes} nodes x ${model.modes} modes give ${model.size} slow variables; predict handles at most ${CATALOGUE_SIZE_LIMIT}`);
+    throw new InputError('', `${scenario.nodes} nodes x ${model.modes} modes give ${model.size} slow variables; predict handles at most ${CATALOGUE_SIZE_LIMIT}`, { source });
   }
-  let parameter = null;
-  if (args.continueIn !== undefined) {
-    try {
-      parameter = parseContinuationParameter(args.continueIn, model.params);
-    } catch (error) {
-      if (error instanceof RangeError) throw new UsageError(error.message);
-      throw error;
-    }
-  }
-  const range = args.range !== undefined ? parseRange(args.range) : undefined;
-  if (range && !parameter) throw new UsageError('--range needs --continue PARAM');
-  if (args.pattern !== undefined && !parameter) throw new UsageError('--pattern needs --continue PARAM');
-  if (args.maxSteps !== undefined && (!Number.isInteger(args.maxSteps) || args.maxSteps < 1)) throw new UsageError(`--max-steps must be a positive integer (got ${args.maxSteps})`);
+  const parameter = args.continueIn !== undefined ? continuationArgument(args.continueIn, model.params, names) : null;
+  const range = args.range !== undefined ? parseRange(args.range, names) : undefined;
+  const needsParameter = (name: string) => callError(`${name} needs ${names.given(names.continueIn, 'PARAM')}`);
+  if (range && !parameter) throw needsParameter(names.range);
+  if (args.pattern !== undefined && !parameter) throw needsParameter(names.pattern);
+  if (args.maxSteps !== undefined && (!Number.isInteger(args.maxSteps) || args.maxSteps < 1)) throw new UsageError(`${names.maxSteps} must be a positive integer (got ${args.maxSteps})`);
 
   const started = Date.now();
   const initial = initialRotatingState(scenario, model.params);
@@ -99,7 +104,7 @@ export function predict(args: PredictArgs): PredictOutput {
   };
 
   if (parameter) {
-    const chosen = choosePattern(catalogue.patterns, args.pattern, settledIndex);
+    const chosen = choosePattern(catalogue.patterns, args.pattern, settledIndex, names);
     let branch: Branch;
     try {
       branch = continueBranch(model, Float64Array.from(catalogue.patterns[chosen].state), parameter, {
@@ -107,7 +112,7 @@ export function predict(args: PredictArgs): PredictOutput {
         ...(args.maxSteps !== undefined ? { maxSteps: args.maxSteps } : {}),
       });
     } catch (error) {
-      if (error instanceof RangeError) throw new UsageError(`--continue ${args.continueIn}: ${error.message}`);
+      if (error instanceof RangeError) throw new InputError(names.given(names.continueIn, args.continueIn!), error.message);
       throw error;
     }
     result.continuation = {
@@ -121,11 +126,11 @@ export function predict(args: PredictArgs): PredictOutput {
   return result;
 }
 
-function choosePattern(patterns: readonly CataloguePattern[], requested: number | undefined, settled: number): number {
+function choosePattern(patterns: readonly CataloguePattern[], requested: number | undefined, settled: number, names: ArgumentNames): number {
   if (patterns.length === 0) throw new UsageError('the catalogue holds no locked pattern to continue');
   if (requested !== undefined) {
     if (!Number.isInteger(requested) || requested < 0 || requested >= patterns.length) {
-      throw new UsageError(`--pattern must be an index 0..${patterns.length - 1} into "patterns" (got ${requested})`);
+      throw new UsageError(`${names.pattern} must be an index 0..${patterns.length - 1} into "patterns" (got ${requested})`);
     }
     return requested;
   }
@@ -134,7 +139,7 @@ function choosePattern(patterns: readonly CataloguePattern[], requested: number 
   patterns.forEach((p, i) => {
     if (p.stable === true && (best < 0 || p.margin < patterns[best].margin)) best = i;
   });
-  if (best < 0) throw new UsageError('no stable pattern to continue and the initial state does not settle; choose one with --pattern INDEX');
+  if (best < 0) throw new UsageError(`no stable pattern to continue and the initial state does not settle; choose one with ${names.pattern} INDEX`);
   return best;
 }
 

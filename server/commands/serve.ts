@@ -6,7 +6,8 @@ import type { Speed } from '../../src/protocol/messages.js';
 import { LiveSession } from '../live/live-session.js';
 import { Hub, type HubOptions } from '../ws/hub.js';
 import { createApp } from '../http/app.js';
-import { loadScenario, UsageError } from '../scenario-file.js';
+import { loadScenario } from '../scenario-file.js';
+import { UsageError } from '../usage-error.js';
 import type { OriginPolicy } from '../ws/origin.js';
 import { SIMULATION_CAUTION } from '../../src/campaign/cautions.js';
 

@@ -5,7 +5,8 @@ import { logHeader, sampleOf } from '../../src/protocol/log-records.js';
 import { runSummaryOf } from '../../src/protocol/run-summary.js';
 import { NdjsonFile } from '../log/ndjson-file.js';
 import { Progress } from '../progress.js';
-import { UsageError, loadScenario } from '../scenario-file.js';
+import { loadScenario } from '../scenario-file.js';
+import { UsageError } from '../usage-error.js';
 import { SOFTWARE_VERSION } from '../version.js';
 
 export interface SimulateArgs {

@@ -1,10 +1,11 @@
 import { existsSync } from 'node:fs';
 import { basename, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import express, { type Express, type NextFunction, type Request, type Response } from 'express';
+import express, { type Express } from 'express';
 import { builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
 import type { LiveSession } from '../live/live-session.js';
 import type { ScenarioChoice } from '../../src/protocol/catalogue-lists.js';
+import { httpErrorHandler } from './http-error.js';
 import { registerPredictionApi } from './prediction-api.js';
 import { registerSoakApi } from './soak-api.js';
 import { registerSoakControl, type SoakControlOptions } from './soak-control.js';
@@ -67,9 +68,7 @@ export function createApp(live: LiveSession, viewers: () => number, options: { s
       res.status(503).type('text/plain').send('The dashboard is not built: run `npm run build` (npm start does it).\n');
     });
   }
-  app.use((error: Error, _req: Request, res: Response, _next: NextFunction) => {
-    res.status(500).json({ error: error.message });
-  });
+  app.use(httpErrorHandler);
   return {
     app,
     close: async () => {

@@ -1,13 +1,15 @@
 import { createHash } from 'node:crypto';
-import type { Express, Request, Response } from 'express';
+import type { CatalogueResponse, ComputedFor, PredictOutput } from '../../src/protocol/predict-output.js';
+import type { Express, Response } from 'express';
 import { ModelParameters } from '../../src/model/parameters.js';
 import { parameterFingerprint } from '../../src/predict/guide-model.js';
-import { CONTINUATION_SYNTAX, parseContinuationParameter } from '../../src/predict/continuation-parameter.js';
 import { parseScenario, type ScenarioJSON } from '../../src/scenario/parse.js';
 import type { SessionInfo } from '../../src/protocol/messages.js';
 import type { LiveSession } from '../live/live-session.js';
+import { HttpError, sendHttpError } from './http-error.js';
+import { whatIfArguments } from './prediction-query.js';
 import type { PredictionRequest } from './prediction-worker.js';
-import { BackgroundWorker, WorkerRequestError, compiledHttpWorker } from './worker-client.js';
+import { BackgroundWorker, compiledHttpWorker } from './worker-client.js';
 
 /**
  * Prediction for the dashboard, always on a copy of the live parameters (never the live run):
@@ -42,28 +44,6 @@ export function predictionFingerprint(scenario: ScenarioJSON, params: ModelParam
   return createHash('sha256').update(JSON.stringify(fixed)).update('\n').update(parameterFingerprint(params)).digest('hex').slice(0, 16);
 }
 
-/** predict's messages name command-line flags; the API names its query fields instead. */
-export function queryWording(message: string): string {
-  return message.replace(/--continue /g, 'param=').replace(/--pattern\b/g, 'pattern').replace(/--range\b/g, 'range').replace(/--max-steps\b/g, 'maxSteps');
-}
-
-class BadQuery extends Error {}
-
-function oneText(req: Request, name: string): string | undefined {
-  const value = req.query[name];
-  if (value === undefined) return undefined;
-  if (typeof value !== 'string') throw new BadQuery(`${name} must be given once, as text`);
-  return value;
-}
-
-function integerQuery(req: Request, name: string, min: number): number | undefined {
-  const text = oneText(req, name);
-  if (text === undefined) return undefined;
-  const value = Number(text);
-  if (text.trim() === '' || !Number.isInteger(value) || value < min) throw new BadQuery(`${name} must be an integer >= ${min} (got ${JSON.stringify(text)})`);
-  return value;
-}
-
 interface Current {
   scenario: ScenarioJSON;
   params: ModelParameters;
@@ -72,8 +52,8 @@ interface Current {
 }
 
 export function registerPredictionApi(app: Express, live: LiveSession): { close(): Promise<void> } {
-  const worker = new BackgroundWorker<PredictionRequest, Record<string, unknown>>(compiledHttpWorker('prediction-worker'), 'prediction');
-  const cache = new Map<string, Promise<Record<string, unknown>>>();
+  const worker = new BackgroundWorker<PredictionRequest, PredictOutput>(compiledHttpWorker('prediction-worker'), 'prediction');
+  const cache = new Map<string, Promise<PredictOutput>>();
 
   const current = (): Current => {
     const info = live.info();
@@ -83,7 +63,7 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
   };
 
   /** One computation per key: concurrent requests share it, failures are not kept. */
-  const cached = (key: string, compute: () => Promise<Record<string, unknown>>): { result: Promise<Record<string, unknown>>; fromCache: boolean } => {
+  const cached = (key: string, compute: () => Promise<PredictOutput>): { result: Promise<PredictOutput>; fromCache: boolean } => {
     const hit = cache.get(key);
     if (hit) {
       cache.delete(key);
@@ -101,10 +81,9 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
     const { result, fromCache } = cached(key, () => worker.request({ scenario: now.scenario, args }));
     try {
       const value = await result;
-      res.json({ fingerprint: now.fingerprint, fromCache, computedFor: computedFor(now.info), ...value });
+      res.json({ fingerprint: now.fingerprint, fromCache, computedFor: computedFor(now.info), ...value } satisfies CatalogueResponse);
     } catch (error) {
-      if (error instanceof WorkerRequestError) res.status(error.status).json({ error: queryWording(error.message) });
-      else res.status(500).json({ error: (error as Error).message });
+      sendHttpError(res, error);
     }
   };
 
@@ -117,13 +96,10 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
     const now = current();
     let args: PredictionRequest['args'];
     try {
-      const param = oneText(req, 'param');
-      if (param === undefined || param.trim() === '') throw new BadQuery(`param is required: one of ${CONTINUATION_SYNTAX}`);
-      parseContinuationParameter(param, now.params);
-      args = { continueIn: param.trim(), pattern: integerQuery(req, 'pattern', 0), range: oneText(req, 'range'), maxSteps: integerQuery(req, 'maxSteps', 1) };
+      args = whatIfArguments(req, now.params);
     } catch (error) {
-      if (error instanceof BadQuery || error instanceof RangeError) {
-        res.status(400).json({ error: queryWording(error.message) });
+      if (error instanceof HttpError) {
+        sendHttpError(res, error);
         return;
       }
       throw error;
@@ -135,7 +111,7 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
 }
 
 /** The live parameters a prediction was made for, so a reader can tell whether it is still current. */
-function computedFor(info: SessionInfo): Record<string, unknown> {
+function computedFor(info: SessionInfo): ComputedFor {
   return {
     scenarioName: info.scenarioName,
     detuning: info.detuning,

@@ -1,27 +1,28 @@
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { parentPort } from 'node:worker_threads';
-import { ScenarioError } from '../../src/scenario/errors.js';
-import { predict, type PredictArgs } from '../commands/predict.js';
+import { parseScenario } from '../../src/scenario/parse.js';
+import { InputError } from '../../src/util/input-error.js';
+import { predictScenario, type PredictArgs } from '../commands/predict.js';
+import { QUERY_NAMES } from '../commands/predict-arguments.js';
 import type { PredictOutput } from '../../src/protocol/predict-output.js';
-import { UsageError } from '../scenario-file.js';
+import { HttpError } from './http-error.js';
 import type { WorkerReply } from './worker-client.js';
 
 /**
  * Worker-thread home of the dashboard's prediction requests: the catalogue and a continuation
  * take seconds, which must not hold up the event loop serving WebSocket frames. Each request is
  * `syncring predict` itself (server/commands/predict.ts) on a scenario carrying the live
- * parameters; predict reads scenarios from files, so the scenario goes through a private
- * temporary file that is removed at once.
+ * parameters, read as "the live scenario" and with its errors worded in the API's query fields.
  *
  * In: {id, scenario (ScenarioJSON), args (PredictArgs without `scenario`)}.
- * Out: {id, ok: true, value: predict's JSON} or {id, ok: false, error: {status, message}}.
+ * Out: {id, ok: true, value: predict's JSON} or {id, ok: false, error: HttpErrorData}.
  */
 export interface PredictionRequest {
   scenario: unknown;
   args: Omit<PredictArgs, 'scenario'>;
 }
+
+/** What errors about the scenario name it as. */
+const LIVE_SCENARIO = 'the live scenario';
 
 if (!parentPort) throw new Error('prediction-worker must run in a worker thread');
 const port = parentPort;
@@ -31,16 +32,10 @@ port.on('message', (message: PredictionRequest & { id: number }) => {
 });
 
 function answer({ id, scenario, args }: PredictionRequest & { id: number }): WorkerReply<PredictOutput> {
-  const dir = mkdtempSync(join(tmpdir(), 'syncring-predict-'));
-  const file = join(dir, 'live-scenario.json');
   try {
-    writeFileSync(file, JSON.stringify(scenario));
-    return { id, ok: true, value: predict({ ...args, scenario: file }) };
+    return { id, ok: true, value: predictScenario(parseScenario(scenario, LIVE_SCENARIO), LIVE_SCENARIO, args, QUERY_NAMES) };
   } catch (error) {
-    const message = (error as Error).message.split(file).join('the live scenario');
-    if (error instanceof UsageError || error instanceof ScenarioError) return { id, ok: false, error: { status: 400, message } };
-    return { id, ok: false, error: { status: 500, message: `prediction failed: ${message}` } };
-  } finally {
-    rmSync(dir, { recursive: true, force: true });
+    const failure = error instanceof InputError ? HttpError.fromInput(error) : new HttpError(500, `prediction failed: ${(error as Error).message}`);
+    return { id, ok: false, error: failure.toData() };
   }
 }

@@ -19,7 +19,8 @@ import {
 } from '../../src/protocol/soak-files.js';
 import { SAFE_NAME, processAlive, stateOf } from '../soak/soak-folder.js';
 import type { ReportRequest } from './report-worker.js';
-import { BackgroundWorker, WorkerRequestError, compiledHttpWorker } from './worker-client.js';
+import { BackgroundWorker, compiledHttpWorker } from './worker-client.js';
+import { httpErrorOf } from './http-error.js';
 import { VerdictTail } from './verdict-tail.js';
 
 /**
@@ -74,7 +75,7 @@ export function registerSoakApi(app: Express, soaksDir: string): { close(): Prom
     try {
       res.set('Cache-Control', 'no-store').type('html').send(await worker.request({ dir }));
     } catch (error) {
-      const status = error instanceof WorkerRequestError ? error.status : 500;
+      const status = httpErrorOf(error).status;
       res.status(status).type('text/plain').send(`${(error as Error).message}\n`);
     }
   });

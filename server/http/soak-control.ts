@@ -2,6 +2,8 @@ import express, { Router, type NextFunction, type Request, type Response } from 
 import { scenarioToJSON } from '../../src/scenario/parse.js';
 import { builtInCampaignNames, builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
 import { describeValue, fieldChecks, has, type JsonObject } from '../../src/util/json-fields.js';
+import { InputError } from '../../src/util/input-error.js';
+import { HttpError, sendHttpError } from './http-error.js';
 import type { LiveSession } from '../live/live-session.js';
 import { LaunchError, SoakLauncher, campaignProblem, type LaunchRefusal, type LaunchRequest } from '../soak/launcher.js';
 import { SAFE_NAME } from '../soak/soak-folder.js';
@@ -38,16 +40,12 @@ const NAME_MAX = 80;
 
 const STATUS_OF: Record<LaunchRefusal, number> = { invalid: 400, 'not-found': 404, conflict: 409, busy: 429, failed: 500 };
 
-/** A request refused with its HTTP status and a message naming what is wrong. */
-class ControlError extends Error {
-  constructor(readonly status: number, message: string) {
-    super(message);
-  }
-}
+const checks = fieldChecks();
 
-const checks = fieldChecks((path, reason) => {
-  throw new ControlError(400, `${path}: ${reason}`);
-});
+/** A field of the request that is wrong: answered 400, the field named in the message and kept as data. */
+function badField(path: string, reason: string): HttpError {
+  return HttpError.fromInput(new InputError(path, reason));
+}
 
 export function registerSoakControl(app: express.Express, soaksDir: string, live: LiveSession, options: SoakControlOptions): void {
   const launcher = new SoakLauncher(soaksDir, options.maxRunning);
@@ -58,10 +56,10 @@ export function registerSoakControl(app: express.Express, soaksDir: string, live
   const router = Router();
   const guard = (req: Request, _res: Response, next: NextFunction) => {
     const problem = checkUpgrade(req, options.port(), options.policy);
-    if (problem) throw new ControlError(403, `refused: ${problem}`);
+    if (problem) throw new HttpError(403, `refused: ${problem}`);
     const match = /^Bearer\s+(\S+)\s*$/i.exec(req.headers.authorization ?? '');
-    if (!match) throw new ControlError(401, 'starting, stopping and resuming soaks needs the operator token (Authorization: Bearer TOKEN)');
-    if (!sameToken(match[1], options.token)) throw new ControlError(401, 'wrong operator token');
+    if (!match) throw new HttpError(401, 'starting, stopping and resuming soaks needs the operator token (Authorization: Bearer TOKEN)');
+    if (!sameToken(match[1], options.token)) throw new HttpError(401, 'wrong operator token');
     next();
   };
   const body = express.json({ limit: BODY_LIMIT, strict: true });
@@ -78,43 +76,49 @@ export function registerSoakControl(app: express.Express, soaksDir: string, live
 
   router.use((error: unknown, _req: Request, res: Response, next: NextFunction) => {
     if (res.headersSent) return next(error);
-    const e = error as { status?: number; type?: string; message?: string };
-    if (error instanceof ControlError) res.status(error.status).json({ error: error.message });
-    else if (error instanceof LaunchError) res.status(STATUS_OF[error.kind]).json({ error: error.message });
-    else if (e.type === 'entity.parse.failed') res.status(400).json({ error: `body: not valid JSON (${e.message})` });
-    else if (e.type === 'entity.too.large') res.status(413).json({ error: `body: larger than ${BODY_LIMIT}; a soak request is a few short fields` });
-    else if (typeof e.status === 'number' && e.status >= 400 && e.status < 500) res.status(e.status).json({ error: `body: ${e.message}` });
-    else res.status(500).json({ error: e.message ?? String(error) });
+    sendHttpError(res, answerFor(error));
   });
   app.use(router);
 }
 
+/** The HTTP answer to a failure: a refusal of the launcher, bad input, or what the body parser found. */
+function answerFor(error: unknown): unknown {
+  if (error instanceof HttpError) return error;
+  if (error instanceof LaunchError) return new HttpError(STATUS_OF[error.kind], error.message);
+  if (error instanceof InputError) return HttpError.fromInput(error);
+  const e = error as { status?: number; type?: string; message?: string };
+  if (e.type === 'entity.parse.failed') return new HttpError(400, `body: not valid JSON (${e.message})`, 'body');
+  if (e.type === 'entity.too.large') return new HttpError(413, `body: larger than ${BODY_LIMIT}; a soak request is a few short fields`, 'body');
+  if (typeof e.status === 'number' && e.status >= 400 && e.status < 500) return new HttpError(e.status, `body: ${e.message}`, 'body');
+  return error;
+}
+
 /** The fields of POST /api/soaks, each checked; `fallbackScenario` stands in for a missing scenario. */
 function startRequest(body: unknown, fallbackScenario: string | null): LaunchRequest {
-  if (body === undefined) throw new ControlError(400, 'body: send the soak as a JSON object with Content-Type: application/json');
+  if (body === undefined) throw badField('body', 'send the soak as a JSON object with Content-Type: application/json');
   const obj = checks.expectObject(body, 'body', ['name', 'scenario', 'campaign', 'until', 'pace']);
   const name = checks.required(obj, 'name', '');
-  if (typeof name !== 'string') throw new ControlError(400, `name: must be a string (got ${describeValue(name)})`);
+  if (typeof name !== 'string') throw badField('name', `must be a string (got ${describeValue(name)})`);
   if (name.length > NAME_MAX || !SAFE_NAME.test(name)) {
-    throw new ControlError(400, `name: must be 1 to ${NAME_MAX} letters, digits, '.', '_' or '-', starting with a letter or digit (got ${describeValue(name)})`);
+    throw badField('name', `must be 1 to ${NAME_MAX} letters, digits, '.', '_' or '-', starting with a letter or digit (got ${describeValue(name)})`);
   }
   let scenario: unknown = obj.scenario;
   if (!has(obj, 'scenario')) {
-    if (fallbackScenario === null) throw new ControlError(400, `scenario: is required (the live session does not run a built-in scenario); one of ${builtInScenarioNames.join(', ')}`);
+    if (fallbackScenario === null) throw badField('scenario', `is required (the live session does not run a built-in scenario); one of ${builtInScenarioNames.join(', ')}`);
     scenario = fallbackScenario;
   }
   if (typeof scenario !== 'string' || !builtInScenarioNames.includes(scenario)) {
-    throw new ControlError(400, `scenario: must be a built-in scenario, one of ${builtInScenarioNames.join(', ')} (got ${describeValue(scenario)})`);
+    throw badField('scenario', `must be a built-in scenario, one of ${builtInScenarioNames.join(', ')} (got ${describeValue(scenario)})`);
   }
   const campaign = checks.required(obj, 'campaign', '');
   if (typeof campaign !== 'string' || !builtInCampaignNames.includes(campaign)) {
-    throw new ControlError(400, `campaign: must be a built-in campaign, one of ${builtInCampaignNames.join(', ')} (got ${describeValue(campaign)})`);
+    throw badField('campaign', `must be a built-in campaign, one of ${builtInCampaignNames.join(', ')} (got ${describeValue(campaign)})`);
   }
   const problem = campaignProblem(campaign, loadBuiltInScenario(scenario));
-  if (problem) throw new ControlError(400, `campaign: ${campaign} does not fit scenario ${scenario}: ${problem}`);
+  if (problem) throw badField('campaign', `${campaign} does not fit scenario ${scenario}: ${problem}`);
   const until = checks.required(obj, 'until', '');
   if (typeof until !== 'number' || !Number.isFinite(until) || !(until > 0)) {
-    throw new ControlError(400, `until: must be a positive number of slow time units (got ${describeValue(until)})`);
+    throw badField('until', `must be a positive number of slow time units (got ${describeValue(until)})`);
   }
   return { name, scenario, campaign, untilSlow: until, pace: paceField(obj) ?? null };
 }
@@ -130,7 +134,7 @@ function paceField(obj: JsonObject): number | null | undefined {
   const pace = obj.pace;
   if (pace === null) return null;
   if (typeof pace !== 'number' || !Number.isFinite(pace) || !(pace > 0)) {
-    throw new ControlError(400, `pace: must be a positive number of slow time units per second, or null for as fast as possible (got ${describeValue(pace)})`);
+    throw badField('pace', `must be a positive number of slow time units per second, or null for as fast as possible (got ${describeValue(pace)})`);
   }
   return pace;
 }

@@ -1,15 +1,10 @@
 import { Worker } from 'node:worker_threads';
+import { HttpError, type HttpErrorData } from './http-error.js';
 
-/** What a background worker posts back for one request. */
-export type WorkerReply<T> = { id: number; ok: true; value: T } | { id: number; ok: false; error: { status: number; message: string } };
+/** What a background worker posts back for one request: the value, or the HttpError to answer with. */
+export type WorkerReply<T> = { id: number; ok: true; value: T } | { id: number; ok: false; error: HttpErrorData };
 
-/** A failure the worker reported for one request: `status` is the HTTP status to answer with. */
-export class WorkerRequestError extends Error {
-  override name = 'WorkerRequestError';
-  constructor(readonly status: number, message: string) {
-    super(message);
-  }
-}
+// A request the worker refused or failed is an HttpError; the old name stays for soak-api.ts.
 
 /**
  * The compiled worker module `name` of server/http: beside the caller when the server runs
@@ -67,7 +62,7 @@ export class BackgroundWorker<TRequest extends object, TValue> {
       this.pending.delete(reply.id);
       if (!waiting) return;
       if (reply.ok) waiting.resolve(reply.value);
-      else waiting.reject(new WorkerRequestError(reply.error.status, reply.error.message));
+      else waiting.reject(HttpError.fromData(reply.error));
     });
     const lost = (error: Error) => {
       if (this.worker !== worker) return;

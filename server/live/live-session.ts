@@ -7,7 +7,8 @@ import type { Scenario } from '../../src/scenario/types.js';
 import type { SessionCheckpoint, SessionEvent } from '../../src/session/session.js';
 import { DecimatingHistory } from '../../src/observe/decimating-history.js';
 import { logHeader } from '../../src/protocol/log-records.js';
-import { ProtocolError, type ClientCommand, type HistoryPoint, type RunStatus, type SessionInfo, type Speed, type WireFrame } from '../../src/protocol/messages.js';
+import type { ClientCommand, HistoryPoint, RunStatus, SessionInfo, Speed, WireFrame } from '../../src/protocol/messages.js';
+import { InputError, type InputErrorData } from '../../src/util/input-error.js';
 import { SessionLog } from '../log/session-log.js';
 import { SOFTWARE_VERSION } from '../version.js';
 import { SessionRunner, type RunnerOptions, type RunnerOutput } from './session-runner.js';
@@ -28,7 +29,7 @@ export interface LiveSessionOptions {
 
 const RECENT_EVENTS = 200;
 
-type ReplyMessage = { kind: 'reply'; id: number; error?: { path: string; reason: string }; checkpoint?: SessionCheckpoint };
+type ReplyMessage = { kind: 'reply'; id: number; error?: InputErrorData; checkpoint?: SessionCheckpoint };
 
 /**
  * The server's one live run, as the rest of the server sees it. The stepping itself happens in
@@ -87,14 +88,14 @@ export class LiveSession extends EventEmitter {
     return this.current?.status ?? 'running';
   }
 
-  /** Carry out a validated command; rejects with ProtocolError when the run cannot do it. */
+  /** Carry out a validated command; rejects with InputError (answering the command's id) when the run cannot do it. */
   async command(command: ClientCommand, by: string): Promise<void> {
     if (this.inThread) {
       this.inThread.command(command, by);
       return;
     }
     const reply = await this.request({ kind: 'command', command, by });
-    if (reply.error) throw new ProtocolError(reply.error.path, reply.error.reason, command.id);
+    if (reply.error) throw InputError.fromData(reply.error).answering(command.id);
   }
 
   /** Step at once until the run has done `tick` ticks; returns the session's checkpoint (tests, tools). */

@@ -3,10 +3,10 @@ import { parseScenario, scenarioToJSON } from '../../src/scenario/parse.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { deltaToPpm } from '../../src/scenario/units.js';
 import { builtInScenarioNames, builtInScenarioRaw } from '../../src/scenarios/index.js';
-import { ScenarioError } from '../../src/scenario/errors.js';
-import { PerturbationError, parsePerturbation } from '../../src/session/perturbation.js';
+import { parsePerturbation } from '../../src/session/perturbation.js';
+import { InputError } from '../../src/util/input-error.js';
 import { sampleOf, type NewLogRecord } from '../../src/protocol/log-records.js';
-import { ProtocolError, historyPointOf, type ClientCommand, type HistoryPoint, type RunStatus, type SessionInfo, type Speed, type WireFrame } from '../../src/protocol/messages.js';
+import { historyPointOf, type ClientCommand, type HistoryPoint, type RunStatus, type SessionInfo, type Speed, type WireFrame } from '../../src/protocol/messages.js';
 
 /** What a runner reports; the same stream whether it runs in a worker or in the main thread. */
 export type RunnerOutput =
@@ -82,15 +82,15 @@ export class SessionRunner {
     };
   }
 
-  /** Carry out a command validated by the caller; throws ProtocolError when it cannot be done. */
+  /** Carry out a command validated by the caller; throws InputError (answering the command's id) when it cannot be done. */
   command(command: ClientCommand, by: string): void {
     if (command.kind === 'perturbation') {
-      if (this.status === 'halted') throw new ProtocolError('action', 'the run is halted after a blow-up; reset or load a scenario first', command.id);
+      if (this.status === 'halted') throw new InputError('action', 'the run is halted after a blow-up; reset or load a scenario first', { requestId: command.id });
       // validated again here: the caller's copy of the network may be one scenario behind
       try {
         this.session.enqueue(parsePerturbation(command.perturbation, this.session.params), by);
       } catch (error) {
-        if (error instanceof PerturbationError) throw new ProtocolError(error.path, error.reason, command.id);
+        if (error instanceof InputError) throw error.answering(command.id);
         throw error;
       }
       if (this.status === 'paused') this.applyWhilePaused();
@@ -101,7 +101,7 @@ export class SessionRunner {
         if (this.status === 'running') this.setStatus('paused', by);
         return;
       case 'resume':
-        if (this.status === 'halted') throw new ProtocolError('action', 'the run is halted after a blow-up; reset it first', command.id);
+        if (this.status === 'halted') throw new InputError('action', 'the run is halted after a blow-up; reset it first', { requestId: command.id });
         if (this.status === 'paused') this.setStatus('running', by);
         return;
       case 'set-speed':
@@ -114,18 +114,15 @@ export class SessionRunner {
         this.announce('run reset to its start', by);
         return;
       case 'load-scenario': {
+        if (command.name !== undefined && !builtInScenarioNames.includes(command.name)) {
+          throw new InputError('name', `no built-in scenario ${JSON.stringify(command.name)} (available: ${builtInScenarioNames.join(', ')})`, { requestId: command.id });
+        }
         let scenario: Scenario;
         try {
-          if (command.name !== undefined) {
-            if (!builtInScenarioNames.includes(command.name)) {
-              throw new ProtocolError('name', `no built-in scenario ${JSON.stringify(command.name)} (available: ${builtInScenarioNames.join(', ')})`, command.id);
-            }
-            scenario = parseScenario(builtInScenarioRaw(command.name), `built-in scenario ${command.name}`);
-          } else {
-            scenario = parseScenario(command.scenario, 'scenario');
-          }
+          scenario = command.name !== undefined ? parseScenario(builtInScenarioRaw(command.name), `built-in scenario ${command.name}`) : parseScenario(command.scenario);
         } catch (error) {
-          if (error instanceof ScenarioError) throw new ProtocolError(error.path ? `scenario.${error.path}` : 'scenario', error.reason, command.id);
+          // the scenario's fields lie inside the command's field `scenario`
+          if (error instanceof InputError) throw error.under('scenario').answering(command.id);
           throw error;
         }
         this.start(scenario);

@@ -1,5 +1,6 @@
 import { parentPort, workerData } from 'node:worker_threads';
-import { ProtocolError, type ClientCommand } from '../../src/protocol/messages.js';
+import type { ClientCommand } from '../../src/protocol/messages.js';
+import { InputError } from '../../src/util/input-error.js';
 import { SessionRunner, type RunnerOptions } from './session-runner.js';
 
 /**
@@ -27,7 +28,7 @@ port.on('message', (message: { kind: 'command'; id: number; command: ClientComma
     runner.command(message.command, message.by);
     port.postMessage({ kind: 'reply', id: message.id });
   } catch (error) {
-    if (!(error instanceof ProtocolError)) throw error;
-    port.postMessage({ kind: 'reply', id: message.id, error: { path: error.path, reason: error.reason } });
+    if (!(error instanceof InputError)) throw error;
+    port.postMessage({ kind: 'reply', id: message.id, error: error.toData() });
   }
 });

@@ -2,7 +2,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { analyzeStability, type FaultVerdict, type PhaseSample, type StabilityReport } from '../../src/campaign/index.js';
 import { DEFAULT_NOMINAL_FREQUENCY_HZ, tauToSeconds } from '../../src/scenario/units.js';
-import { UsageError } from '../scenario-file.js';
+import { UsageError } from '../usage-error.js';
 import { describeProblems, readSoakLog, soakHeaderOf } from '../soak/resume.js';
 import type { SoakHeaderRecord } from '../../src/protocol/log-records.js';
 import { stabilitySamples, type SoakSampleRecord } from '../../src/protocol/soak-records.js';

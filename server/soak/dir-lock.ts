@@ -1,6 +1,6 @@
 import { closeSync, openSync, readFileSync, unlinkSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
-import { UsageError } from '../scenario-file.js';
+import { UsageError } from '../usage-error.js';
 
 /**
  * One soak per folder: DIR/soak.lock holds the writer's pid. A lock whose process is gone (a

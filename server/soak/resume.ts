@@ -6,7 +6,7 @@ import { LOG_FOLDER, SEGMENT_PREFIX } from '../../src/protocol/soak-files.js';
 import { scenarioToJSON } from '../../src/scenario/parse.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { readSegments, type RecordAt, type SegmentedRead } from '../log/segments.js';
-import { UsageError } from '../scenario-file.js';
+import { UsageError } from '../usage-error.js';
 
 /** Where a killed soak picks up: its last checkpoint and what the log holds before it. */
 export interface ResumePoint {

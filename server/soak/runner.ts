@@ -16,7 +16,8 @@ import { scenarioToJSON } from '../../src/scenario/parse.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { macroStepOf } from '../../src/session/session.js';
 import { listSegments, syncDirectory } from '../log/segments.js';
-import { UsageError, loadScenario } from '../scenario-file.js';
+import { loadScenario } from '../scenario-file.js';
+import { UsageError, callError } from '../usage-error.js';
 import { SOFTWARE_VERSION } from '../version.js';
 import { loadCampaign } from './campaign-file.js';
 import { lockSoakDir } from './dir-lock.js';
@@ -75,7 +76,7 @@ async function soakLocked(options: SoakOptions, scenario: Scenario, campaign: Ca
   }
   if (point) checkSameSoak(point, scenario, campaign, options);
   const until = options.until ?? point?.header.soak.until;
-  if (until === undefined) throw new UsageError('soak needs --until TAU');
+  if (until === undefined) throw callError('soak needs --until TAU');
   if (!(until > 0) || !Number.isFinite(until)) throw new UsageError(`--until must be a positive number (got ${until})`);
   if (point?.end) {
     // it had finished: rewrite its summary from the end record

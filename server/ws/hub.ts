@@ -4,13 +4,13 @@ import { WebSocketServer, type WebSocket } from 'ws';
 import {
   MAX_CLIENT_MESSAGE_BYTES,
   PROTOCOL_VERSION,
-  ProtocolError,
   parseClientMessage,
   type Role,
   type ServerMessage,
   type WireFrame,
 } from '../../src/protocol/messages.js';
 import type { SessionEvent } from '../../src/session/session.js';
+import { InputError } from '../../src/util/input-error.js';
 import type { LiveSession } from '../live/live-session.js';
 import { checkUpgrade, type OriginPolicy } from './origin.js';
 import { SOFTWARE_VERSION } from '../version.js';
@@ -156,21 +156,21 @@ export class Hub {
   private async dispatch(client: Client, data: Buffer, isBinary: boolean): Promise<void> {
     let id: string | number | null = null;
     try {
-      if (isBinary) throw new ProtocolError('', 'binary messages are not accepted; send JSON text');
+      if (isBinary) throw new InputError('', 'binary messages are not accepted; send JSON text');
       const command = parseClientMessage(data.toString('utf8'), this.live.params);
       id = command.id;
       if (client.role !== 'operator') {
-        throw new ProtocolError('', 'viewers cannot send commands: open the operator URL (it carries the token)', id);
+        throw new InputError('', 'viewers cannot send commands: open the operator URL (it carries the token)', { requestId: id });
       }
       const action = command.kind === 'perturbation' ? command.perturbation.action : command.action;
       await this.live.command(command, client.name);
       this.send(client, { type: 'ack', id, action });
     } catch (error) {
-      if (!(error instanceof ProtocolError)) {
+      if (!(error instanceof InputError)) {
         this.send(client, { type: 'error', reason: `internal error: ${(error as Error).message}`, id });
         return;
       }
-      this.send(client, { type: 'error', reason: error.reason, ...(error.path ? { path: error.path } : {}), id: error.id ?? id });
+      this.send(client, { type: 'error', reason: error.reason, ...(error.path ? { path: error.path } : {}), id: error.requestId ?? id });
     }
   }
 

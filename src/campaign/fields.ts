@@ -1,17 +1,15 @@
 import { child, describeValue, fieldChecks, has, type JsonObject } from '../util/json-fields.js';
+import { failInput as fail } from '../util/input-error.js';
 import { ModelParameters } from '../model/parameters.js';
-import { parsePerturbation, PerturbationError, PERTURBATION_ACTIONS, type Perturbation, type PerturbationAction } from '../session/perturbation.js';
-import { CampaignError } from './errors.js';
+import { parsePerturbation, PERTURBATION_ACTIONS, type Perturbation, type PerturbationAction } from '../session/perturbation.js';
 
 /**
- * The shared JSON field checks bound to CampaignError, plus the few campaign-specific pieces
- * (booleans, time values in the campaign's unit, perturbations validated against the model).
+ * The shared JSON field checks (failing with an InputError), plus the few campaign-specific
+ * pieces (booleans, time values in the campaign's unit, perturbations validated against the model).
  */
-export function fail(path: string, reason: string): never {
-  throw new CampaignError(path, reason);
-}
+export { fail };
 
-export const checks = fieldChecks(fail);
+export const checks = fieldChecks();
 
 export function booleanField(obj: JsonObject, path: string, key: string, fallback: boolean): boolean {
   if (!has(obj, key)) return fallback;
@@ -63,20 +61,10 @@ export function actionField(obj: JsonObject, path: string): PerturbationAction {
 /** Validate `{action, ...params}` against the model, reporting errors at `path` in campaign terms. */
 export function perturbationAt(action: PerturbationAction, params: JsonObject, model: ModelParameters, path: string): Perturbation {
   if (has(params, 'action')) fail(child(path, 'action'), 'the action goes beside params, not inside it');
-  try {
-    return parsePerturbation({ action, ...params }, model, path);
-  } catch (error) {
-    if (error instanceof PerturbationError) fail(error.path, error.reason);
-    throw error;
-  }
+  return parsePerturbation({ action, ...params }, model, path);
 }
 
 /** A full perturbation object ({action, ...fields}) at `path`, as an explicit restore gives it. */
 export function perturbationObject(raw: unknown, model: ModelParameters, path: string): Perturbation {
-  try {
-    return parsePerturbation(raw, model, path);
-  } catch (error) {
-    if (error instanceof PerturbationError) fail(error.path, error.reason);
-    throw error;
-  }
+  return parsePerturbation(raw, model, path);
 }

@@ -1,5 +1,4 @@
 /** Public API of fault campaigns: format and validation, the seeded generator, verdicts, stability of the array. */
-export { CampaignError } from './errors.js';
 export { parseCampaign, tauPerUnit, DEFAULT_MAX_SAMPLES } from './parse.js';
 export { CampaignRun, type CampaignRunState, type PendingRestore, type QueuedPerturbation } from './campaign-run.js';
 export { FaultGenerator, type GeneratorState } from './generator.js';

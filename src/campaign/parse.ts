@@ -13,7 +13,7 @@ import { ModelParameters } from '../model/parameters.js';
 import type { Scenario } from '../scenario/types.js';
 import { secondsToTau } from '../scenario/units.js';
 import { defaultLockWindow } from '../session/session.js';
-import { CampaignError } from './errors.js';
+import { InputError } from '../util/input-error.js';
 import { actionField, anyObject, booleanField, checks, fail, perturbationAt, perturbationObject, stringField, timeField, type TimeScale } from './fields.js';
 import { parseCriteria } from './criteria.js';
 import { parseRandomSpec } from './parse-random.js';
@@ -30,13 +30,13 @@ export const DEFAULT_MAX_SAMPLES = 20000;
 /**
  * Validate a raw campaign for `scenario`.
  * @param source where the JSON came from; prefixed to error messages.
- * @throws CampaignError naming the first offending field.
+ * @throws InputError naming the first offending field.
  */
 export function parseCampaign(raw: unknown, scenario: Scenario, source?: string): Campaign {
   try {
     return parseUnsourced(raw, scenario);
   } catch (error) {
-    if (error instanceof CampaignError && source !== undefined) throw new CampaignError(error.path, error.reason, source);
+    if (error instanceof InputError && source !== undefined) throw error.from(source);
     throw error;
   }
 }

@@ -10,6 +10,7 @@
  * (every mutable parameter moves along the straight line between the two).
  */
 import type { ModelParameters } from '../model/parameters.js';
+import { InputError } from '../util/input-error.js';
 
 export type ContinuationParameter =
   | { kind: 'detuning'; node: number }
@@ -45,45 +46,48 @@ export function homotopy(from: ParameterSnapshot, to: ParameterSnapshot): Contin
 
 export const CONTINUATION_SYNTAX = 'detuning:K, coupling, reactive, dissipative, link:A-B or edge:A-B';
 
-/** Reads a parameter name (see the module header); throws a RangeError saying what is wrong. */
+/**
+ * Reads a parameter name (see the module header). Throws an InputError saying what is wrong with
+ * the text; the caller names the argument it came in (a command-line flag, a query field).
+ */
 export function parseContinuationParameter(text: string, params: ModelParameters): ContinuationParameter {
   const spec = text.trim();
   const [head, rest, extra] = spec.split(':');
   const nodeIndex = (word: string, what: string): number => {
-    if (!/^\d+$/.test(word)) throw new RangeError(`--continue ${spec}: ${what} must be a node index, got ${JSON.stringify(word)}`);
+    if (!/^\d+$/.test(word)) throw new InputError('', `${what} must be a node index, got ${JSON.stringify(word)}`);
     const k = Number(word);
-    if (k >= params.nodes) throw new RangeError(`--continue ${spec}: node ${k} does not exist (nodes are 0..${params.nodes - 1})`);
+    if (k >= params.nodes) throw new InputError('', `node ${k} does not exist (nodes are 0..${params.nodes - 1})`);
     return k;
   };
-  if (extra !== undefined) throw new RangeError(`--continue ${spec}: too many ':' (expected one of ${CONTINUATION_SYNTAX})`);
+  if (extra !== undefined) throw new InputError('', `too many ':' (expected one of ${CONTINUATION_SYNTAX})`);
   switch (head) {
     case 'detuning':
-      if (rest === undefined) throw new RangeError(`--continue ${spec}: say which node, e.g. detuning:0`);
+      if (rest === undefined) throw new InputError('', 'say which node, e.g. detuning:0');
       return { kind: 'detuning', node: nodeIndex(rest, 'the detuned node') };
     case 'coupling':
     case 'reactive':
     case 'dissipative':
-      if (rest !== undefined) throw new RangeError(`--continue ${spec}: ${head} takes no argument`);
+      if (rest !== undefined) throw new InputError('', `${head} takes no argument`);
       return { kind: head };
     case 'link':
     case 'edge': {
       const ends = rest === undefined ? null : /^(\d+)-(\d+)$/.exec(rest);
-      if (!ends) throw new RangeError(`--continue ${spec}: expected ${head}:A-B with node indices A and B`);
+      if (!ends) throw new InputError('', `expected ${head}:A-B with node indices A and B`);
       const from = nodeIndex(ends[1], 'A');
       const to = nodeIndex(ends[2], 'B');
       const both = head === 'edge';
       const forward = params.findLink(from, to);
-      if (forward < 0) throw new RangeError(`--continue ${spec}: there is no link from node ${from} to node ${to}`);
+      if (forward < 0) throw new InputError('', `there is no link from node ${from} to node ${to}`);
       const links = [forward];
       if (both) {
         const backward = params.findLink(to, from);
-        if (backward < 0) throw new RangeError(`--continue ${spec}: there is no link from node ${to} back to node ${from} (use link:${from}-${to} for one direction)`);
+        if (backward < 0) throw new InputError('', `there is no link from node ${to} back to node ${from} (use link:${from}-${to} for one direction)`);
         links.push(backward);
       }
       return { kind: 'link', links, from, to, both };
     }
     default:
-      throw new RangeError(`--continue ${spec}: unknown parameter ${JSON.stringify(head)} (expected one of ${CONTINUATION_SYNTAX})`);
+      throw new InputError('', `unknown parameter ${JSON.stringify(head)} (expected one of ${CONTINUATION_SYNTAX})`);
   }
 }
 

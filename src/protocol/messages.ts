@@ -7,7 +7,8 @@
  */
 import type { ModelParameters } from '../model/parameters.js';
 import type { Frame, SessionEvent } from '../session/session.js';
-import { PERTURBATION_ACTIONS, PerturbationError, parsePerturbation, type Perturbation } from '../session/perturbation.js';
+import { PERTURBATION_ACTIONS, parsePerturbation, type Perturbation } from '../session/perturbation.js';
+import { InputError, failInput as fail } from '../util/input-error.js';
 import { child, fieldChecks, has } from '../util/json-fields.js';
 
 export const PROTOCOL_VERSION = 1;
@@ -95,54 +96,48 @@ export const COMMAND_ACTIONS: readonly string[] = [...PERTURBATION_ACTIONS, ...C
 /** Fastest pace an operator may ask for, in slow-time units per second. */
 export const MAX_SPEED = 1e6;
 
-/** A client message that cannot be accepted: path names the field, reason says why. */
-export class ProtocolError extends Error {
-  constructor(readonly path: string, readonly reason: string, readonly id: string | number | null = null) {
-    super(path ? `${path}: ${reason}` : reason);
-    this.name = 'ProtocolError';
-  }
-}
-
 /**
  * Validate one client message (raw text). Perturbations are checked against the live model, so
  * a command naming a node or a link that does not exist is refused before anything changes.
+ * @throws InputError naming the field, answering the command's id once the id could be read.
  */
 export function parseClientMessage(text: string, params: ModelParameters): ClientCommand {
   let raw: unknown;
   try {
     raw = JSON.parse(text);
   } catch (error) {
-    throw new ProtocolError('', `not valid JSON: ${(error as Error).message}`);
+    throw new InputError('', `not valid JSON: ${(error as Error).message}`);
   }
-  if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) throw new ProtocolError('', 'a message must be a JSON object with a "type"');
+  if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) throw new InputError('', 'a message must be a JSON object with a "type"');
   const obj = raw as Record<string, unknown>;
   const id = typeof obj.id === 'string' || typeof obj.id === 'number' ? obj.id : null;
-  const fail = (path: string, reason: string): never => {
-    throw new ProtocolError(path, reason, id);
-  };
+  try {
+    return parseCommand(obj, id, params);
+  } catch (error) {
+    if (error instanceof InputError) throw error.answering(id);
+    throw error;
+  }
+}
+
+function parseCommand(obj: Record<string, unknown>, id: string | number | null, params: ModelParameters): ClientCommand {
   if (has(obj, 'id') && id === null) fail('id', 'must be a string or a number');
   if (obj.type !== 'command') fail('type', `must be "command" (got ${JSON.stringify(obj.type ?? null)})`);
   const action = obj.action;
   if (typeof action !== 'string' || !COMMAND_ACTIONS.includes(action)) {
     fail('action', `must be one of ${COMMAND_ACTIONS.join(', ')} (got ${JSON.stringify(action ?? null)})`);
   }
-  const { expectObject, finiteNumber, inRange } = fieldChecks(fail);
+  const { expectObject, finiteNumber, inRange } = fieldChecks();
   if ((PERTURBATION_ACTIONS as readonly string[]).includes(action as string)) {
-    try {
-      return { id, kind: 'perturbation', perturbation: parsePerturbation(raw, params, '', ['type', 'id']) };
-    } catch (error) {
-      if (error instanceof PerturbationError) fail(error.path, error.reason);
-      throw error;
-    }
+    return { id, kind: 'perturbation', perturbation: parsePerturbation(obj, params, '', ['type', 'id']) };
   }
   switch (action as (typeof CONTROL_ACTIONS)[number]) {
     case 'pause':
     case 'resume':
     case 'reset':
-      expectObject(raw, '', ['type', 'id', 'action']);
+      expectObject(obj, '', ['type', 'id', 'action']);
       return { id, kind: 'control', action: action as 'pause' | 'resume' | 'reset' };
     case 'set-speed': {
-      expectObject(raw, '', ['type', 'id', 'action', 'speed']);
+      expectObject(obj, '', ['type', 'id', 'action', 'speed']);
       if (obj.speed === 'max') return { id, kind: 'control', action: 'set-speed', speed: 'max' };
       if (!has(obj, 'speed')) fail('speed', 'is required (slow-time units per second, or "max")');
       const speed = inRange(finiteNumber(obj.speed, 'speed'), 'speed', 0, MAX_SPEED);
@@ -150,7 +145,7 @@ export function parseClientMessage(text: string, params: ModelParameters): Clien
       return { id, kind: 'control', action: 'set-speed', speed };
     }
     case 'load-scenario': {
-      expectObject(raw, '', ['type', 'id', 'action', 'name', 'scenario']);
+      expectObject(obj, '', ['type', 'id', 'action', 'name', 'scenario']);
       if (has(obj, 'name') === has(obj, 'scenario')) fail('', 'give exactly one of name (a built-in scenario) or scenario (scenario JSON)');
       if (has(obj, 'name') && typeof obj.name !== 'string') fail(child('', 'name'), 'must be a string');
       return has(obj, 'name')

@@ -1,5 +1,4 @@
 /** Public API of the scenario layer: validation, normalization and the engineering-unit mapping. */
-export { ScenarioError } from './errors.js';
 export {
   parseScenario,
   scenarioToJSON,

@@ -1,7 +1,7 @@
 /**
  * Scenario JSON -> validated, dimensionless `Scenario` (and back).
  *
- * `parseScenario` is pure and throws a `ScenarioError` naming the first bad field. Rules and
+ * `parseScenario` is pure and throws an `InputError` naming the first bad field. Rules and
  * defaults beyond the plain ranges:
  * - `name` defaults to "Untitled scenario".
  * - `topology`: rings need nodes >= 2, edge lists nodes >= 1; at most 4096 nodes.
@@ -21,7 +21,6 @@
  *   `units.nominalFrequencyAssumed` when it was left out), `detuningPpm`, per-mode `offsetPpm`
  *   instead of `omega` and `quality` instead of `loss`.
  */
-import { ScenarioError } from './errors.js';
 import type {
   CouplingSpec,
   InitialSpec,
@@ -36,6 +35,7 @@ import type {
 import { DEFAULT_NOMINAL_FREQUENCY_HZ, offsetPpmToOmega, ppmToDelta, qualityToLoss } from './units.js';
 import { defaultStepsPerPeriod } from '../integrate/default-steps.js';
 import { child, describeValue, fieldChecks, has, item, type Check, type JsonObject } from '../util/json-fields.js';
+import { InputError, failInput as fail } from '../util/input-error.js';
 
 export const MAX_NODES = 4096;
 export const DEFAULT_NAME = 'Untitled scenario';
@@ -50,18 +50,14 @@ export function defaultMacroPeriods(epsilon: number): number {
 }
 
 // ---------------------------------------------------------------------------------------------
-// Field checks (shared with every other JSON input). Each throws ScenarioError(path, reason);
+// Field checks (shared with every other JSON input). Each throws InputError(path, reason);
 // parseScenario adds the source.
-
-function fail(path: string, reason: string): never {
-  throw new ScenarioError(path, reason);
-}
 
 const describe = describeValue;
 const {
   expectObject, expectArray, expectLength, required, finiteNumber, integer, inRange, atLeast, positive, uint32,
   anyFinite, nonNegative, numberField,
-} = fieldChecks(fail);
+} = fieldChecks();
 
 /** A unit conversion can overflow even from finite input; say so at the input's path. */
 function finiteResult(value: number, path: string, what: string): number {
@@ -329,15 +325,13 @@ function parseIntegrator(value: unknown, epsilon: number): IntegratorSpec {
 /**
  * Validate raw scenario JSON and normalize it to the dimensionless `Scenario`.
  * @param source where the JSON came from (e.g. a file name); prefixed to error messages.
- * @throws ScenarioError naming the first offending field and what is wrong with it.
+ * @throws InputError naming the first offending field and what is wrong with it.
  */
 export function parseScenario(raw: unknown, source?: string): Scenario {
   try {
     return parseUnsourced(raw);
   } catch (err) {
-    if (err instanceof ScenarioError && source !== undefined) {
-      throw new ScenarioError(err.path, err.reason, source);
-    }
+    if (err instanceof InputError && source !== undefined) throw err.from(source);
     throw err;
   }
 }

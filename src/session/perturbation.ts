@@ -1,6 +1,7 @@
 import type { ModelParameters } from '../model/parameters.js';
 import { ppmToDelta } from '../scenario/units.js';
 import { child, fieldChecks, has, type JsonObject } from '../util/json-fields.js';
+import { InputError } from '../util/input-error.js';
 
 /**
  * Perturbations an operator, a fault schedule or a test applies to a running co-simulation.
@@ -28,17 +29,7 @@ export const PERTURBATION_ACTIONS: readonly PerturbationAction[] = [
   'kick-mode',
 ];
 
-/** A rejected perturbation: `path` names the field, `reason` says what is wrong with it. */
-export class PerturbationError extends Error {
-  constructor(readonly path: string, readonly reason: string) {
-    super(path ? `${path}: ${reason}` : reason);
-    this.name = 'PerturbationError';
-  }
-}
-
-const { expectObject, required, finiteNumber, integer, inRange, atLeast, numberField } = fieldChecks((path, reason) => {
-  throw new PerturbationError(path, reason);
-});
+const { expectObject, required, finiteNumber, integer, inRange, atLeast, numberField } = fieldChecks();
 
 /**
  * Validate a raw perturbation (JSON) against the model. `extraFields` are tolerated at the top
@@ -58,7 +49,7 @@ export function parsePerturbation(raw: unknown, params: ModelParameters, path = 
   const head = expectObject(raw, path, ['action', ...PERTURBATION_ACTIONS.flatMap((a) => allowedFor[a]), ...extraFields]);
   const action = required(head, 'action', path);
   if (typeof action !== 'string' || !(PERTURBATION_ACTIONS as readonly string[]).includes(action)) {
-    throw new PerturbationError(child(path, 'action'), `must be one of ${PERTURBATION_ACTIONS.join(', ')} (got ${JSON.stringify(action)})`);
+    throw new InputError(child(path, 'action'), `must be one of ${PERTURBATION_ACTIONS.join(', ')} (got ${JSON.stringify(action)})`);
   }
   const obj = expectObject(raw, path, ['action', ...allowedFor[action as PerturbationAction], ...extraFields]);
   const node = (key = 'node'): number => inRange(integer(required(obj, key, path), child(path, key)), child(path, key), 0, params.nodes - 1);
@@ -66,7 +57,7 @@ export function parsePerturbation(raw: unknown, params: ModelParameters, path = 
     const from = node('from');
     const to = node('to');
     if (params.findLink(from, to) < 0) {
-      throw new PerturbationError(path, `there is no link from node ${from} to node ${to} in this network`);
+      throw new InputError(path, `there is no link from node ${from} to node ${to} in this network`);
     }
     return { from, to };
   };
@@ -78,9 +69,9 @@ export function parsePerturbation(raw: unknown, params: ModelParameters, path = 
   switch (action as PerturbationAction) {
     case 'set-detuning': {
       const k = node();
-      if (has(obj, 'delta') === has(obj, 'ppm')) throw new PerturbationError(path, 'give exactly one of delta or ppm');
+      if (has(obj, 'delta') === has(obj, 'ppm')) throw new InputError(path, 'give exactly one of delta or ppm');
       if (has(obj, 'delta')) return { action: 'set-detuning', node: k, delta: finiteNumber(obj.delta, child(path, 'delta')) };
-      if (!(params.epsilon > 0)) throw new PerturbationError(child(path, 'ppm'), 'needs epsilon > 0 to map ppm to Delta');
+      if (!(params.epsilon > 0)) throw new InputError(child(path, 'ppm'), 'needs epsilon > 0 to map ppm to Delta');
       return { action: 'set-detuning', node: k, delta: ppmToDelta(finiteNumber(obj.ppm, child(path, 'ppm')), params.epsilon) };
     }
     case 'set-link-weight': {
@@ -94,13 +85,13 @@ export function parsePerturbation(raw: unknown, params: ModelParameters, path = 
     case 'set-coupling': {
       const p: Perturbation = { action: 'set-coupling', strength: optional('strength'), reactive: optional('reactive'), dissipative: optional('dissipative') };
       if (p.strength === undefined && p.reactive === undefined && p.dissipative === undefined) {
-        throw new PerturbationError(path, 'give at least one of strength, reactive, dissipative');
+        throw new InputError(path, 'give at least one of strength, reactive, dissipative');
       }
       return p;
     }
     case 'set-noise': {
       const p: Perturbation = { action: 'set-noise', intensity: optional('intensity', 0), detuningWalk: optional('detuningWalk', 0) };
-      if (p.intensity === undefined && p.detuningWalk === undefined) throw new PerturbationError(path, 'give intensity or detuningWalk');
+      if (p.intensity === undefined && p.detuningWalk === undefined) throw new InputError(path, 'give intensity or detuningWalk');
       return p;
     }
     case 'kick-mode': {

@@ -207,7 +207,7 @@ export class CoSimulation {
     return this.integrator.active;
   }
 
-  /** Validate a raw perturbation (throws PerturbationError) and queue it. */
+  /** Validate a raw perturbation (throws InputError) and queue it. */
   submit(raw: unknown, by: string, extraFields: readonly string[] = []): Perturbation {
     const perturbation = parsePerturbation(raw, this.params, '', extraFields);
     this.enqueue(perturbation, by);

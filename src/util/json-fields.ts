@@ -1,7 +1,9 @@
+import { failInput } from './input-error.js';
+
 /**
- * Field checks for JSON input (scenarios, commands, campaigns). Each check throws through the
- * caller's `fail(path, reason)`, so every kind of input reports errors in its own class while
- * the wording and the rules stay the same everywhere.
+ * Field checks for JSON input (scenarios, commands, campaigns, perturbations). Each check fails
+ * through `fail(path, reason)`, by default an InputError naming the field, so the wording and the
+ * rules stay the same everywhere; a caller with another way of refusing input passes its own.
  */
 export type JsonObject = Record<string, unknown>;
 export type Fail = (path: string, reason: string) => never;
@@ -34,8 +36,8 @@ export function has(obj: JsonObject, key: string): boolean {
   return Object.prototype.hasOwnProperty.call(obj, key) && obj[key] !== undefined;
 }
 
-/** The checks, bound to one way of failing. */
-export function fieldChecks(fail: Fail) {
+/** The checks, bound to one way of failing (an InputError unless `fail` says otherwise). */
+export function fieldChecks(fail: Fail = failInput) {
   const describe = describeValue;
   function expectObject(value: unknown, path: string, allowed: readonly string[]): JsonObject {
     if (value === null || typeof value !== 'object' || Array.isArray(value)) {

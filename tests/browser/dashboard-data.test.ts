@@ -11,6 +11,7 @@ import { retryDelay, socketUrl, FIRST_RETRY_MS, LONGEST_RETRY_MS, parseServerMes
 import { SeriesCache } from '../../web/src/charts/series-cache.js';
 import { symmetryPhase } from '../../web/src/panels/pattern-text.js';
 import { ReplayError, ReplayLog } from '../../web/src/replay/replay-log.js';
+import { thrown } from '../support/thrown.js';
 
 /**
  * The dashboard's data modules, without a browser: history thinning, chart series, the
@@ -174,5 +175,8 @@ describe('replay log', () => {
   test('a file that is not a session log is refused with a reason', () => {
     expect(() => ReplayLog.fromText('{"hello":1}\n', 'x.ndjson')).toThrow(ReplayError);
     expect(() => ReplayLog.fromText('{"hello":1}\n', 'x.ndjson')).toThrow(/x\.ndjson: not a syncring session log/);
+    // an input error like any other: the file as its source, the reason apart
+    const refused = thrown(() => ReplayLog.fromText('{"hello":1}\n', 'x.ndjson'), ReplayError);
+    expect({ source: refused.source, path: refused.path, reason: refused.reason }).toEqual({ source: 'x.ndjson', path: '', reason: 'not a syncring session log (no header record on line 1)' });
   });
 });

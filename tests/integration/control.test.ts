@@ -71,7 +71,8 @@ describe('run control over the WebSocket', () => {
     expect((await operator.next('error', (m) => m.id === 8)).reason).toMatch(/no built-in scenario "no-such"/);
     operator.command({ action: 'load-scenario', scenario: { nodes: 2 }, id: 9 });
     const bad = await operator.next('error', (m) => m.id === 9);
-    expect(bad.path).toBe('scenario.topology');
+    // the parser's field, nested under the command's field `scenario`, and its reason, answered to command 9 after crossing the worker thread
+    expect(bad).toEqual({ type: 'error', id: 9, path: 'scenario.topology', reason: 'is required' });
     expect(server.live.info().nodes).toBe(2);
     // the earlier log is complete and readable
     await sleep(100);

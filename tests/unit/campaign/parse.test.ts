@@ -1,15 +1,16 @@
 import { describe, expect, test } from 'vitest';
-import { CampaignError, parseCampaign } from '../../../src/campaign/index.js';
+import { parseCampaign } from '../../../src/campaign/index.js';
+import { InputError } from '../../../src/util/input-error.js';
 import { builtInCampaignRaw, loadBuiltInScenario } from '../../../src/scenarios/index.js';
 import { makeScenario } from '../../support/scenarios.js';
 
 const ring = makeScenario({ nodes: 4, twoWay: true, epsilon: 0.01, modes: [{ omega: 1, gain: 1, loss: 0 }], coupling: { strength: 0.1, reactive: 0, dissipative: 1 } });
 
-function errorOf(raw: unknown, scenario = ring): CampaignError {
+function errorOf(raw: unknown, scenario = ring): InputError {
   try {
     parseCampaign(raw, scenario, 'c.json');
   } catch (error) {
-    if (error instanceof CampaignError) return error;
+    if (error instanceof InputError) return error;
     throw error;
   }
   throw new Error('expected the campaign to be refused');

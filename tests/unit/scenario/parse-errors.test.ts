@@ -1,5 +1,6 @@
 import { describe, expect, test } from 'vitest';
-import { parseScenario, ScenarioError } from '../../../src/scenario/index.js';
+import { parseScenario } from '../../../src/scenario/index.js';
+import { InputError } from '../../../src/util/input-error.js';
 
 /** A small valid scenario; each case below breaks exactly one thing in a fresh copy. */
 function valid(): Record<string, any> {
@@ -15,12 +16,12 @@ function valid(): Record<string, any> {
   };
 }
 
-function errorOf(raw: unknown, source?: string): ScenarioError {
+function errorOf(raw: unknown, source?: string): InputError {
   try {
     parseScenario(raw, source);
   } catch (err) {
-    expect(err).toBeInstanceOf(ScenarioError);
-    return err as ScenarioError;
+    expect(err).toBeInstanceOf(InputError);
+    return err as InputError;
   }
   throw new Error('expected parseScenario to throw');
 }

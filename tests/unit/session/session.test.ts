@@ -1,6 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import { CoSimulation } from '../../../src/session/session.js';
-import { PerturbationError } from '../../../src/session/perturbation.js';
+import { InputError } from '../../../src/util/input-error.js';
 import { makeScenario } from '../../support/scenarios.js';
 import { stateFromAmplitudes, twistedAmplitudes } from '../../support/states.js';
 
@@ -89,7 +89,7 @@ describe('co-simulation session', () => {
       ['break', 'must be an object'],
     ];
     for (const [raw, message] of cases) {
-      expect(() => session.submit(raw, 'x'), JSON.stringify(raw)).toThrow(PerturbationError);
+      expect(() => session.submit(raw, 'x'), JSON.stringify(raw)).toThrow(InputError);
       expect(() => session.submit(raw, 'x')).toThrow(message);
     }
     const frame = session.step()!;

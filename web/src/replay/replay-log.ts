@@ -6,11 +6,14 @@ import type { SessionEvent } from '../../../src/session/session.js';
 import type { Perturbation } from '../../../src/session/perturbation.js';
 import { nearResonances } from '../../../src/guide/resonance.js';
 import { deltaToPpm } from '../../../src/scenario/units.js';
+import { InputError } from '../../../src/util/input-error.js';
 
-/** A log that cannot be replayed: the reason names what is missing or wrong. */
-export class ReplayError extends Error {
-  override name = 'ReplayError';
-}
+/**
+ * A log that cannot be replayed is bad input like any other: an InputError whose source is the
+ * file and whose reason names what is missing or wrong. The name stays for the dashboard, which
+ * shows such an error's message as it is.
+ */
+export { InputError as ReplayError };
 
 /**
  * A saved session log, read back for replay: its samples as frames (in time order), their chart
@@ -36,12 +39,14 @@ export class ReplayLog {
 
   static fromText(text: string, fileName: string): ReplayLog {
     const log = parseLog(text);
-    if (!log.header) throw new ReplayError(`${fileName}: not a syncring session log (no header record on line 1)`);
+    if (!log.header) throw new InputError('', 'not a syncring session log (no header record on line 1)', { source: fileName });
     let scenario: Scenario;
     try {
       scenario = parseScenario(log.header.scenario, `${fileName}: header.scenario`);
     } catch (error) {
-      throw new ReplayError((error as Error).message);
+      if (error instanceof InputError) throw error;
+      // anything else the parser trips over is still this file's fault, shown as it is
+      throw new InputError('', (error as Error).message);
     }
     const frames = log.samples
       .map(({ frame }): WireFrame => {
@@ -49,7 +54,7 @@ export class ReplayLog {
         return wire;
       })
       .sort((a, b) => a.tau - b.tau);
-    if (frames.length === 0) throw new ReplayError(`${fileName}: the log holds no samples to replay`);
+    if (frames.length === 0) throw new InputError('', 'the log holds no samples to replay', { source: fileName });
     const events = log.events.map((r) => r.event).sort((a, b) => a.tau - b.tau || a.seq - b.seq);
     return new ReplayLog(fileName, scenario, frames, events, log.problems, log.header.createdAt ?? null);
   }
