@@ -9,6 +9,7 @@
 import type { LockedStability, LockedState } from './locked-state.js';
 import type { MirrorRelation } from './mirror-symmetry.js';
 import { movedLockedState } from './renumbering.js';
+import { squaredNorm } from '../util/linear-algebra.js';
 
 export interface Entry<Recipe> {
   locked: LockedState;
@@ -82,8 +83,7 @@ export class EntryList<Recipe> {
  * relative distance `tolerance`.
  */
 export function sameUpToSymmetry(a: Float64Array, b: Float64Array, group: readonly Int32Array[], nodes: number, modes: number, parts: readonly Int32Array[], tolerance = 1e-5): boolean {
-  let normB = 0;
-  for (let i = 0; i < b.length; i++) normB += b[i] * b[i];
+  const normB = squaredNorm(b);
   const inverse = new Int32Array(nodes);
   for (const g of group) {
     for (let k = 0; k < nodes; k++) inverse[g[k]] = k;

@@ -36,9 +36,13 @@ import { graphAutomorphisms } from '../pattern/automorphisms.js';
 import { describeElement } from '../pattern/permutation.js';
 import type { CycleSearchStop } from '../pattern/cycles.js';
 import { Random } from '../util/random.js';
+import { squaredNorm } from '../util/linear-algebra.js';
 import { carryingMode } from '../observe/amplitudes.js';
 import type { GuideModel } from './guide-model.js';
 import {
+  combine,
+  complexInner,
+  complexSquaredNorm,
   fixedPointBasis,
   groupTable,
   isotropyClasses,
@@ -460,7 +464,7 @@ function classSeeds(table: GroupTable, cls: IsotropyClass, shapes: readonly Stru
   for (const s of shapes) {
     const p = projectOnto(cls.basis, s.shape);
     // shapes have unit moduli: compare with the projection of a unit vector
-    if (squaredNorm(p) > 0.05 * squaredNorm(s.shape)) addSeed(normalised(p));
+    if (complexSquaredNorm(p) > 0.05 * complexSquaredNorm(s.shape)) addSeed(normalised(p));
   }
   if (cls.fixDimension > 1) for (let r = 0; r < randomSeeds; r++) addSeed(normalised(combineBasis(cls.basis, random)));
   return seeds;
@@ -474,8 +478,6 @@ function classSeeds(table: GroupTable, cls: IsotropyClass, shapes: readonly Stru
 function linkCorrelation(model: GuideModel, y: Float64Array): number {
   const { linkFrom, linkTo, linkWeight, modes } = model.params;
   let sum = 0;
-  let norm = 0;
-  for (let i = 0; i < y.length; i++) norm += y[i] * y[i];
   for (let e = 0; e < linkFrom.length; e++) {
     for (let j = 0; j < modes; j++) {
       const a = 2 * (linkFrom[e] * modes + j);
@@ -484,7 +486,7 @@ function linkCorrelation(model: GuideModel, y: Float64Array): number {
       sum += linkWeight[e] * (y[a] * y[b] + y[a + 1] * y[b + 1]);
     }
   }
-  return sum / Math.max(norm, 1e-300);
+  return sum / Math.max(squaredNorm(y), 1e-300);
 }
 
 /**
@@ -497,38 +499,23 @@ function hasEnergy(locked: LockedState): boolean {
   return e > 1e-6 * (locked.state.length / 2) && locked.generators.length > 0;
 }
 
-function squaredNorm(v: ComplexVector): number {
-  let s = 0;
-  for (let k = 0; k < v.re.length; k++) s += v.re[k] ** 2 + v.im[k] ** 2;
-  return s;
-}
-
 function normalised(v: ComplexVector): ComplexVector {
-  const len = Math.sqrt(squaredNorm(v));
+  const len = Math.sqrt(complexSquaredNorm(v));
   return { re: v.re.map((x) => x / len), im: v.im.map((x) => x / len) };
 }
 
 /** |<a, b>| for unit vectors. */
 function overlap(a: ComplexVector, b: ComplexVector): number {
-  let re = 0;
-  let im = 0;
-  for (let k = 0; k < a.re.length; k++) {
-    re += a.re[k] * b.re[k] + a.im[k] * b.im[k];
-    im += a.re[k] * b.im[k] - a.im[k] * b.re[k];
-  }
+  const { re, im } = complexInner(a, b);
   return Math.hypot(re, im);
 }
 
+/** A generic point of span(basis): coefficients with real and imaginary parts uniform in [-0.5, 0.5). */
 function combineBasis(basis: readonly ComplexVector[], random: Random): ComplexVector {
-  const nodes = basis[0].re.length;
-  const v: ComplexVector = { re: new Float64Array(nodes), im: new Float64Array(nodes) };
-  for (const b of basis) {
-    const cr = random.uniform() - 0.5;
-    const ci = random.uniform() - 0.5;
-    for (let k = 0; k < nodes; k++) {
-      v.re[k] += cr * b.re[k] - ci * b.im[k];
-      v.im[k] += cr * b.im[k] + ci * b.re[k];
-    }
-  }
-  return v;
+  const coefficients = basis.map(() => {
+    const re = random.uniform() - 0.5;
+    const im = random.uniform() - 0.5;
+    return { re, im };
+  });
+  return combine(basis, coefficients, basis[0].re.length);
 }

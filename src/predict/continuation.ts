@@ -17,10 +17,20 @@
  *   crossing without a turning point a branch point (symmetry-breaking steady bifurcation).
  * The continuation stops at the first of them in each direction, or at a bound of the parameter.
  */
-import { Matrix, solve } from 'ml-matrix';
-import { complementBasis } from './orbit-complement.js';
+import type { Matrix } from 'ml-matrix';
+import { borderedMatrix, dot, norm, solveLinear } from '../util/linear-algebra.js';
+import { restrictToComplement } from './orbit-complement.js';
 import { applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
-import { fieldJacobian, sortedEigenvalues, stabilityOf, solveLockedState, type LockedStability, type Verdict } from './locked-state.js';
+import {
+  fieldJacobian,
+  lockedStateSystem,
+  rotatingResidual,
+  sortedEigenvalues,
+  stabilityOf,
+  solveLockedState,
+  type LockedStability,
+  type Verdict,
+} from './locked-state.js';
 import type { GuideModel } from './guide-model.js';
 import { describeLockedState } from './describe.js';
 import {
@@ -171,21 +181,21 @@ class Continuation {
     return this.lambda0 + this.scale * x[this.n + this.g];
   }
 
+  /** The phase-condition anchors G_c y_ref of the current reference point. */
+  private anchors(): Float64Array[] {
+    return this.generators.map((gen) => applyPhaseGenerator(gen, this.modes, this.reference, new Float64Array(this.n)));
+  }
+
   /** H(X): rotating-frame residual and phase conditions. */
   private residual(x: Float64Array): Float64Array {
     const { n, g, modes } = this;
     setParameter(this.model.params, this.parameter, this.lambda(x));
     const y = x.subarray(0, n);
     const out = new Float64Array(n + g);
-    const f = out.subarray(0, n);
-    this.model.field(y, f);
-    const scratch = new Float64Array(n);
-    this.generators.forEach((gen, c) => {
-      applyPhaseGenerator(gen, modes, y, scratch);
-      for (let i = 0; i < n; i++) f[i] -= x[n + c] * scratch[i];
-      applyPhaseGenerator(gen, modes, this.reference, scratch);
+    rotatingResidual(this.model.field, y, this.generators, x.subarray(n, n + g), modes, out.subarray(0, n), new Float64Array(n));
+    this.anchors().forEach((anchor, c) => {
       let s = 0;
-      for (let i = 0; i < n; i++) s += scratch[i] * (y[i] - this.reference[i]);
+      for (let i = 0; i < n; i++) s += anchor[i] * (y[i] - this.reference[i]);
       out[n + c] = s;
     });
     return out;
@@ -200,15 +210,6 @@ class Continuation {
     setParameter(this.model.params, this.parameter, lambda);
     const state = fieldJacobian(this.model.field, y);
     subtractRotation(state, this.generators, rates, modes);
-    const full = new Matrix(n + g, n + g + 1);
-    for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) full.set(r, c, state.get(r, c));
-    const scratch = new Float64Array(n);
-    this.generators.forEach((gen, c) => {
-      applyPhaseGenerator(gen, modes, y, scratch);
-      for (let i = 0; i < n; i++) full.set(i, n + c, -scratch[i]);
-      applyPhaseGenerator(gen, modes, this.reference, scratch);
-      for (let i = 0; i < n; i++) full.set(n + c, i, scratch[i]);
-    });
     const h = 1e-6 * Math.max(1, Math.abs(x[n + g]));
     const plus = new Float64Array(n);
     const minus = new Float64Array(n);
@@ -217,7 +218,9 @@ class Continuation {
     setParameter(this.model.params, this.parameter, lambda - h * this.scale);
     this.model.field(y, minus);
     setParameter(this.model.params, this.parameter, lambda);
-    for (let i = 0; i < n; i++) full.set(i, n + g, (plus[i] - minus[i]) / (2 * h));
+    const parameterDerivative = Float64Array.from(plus, (p, i) => (p - minus[i]) / (2 * h));
+    const tangents = this.generators.map((gen) => applyPhaseGenerator(gen, modes, y, new Float64Array(n)));
+    const full = lockedStateSystem(state, tangents, this.anchors(), [parameterDerivative]);
     return { full, state };
   }
 
@@ -225,18 +228,11 @@ class Continuation {
   private tangent(full: Matrix, previous: Float64Array | null, sign: number): Float64Array {
     const size = full.columns;
     const guide = previous ?? Float64Array.from({ length: size }, (_, i) => (i === size - 1 ? sign : 0));
-    const system = new Matrix(size, size);
-    for (let r = 0; r < full.rows; r++) for (let c = 0; c < size; c++) system.set(r, c, full.get(r, c));
-    for (let c = 0; c < size; c++) system.set(size - 1, c, guide[c]);
-    const rhs = new Matrix(size, 1);
-    rhs.set(size - 1, 0, 1);
-    const t = Float64Array.from(solve(system, rhs).to1DArray());
-    let len = 0;
-    for (const v of t) len += v * v;
-    len = Math.sqrt(len);
-    let along = 0;
-    for (let i = 0; i < size; i++) along += t[i] * guide[i];
-    const orient = along < 0 ? -1 : 1;
+    const rhs = new Float64Array(size);
+    rhs[size - 1] = 1;
+    const t = solveLinear(borderedMatrix(full, [], [guide]), rhs);
+    const len = norm(t);
+    const orient = dot(t, guide) < 0 ? -1 : 1;
     return t.map((v) => (orient * v) / len);
   }
 
@@ -249,8 +245,7 @@ class Continuation {
     if (this.options.monitorStability === false) return { x: Float64Array.from(x), tangent, stability: null, unstable: 0 };
     const y = x.subarray(0, n);
     const tangents = this.generators.map((gen) => applyPhaseGenerator(gen, modes, Float64Array.from(y), new Float64Array(n)));
-    const q = complementBasis(tangents, n);
-    const eigenvalues = sortedEigenvalues(q.transpose().mmul(state).mmul(q));
+    const eigenvalues = sortedEigenvalues(restrictToComplement(state, tangents));
     const stability = stabilityOf(eigenvalues, this.model.accuracy);
     return { x: Float64Array.from(x), tangent, stability, unstable: eigenvalues.filter((e) => e.re > 0).length };
   }
@@ -264,31 +259,23 @@ class Continuation {
     const size = predicted.length;
     const x = Float64Array.from(predicted);
     const { full } = this.jacobian(x);
-    const system = new Matrix(size, size);
-    for (let r = 0; r < full.rows; r++) for (let c = 0; c < size; c++) system.set(r, c, full.get(r, c));
-    for (let c = 0; c < size; c++) system.set(size - 1, c, t[c]);
+    const system = borderedMatrix(full, [], [t]);
     for (let iteration = 1; iteration <= 10; iteration++) {
       const h = this.residual(x);
       let along = 0;
       for (let i = 0; i < size; i++) along += t[i] * (x[i] - predicted[i]);
-      const rhs = new Matrix(size, 1);
-      for (let r = 0; r < h.length; r++) rhs.set(r, 0, -h[r]);
-      rhs.set(size - 1, 0, -along);
-      let step: number[];
+      const rhs = new Float64Array(size);
+      for (let r = 0; r < h.length; r++) rhs[r] = -h[r];
+      rhs[size - 1] = -along;
+      let step: Float64Array;
       try {
-        step = solve(system, rhs).to1DArray();
+        step = solveLinear(system, rhs);
       } catch {
         return null;
       }
-      let stepNorm = 0;
-      for (let i = 0; i < size; i++) {
-        x[i] += step[i];
-        stepNorm += step[i] * step[i];
-      }
+      for (let i = 0; i < size; i++) x[i] += step[i];
       if (!x.every(Number.isFinite)) return null;
-      let residualNorm = 0;
-      for (const v of this.residual(x)) residualNorm += v * v;
-      if (Math.sqrt(residualNorm) < 1e-10 && Math.sqrt(stepNorm) < 1e-6) return { x, iterations: iteration };
+      if (norm(this.residual(x)) < 1e-10 && norm(step) < 1e-6) return { x, iterations: iteration };
     }
     return null;
   }
@@ -300,9 +287,7 @@ class Continuation {
     const corrected = this.correct(predicted, from.tangent);
     if (!corrected) return null;
     const node = this.evaluateNode(corrected.x, from.tangent, 1);
-    let cosine = 0;
-    for (let i = 0; i < node.tangent.length; i++) cosine += node.tangent[i] * from.tangent[i];
-    if (cosine < 0.95) return null; // too sharp a turn: the step may have jumped to another branch
+    if (dot(node.tangent, from.tangent) < 0.95) return null; // too sharp a turn: the step may have jumped to another branch
     return node;
   }
 

@@ -10,8 +10,9 @@
  * orbit's tangents G_c y (complementBasis in orbit-complement.ts), so the zero eigenvalues
  * forced by the phase symmetry are removed by construction.
  */
-import { EigenvalueDecomposition, Matrix, solve } from 'ml-matrix';
-import { complementBasis, type Field } from './orbit-complement.js';
+import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { borderedMatrix, dot, norm, solveLinear } from '../util/linear-algebra.js';
+import { restrictToComplement, type Field } from './orbit-complement.js';
 import { activePhaseGenerators, applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
 
 export interface LockedState {
@@ -51,31 +52,40 @@ export interface LockedStability {
   verdict: Verdict;
 }
 
-const norm = (v: ArrayLike<number>): number => {
-  let s = 0;
-  for (let i = 0; i < v.length; i++) s += v[i] * v[i];
-  return Math.sqrt(s);
-};
-
-const dot = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
-  let s = 0;
-  for (let i = 0; i < a.length; i++) s += a[i] * b[i];
-  return s;
-};
-
 /** One part holding every node. */
 export function wholeGraph(nodes: number): Int32Array[] {
   return [Int32Array.from({ length: nodes }, (_, k) => k)];
 }
 
 /** r = fbar(y) - sum_c rate_c G_c y. */
-function rotatingResidual(field: Field, y: Float64Array, generators: readonly PhaseGenerator[], rates: ArrayLike<number>, modes: number, out: Float64Array, scratch: Float64Array): Float64Array {
+export function rotatingResidual(field: Field, y: Float64Array, generators: readonly PhaseGenerator[], rates: ArrayLike<number>, modes: number, out: Float64Array, scratch: Float64Array): Float64Array {
   field(y, out);
   generators.forEach((g, c) => {
     applyPhaseGenerator(g, modes, y, scratch);
     for (let i = 0; i < out.length; i++) out[i] -= rates[c] * scratch[i];
   });
   return out;
+}
+
+/**
+ * The Jacobian of the locked-state equations in the unknowns (y, Omega_c) (see the module
+ * header): `rotating` (D fbar - sum_c Omega_c G_c, n x n) bordered by one column -G_c y per
+ * generator (the derivative in its rate, from `tangents` G_c y) and one phase-condition row per
+ * generator (`anchors`, G_c y0); `extraColumns` (the continuation's parameter derivative) come
+ * last.
+ */
+export function lockedStateSystem(rotating: Matrix, tangents: readonly Float64Array[], anchors: readonly ArrayLike<number>[], extraColumns: readonly ArrayLike<number>[] = []): Matrix {
+  return borderedMatrix(rotating, [...tangents.map((t) => Float64Array.from(t, (v) => -v)), ...extraColumns], anchors);
+}
+
+/** B^T v for the orthonormal columns B of a subspace: v in the subspace's coordinates. */
+function inBasis(basis: Matrix, v: ArrayLike<number>): Float64Array {
+  const n = basis.rows;
+  return Float64Array.from({ length: basis.columns }, (_, i) => {
+    let s = 0;
+    for (let k = 0; k < n; k++) s += basis.get(k, i) * v[k];
+    return s;
+  });
 }
 
 /**
@@ -131,7 +141,7 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
   // Anchors of the phase conditions, in the unknowns' coordinates.
   const anchors = generators.map((g) => {
     const t = applyPhaseGenerator(g, modes, guess, new Float64Array(n));
-    return basis ? Float64Array.from({ length: p }, (_, i) => { let s = 0; for (let r = 0; r < n; r++) s += basis.get(r, i) * t[r]; return s; }) : t;
+    return basis ? inBasis(basis, t) : t;
   });
   const rates = generators.map((g) => {
     const t = applyPhaseGenerator(g, modes, guess, new Float64Array(n));
@@ -145,12 +155,10 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
   const offset = new Float64Array(p); // z - z0 (or y - y0)
   while (residual > tolerance && iterations < maxIterations && Number.isFinite(residual)) {
     iterations++;
-    const size = p + generators.length;
-    const system = new Matrix(size, size);
-    const rhs = new Matrix(size, 1);
     const jac = fieldJacobian(field, y, basis); // n x p
-    const r = Float64Array.from(residualVector);
     const tangents = generators.map((g) => applyPhaseGenerator(g, modes, y, new Float64Array(n)));
+    const rhs = new Float64Array(p + generators.length);
+    let system: Matrix;
     if (basis) {
       // Project rows onto the subspace: B^T (D fbar B - sum Omega G B) and B^T r.
       const bt = basis.transpose();
@@ -163,56 +171,39 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
           for (let i = 0; i < n; i++) rotated.set(i, c, rotated.get(i, c) - rates[gi] * scratch[i]);
         });
       }
-      const reducedRotation = bt.mmul(rotated);
-      for (let i = 0; i < p; i++) {
-        let ri = 0;
-        for (let k = 0; k < n; k++) ri += basis.get(k, i) * r[k];
-        rhs.set(i, 0, -ri);
-        for (let c = 0; c < p; c++) system.set(i, c, reduced.get(i, c) + reducedRotation.get(i, c));
-        tangents.forEach((t, gi) => {
-          let s = 0;
-          for (let k = 0; k < n; k++) s += basis.get(k, i) * t[k];
-          system.set(i, p + gi, -s);
-        });
-      }
+      const projectedResidual = inBasis(basis, residualVector);
+      for (let i = 0; i < p; i++) rhs[i] = -projectedResidual[i];
+      system = lockedStateSystem(reduced.add(bt.mmul(rotated)), tangents.map((t) => inBasis(basis, t)), anchors);
     } else {
       subtractRotation(jac, generators, rates, modes);
-      for (let i = 0; i < n; i++) {
-        rhs.set(i, 0, -r[i]);
-        for (let c = 0; c < n; c++) system.set(i, c, jac.get(i, c));
-      }
-      tangents.forEach((t, gi) => {
-        for (let i = 0; i < n; i++) system.set(i, n + gi, -t[i]);
-      });
+      for (let i = 0; i < n; i++) rhs[i] = -residualVector[i];
+      system = lockedStateSystem(jac, tangents, anchors);
     }
-    anchors.forEach((a, gi) => {
-      for (let i = 0; i < p; i++) system.set(p + gi, i, a[i]);
-      rhs.set(p + gi, 0, -dot(a, offset));
-    });
-    let step: Matrix;
+    anchors.forEach((a, gi) => (rhs[p + gi] = -dot(a, offset)));
+    let step: Float64Array;
     try {
-      step = solve(system, rhs);
+      step = solveLinear(system, rhs);
     } catch {
       break;
     }
-    if (!step.to1DArray().every(Number.isFinite)) break;
+    if (!step.every(Number.isFinite)) break;
     const y0 = Float64Array.from(y);
     const rates0 = [...rates];
     const offset0 = Float64Array.from(offset);
     let scale = 1;
     let next = Number.POSITIVE_INFINITY;
     for (let attempt = 0; attempt < 7; attempt++) {
-      for (let i = 0; i < p; i++) offset[i] = offset0[i] + scale * step.get(i, 0);
+      for (let i = 0; i < p; i++) offset[i] = offset0[i] + scale * step[i];
       if (basis) {
         for (let k = 0; k < n; k++) {
           let s = 0;
-          for (let i = 0; i < p; i++) s += basis.get(k, i) * step.get(i, 0);
+          for (let i = 0; i < p; i++) s += basis.get(k, i) * step[i];
           y[k] = y0[k] + scale * s;
         }
       } else {
-        for (let k = 0; k < n; k++) y[k] = y0[k] + scale * step.get(k, 0);
+        for (let k = 0; k < n; k++) y[k] = y0[k] + scale * step[k];
       }
-      generators.forEach((_, gi) => (rates[gi] = rates0[gi] + scale * step.get(p + gi, 0)));
+      generators.forEach((_, gi) => (rates[gi] = rates0[gi] + scale * step[p + gi]));
       next = residualNorm();
       if (next < residual) break;
       scale /= 2;
@@ -263,8 +254,7 @@ export function reducedJacobian(field: Field, locked: LockedState, modes: number
   const jac = fieldJacobian(field, locked.state);
   subtractRotation(jac, locked.generators, locked.rates, modes);
   const tangents = locked.generators.map((g) => applyPhaseGenerator(g, modes, locked.state, new Float64Array(n)));
-  const q = complementBasis(tangents, n);
-  return q.transpose().mmul(jac).mmul(q);
+  return restrictToComplement(jac, tangents);
 }
 
 /** Eigenvalues of a real square matrix, sorted by decreasing real part (then imaginary part). */

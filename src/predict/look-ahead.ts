@@ -17,6 +17,7 @@ import { accumulateExcursion, SLIP_EXCURSION } from '../observe/phase-excursion.
 import { carryingMode } from '../observe/amplitudes.js';
 import { CoupledPairs } from '../observe/coupled-pairs.js';
 import { wrapAngle } from '../util/angles.js';
+import { dot, squaredNorm } from '../util/linear-algebra.js';
 
 export interface LookAheadOptions {
   /** Longest look-ahead in slow time; default 400 coupling relaxation times (see couplingRate). */
@@ -60,22 +61,14 @@ export function couplingRate(model: GuideModel): number {
 function rotatingSpeed(model: GuideModel, y: Float64Array, velocity: Float64Array, scratch: Float64Array): number {
   const modes = model.modes;
   model.field(y, velocity);
-  let total = 0;
-  for (let i = 0; i < y.length; i++) total += y[i] * y[i];
+  const total = squaredNorm(y);
   for (const g of activePhaseGenerators(y, modes, model.parts())) {
     applyPhaseGenerator(g, modes, y, scratch);
-    let along = 0;
-    let size = 0;
-    for (let i = 0; i < y.length; i++) {
-      along += scratch[i] * velocity[i];
-      size += scratch[i] * scratch[i];
-    }
-    const rate = size > 0 ? along / size : 0;
+    const size = squaredNorm(scratch);
+    const rate = size > 0 ? dot(scratch, velocity) / size : 0;
     for (let i = 0; i < y.length; i++) velocity[i] -= rate * scratch[i];
   }
-  let speed = 0;
-  for (let i = 0; i < y.length; i++) speed += velocity[i] * velocity[i];
-  return Math.sqrt(speed / Math.max(total, 1e-300));
+  return Math.sqrt(squaredNorm(velocity) / Math.max(total, 1e-300));
 }
 
 /**
