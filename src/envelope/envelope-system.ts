@@ -142,8 +142,7 @@ export class EnvelopeSystem implements FullIntegrator {
     this.startSlow.set(this.endSlow);
     this.noise.fill(0);
     this.rated = false;
-    this.solver.invalidate();
-    if (!(this.solver.step > 0)) this.solver.step = FIRST_CHUNK;
+    this.solver.resume(this.solver.step > 0 ? this.solver.step : FIRST_CHUNK);
   }
 
   /** Health of an envelope started from the full state y at tau (one slow evaluation; changes nothing else). */
@@ -245,8 +244,7 @@ export class EnvelopeSystem implements FullIntegrator {
     this.rated = saved.rated;
     this.health = { ...saved.health };
     // The solver's cached rate is recomputed from endSlow: the same function of the same numbers.
-    this.solver.invalidate();
-    this.solver.step = saved.solverStep;
+    this.solver.resume(saved.solverStep);
   }
 
   /** Longest chunk now: the splitting step with noise, LONGEST_CHUNK without. */

@@ -29,8 +29,8 @@ export class DormandPrince {
   readonly atol: number;
   readonly maxStep: number;
   readonly maxSteps: number;
-  /** Step size carried over between calls. */
-  step = 0;
+  /** The step the next call tries first, carried over between calls (0: none yet, choose one). */
+  private proposal = 0;
   accepted = 0;
   rejected = 0;
   evaluations = 0;
@@ -57,8 +57,19 @@ export class DormandPrince {
     this.trial = make(); this.next = make();
   }
 
+  /** The step the next call tries first (0 before the first call). */
+  get step(): number {
+    return this.proposal;
+  }
+
   /** Forget the cached derivative (call after y or the field's parameters change outside). */
   invalidate(): void {
+    this.firstValid = false;
+  }
+
+  /** Continue with `step` as the next step to try and a fresh derivative (a restart, a checkpoint). */
+  resume(step: number): void {
+    this.proposal = step;
     this.firstValid = false;
   }
 
@@ -75,11 +86,11 @@ export class DormandPrince {
       this.evaluations++;
       this.firstValid = true;
     }
-    if (!(this.step > 0)) this.step = this.initialStep(t, y, t1 - t0);
+    if (!(this.proposal > 0)) this.proposal = this.initialStep(t, y, t1 - t0);
     let steps = 0;
     while (t < t1) {
       if (++steps > this.maxSteps) return false;
-      let h = Math.min(this.step, this.maxStep);
+      let h = Math.min(this.proposal, this.maxStep);
       const last = t + h >= t1 || t1 - (t + h) < 1e-12 * Math.abs(t1);
       if (last) h = t1 - t;
       for (let i = 0; i < n; i++) trial[i] = y[i] + h * A21 * k1[i];
@@ -104,9 +115,9 @@ export class DormandPrince {
       }
       const err = Math.sqrt(sum / n);
       if (!Number.isFinite(err)) {
-        this.step = h * 0.2;
+        this.proposal = h * 0.2;
         this.rejected++;
-        if (this.step < 1e-14 * Math.max(1, Math.abs(t))) return false;
+        if (this.proposal < 1e-14 * Math.max(1, Math.abs(t))) return false;
         continue;
       }
       const factor = err === 0 ? 5 : Math.min(5, Math.max(0.2, 0.9 * Math.pow(err, -0.2)));
@@ -116,12 +127,12 @@ export class DormandPrince {
         k1.set(k7);
         this.accepted++;
         // A short last step says nothing about the next: keep the previous proposal then.
-        if (!last) this.step = h * factor;
-        else this.step = Math.max(this.step, h * factor);
+        if (!last) this.proposal = h * factor;
+        else this.proposal = Math.max(this.proposal, h * factor);
       } else {
-        this.step = h * Math.max(0.2, factor);
+        this.proposal = h * Math.max(0.2, factor);
         this.rejected++;
-        if (this.step < 1e-14 * Math.max(1, Math.abs(t))) return false;
+        if (this.proposal < 1e-14 * Math.max(1, Math.abs(t))) return false;
       }
     }
     return true;

@@ -86,11 +86,11 @@ const SAMPLES_PER_CHUNK = 8;
  * there.
  */
 class PhaseDifferenceWatch {
-  readonly last: Float64Array;
-  readonly offsets: Float64Array;
+  private readonly last: Float64Array;
+  private readonly offsets: Float64Array;
   private readonly phase: Float64Array;
   private readonly rate: Float64Array;
-  maxExcursion = 0;
+  private largest = 0;
 
   constructor(readonly pairs: CoupledPairs, private readonly nodes: number, private readonly modes: number, readonly mode: number) {
     this.last = new Float64Array(pairs.size);
@@ -119,6 +119,21 @@ class PhaseDifferenceWatch {
     const ends = this.pairs.ends;
     for (let p = 0; p < this.pairs.size; p++) out[p] = wrapAngle(phase[ends[2 * p + 1]] - phase[ends[2 * p]]);
     return out;
+  }
+
+  /** Takes the differences just read as where the excursions are measured from; returns a copy of them. */
+  begin(): Float64Array {
+    return Float64Array.from(this.differences(this.last));
+  }
+
+  /** Unwraps the differences just read (written to `out`) onto the running excursions, keeping the largest. */
+  accumulate(out: Float64Array): void {
+    this.largest = Math.max(this.largest, accumulateExcursion(this.last, this.offsets, this.differences(out), this.pairs.watched));
+  }
+
+  /** Largest total move of a watched difference so far (rad). */
+  get maxExcursion(): number {
+    return this.largest;
   }
 }
 
@@ -171,7 +186,7 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
   /** One watched sample: unwraps the differences and returns the time to the next sample. */
   const sample = (): number => {
     const next = look();
-    watch.maxExcursion = Math.max(watch.maxExcursion, accumulateExcursion(watch.last, watch.offsets, watch.differences(differences), pairs.watched));
+    watch.accumulate(differences);
     sampleTimes.push(t);
     samples.push(Float64Array.from(differences));
     return next;
@@ -181,9 +196,8 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
     transitSlowTime: settled ? arrivalTime(sampleTimes, samples, pairs.stateDifferences(state, modes, watch.mode), arrivalTolerance) : null,
   });
   let interval = look();
-  watch.differences(watch.last);
   sampleTimes.push(0);
-  samples.push(Float64Array.from(watch.last));
+  samples.push(watch.begin());
   while (t < maxSlowTime && spent() < maxEvaluations) {
     const end = t + chunk;
     let failed = false;

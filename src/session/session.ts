@@ -226,10 +226,10 @@ export class CoSimulation {
       return this.frame();
     }
     if (outcome.detuningChanged) this.guide.invalidate();
-    if (!this.guide.failed && !this.guide.advance(tauEnd)) {
+    const guideRunning = !this.guide.failed;
+    if (!this.guide.advance(tauEnd) && guideRunning) {
       this.record('guide-failure', 'the guiding system failed (its step size collapsed); the full run goes on', 'engine');
     }
-    this.guide.tau = tauEnd;
     this.tick++;
     this.integrator.afterTick(this.tick);
     return this.frame();
@@ -284,44 +284,7 @@ export class CoSimulation {
   /** A session of `scenario` continued from a checkpoint it wrote. */
   static fromCheckpoint(scenario: Scenario, saved: SessionCheckpoint, options: SessionOptions = {}): CoSimulation {
     const session = new CoSimulation(scenario, options);
-    session.pending = [];
-    const p = session.params;
-    if (saved.full.length !== session.full.state.length || saved.parameters.linkWeight.length !== p.linkWeight.length) {
-      throw new RangeError('the checkpoint does not belong to this scenario (state or link count differs)');
-    }
-    session.tick = saved.tick;
-    session.integrator.micro.state.set(saved.full);
-    session.integrator.micro.stepper.tau = saved.tau;
-    session.integrator.micro.random.setState(saved.random);
-    session.guide.state.set(saved.guide);
-    session.guide.tau = saved.tau;
-    session.guide.failed = saved.guideFailed;
-    if (saved.guideStep > 0) session.guide.nextStep = saved.guideStep;
-    p.detuning.set(saved.parameters.detuning);
-    p.setLinkWeights(saved.parameters.linkWeight);
-    p.strength = saved.parameters.strength;
-    p.reactive = saved.parameters.reactive;
-    p.dissipative = saved.parameters.dissipative;
-    p.noiseIntensity = saved.parameters.noiseIntensity;
-    p.detuningWalk = saved.parameters.detuningWalk;
-    session.integrator.load(saved.integrator);
-    session.queue.push(...saved.queue.map((q) => ({ ...q })));
-    session.eventCount = saved.eventCount;
-    session.halted = saved.halted;
-    session.fullTracker.load(saved.trackers.full);
-    session.guideTracker.load(saved.trackers.guide);
-    session.marginStale = saved.margin.stale;
-    session.margin = saved.margin.value;
-    if (saved.prediction) {
-      session.predictionStale = saved.prediction.stale;
-      session.predictionKicked = saved.prediction.kicked;
-      session.prediction = saved.prediction.value;
-      session.predictor.load(saved.prediction.predictor);
-    } else {
-      session.predictor.rememberParameters(p);
-    }
-    session.group = session.computeGroup();
-    session.pairs.update(p);
+    session.restore(saved);
     return session;
   }
 
@@ -331,6 +294,43 @@ export class CoSimulation {
    */
   recordNow(kind: SessionEventKind, message: string, by: string): SessionEvent {
     return { seq: ++this.eventCount, tau: this.tau, kind, message, by };
+  }
+
+  /** Continue as `saved` says (see fromCheckpoint): each part restores its own state. */
+  private restore(saved: SessionCheckpoint): void {
+    this.pending = [];
+    const p = this.params;
+    if (saved.full.length !== this.full.state.length || saved.parameters.linkWeight.length !== p.linkWeight.length) {
+      throw new RangeError('the checkpoint does not belong to this scenario (state or link count differs)');
+    }
+    this.tick = saved.tick;
+    this.integrator.micro.restore(saved.full, saved.tau, saved.random);
+    this.guide.restore({ state: saved.guide, tau: saved.tau, failed: saved.guideFailed, nextStep: saved.guideStep });
+    p.detuning.set(saved.parameters.detuning);
+    p.setLinkWeights(saved.parameters.linkWeight);
+    p.strength = saved.parameters.strength;
+    p.reactive = saved.parameters.reactive;
+    p.dissipative = saved.parameters.dissipative;
+    p.noiseIntensity = saved.parameters.noiseIntensity;
+    p.detuningWalk = saved.parameters.detuningWalk;
+    this.integrator.load(saved.integrator);
+    this.queue.push(...saved.queue.map((q) => ({ ...q })));
+    this.eventCount = saved.eventCount;
+    this.halted = saved.halted;
+    this.fullTracker.load(saved.trackers.full);
+    this.guideTracker.load(saved.trackers.guide);
+    this.marginStale = saved.margin.stale;
+    this.margin = saved.margin.value;
+    if (saved.prediction) {
+      this.predictionStale = saved.prediction.stale;
+      this.predictionKicked = saved.prediction.kicked;
+      this.prediction = saved.prediction.value;
+      this.predictor.load(saved.prediction.predictor);
+    } else {
+      this.predictor.rememberParameters(p);
+    }
+    this.group = this.computeGroup();
+    this.pairs.update(p);
   }
 
   private applyQueue(): void {
