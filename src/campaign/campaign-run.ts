@@ -2,7 +2,7 @@ import type { ModelParameters } from '../model/parameters.js';
 import type { LockSettings } from '../observe/lock-detector.js';
 import type { Perturbation } from '../session/perturbation.js';
 import { FaultGenerator, type GeneratorState } from './generator.js';
-import { applyToView, appliesToUncoupled, previousValuesOf, viewOf } from './restore.js';
+import { applyToView, appliesToUncoupled, previousValuesOf } from './restore.js';
 import type { TickView } from './tick-view.js';
 import type { Campaign, FaultPlan } from './types.js';
 import { FaultEvaluation, type EvaluationState, type FaultVerdict, type TimeBase } from './verdict.js';
@@ -75,7 +75,7 @@ export class CampaignRun {
   beforeTick(tau: number): QueuedPerturbation[] {
     const due = (start: number) => start <= tau * (1 + 1e-12) && start < this.until;
     const queued: QueuedPerturbation[] = [];
-    const view = viewOf(this.params);
+    const view = this.params.mutableValues();
     this.restores = this.restores.filter((pending) => {
       if (tau < pending.at * (1 - 1e-12)) return true;
       const evaluation = this.open.find((e) => e.id === pending.id);

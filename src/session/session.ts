@@ -1,6 +1,6 @@
 import type { ModeState, Scenario } from '../scenario/types.js';
 import { tauToSeconds } from '../scenario/units.js';
-import { ModelParameters } from '../model/parameters.js';
+import { ModelParameters, type MutableParameterValues } from '../model/parameters.js';
 import { addToAmplitude, originalFromRotating } from '../model/coordinates.js';
 import { initialRotatingState } from '../model/initial.js';
 import { FullSystem, type FullIntegrator } from '../integrate/full-system.js';
@@ -69,15 +69,7 @@ export interface SessionCheckpoint {
   guideStep: number;
   guideFailed: boolean;
   random: RandomState;
-  parameters: {
-    detuning: number[];
-    linkWeight: number[];
-    strength: number;
-    reactive: number;
-    dissipative: number;
-    noiseIntensity: number;
-    detuningWalk: number;
-  };
+  parameters: MutableParameterValues;
   queue: { perturbation: Perturbation; by: string }[];
   eventCount: number;
   halted: string | null;
@@ -252,7 +244,6 @@ export class CoSimulation {
 
   /** A bit-exact checkpoint (see SessionCheckpoint). Events not yet handed out are not part of it. */
   checkpoint(): SessionCheckpoint {
-    const p = this.params;
     return {
       version: 1,
       tick: this.tick,
@@ -262,15 +253,7 @@ export class CoSimulation {
       guideStep: this.guide.nextStep,
       guideFailed: this.guide.failed,
       random: this.full.random.getState(),
-      parameters: {
-        detuning: Array.from(p.detuning),
-        linkWeight: Array.from(p.linkWeight),
-        strength: p.strength,
-        reactive: p.reactive,
-        dissipative: p.dissipative,
-        noiseIntensity: p.noiseIntensity,
-        detuningWalk: p.detuningWalk,
-      },
+      parameters: this.params.mutableValues(),
       queue: this.queue.map((q) => ({ ...q })),
       eventCount: this.eventCount,
       halted: this.halted,
@@ -306,13 +289,7 @@ export class CoSimulation {
     this.tick = saved.tick;
     this.integrator.micro.restore(saved.full, saved.tau, saved.random);
     this.guide.restore({ state: saved.guide, tau: saved.tau, failed: saved.guideFailed, nextStep: saved.guideStep });
-    p.detuning.set(saved.parameters.detuning);
-    p.setLinkWeights(saved.parameters.linkWeight);
-    p.strength = saved.parameters.strength;
-    p.reactive = saved.parameters.reactive;
-    p.dissipative = saved.parameters.dissipative;
-    p.noiseIntensity = saved.parameters.noiseIntensity;
-    p.detuningWalk = saved.parameters.detuningWalk;
+    p.restoreValues(saved.parameters);
     this.integrator.load(saved.integrator);
     this.queue.push(...saved.queue.map((q) => ({ ...q })));
     this.eventCount = saved.eventCount;
