@@ -1,6 +1,17 @@
 import type { ModelParameters } from '../model/parameters.js';
-import { DormandPrince } from '../integrate/dormand-prince.js';
+import { ABSOLUTE_PER_RELATIVE, DormandPrince } from '../integrate/dormand-prince.js';
 import { TorusAverage } from './torus-average.js';
+
+/**
+ * Default relative tolerance (README, 'Guiding system'): keeps the guide's own integration error
+ * far below the O(eps) gap to the full system that it is compared with.
+ */
+export const GUIDE_TOLERANCE = 1e-10;
+/**
+ * Accepted plus rejected steps per tick: a guide whose averaged flow blows up (its step keeps
+ * shrinking) fails within the tick, and the run goes on without it, instead of stalling there.
+ */
+const GUIDE_STEPS_PER_TICK = 100_000;
 
 /**
  * The guiding system Y' = eps fbar(Y), integrated in slow time s = eps tau with an adaptive
@@ -17,13 +28,13 @@ export class GuideSystem {
   private clock = 0;
   private collapsed = false;
 
-  constructor(readonly params: ModelParameters, initial: Float64Array, grid: number, tolerance = 1e-10) {
+  constructor(readonly params: ModelParameters, initial: Float64Array, grid: number, tolerance = GUIDE_TOLERANCE) {
     this.average = new TorusAverage(params, grid);
     this.state = Float64Array.from(initial);
     this.solver = new DormandPrince(initial.length, (_s, y, dy) => this.average.evaluate(y, dy), {
       rtol: tolerance,
-      atol: tolerance * 1e-2,
-      maxSteps: 100_000,
+      atol: tolerance * ABSOLUTE_PER_RELATIVE,
+      maxSteps: GUIDE_STEPS_PER_TICK,
     });
   }
 

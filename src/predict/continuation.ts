@@ -22,6 +22,8 @@ import { borderedMatrix, dot, norm, solveLinear } from '../util/linear-algebra.j
 import { restrictToComplement } from './orbit-complement.js';
 import { applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
 import {
+  DIFFERENCE_STEP,
+  LOCKED_STATE_TOLERANCE,
   fieldJacobian,
   lockedStateSystem,
   rotatingResidual,
@@ -43,15 +45,44 @@ import {
 } from './continuation-parameter.js';
 import { deltaToPpm } from '../scenario/units.js';
 
+// Step lengths are arclengths in the scaled unknowns (y, Omega_c, mu), mu the parameter in units
+// of its natural scale (parameterScale), so they mean the same for every parameter.
+/** Default accepted steps per direction: bounds the work (a dense Jacobian, and with monitoring an eigenvalue problem, per step); a longer branch ends in a 'max-steps' limit that says so. */
+const MAX_STEPS = 200;
+/** Default first step: small against the scaled unknowns (amplitudes near 2, mu of order one across a locking range), so the first corrector starts close; the step grows from there. */
+const INITIAL_STEP = 0.02;
+/** Default largest step: a predictor that strays far from the branch risks a corrector that lands on another one (the turn check catches that only afterwards). */
+const MAX_STEP = 0.5;
+/** Default smallest step: when the corrector still fails at this length, the failure is not one of step size; the branch ends in 'step-failure'. */
+const MIN_STEP = 1e-7;
+/** Step growth after an accepted step and cut after a failed one; common practice for continuation step control. */
+const STEP_GROWTH = 1.4;
+const STEP_CUT = 0.5;
+/** Chord-Newton iterations per corrector: from a close prediction it converges in a few; needing more means the step was too long, and it is cut. */
+const CORRECTOR_ITERATIONS = 10;
+/** A corrected point is solved as tightly as any locked state (solveLockedState's default residual)... */
+const CORRECTOR_RESIDUAL = LOCKED_STATE_TOLERANCE;
+/** ... and its last update is this small (scaled units): the chord iteration converges only linearly, so a small residual alone could be a point still moving. */
+const CORRECTOR_UPDATE = 1e-6;
+/** Consecutive unit tangents must agree this well (cos 18 degrees): a sharper turn means the corrector may have jumped to another branch, and the step is cut. */
+const MIN_TURN_COSINE = 0.95;
+/** An event is located by bisecting the step until its bracket is below LOCATE_RESOLUTION of the step; 30 halvings reach 2^-30 = 9.3e-10. */
+const LOCATE_BISECTIONS = 30;
+const LOCATE_RESOLUTION = 1e-9;
+/** An event this close to a range end or bound (in units of the parameter's scale) counts as on it: the rounding of lambda_0 + scale mu. */
+const BOUND_SLACK = 1e-9;
+/** A crossing eigenvalue with |Im| above this share of the rate scale is a complex pair (Hopf), below it a real eigenvalue (branch point): it keeps rounding in the imaginary part of a real eigenvalue from reading as a Hopf point. */
+const HOPF_IMAGINARY = 1e-6;
+
 export interface ContinuationOptions {
   /** Which ways to go from the start; default both. */
   directions?: readonly ('decreasing' | 'increasing')[];
-  /** Accepted steps per direction; default 200. */
+  /** Accepted steps per direction; default MAX_STEPS (200). */
   maxSteps?: number;
-  /** First and largest arclength step (scaled units); defaults 0.02 and 0.5. */
+  /** First and largest arclength step (scaled units); defaults INITIAL_STEP (0.02) and MAX_STEP (0.5). */
   initialStep?: number;
   maxStep?: number;
-  /** Give up when the step falls below this; default 1e-7. */
+  /** Give up when the step falls below this; default MIN_STEP (1e-7). */
   minStep?: number;
   /** Stop when the parameter leaves [min, max]. */
   range?: { min?: number; max?: number };
@@ -210,7 +241,7 @@ class Continuation {
     setParameter(this.model.params, this.parameter, lambda);
     const state = fieldJacobian(this.model.field, y);
     subtractRotation(state, this.generators, rates, modes);
-    const h = 1e-6 * Math.max(1, Math.abs(x[n + g]));
+    const h = DIFFERENCE_STEP * Math.max(1, Math.abs(x[n + g]));
     const plus = new Float64Array(n);
     const minus = new Float64Array(n);
     setParameter(this.model.params, this.parameter, lambda + h * this.scale);
@@ -260,7 +291,7 @@ class Continuation {
     const x = Float64Array.from(predicted);
     const { full } = this.jacobian(x);
     const system = borderedMatrix(full, [], [t]);
-    for (let iteration = 1; iteration <= 10; iteration++) {
+    for (let iteration = 1; iteration <= CORRECTOR_ITERATIONS; iteration++) {
       const h = this.residual(x);
       let along = 0;
       for (let i = 0; i < size; i++) along += t[i] * (x[i] - predicted[i]);
@@ -275,7 +306,7 @@ class Continuation {
       }
       for (let i = 0; i < size; i++) x[i] += step[i];
       if (!x.every(Number.isFinite)) return null;
-      if (norm(this.residual(x)) < 1e-10 && norm(step) < 1e-6) return { x, iterations: iteration };
+      if (norm(this.residual(x)) < CORRECTOR_RESIDUAL && norm(step) < CORRECTOR_UPDATE) return { x, iterations: iteration };
     }
     return null;
   }
@@ -287,23 +318,23 @@ class Continuation {
     const corrected = this.correct(predicted, from.tangent);
     if (!corrected) return null;
     const node = this.evaluateNode(corrected.x, from.tangent, 1);
-    if (dot(node.tangent, from.tangent) < 0.95) return null; // too sharp a turn: the step may have jumped to another branch
+    if (dot(node.tangent, from.tangent) < MIN_TURN_COSINE) return null;
     return node;
   }
 
   private follow(startNode: Node): { points: Node[]; limit: BranchLimit | null } {
-    const maxSteps = this.options.maxSteps ?? 200;
-    const maxStep = this.options.maxStep ?? 0.5;
-    const minStep = this.options.minStep ?? 1e-7;
+    const maxSteps = this.options.maxSteps ?? MAX_STEPS;
+    const maxStep = this.options.maxStep ?? MAX_STEP;
+    const minStep = this.options.minStep ?? MIN_STEP;
     const bound = Math.max(parameterLowerBound(this.parameter), this.options.range?.min ?? Number.NEGATIVE_INFINITY);
     const upper = this.options.range?.max ?? Number.POSITIVE_INFINITY;
-    let h = this.options.initialStep ?? 0.02;
+    let h = this.options.initialStep ?? INITIAL_STEP;
     const points: Node[] = [];
     let current = startNode;
     for (let accepted = 0; accepted < maxSteps; ) {
       const next = this.step(current, h);
       if (!next) {
-        h /= 2;
+        h *= STEP_CUT;
         if (h < minStep) return { points, limit: this.limit('step-failure', current, undefined, `the corrector failed with steps down to ${minStep}`) };
         continue;
       }
@@ -314,7 +345,7 @@ class Continuation {
       if (turned || next.unstable !== current.unstable) {
         const event = this.locate(current, h, turned);
         const at = this.lambda(event.node.x);
-        const inside = at > bound + 1e-9 * this.scale && at < upper - 1e-9 * this.scale;
+        const inside = at > bound + BOUND_SLACK * this.scale && at < upper - BOUND_SLACK * this.scale;
         if (inside || !outside) {
           points.push(event.node);
           return { points, limit: event.limit };
@@ -330,7 +361,7 @@ class Continuation {
       points.push(next);
       current = next;
       accepted++;
-      h = Math.min(maxStep, h * 1.4);
+      h = Math.min(maxStep, h * STEP_GROWTH);
     }
     return { points, limit: this.limit('max-steps', current, undefined, `stopped after ${maxSteps} steps without a bifurcation`) };
   }
@@ -341,7 +372,7 @@ class Continuation {
     let lo = 0;
     let hi = h;
     let hiNode: Node | null = null;
-    for (let i = 0; i < 30 && hi - lo > 1e-9 * h; i++) {
+    for (let i = 0; i < LOCATE_BISECTIONS && hi - lo > LOCATE_RESOLUTION * h; i++) {
       const mid = (lo + hi) / 2;
       const node = this.step(from, mid);
       const changed = node && (fold ? Math.sign(node.tangent[node.tangent.length - 1]) !== foldSign : node.unstable !== from.unstable);
@@ -354,7 +385,7 @@ class Continuation {
     const node = hiNode ?? this.step(from, h) ?? from;
     if (fold || !node.stability) return { node, limit: this.limit('fold', node, undefined, 'turning point of the parameter: the locked state disappears (saddle-node)') };
     const critical = node.stability.eigenvalues.reduce((best, e) => (Math.abs(e.re) < Math.abs(best.re) ? e : best), node.stability.eigenvalues[0]);
-    const hopf = Math.abs(critical.im) > 1e-6 * Math.max(node.stability.rateScale, 1e-12);
+    const hopf = Math.abs(critical.im) > HOPF_IMAGINARY * Math.max(node.stability.rateScale, 1e-12);
     return hopf
       ? { node, limit: this.limit('hopf', node, Math.abs(critical.im), 'a complex pair of eigenvalues crosses the imaginary axis (Hopf): the lock turns into a modulated state') }
       : { node, limit: this.limit('branch-point', node, undefined, 'a real eigenvalue crosses zero without a turning point (symmetry-breaking branch point)') };

@@ -15,6 +15,21 @@ import { borderedMatrix, dot, norm, solveLinear } from '../util/linear-algebra.j
 import { restrictToComplement, type Field } from './orbit-complement.js';
 import { activePhaseGenerators, applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
 
+/**
+ * Default absolute residual norm of a solved locked state: the field is of order one near a lock
+ * (amplitudes near 2), so this asks for about ten digits, well above the field's own rounding
+ * (near 1e-15), which Newton could not get below.
+ */
+export const LOCKED_STATE_TOLERANCE = 1e-10;
+/** Default Newton iterations: near a solution a handful suffice; the rest is for far seeds, which the step halving pulls in slowly. */
+const NEWTON_ITERATIONS = 30;
+/** A Newton step that does not lower the residual is halved up to this many times before the solve counts as stalled: keeps far seeds from running away. */
+const NEWTON_HALVINGS = 6;
+/** Relative central-difference step of the Jacobians (fieldJacobian says why it balances truncation and rounding). */
+export const DIFFERENCE_STEP = 1e-6;
+/** Floor of the marginal band, times max(1, rateScale): it covers the finite-difference Jacobian's rounding (marginTolerance). */
+const MARGIN_FLOOR = 1e-8;
+
 export interface LockedState {
   /** The state on the orbit (rotating-frame layout, node-major, mode-minor). */
   state: Float64Array;
@@ -33,7 +48,7 @@ export interface LockedStateOptions {
   generators?: readonly PhaseGenerator[];
   /** Orthonormal columns spanning an invariant subspace that contains the guess: solve in it. */
   basis?: Matrix;
-  /** Absolute residual norm that counts as solved; default 1e-10. */
+  /** Absolute residual norm that counts as solved; default LOCKED_STATE_TOLERANCE. */
   tolerance?: number;
   maxIterations?: number;
 }
@@ -103,7 +118,7 @@ export function fieldJacobian(field: Field, y: Float64Array, basis?: Matrix): Ma
   let size = 1;
   for (let i = 0; i < n; i++) size = Math.max(size, Math.abs(y[i]));
   for (let c = 0; c < columns; c++) {
-    const h = 1e-6 * size;
+    const h = DIFFERENCE_STEP * size;
     if (basis) {
       for (let i = 0; i < n; i++) probe[i] = y[i] + h * basis.get(i, c);
       field(probe, plus);
@@ -127,8 +142,8 @@ export function fieldJacobian(field: Field, y: Float64Array, basis?: Matrix): Ma
  * lower the residual is halved up to six times, which keeps far seeds from running away.
  */
 export function solveLockedState(field: Field, guess: Float64Array, modes: number, options: LockedStateOptions = {}): LockedState {
-  const tolerance = options.tolerance ?? 1e-10;
-  const maxIterations = options.maxIterations ?? 30;
+  const tolerance = options.tolerance ?? LOCKED_STATE_TOLERANCE;
+  const maxIterations = options.maxIterations ?? NEWTON_ITERATIONS;
   const n = guess.length;
   const parts = options.parts ?? wholeGraph(n / (2 * modes));
   const generators = options.generators ? [...options.generators] : activePhaseGenerators(guess, modes, parts);
@@ -192,7 +207,7 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
     const offset0 = Float64Array.from(offset);
     let scale = 1;
     let next = Number.POSITIVE_INFINITY;
-    for (let attempt = 0; attempt < 7; attempt++) {
+    for (let attempt = 0; attempt <= NEWTON_HALVINGS; attempt++) {
       for (let i = 0; i < p; i++) offset[i] = offset0[i] + scale * step[i];
       if (basis) {
         for (let k = 0; k < n; k++) {
@@ -245,7 +260,7 @@ export interface Accuracy {
  * band does not widen for them.)
  */
 export function marginTolerance(rateScale: number, accuracy: Accuracy): number {
-  return (accuracy.epsilon * rateScale * accuracy.couplingRate) / accuracy.omegaMin + 1e-8 * Math.max(1, rateScale);
+  return (accuracy.epsilon * rateScale * accuracy.couplingRate) / accuracy.omegaMin + MARGIN_FLOOR * Math.max(1, rateScale);
 }
 
 /** Reduced Jacobian (orthonormal coordinates on the complement of the orbit tangents) at a locked state. */

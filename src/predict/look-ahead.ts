@@ -18,6 +18,7 @@ import { carryingMode } from '../observe/amplitudes.js';
 import { CoupledPairs } from '../observe/coupled-pairs.js';
 import { wrapAngle } from '../util/angles.js';
 import { dot, squaredNorm } from '../util/linear-algebra.js';
+import { LOCK_TOLERANCE } from '../observe/lock-detector.js';
 
 export interface LookAheadOptions {
   /** Longest look-ahead in slow time; default 400 coupling relaxation times (see couplingRate). */
@@ -26,7 +27,7 @@ export interface LookAheadOptions {
   maxEvaluations?: number;
   /**
    * Distance (rad, every watched phase difference) within which the way counts as arrived at the
-   * destination, for the transit time; default 0.05, the session's default lock tolerance.
+   * destination, for the transit time; default LOCK_TOLERANCE, the session's default lock tolerance.
    */
   arrivalTolerance?: number;
 }
@@ -168,7 +169,7 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
   const pairs = new CoupledPairs(model.params);
   const watch = new PhaseDifferenceWatch(pairs, nodes, modes, carryingMode(start, nodes, modes));
   const differences = new Float64Array(pairs.size);
-  const arrivalTolerance = options.arrivalTolerance ?? 0.05;
+  const arrivalTolerance = options.arrivalTolerance ?? LOCK_TOLERANCE;
   // the watched differences over time, for the transit time once the destination is known
   const sampleTimes: number[] = [];
   const samples: Float64Array[] = [];

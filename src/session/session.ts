@@ -7,7 +7,7 @@ import { FullSystem, type FullIntegrator } from '../integrate/full-system.js';
 import { IntegratorSwitch, type IntegratorSwitchCheckpoint } from '../envelope/integrator-switch.js';
 import type { IntegratorMode, IntegratorRequest } from '../envelope/choice.js';
 import type { NoiseModel } from '../envelope/averaged-noise.js';
-import { GuideSystem } from '../guide/guide.js';
+import { GUIDE_TOLERANCE, GuideSystem } from '../guide/guide.js';
 import { nearResonances, type ResonanceWarning } from '../guide/resonance.js';
 import { divergence, neighbourPhaseDifferences, readObservables, type Divergence, type SystemObservables } from '../observe/amplitudes.js';
 import { graphAutomorphisms } from '../pattern/automorphisms.js';
@@ -16,7 +16,7 @@ import { GuideModel } from '../predict/guide-model.js';
 import { LivePredictor, type LivePrediction, type LivePredictorState } from '../predict/live.js';
 import { applyPerturbation, describePerturbation, parsePerturbation, type Perturbation } from './perturbation.js';
 import { PatternTracker, patternIdentity, type PatternReport, type PatternTrackerState } from './pattern-tracker.js';
-import type { LockSettings, LockTransition } from '../observe/lock-detector.js';
+import { LOCK_TOLERANCE, type LockSettings, type LockTransition } from '../observe/lock-detector.js';
 import { CoupledPairs } from '../observe/coupled-pairs.js';
 import type { RandomState } from '../util/random.js';
 
@@ -27,7 +27,7 @@ export interface SessionOptions {
    * edge of the locking range is not mistaken for a lock.
    */
   lockWindow?: number;
-  /** Largest phase-difference excursion over the window that still counts as locked (rad); default 0.05. */
+  /** Largest phase-difference excursion over the window that still counts as locked (rad); default LOCK_TOLERANCE (0.05). */
   lockTolerance?: number;
   /** Relative residual below which a group element counts as a symmetry; default 0.02. */
   symmetryTolerance?: number;
@@ -165,13 +165,13 @@ export class CoSimulation {
     this.params = new ModelParameters(scenario);
     const initial = initialRotatingState(scenario, this.params);
     const micro = new FullSystem(this.params, initial, scenario.integrator.stepsPerPeriod, scenario.noise.seed);
-    this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? 1e-10);
+    this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? GUIDE_TOLERANCE);
     this.macroStep = (scenario.integrator.macroPeriods * 2 * Math.PI) / this.params.omega[0];
     this.integrator = new IntegratorSwitch(this.params, micro, options.integrator ?? 'auto', this.macroStep, (kind, message) => this.record(kind, message, 'engine'), options.envelopeAutoError);
     const eps = this.params.epsilon;
     const window = options.lockWindow ?? defaultLockWindow(this.params);
     const windowTicks = eps > 0 ? Math.min(MAX_LOCK_WINDOW_TICKS, Math.max(2, Math.round(window / (eps * this.macroStep)))) : 10;
-    const lockTolerance = options.lockTolerance ?? 0.05;
+    const lockTolerance = options.lockTolerance ?? LOCK_TOLERANCE;
     this.lock = { tolerance: lockTolerance, window: windowTicks * this.macroStep };
     const symmetryTolerance = options.symmetryTolerance ?? 0.02;
     this.pairs = new CoupledPairs(this.params);
