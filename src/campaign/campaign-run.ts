@@ -2,7 +2,7 @@ import type { ModelParameters } from '../model/parameters.js';
 import type { LockSettings } from '../observe/lock-detector.js';
 import type { Perturbation } from '../session/perturbation.js';
 import { FaultGenerator, type GeneratorState } from './generator.js';
-import { applyToView, appliesToUncoupled, previousValuesOf, viewOf } from './restore.js';
+import { applyToView, appliesToUncoupled, previousValuesOf } from './restore.js';
 import type { TickView } from './tick-view.js';
 import type { Campaign, FaultPlan } from './types.js';
 import { FaultEvaluation, type EvaluationState, type FaultVerdict, type TimeBase } from './verdict.js';
@@ -75,13 +75,13 @@ export class CampaignRun {
   beforeTick(tau: number): QueuedPerturbation[] {
     const due = (start: number) => start <= tau * (1 + 1e-12) && start < this.until;
     const queued: QueuedPerturbation[] = [];
-    const view = viewOf(this.params);
+    const view = this.params.mutableValues();
     this.restores = this.restores.filter((pending) => {
       if (tau < pending.at * (1 - 1e-12)) return true;
       const evaluation = this.open.find((e) => e.id === pending.id);
       evaluation?.markRestored(tau);
       // a restore inside another fault's span is part of what that fault is judged on: say so
-      for (const other of this.open) if (other !== evaluation && !other.state.overlaps.includes(pending.id)) other.state.overlaps.push(`${pending.id} (restore)`);
+      for (const other of this.open) if (other !== evaluation && !other.overlapsWith(pending.id)) other.noteOverlap(`${pending.id} (restore)`);
       if (pending.restore) {
         applyToView(pending.restore, view, this.params);
         queued.push({ perturbation: pending.restore, by: `campaign:${pending.id} (restore)`, uncoupled: appliesToUncoupled(pending.restore) });
@@ -109,8 +109,8 @@ export class CampaignRun {
       const evaluation = FaultEvaluation.begin(plan, tau, restore, this.lastView, this.lock);
       // faults applied at the same tick are judged together: their effects cannot be told apart
       for (const other of this.open) {
-        other.state.overlaps.push(plan.id);
-        evaluation.state.overlaps.push(other.id);
+        other.noteOverlap(plan.id);
+        evaluation.noteOverlap(other.id);
       }
       if (evaluation.state.restoreAt !== null) this.restores.push({ id: plan.id, at: evaluation.state.restoreAt, restore });
       this.open.push(evaluation);

@@ -1,32 +1,13 @@
-import type { ModelParameters } from '../model/parameters.js';
+import type { ModelParameters, MutableParameterValues } from '../model/parameters.js';
 import type { Perturbation } from '../session/perturbation.js';
 
 /**
  * "restore": "previous" puts back the values a fault replaced. They are read when the fault is
- * queued; faults queued in the same tick see each other's changes through a ParameterView, a
- * copy of the mutable parameters that the queued perturbations are applied to in order.
+ * queued; faults queued in the same tick see each other's changes through a view, a copy of the
+ * mutable parameters (ModelParameters.mutableValues) that the queued perturbations are applied
+ * to in order.
  */
-export interface ParameterView {
-  detuning: number[];
-  linkWeight: number[];
-  strength: number;
-  reactive: number;
-  dissipative: number;
-  noiseIntensity: number;
-  detuningWalk: number;
-}
-
-export function viewOf(params: ModelParameters): ParameterView {
-  return {
-    detuning: Array.from(params.detuning),
-    linkWeight: Array.from(params.linkWeight),
-    strength: params.strength,
-    reactive: params.reactive,
-    dissipative: params.dissipative,
-    noiseIntensity: params.noiseIntensity,
-    detuningWalk: params.detuningWalk,
-  };
-}
+type ParameterView = MutableParameterValues;
 
 /** The perturbation that undoes `p` given the values before it (null for a kick: nothing to undo). */
 export function previousValuesOf(p: Perturbation, view: ParameterView, model: ModelParameters): Perturbation | null {

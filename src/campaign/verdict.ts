@@ -160,6 +160,16 @@ export class FaultEvaluation {
     this.state.restoredAt = tau;
   }
 
+  /** True when the fault `id` was applied in the same tick as this one (they are judged together). */
+  overlapsWith(id: string): boolean {
+    return this.state.overlaps.includes(id);
+  }
+
+  /** Records something else that happened within this fault's span: a fault applied with it, or another fault's restore. */
+  noteOverlap(what: string): void {
+    this.state.overlaps.push(what);
+  }
+
   observe(view: TickView): void {
     const s = this.state;
     const reference = s.restoreAt === null ? s.appliedAt : s.restoredAt;

@@ -1,5 +1,5 @@
 import type { ModelParameters } from '../model/parameters.js';
-import { DormandPrince } from '../integrate/dormand-prince.js';
+import { ABSOLUTE_PER_RELATIVE, DormandPrince } from '../integrate/dormand-prince.js';
 import { findBlowUp, type FullIntegrator, type StepOutcome } from '../integrate/full-system.js';
 import { addDetuningWalk } from '../integrate/noise.js';
 import type { Random } from '../util/random.js';
@@ -34,6 +34,19 @@ export interface EnvelopeCheckpoint {
   health: EnvelopeHealth;
 }
 
+/** Default relative tolerance of the slow integrator (why 1e-9: EnvelopeOptions.tolerance, measured on the bench ring). */
+const ENVELOPE_TOLERANCE = 1e-9;
+/**
+ * Default splitting step while noise or a detuning walk is on (slow time): the noise gathered
+ * during a chunk enters Y only at its end, so this bounds that delay; 0.02 is two default macro
+ * ticks (README, 'Integrators and their error bounds': a tick is about 1/100 slow time unit).
+ */
+const NOISE_STEP = 0.02;
+/**
+ * Accepted plus rejected slow steps per chunk. A chunk is one step when all goes well, so this
+ * many means the slow flow has blown up: the chunk is refused and micro steps take over.
+ */
+const STEPS_PER_CHUNK = 10_000;
 /** First chunk length in slow time after a (re)start; the step controller grows it from there. */
 const FIRST_CHUNK = 1e-3;
 /** A chunk the controller had to split is redone at most this many times as one step. */
@@ -105,15 +118,15 @@ export class EnvelopeSystem implements FullIntegrator {
     const content = SecondOrderField.checkFieldContent(params);
     if (content) throw new Error(`EnvelopeSystem: ${content}`);
     this.field = new SecondOrderField(params, options.grid ?? 'parity');
-    const tolerance = options.tolerance ?? 1e-9;
+    const tolerance = options.tolerance ?? ENVELOPE_TOLERANCE;
     if (!(tolerance > 0 && tolerance < 1)) throw new RangeError(`EnvelopeSystem: tolerance must be in (0, 1) (got ${tolerance})`);
-    this.noiseStep = options.noiseStep ?? 0.02;
+    this.noiseStep = options.noiseStep ?? NOISE_STEP;
     if (!(this.noiseStep > 0)) throw new RangeError(`EnvelopeSystem: noiseStep must be > 0 (got ${this.noiseStep})`);
     this.indicatorLimit = options.indicatorLimit ?? TRUST_INDICATOR;
     this.solver = new DormandPrince(size, (_s, y, dy) => this.slowRate(y, dy), {
       rtol: tolerance,
-      atol: tolerance * 1e-2,
-      maxSteps: 10_000,
+      atol: tolerance * ABSOLUTE_PER_RELATIVE,
+      maxSteps: STEPS_PER_CHUNK,
     });
     const make = () => new Float64Array(size);
     this.state = make();
@@ -142,8 +155,7 @@ export class EnvelopeSystem implements FullIntegrator {
     this.startSlow.set(this.endSlow);
     this.noise.fill(0);
     this.rated = false;
-    this.solver.invalidate();
-    if (!(this.solver.step > 0)) this.solver.step = FIRST_CHUNK;
+    this.solver.resume(this.solver.step > 0 ? this.solver.step : FIRST_CHUNK);
   }
 
   /** Health of an envelope started from the full state y at tau (one slow evaluation; changes nothing else). */
@@ -245,8 +257,7 @@ export class EnvelopeSystem implements FullIntegrator {
     this.rated = saved.rated;
     this.health = { ...saved.health };
     // The solver's cached rate is recomputed from endSlow: the same function of the same numbers.
-    this.solver.invalidate();
-    this.solver.step = saved.solverStep;
+    this.solver.resume(saved.solverStep);
   }
 
   /** Longest chunk now: the splitting step with noise, LONGEST_CHUNK without. */

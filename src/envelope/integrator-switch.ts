@@ -156,10 +156,7 @@ export class IntegratorSwitch {
       this.report('control', this.takeOverMessage(choice));
       return;
     }
-    if (this.envelope) {
-      this.micro.state.set(this.envelope.state);
-      this.micro.stepper.tau = this.envelope.tau;
-    }
+    if (this.envelope) this.micro.restore(this.envelope.state, this.envelope.tau);
     this.mode = 'micro';
     this.reason = choice.reason;
     this.report('warning', `envelope mode stops at tau = ${tau.toPrecision(8)}, micro-stepping takes over: ${choice.reason}`);

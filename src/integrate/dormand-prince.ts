@@ -2,8 +2,41 @@
  * Adaptive embedded Runge-Kutta 5(4) of Dormand and Prince (J. Comput. Appl. Math. 6, 1980),
  * with first-same-as-last and the usual error-per-step control (Hairer, Norsett, Wanner,
  * Solving ODEs I, section II.4). Used for everything that lives in slow time: the guiding
- * system, continuation corrector steps, the envelope. All work arrays are preallocated.
+ * system, the prediction's look-ahead, the envelope. All work arrays are preallocated.
  */
+
+// Step control: after a step with error norm err (1 = at tolerance) the next step is
+// h * clamp(SAFETY * err^ERROR_EXPONENT, MAX_SHRINK, MAX_GROWTH).
+/** Aims a little below the step the error estimate allows, so the next step is less often rejected; 0.9 is common practice. */
+const SAFETY = 0.9;
+/** -1 / (4 + 1): the embedded estimate is of a 4th-order solution, whose error per step scales like h^5. */
+const ERROR_EXPONENT = -1 / 5;
+/** Largest growth in one step: keeps one lucky (near-zero) error estimate from throwing the step far out; common practice. */
+const MAX_GROWTH = 5;
+/** Largest shrink in one step (also after a non-finite error), so one bad estimate cannot collapse the step; common practice. */
+const MAX_SHRINK = 0.2;
+/** A step below this fraction of max(1, |t|) is a few dozen roundings of t: the step size has collapsed and the integration has failed. */
+const STEP_COLLAPSE = 1e-14;
+/** A step that would end this close to t1 (relative to |t1|) is stretched to t1, so no sliver of a step is left. */
+const END_SLACK = 1e-12;
+/** The starting-step heuristic (common practice): h = START_FRACTION * |y| / |y'| in the error norm, or START_FALLBACK when either norm is below START_TINY. */
+const START_FRACTION = 0.01;
+const START_TINY = 1e-5;
+const START_FALLBACK = 1e-6;
+
+/** Defaults for a caller that gives none; the guide, the envelope and the look-ahead each pass their own tolerances and budget. */
+const DEFAULT_RTOL = 1e-9;
+const DEFAULT_ATOL = 1e-12;
+/** Accepted plus rejected steps one `integrate` call may take: a flow that keeps shrinking the step returns false instead of running on. */
+const DEFAULT_MAX_STEPS = 1_000_000;
+/**
+ * Absolute tolerance per unit of relative tolerance for the slow-time integrations of the guide
+ * and the envelope: amplitudes sit near 2 (docs/model.md, 'Closed form for M = 1'), so the
+ * absolute part matters only for components passing near zero (u or v of a turning phase), which
+ * would otherwise be held to a relative accuracy of a vanishing number.
+ */
+export const ABSOLUTE_PER_RELATIVE = 1e-2;
+
 export type VectorField = (t: number, y: Float64Array, dy: Float64Array) => void;
 
 export interface DormandPrinceOptions {
@@ -29,8 +62,8 @@ export class DormandPrince {
   readonly atol: number;
   readonly maxStep: number;
   readonly maxSteps: number;
-  /** Step size carried over between calls. */
-  step = 0;
+  /** The step the next call tries first, carried over between calls (0: none yet, choose one). */
+  private proposal = 0;
   accepted = 0;
   rejected = 0;
   evaluations = 0;
@@ -47,18 +80,29 @@ export class DormandPrince {
   private firstValid = false;
 
   constructor(readonly dimension: number, readonly field: VectorField, options: DormandPrinceOptions = {}) {
-    this.rtol = options.rtol ?? 1e-9;
-    this.atol = options.atol ?? 1e-12;
+    this.rtol = options.rtol ?? DEFAULT_RTOL;
+    this.atol = options.atol ?? DEFAULT_ATOL;
     this.maxStep = options.maxStep ?? Number.POSITIVE_INFINITY;
-    this.maxSteps = options.maxSteps ?? 1_000_000;
+    this.maxSteps = options.maxSteps ?? DEFAULT_MAX_STEPS;
     const make = () => new Float64Array(dimension);
     this.k1 = make(); this.k2 = make(); this.k3 = make(); this.k4 = make();
     this.k5 = make(); this.k6 = make(); this.k7 = make();
     this.trial = make(); this.next = make();
   }
 
+  /** The step the next call tries first (0 before the first call). */
+  get step(): number {
+    return this.proposal;
+  }
+
   /** Forget the cached derivative (call after y or the field's parameters change outside). */
   invalidate(): void {
+    this.firstValid = false;
+  }
+
+  /** Continue with `step` as the next step to try and a fresh derivative (a restart, a checkpoint). */
+  resume(step: number): void {
+    this.proposal = step;
     this.firstValid = false;
   }
 
@@ -75,12 +119,12 @@ export class DormandPrince {
       this.evaluations++;
       this.firstValid = true;
     }
-    if (!(this.step > 0)) this.step = this.initialStep(t, y, t1 - t0);
+    if (!(this.proposal > 0)) this.proposal = this.initialStep(t, y, t1 - t0);
     let steps = 0;
     while (t < t1) {
       if (++steps > this.maxSteps) return false;
-      let h = Math.min(this.step, this.maxStep);
-      const last = t + h >= t1 || t1 - (t + h) < 1e-12 * Math.abs(t1);
+      let h = Math.min(this.proposal, this.maxStep);
+      const last = t + h >= t1 || t1 - (t + h) < END_SLACK * Math.abs(t1);
       if (last) h = t1 - t;
       for (let i = 0; i < n; i++) trial[i] = y[i] + h * A21 * k1[i];
       field(t + C2 * h, trial, k2);
@@ -104,24 +148,24 @@ export class DormandPrince {
       }
       const err = Math.sqrt(sum / n);
       if (!Number.isFinite(err)) {
-        this.step = h * 0.2;
+        this.proposal = h * MAX_SHRINK;
         this.rejected++;
-        if (this.step < 1e-14 * Math.max(1, Math.abs(t))) return false;
+        if (this.proposal < STEP_COLLAPSE * Math.max(1, Math.abs(t))) return false;
         continue;
       }
-      const factor = err === 0 ? 5 : Math.min(5, Math.max(0.2, 0.9 * Math.pow(err, -0.2)));
+      const factor = err === 0 ? MAX_GROWTH : Math.min(MAX_GROWTH, Math.max(MAX_SHRINK, SAFETY * Math.pow(err, ERROR_EXPONENT)));
       if (err <= 1) {
         t = last ? t1 : t + h;
         y.set(next);
         k1.set(k7);
         this.accepted++;
         // A short last step says nothing about the next: keep the previous proposal then.
-        if (!last) this.step = h * factor;
-        else this.step = Math.max(this.step, h * factor);
+        if (!last) this.proposal = h * factor;
+        else this.proposal = Math.max(this.proposal, h * factor);
       } else {
-        this.step = h * Math.max(0.2, factor);
+        this.proposal = h * Math.max(MAX_SHRINK, factor);
         this.rejected++;
-        if (this.step < 1e-14 * Math.max(1, Math.abs(t))) return false;
+        if (this.proposal < STEP_COLLAPSE * Math.max(1, Math.abs(t))) return false;
       }
     }
     return true;
@@ -138,7 +182,7 @@ export class DormandPrince {
     }
     d0 = Math.sqrt(d0 / this.dimension);
     d1 = Math.sqrt(d1 / this.dimension);
-    const h = d0 < 1e-5 || d1 < 1e-5 ? 1e-6 : 0.01 * (d0 / d1);
+    const h = d0 < START_TINY || d1 < START_TINY ? START_FALLBACK : START_FRACTION * (d0 / d1);
     return Math.min(h, Math.abs(span), this.maxStep);
   }
 }

@@ -55,6 +55,16 @@ export class FullSystem implements FullIntegrator {
     return this.stepper.tau;
   }
 
+  /**
+   * Continue from `state` at `tau` (a checkpoint, an undone step, a hand-over from the envelope),
+   * with the noise generator at `random`; without it the generator stays where it is (it is
+   * shared with the envelope, so a hand-over finds it already in place).
+   */
+  restore(state: ArrayLike<number>, tau: number, random?: RandomState): void {
+    this.stepper.restore(state, tau);
+    if (random) this.random.setState(random);
+  }
+
   advance(tauEnd: number): StepOutcome {
     const t0 = this.stepper.tau;
     const y = this.stepper.state;
@@ -64,9 +74,7 @@ export class FullSystem implements FullIntegrator {
     addNoiseIncrement(this.params, this.random, t0, tauEnd, y);
     const problem = findBlowUp(y, this.params.modes);
     if (problem) {
-      y.set(this.previous);
-      this.stepper.tau = t0;
-      this.random.setState(randomBefore);
+      this.restore(this.previous, t0, randomBefore);
       return { ok: false, reason: problem, detuningChanged: false };
     }
     const detuningChanged = addDetuningWalk(this.params, this.random, tauEnd - t0);

@@ -38,7 +38,6 @@ export class MicroStepper {
   readonly field: SlowField;
   /** Rotating-frame state [u, v] per node and mode. */
   readonly state: Float64Array;
-  tau = 0;
   /** Nominal micro step (2 pi / (stepsPerPeriod * max omega)). */
   readonly nominalStep: number;
   /** Right-hand-side evaluations so far (four per RK4 step, one per fitted step plus history rebuilds). */
@@ -48,6 +47,8 @@ export class MicroStepper {
   /** Steps taken by each method so far. */
   readonly stepsBy = { rk4: 0, 'fitted-adams': 0 };
 
+  /** The time of `state`; moved only by advance and restore. */
+  private clock = 0;
   /** Carrier period of the fastest mode. */
   private readonly period: number;
   private readonly rk4: Rk4Scheme;
@@ -91,15 +92,32 @@ export class MicroStepper {
     this.fitted = problem ? null : new FittedAdamsScheme(params, this.field);
   }
 
+  /** The time of `state`. */
+  get tau(): number {
+    return this.clock;
+  }
+
+  /**
+   * Continue from `state` at `tau` (a checkpoint, an undone tick, a hand-over from the envelope).
+   * Nothing else needs resetting: every advance rebuilds its history and angles from these two.
+   */
+  restore(state: ArrayLike<number>, tau: number): void {
+    if (state.length !== this.state.length) {
+      throw new RangeError(`MicroStepper.restore: the state has ${state.length} numbers, expected ${this.state.length}`);
+    }
+    this.state.set(state);
+    this.clock = tau;
+  }
+
   /** Number of equal micro steps `advance` will take to reach tauEnd. */
   stepsTo(tauEnd: number): number {
     // The relative slack absorbs rounding in tauEnd - tau when tau is large.
-    return Math.max(1, Math.ceil(((tauEnd - this.tau) / this.nominalStep) * (1 - 1e-10)));
+    return Math.max(1, Math.ceil(((tauEnd - this.clock) / this.nominalStep) * (1 - 1e-10)));
   }
 
   /** Integrate to tauEnd (> tau) in equal steps no longer than the nominal step. */
   advance(tauEnd: number): void {
-    const span = tauEnd - this.tau;
+    const span = tauEnd - this.clock;
     if (!(span > 0)) return;
     let steps = this.stepsTo(tauEnd);
     const fitted = this.fitted;
@@ -107,18 +125,18 @@ export class MicroStepper {
       const h = span / steps;
       const weights = this.fittedWeightsFor(h);
       if (weights) {
-        this.evaluations += fitted.run(this.state, this.tau, tauEnd, steps, weights);
+        this.evaluations += fitted.run(this.state, this.clock, tauEnd, steps, weights);
         this.stepsBy['fitted-adams'] += steps;
-        this.tau = tauEnd;
+        this.clock = tauEnd;
         return;
       }
       // A step the fitted method cannot take: RK4 stands in, refined so that it is not the
       // weak link (the nominal fitted step can be as coarse as 5 per period).
       steps *= Math.max(1, Math.ceil((FALLBACK_RK4_STEPS * h) / this.period - 1e-9));
     }
-    this.evaluations += this.rk4.run(this.state, this.tau, tauEnd, steps);
+    this.evaluations += this.rk4.run(this.state, this.clock, tauEnd, steps);
     this.stepsBy.rk4 += steps;
-    this.tau = tauEnd;
+    this.clock = tauEnd;
   }
 
   /** The fitted weights for step h if the fitted method can take it under the current parameters. */

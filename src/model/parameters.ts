@@ -1,6 +1,21 @@
 import type { Scenario } from '../scenario/types.js';
 
 /**
+ * The parameters that change while a run goes (detuning, link weights, coupling, noise) as plain
+ * JSON: what a session checkpoint stores, and the copy a campaign applies queued faults to so it
+ * knows the values each one replaces (src/campaign/restore.ts).
+ */
+export interface MutableParameterValues {
+  detuning: number[];
+  linkWeight: number[];
+  strength: number;
+  reactive: number;
+  dissipative: number;
+  noiseIntensity: number;
+  detuningWalk: number;
+}
+
+/**
  * The compiled, mutable parameters of the reference model (docs/model.md, 'Reference model').
  * Everything the hot loop reads lives in typed arrays; run-time changes (detuning, link
  * weights, coupling, noise) write into them in place, so nothing is ever rebuilt.
@@ -67,6 +82,31 @@ export class ModelParameters {
     });
     this.inWeightSum = new Float64Array(n);
     this.refreshWeightSums();
+  }
+
+  /** The mutable parameters as they are now, as plain JSON (doubles survive JSON exactly). */
+  mutableValues(): MutableParameterValues {
+    return {
+      detuning: Array.from(this.detuning),
+      linkWeight: Array.from(this.linkWeight),
+      strength: this.strength,
+      reactive: this.reactive,
+      dissipative: this.dissipative,
+      noiseIntensity: this.noiseIntensity,
+      detuningWalk: this.detuningWalk,
+    };
+  }
+
+  /** Sets every mutable parameter as `values` says (from mutableValues, here or in a checkpoint). */
+  restoreValues(values: MutableParameterValues): void {
+    if (values.detuning.length !== this.nodes) throw new RangeError(`expected ${this.nodes} detunings, got ${values.detuning.length}`);
+    this.detuning.set(values.detuning);
+    this.setLinkWeights(values.linkWeight);
+    this.strength = values.strength;
+    this.reactive = values.reactive;
+    this.dissipative = values.dissipative;
+    this.noiseIntensity = values.noiseIntensity;
+    this.detuningWalk = values.detuningWalk;
   }
 
   /** Index of the link carrying `from` into `to`, or -1. */

@@ -45,6 +45,13 @@ export type LockStatus = 'unlocked' | 'settling' | 'locked';
 /** A lock is acquired only while every difference stays within a quarter turn over the window. */
 export const ACQUIRE_SPREAD = Math.PI / 2;
 
+/**
+ * The default lock tolerance (rad; README, 'Patterns and symmetry'): how far a coupled pair's
+ * phase difference may move over a lock window and still count as settled. The session, the
+ * live prediction and its look-ahead all default to it, so "arrived" means what "locked" means.
+ */
+export const LOCK_TOLERANCE = 0.05;
+
 /** What a lock detector was set up with: its tolerance (rad) and its window (tau). */
 export interface LockSettings {
   tolerance: number;
@@ -113,7 +120,7 @@ export class LockDetector {
   constructor(
     readonly size: number,
     readonly window: number,
-    readonly tolerance = 0.05,
+    readonly tolerance = LOCK_TOLERANCE,
     readonly amplitudeFloor = 1e-3,
     readonly hysteresis = 2,
   ) {

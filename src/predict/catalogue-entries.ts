@@ -9,6 +9,13 @@
 import type { LockedStability, LockedState } from './locked-state.js';
 import type { MirrorRelation } from './mirror-symmetry.js';
 import { movedLockedState } from './renumbering.js';
+import { squaredNorm } from '../util/linear-algebra.js';
+
+/**
+ * Default relative distance within which two states are copies of one pattern: Newton solutions
+ * of one state (residual 1e-10) agree far closer, and distinct patterns differ at order one.
+ */
+const COPY_TOLERANCE = 1e-5;
 
 export interface Entry<Recipe> {
   locked: LockedState;
@@ -81,9 +88,8 @@ export class EntryList<Recipe> {
  * True when b = (gamma.a) with one phase shift per (mode, part) for some listed gamma, within a
  * relative distance `tolerance`.
  */
-export function sameUpToSymmetry(a: Float64Array, b: Float64Array, group: readonly Int32Array[], nodes: number, modes: number, parts: readonly Int32Array[], tolerance = 1e-5): boolean {
-  let normB = 0;
-  for (let i = 0; i < b.length; i++) normB += b[i] * b[i];
+export function sameUpToSymmetry(a: Float64Array, b: Float64Array, group: readonly Int32Array[], nodes: number, modes: number, parts: readonly Int32Array[], tolerance = COPY_TOLERANCE): boolean {
+  const normB = squaredNorm(b);
   const inverse = new Int32Array(nodes);
   for (const g of group) {
     for (let k = 0; k < nodes; k++) inverse[g[k]] = k;

@@ -36,9 +36,13 @@ import { graphAutomorphisms } from '../pattern/automorphisms.js';
 import { describeElement } from '../pattern/permutation.js';
 import type { CycleSearchStop } from '../pattern/cycles.js';
 import { Random } from '../util/random.js';
+import { squaredNorm } from '../util/linear-algebra.js';
 import { carryingMode } from '../observe/amplitudes.js';
 import type { GuideModel } from './guide-model.js';
 import {
+  combine,
+  complexInner,
+  complexSquaredNorm,
   fixedPointBasis,
   groupTable,
   isotropyClasses,
@@ -140,17 +144,17 @@ export interface PatternCatalogue {
 }
 
 export interface CatalogueOptions {
-  /** Skip classes whose fixed-point subspace has a larger complex dimension; default 4 (1 above 16 nodes). */
+  /** Skip classes whose fixed-point subspace has a larger complex dimension; default MAX_FIX_DIMENSION (4; 1 above LARGE_NETWORK nodes). */
   maxFixDimension?: number;
   /** Only seed these candidate types. */
   types?: readonly CandidateType[];
   /** Extra full-space seeds (rotating-frame states in the caller's numbering), such as the current state. */
   seeds?: readonly Float64Array[];
-  /** Generic seeds per class with a fixed-point subspace of dimension > 1; default 2 (0 above 16 nodes). */
+  /** Generic seeds per class with a fixed-point subspace of dimension > 1; default GENERIC_SEEDS (2; 0 above LARGE_NETWORK nodes). */
   randomSeeds?: number;
   /** Most random starts of the guiding system; default RANDOM_STARTS (RANDOM_STARTS_LARGE above 16 nodes); fewer when they stop bringing news. */
   randomStarts?: number;
-  /** Largest group listed (graphAutomorphisms limit); default 512. */
+  /** Largest group listed (graphAutomorphisms limit); default GROUP_LIMIT (512). */
   groupLimit?: number;
   /** Modes to seed; default every mode whose gain exceeds its loss. */
   modes?: readonly number[];
@@ -162,6 +166,44 @@ export const CATALOGUE_SIZE_LIMIT = 256;
 /** Above this many nodes the defaults seed less (one-dimensional classes, no generic points, fewer random starts). */
 const LARGE_NETWORK = 16;
 
+/**
+ * Largest symmetry group listed: graphAutomorphisms stops there and says so, and a truncated
+ * listing seeds the full space only. Every ring the catalogue accepts (at most 128 nodes, by
+ * CATALOGUE_SIZE_LIMIT) has a dihedral group of at most 256 elements, well inside; graphs with
+ * far more symmetry (a complete graph has N! automorphisms) are cut here instead of enumerated.
+ */
+export const GROUP_LIMIT = 512;
+/**
+ * Largest complex dimension of a fixed-point subspace that is seeded (1 above LARGE_NETWORK
+ * nodes): classes with larger subspaces keep less symmetry and come in larger numbers, and the
+ * full-space seeds (structural shapes, random starts) cover them; it bounds the work.
+ */
+const MAX_FIX_DIMENSION = 4;
+const MAX_FIX_DIMENSION_LARGE = 1;
+/** Generic seeds per class of dimension above 1 (none above LARGE_NETWORK nodes): points of the subspace that the structural shapes miss. */
+const GENERIC_SEEDS = 2;
+const GENERIC_SEEDS_LARGE = 0;
+/** Seed of the generic points' draws: fixed, so the catalogue is reproducible; the value itself is arbitrary. */
+const GENERIC_SEED_RANDOM = 4242;
+/** Pairs of generators are tried for twisted subgroups only up to this group order: the pairs grow as its square (about 8,000 at 128); single generators are always tried. */
+const PAIR_LIMIT = 128;
+/** Detunings within this relative difference are equal when deciding which graph symmetries keep the detuning: rounding, not a real difference. */
+const SAME_DETUNING = 1e-12;
+/** Moduli of a seed shape below this share of its largest are zeros of the shape (left by rounding in a projection), not nodes to excite. */
+const SHAPE_ZERO = 1e-6;
+/**
+ * A structural shape seeds a class only when its projection onto the class's subspace keeps this
+ * share of the shape's squared norm: it guards against seeding from shapes nearly orthogonal to
+ * the subspace, whose normalised projection has little to do with the shape.
+ */
+const SHAPE_PROJECTION = 0.05;
+/** Two seeds whose link correlations (linkCorrelation) differ by more than this, relative, cannot be equal: equal seeds agree to rounding. */
+const SAME_SIGNATURE = 1e-9;
+/** Two unit seeds with |<a, b>| above 1 minus this point the same way (to rounding): the second is skipped. */
+const SAME_DIRECTION = 1e-9;
+/** Mean squared amplitude per (node, mode) below which a locked state is the trivial rest state, not a pattern (rms 1e-3; hasEnergy). */
+const ENERGY_FLOOR = 1e-6;
+
 const TYPE_ORDER: CandidateType[] = ['in-phase', 'anti-phase', 'rotating-wave', 'standing-wave', 'cluster', 'cycle-wave', 'random-start', 'seed'];
 
 /**
@@ -169,10 +211,10 @@ const TYPE_ORDER: CandidateType[] = ['in-phase', 'anti-phase', 'rotating-wave', 
  * weights) that also keep every node's detuning (the other parameters are the same at every
  * node). A detuned node breaks the symmetries that move it.
  */
-export function dynamicalSymmetries(model: GuideModel, limit = 512): { elements: Int32Array[]; truncated: boolean; graphOrder: number } {
+export function dynamicalSymmetries(model: GuideModel, limit = GROUP_LIMIT): { elements: Int32Array[]; truncated: boolean; graphOrder: number } {
   const { nodes, detuning } = model.params;
   const graph = graphAutomorphisms(nodes, model.params.currentLinks(), { limit });
-  const same = (a: number, b: number): boolean => Math.abs(a - b) <= 1e-12 * Math.max(1, Math.abs(a), Math.abs(b));
+  const same = (a: number, b: number): boolean => Math.abs(a - b) <= SAME_DETUNING * Math.max(1, Math.abs(a), Math.abs(b));
   const elements = graph.elements.filter((g) => g.every((image, k) => same(detuning[image], detuning[k])));
   return { elements, truncated: graph.truncated, graphOrder: graph.elements.length };
 }
@@ -205,7 +247,7 @@ export function stiffSeed(v: ComplexVector, nodes: number, modes: number, mode: 
   for (let k = 0; k < nodes; k++) largest = Math.max(largest, Math.hypot(v.re[k], v.im[k]));
   for (let k = 0; k < nodes; k++) {
     const m = Math.hypot(v.re[k], v.im[k]);
-    if (!(m > 1e-6 * largest)) continue;
+    if (!(m > SHAPE_ZERO * largest)) continue;
     const i = 2 * (k * modes + mode);
     y[i] = (r0 * v.re[k]) / m;
     y[i + 1] = (-r0 * v.im[k]) / m;
@@ -241,7 +283,7 @@ export function patternCatalogue(model: GuideModel, options: CatalogueOptions = 
   if (model.size > CATALOGUE_SIZE_LIMIT) {
     throw new RangeError(`the catalogue needs dense Jacobians of ${model.size} slow variables; at most ${CATALOGUE_SIZE_LIMIT} (nodes x modes x 2) are supported`);
   }
-  const limit = options.groupLimit ?? 512;
+  const limit = options.groupLimit ?? GROUP_LIMIT;
   const callerGroup = dynamicalSymmetries(model, limit);
   const search = new CatalogueSearch(canonicalRenumbering(model, callerGroup), options, limit);
   search.seedClasses();
@@ -307,10 +349,10 @@ class CatalogueSearch {
   seedClasses(): void {
     const table = this.table;
     if (!table) return;
-    const maxFixDimension = this.options.maxFixDimension ?? (this.large ? 1 : 4);
-    const randomSeeds = this.options.randomSeeds ?? (this.large ? 0 : 2);
-    this.classes = isotropyClasses(table, this.nodes, { maxFixDimension, pairLimit: 128 });
-    const random = new Random(4242);
+    const maxFixDimension = this.options.maxFixDimension ?? (this.large ? MAX_FIX_DIMENSION_LARGE : MAX_FIX_DIMENSION);
+    const randomSeeds = this.options.randomSeeds ?? (this.large ? GENERIC_SEEDS_LARGE : GENERIC_SEEDS);
+    this.classes = isotropyClasses(table, this.nodes, { maxFixDimension, pairLimit: PAIR_LIMIT });
+    const random = new Random(GENERIC_SEED_RANDOM);
     for (const cls of this.classes) {
       const seeds = classSeeds(table, cls, this.shapes, randomSeeds, random);
       for (const mode of this.seedModes) {
@@ -373,7 +415,7 @@ class CatalogueSearch {
   private solveSeed(seed: Float64Array, elements: readonly number[] | null, basis: readonly ComplexVector[] | null, recipe: Recipe): void {
     const solved = this.solvedSeeds[recipe.mode];
     const signature = linkCorrelation(this.work, seed);
-    const near = (a: number): boolean => Math.abs(a - signature) <= 1e-9 * Math.max(1, Math.abs(signature));
+    const near = (a: number): boolean => Math.abs(a - signature) <= SAME_SIGNATURE * Math.max(1, Math.abs(signature));
     if (solved.some((s) => near(s.signature) && sameUpToSymmetry(s.seed, seed, this.group, this.nodes, this.modes, this.parts))) return;
     solved.push({ seed, signature });
     const locked = this.solve(seed, elements, basis ? realBasisForMode(basis, this.nodes, this.modes, recipe.mode) : null);
@@ -453,14 +495,14 @@ function classSeeds(table: GroupTable, cls: IsotropyClass, shapes: readonly Stru
   const seeds: ComplexVector[] = [];
   const addSeed = (v: ComplexVector): void => {
     if (subgroupKey(isotropyOf(table, v)) !== key) return;
-    if (seeds.some((s) => Math.abs(overlap(s, v)) > 1 - 1e-9)) return;
+    if (seeds.some((s) => Math.abs(overlap(s, v)) > 1 - SAME_DIRECTION)) return;
     seeds.push(v);
   };
   if (cls.fixDimension === 1) addSeed(cls.basis[0]);
   for (const s of shapes) {
     const p = projectOnto(cls.basis, s.shape);
     // shapes have unit moduli: compare with the projection of a unit vector
-    if (squaredNorm(p) > 0.05 * squaredNorm(s.shape)) addSeed(normalised(p));
+    if (complexSquaredNorm(p) > SHAPE_PROJECTION * complexSquaredNorm(s.shape)) addSeed(normalised(p));
   }
   if (cls.fixDimension > 1) for (let r = 0; r < randomSeeds; r++) addSeed(normalised(combineBasis(cls.basis, random)));
   return seeds;
@@ -474,8 +516,6 @@ function classSeeds(table: GroupTable, cls: IsotropyClass, shapes: readonly Stru
 function linkCorrelation(model: GuideModel, y: Float64Array): number {
   const { linkFrom, linkTo, linkWeight, modes } = model.params;
   let sum = 0;
-  let norm = 0;
-  for (let i = 0; i < y.length; i++) norm += y[i] * y[i];
   for (let e = 0; e < linkFrom.length; e++) {
     for (let j = 0; j < modes; j++) {
       const a = 2 * (linkFrom[e] * modes + j);
@@ -484,7 +524,7 @@ function linkCorrelation(model: GuideModel, y: Float64Array): number {
       sum += linkWeight[e] * (y[a] * y[b] + y[a + 1] * y[b + 1]);
     }
   }
-  return sum / Math.max(norm, 1e-300);
+  return sum / Math.max(squaredNorm(y), 1e-300);
 }
 
 /**
@@ -494,41 +534,26 @@ function linkCorrelation(model: GuideModel, y: Float64Array): number {
 function hasEnergy(locked: LockedState): boolean {
   let e = 0;
   for (let i = 0; i < locked.state.length; i++) e += locked.state[i] ** 2;
-  return e > 1e-6 * (locked.state.length / 2) && locked.generators.length > 0;
-}
-
-function squaredNorm(v: ComplexVector): number {
-  let s = 0;
-  for (let k = 0; k < v.re.length; k++) s += v.re[k] ** 2 + v.im[k] ** 2;
-  return s;
+  return e > ENERGY_FLOOR * (locked.state.length / 2) && locked.generators.length > 0;
 }
 
 function normalised(v: ComplexVector): ComplexVector {
-  const len = Math.sqrt(squaredNorm(v));
+  const len = Math.sqrt(complexSquaredNorm(v));
   return { re: v.re.map((x) => x / len), im: v.im.map((x) => x / len) };
 }
 
 /** |<a, b>| for unit vectors. */
 function overlap(a: ComplexVector, b: ComplexVector): number {
-  let re = 0;
-  let im = 0;
-  for (let k = 0; k < a.re.length; k++) {
-    re += a.re[k] * b.re[k] + a.im[k] * b.im[k];
-    im += a.re[k] * b.im[k] - a.im[k] * b.re[k];
-  }
+  const { re, im } = complexInner(a, b);
   return Math.hypot(re, im);
 }
 
+/** A generic point of span(basis): coefficients with real and imaginary parts uniform in [-0.5, 0.5). */
 function combineBasis(basis: readonly ComplexVector[], random: Random): ComplexVector {
-  const nodes = basis[0].re.length;
-  const v: ComplexVector = { re: new Float64Array(nodes), im: new Float64Array(nodes) };
-  for (const b of basis) {
-    const cr = random.uniform() - 0.5;
-    const ci = random.uniform() - 0.5;
-    for (let k = 0; k < nodes; k++) {
-      v.re[k] += cr * b.re[k] - ci * b.im[k];
-      v.im[k] += cr * b.im[k] + ci * b.re[k];
-    }
-  }
-  return v;
+  const coefficients = basis.map(() => {
+    const re = random.uniform() - 0.5;
+    const im = random.uniform() - 0.5;
+    return { re, im };
+  });
+  return combine(basis, coefficients, basis[0].re.length);
 }

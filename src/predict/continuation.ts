@@ -17,10 +17,22 @@
  *   crossing without a turning point a branch point (symmetry-breaking steady bifurcation).
  * The continuation stops at the first of them in each direction, or at a bound of the parameter.
  */
-import { Matrix, solve } from 'ml-matrix';
-import { complementBasis } from './orbit-complement.js';
+import type { Matrix } from 'ml-matrix';
+import { borderedMatrix, dot, norm, solveLinear } from '../util/linear-algebra.js';
+import { restrictToComplement } from './orbit-complement.js';
 import { applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
-import { fieldJacobian, sortedEigenvalues, stabilityOf, solveLockedState, type LockedStability, type Verdict } from './locked-state.js';
+import {
+  DIFFERENCE_STEP,
+  LOCKED_STATE_TOLERANCE,
+  fieldJacobian,
+  lockedStateSystem,
+  rotatingResidual,
+  sortedEigenvalues,
+  stabilityOf,
+  solveLockedState,
+  type LockedStability,
+  type Verdict,
+} from './locked-state.js';
 import type { GuideModel } from './guide-model.js';
 import { describeLockedState } from './describe.js';
 import {
@@ -33,15 +45,44 @@ import {
 } from './continuation-parameter.js';
 import { deltaToPpm } from '../scenario/units.js';
 
+// Step lengths are arclengths in the scaled unknowns (y, Omega_c, mu), mu the parameter in units
+// of its natural scale (parameterScale), so they mean the same for every parameter.
+/** Default accepted steps per direction: bounds the work (a dense Jacobian, and with monitoring an eigenvalue problem, per step); a longer branch ends in a 'max-steps' limit that says so. */
+const MAX_STEPS = 200;
+/** Default first step: small against the scaled unknowns (amplitudes near 2, mu of order one across a locking range), so the first corrector starts close; the step grows from there. */
+const INITIAL_STEP = 0.02;
+/** Default largest step: a predictor that strays far from the branch risks a corrector that lands on another one (the turn check catches that only afterwards). */
+const MAX_STEP = 0.5;
+/** Default smallest step: when the corrector still fails at this length, the failure is not one of step size; the branch ends in 'step-failure'. */
+const MIN_STEP = 1e-7;
+/** Step growth after an accepted step and cut after a failed one; common practice for continuation step control. */
+const STEP_GROWTH = 1.4;
+const STEP_CUT = 0.5;
+/** Chord-Newton iterations per corrector: from a close prediction it converges in a few; needing more means the step was too long, and it is cut. */
+const CORRECTOR_ITERATIONS = 10;
+/** A corrected point is solved as tightly as any locked state (solveLockedState's default residual)... */
+const CORRECTOR_RESIDUAL = LOCKED_STATE_TOLERANCE;
+/** ... and its last update is this small (scaled units): the chord iteration converges only linearly, so a small residual alone could be a point still moving. */
+const CORRECTOR_UPDATE = 1e-6;
+/** Consecutive unit tangents must agree this well (cos 18 degrees): a sharper turn means the corrector may have jumped to another branch, and the step is cut. */
+const MIN_TURN_COSINE = 0.95;
+/** An event is located by bisecting the step until its bracket is below LOCATE_RESOLUTION of the step; 30 halvings reach 2^-30 = 9.3e-10. */
+const LOCATE_BISECTIONS = 30;
+const LOCATE_RESOLUTION = 1e-9;
+/** An event this close to a range end or bound (in units of the parameter's scale) counts as on it: the rounding of lambda_0 + scale mu. */
+const BOUND_SLACK = 1e-9;
+/** A crossing eigenvalue with |Im| above this share of the rate scale is a complex pair (Hopf), below it a real eigenvalue (branch point): it keeps rounding in the imaginary part of a real eigenvalue from reading as a Hopf point. */
+const HOPF_IMAGINARY = 1e-6;
+
 export interface ContinuationOptions {
   /** Which ways to go from the start; default both. */
   directions?: readonly ('decreasing' | 'increasing')[];
-  /** Accepted steps per direction; default 200. */
+  /** Accepted steps per direction; default MAX_STEPS (200). */
   maxSteps?: number;
-  /** First and largest arclength step (scaled units); defaults 0.02 and 0.5. */
+  /** First and largest arclength step (scaled units); defaults INITIAL_STEP (0.02) and MAX_STEP (0.5). */
   initialStep?: number;
   maxStep?: number;
-  /** Give up when the step falls below this; default 1e-7. */
+  /** Give up when the step falls below this; default MIN_STEP (1e-7). */
   minStep?: number;
   /** Stop when the parameter leaves [min, max]. */
   range?: { min?: number; max?: number };
@@ -171,21 +212,21 @@ class Continuation {
     return this.lambda0 + this.scale * x[this.n + this.g];
   }
 
+  /** The phase-condition anchors G_c y_ref of the current reference point. */
+  private anchors(): Float64Array[] {
+    return this.generators.map((gen) => applyPhaseGenerator(gen, this.modes, this.reference, new Float64Array(this.n)));
+  }
+
   /** H(X): rotating-frame residual and phase conditions. */
   private residual(x: Float64Array): Float64Array {
     const { n, g, modes } = this;
     setParameter(this.model.params, this.parameter, this.lambda(x));
     const y = x.subarray(0, n);
     const out = new Float64Array(n + g);
-    const f = out.subarray(0, n);
-    this.model.field(y, f);
-    const scratch = new Float64Array(n);
-    this.generators.forEach((gen, c) => {
-      applyPhaseGenerator(gen, modes, y, scratch);
-      for (let i = 0; i < n; i++) f[i] -= x[n + c] * scratch[i];
-      applyPhaseGenerator(gen, modes, this.reference, scratch);
+    rotatingResidual(this.model.field, y, this.generators, x.subarray(n, n + g), modes, out.subarray(0, n), new Float64Array(n));
+    this.anchors().forEach((anchor, c) => {
       let s = 0;
-      for (let i = 0; i < n; i++) s += scratch[i] * (y[i] - this.reference[i]);
+      for (let i = 0; i < n; i++) s += anchor[i] * (y[i] - this.reference[i]);
       out[n + c] = s;
     });
     return out;
@@ -200,16 +241,7 @@ class Continuation {
     setParameter(this.model.params, this.parameter, lambda);
     const state = fieldJacobian(this.model.field, y);
     subtractRotation(state, this.generators, rates, modes);
-    const full = new Matrix(n + g, n + g + 1);
-    for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) full.set(r, c, state.get(r, c));
-    const scratch = new Float64Array(n);
-    this.generators.forEach((gen, c) => {
-      applyPhaseGenerator(gen, modes, y, scratch);
-      for (let i = 0; i < n; i++) full.set(i, n + c, -scratch[i]);
-      applyPhaseGenerator(gen, modes, this.reference, scratch);
-      for (let i = 0; i < n; i++) full.set(n + c, i, scratch[i]);
-    });
-    const h = 1e-6 * Math.max(1, Math.abs(x[n + g]));
+    const h = DIFFERENCE_STEP * Math.max(1, Math.abs(x[n + g]));
     const plus = new Float64Array(n);
     const minus = new Float64Array(n);
     setParameter(this.model.params, this.parameter, lambda + h * this.scale);
@@ -217,7 +249,9 @@ class Continuation {
     setParameter(this.model.params, this.parameter, lambda - h * this.scale);
     this.model.field(y, minus);
     setParameter(this.model.params, this.parameter, lambda);
-    for (let i = 0; i < n; i++) full.set(i, n + g, (plus[i] - minus[i]) / (2 * h));
+    const parameterDerivative = Float64Array.from(plus, (p, i) => (p - minus[i]) / (2 * h));
+    const tangents = this.generators.map((gen) => applyPhaseGenerator(gen, modes, y, new Float64Array(n)));
+    const full = lockedStateSystem(state, tangents, this.anchors(), [parameterDerivative]);
     return { full, state };
   }
 
@@ -225,18 +259,11 @@ class Continuation {
   private tangent(full: Matrix, previous: Float64Array | null, sign: number): Float64Array {
     const size = full.columns;
     const guide = previous ?? Float64Array.from({ length: size }, (_, i) => (i === size - 1 ? sign : 0));
-    const system = new Matrix(size, size);
-    for (let r = 0; r < full.rows; r++) for (let c = 0; c < size; c++) system.set(r, c, full.get(r, c));
-    for (let c = 0; c < size; c++) system.set(size - 1, c, guide[c]);
-    const rhs = new Matrix(size, 1);
-    rhs.set(size - 1, 0, 1);
-    const t = Float64Array.from(solve(system, rhs).to1DArray());
-    let len = 0;
-    for (const v of t) len += v * v;
-    len = Math.sqrt(len);
-    let along = 0;
-    for (let i = 0; i < size; i++) along += t[i] * guide[i];
-    const orient = along < 0 ? -1 : 1;
+    const rhs = new Float64Array(size);
+    rhs[size - 1] = 1;
+    const t = solveLinear(borderedMatrix(full, [], [guide]), rhs);
+    const len = norm(t);
+    const orient = dot(t, guide) < 0 ? -1 : 1;
     return t.map((v) => (orient * v) / len);
   }
 
@@ -249,8 +276,7 @@ class Continuation {
     if (this.options.monitorStability === false) return { x: Float64Array.from(x), tangent, stability: null, unstable: 0 };
     const y = x.subarray(0, n);
     const tangents = this.generators.map((gen) => applyPhaseGenerator(gen, modes, Float64Array.from(y), new Float64Array(n)));
-    const q = complementBasis(tangents, n);
-    const eigenvalues = sortedEigenvalues(q.transpose().mmul(state).mmul(q));
+    const eigenvalues = sortedEigenvalues(restrictToComplement(state, tangents));
     const stability = stabilityOf(eigenvalues, this.model.accuracy);
     return { x: Float64Array.from(x), tangent, stability, unstable: eigenvalues.filter((e) => e.re > 0).length };
   }
@@ -264,31 +290,23 @@ class Continuation {
     const size = predicted.length;
     const x = Float64Array.from(predicted);
     const { full } = this.jacobian(x);
-    const system = new Matrix(size, size);
-    for (let r = 0; r < full.rows; r++) for (let c = 0; c < size; c++) system.set(r, c, full.get(r, c));
-    for (let c = 0; c < size; c++) system.set(size - 1, c, t[c]);
-    for (let iteration = 1; iteration <= 10; iteration++) {
+    const system = borderedMatrix(full, [], [t]);
+    for (let iteration = 1; iteration <= CORRECTOR_ITERATIONS; iteration++) {
       const h = this.residual(x);
       let along = 0;
       for (let i = 0; i < size; i++) along += t[i] * (x[i] - predicted[i]);
-      const rhs = new Matrix(size, 1);
-      for (let r = 0; r < h.length; r++) rhs.set(r, 0, -h[r]);
-      rhs.set(size - 1, 0, -along);
-      let step: number[];
+      const rhs = new Float64Array(size);
+      for (let r = 0; r < h.length; r++) rhs[r] = -h[r];
+      rhs[size - 1] = -along;
+      let step: Float64Array;
       try {
-        step = solve(system, rhs).to1DArray();
+        step = solveLinear(system, rhs);
       } catch {
         return null;
       }
-      let stepNorm = 0;
-      for (let i = 0; i < size; i++) {
-        x[i] += step[i];
-        stepNorm += step[i] * step[i];
-      }
+      for (let i = 0; i < size; i++) x[i] += step[i];
       if (!x.every(Number.isFinite)) return null;
-      let residualNorm = 0;
-      for (const v of this.residual(x)) residualNorm += v * v;
-      if (Math.sqrt(residualNorm) < 1e-10 && Math.sqrt(stepNorm) < 1e-6) return { x, iterations: iteration };
+      if (norm(this.residual(x)) < CORRECTOR_RESIDUAL && norm(step) < CORRECTOR_UPDATE) return { x, iterations: iteration };
     }
     return null;
   }
@@ -300,25 +318,23 @@ class Continuation {
     const corrected = this.correct(predicted, from.tangent);
     if (!corrected) return null;
     const node = this.evaluateNode(corrected.x, from.tangent, 1);
-    let cosine = 0;
-    for (let i = 0; i < node.tangent.length; i++) cosine += node.tangent[i] * from.tangent[i];
-    if (cosine < 0.95) return null; // too sharp a turn: the step may have jumped to another branch
+    if (dot(node.tangent, from.tangent) < MIN_TURN_COSINE) return null;
     return node;
   }
 
   private follow(startNode: Node): { points: Node[]; limit: BranchLimit | null } {
-    const maxSteps = this.options.maxSteps ?? 200;
-    const maxStep = this.options.maxStep ?? 0.5;
-    const minStep = this.options.minStep ?? 1e-7;
+    const maxSteps = this.options.maxSteps ?? MAX_STEPS;
+    const maxStep = this.options.maxStep ?? MAX_STEP;
+    const minStep = this.options.minStep ?? MIN_STEP;
     const bound = Math.max(parameterLowerBound(this.parameter), this.options.range?.min ?? Number.NEGATIVE_INFINITY);
     const upper = this.options.range?.max ?? Number.POSITIVE_INFINITY;
-    let h = this.options.initialStep ?? 0.02;
+    let h = this.options.initialStep ?? INITIAL_STEP;
     const points: Node[] = [];
     let current = startNode;
     for (let accepted = 0; accepted < maxSteps; ) {
       const next = this.step(current, h);
       if (!next) {
-        h /= 2;
+        h *= STEP_CUT;
         if (h < minStep) return { points, limit: this.limit('step-failure', current, undefined, `the corrector failed with steps down to ${minStep}`) };
         continue;
       }
@@ -329,7 +345,7 @@ class Continuation {
       if (turned || next.unstable !== current.unstable) {
         const event = this.locate(current, h, turned);
         const at = this.lambda(event.node.x);
-        const inside = at > bound + 1e-9 * this.scale && at < upper - 1e-9 * this.scale;
+        const inside = at > bound + BOUND_SLACK * this.scale && at < upper - BOUND_SLACK * this.scale;
         if (inside || !outside) {
           points.push(event.node);
           return { points, limit: event.limit };
@@ -345,7 +361,7 @@ class Continuation {
       points.push(next);
       current = next;
       accepted++;
-      h = Math.min(maxStep, h * 1.4);
+      h = Math.min(maxStep, h * STEP_GROWTH);
     }
     return { points, limit: this.limit('max-steps', current, undefined, `stopped after ${maxSteps} steps without a bifurcation`) };
   }
@@ -356,7 +372,7 @@ class Continuation {
     let lo = 0;
     let hi = h;
     let hiNode: Node | null = null;
-    for (let i = 0; i < 30 && hi - lo > 1e-9 * h; i++) {
+    for (let i = 0; i < LOCATE_BISECTIONS && hi - lo > LOCATE_RESOLUTION * h; i++) {
       const mid = (lo + hi) / 2;
       const node = this.step(from, mid);
       const changed = node && (fold ? Math.sign(node.tangent[node.tangent.length - 1]) !== foldSign : node.unstable !== from.unstable);
@@ -369,7 +385,7 @@ class Continuation {
     const node = hiNode ?? this.step(from, h) ?? from;
     if (fold || !node.stability) return { node, limit: this.limit('fold', node, undefined, 'turning point of the parameter: the locked state disappears (saddle-node)') };
     const critical = node.stability.eigenvalues.reduce((best, e) => (Math.abs(e.re) < Math.abs(best.re) ? e : best), node.stability.eigenvalues[0]);
-    const hopf = Math.abs(critical.im) > 1e-6 * Math.max(node.stability.rateScale, 1e-12);
+    const hopf = Math.abs(critical.im) > HOPF_IMAGINARY * Math.max(node.stability.rateScale, 1e-12);
     return hopf
       ? { node, limit: this.limit('hopf', node, Math.abs(critical.im), 'a complex pair of eigenvalues crosses the imaginary axis (Hopf): the lock turns into a modulated state') }
       : { node, limit: this.limit('branch-point', node, undefined, 'a real eigenvalue crosses zero without a turning point (symmetry-breaking branch point)') };

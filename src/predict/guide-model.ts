@@ -72,13 +72,7 @@ export function copyParameters(from: ModelParameters, to: ModelParameters): void
   if (from.nodes !== to.nodes || from.modes !== to.modes || from.linkWeight.length !== to.linkWeight.length) {
     throw new RangeError('copyParameters: the two parameter sets describe different networks');
   }
-  to.detuning.set(from.detuning);
-  to.setLinkWeights(from.linkWeight);
-  to.strength = from.strength;
-  to.reactive = from.reactive;
-  to.dissipative = from.dissipative;
-  to.noiseIntensity = from.noiseIntensity;
-  to.detuningWalk = from.detuningWalk;
+  to.restoreValues(from.mutableValues());
 }
 
 /**

@@ -229,8 +229,26 @@ export function conjugate(table: GroupTable, subgroup: TwistedSubgroup, h: numbe
   return { elements: pairs.map((p) => p[0]), phases: pairs.map((p) => p[1]) };
 }
 
+/** sum_k |v_k|^2. */
+export function complexSquaredNorm(v: ComplexVector): number {
+  let s = 0;
+  for (let k = 0; k < v.re.length; k++) s += v.re[k] ** 2 + v.im[k] ** 2;
+  return s;
+}
+
+/** The inner product <a, b> = sum_k conj(a_k) b_k. */
+export function complexInner(a: ComplexVector, b: ComplexVector): { re: number; im: number } {
+  let re = 0;
+  let im = 0;
+  for (let k = 0; k < a.re.length; k++) {
+    re += a.re[k] * b.re[k] + a.im[k] * b.im[k];
+    im += a.re[k] * b.im[k] - a.im[k] * b.re[k];
+  }
+  return { re, im };
+}
+
 /** Sum of complex vectors with coefficients. */
-function combine(basis: readonly ComplexVector[], coefficients: readonly { re: number; im: number }[], nodes: number): ComplexVector {
+export function combine(basis: readonly ComplexVector[], coefficients: readonly { re: number; im: number }[], nodes: number): ComplexVector {
   const v: ComplexVector = { re: new Float64Array(nodes), im: new Float64Array(nodes) };
   basis.forEach((b, i) => {
     const c = coefficients[i];
@@ -244,18 +262,7 @@ function combine(basis: readonly ComplexVector[], coefficients: readonly { re: n
 
 /** Projection onto span(basis) (orthonormal complex basis). */
 export function projectOnto(basis: readonly ComplexVector[], v: ComplexVector): ComplexVector {
-  const nodes = v.re.length;
-  const coefficients = basis.map((b) => {
-    let re = 0;
-    let im = 0;
-    for (let k = 0; k < nodes; k++) {
-      // conj(b) v
-      re += b.re[k] * v.re[k] + b.im[k] * v.im[k];
-      im += b.re[k] * v.im[k] - b.im[k] * v.re[k];
-    }
-    return { re, im };
-  });
-  return combine(basis, coefficients, nodes);
+  return combine(basis, basis.map((b) => complexInner(b, v)), v.re.length);
 }
 
 /** Orthonormalises complex vectors (modified Gram-Schmidt), dropping dependent ones. */
@@ -270,9 +277,7 @@ function orthonormalise(vectors: readonly ComplexVector[]): ComplexVector[] {
         w.im[k] -= p.im[k];
       }
     }
-    let len = 0;
-    for (let k = 0; k < w.re.length; k++) len += w.re[k] ** 2 + w.im[k] ** 2;
-    len = Math.sqrt(len);
+    const len = Math.sqrt(complexSquaredNorm(w));
     if (len < 1e-9) continue;
     for (let k = 0; k < w.re.length; k++) {
       w.re[k] /= len;

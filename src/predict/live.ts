@@ -31,6 +31,7 @@ import { describeLockedState, durationOf, type Duration } from './describe.js';
 import { wrapAngle } from '../util/angles.js';
 import { lookAhead } from './look-ahead.js';
 import { sameUpToSymmetry } from './catalogue.js';
+import { LOCK_TOLERANCE } from '../observe/lock-detector.js';
 
 export type LiveVerdict = 'persists' | 'lost' | 'marginal' | 'not-locked' | 'unknown';
 
@@ -87,11 +88,29 @@ export type LivePrediction = {
 
 /** Above this many slow variables no live prediction is made (dense Jacobians, like the session's margin). */
 export const LIVE_PREDICTION_SIZE_LIMIT = 160;
+/** Predictions kept, the least recently used dropped first: bounds the memory; toggling a few faults back and forth needs two entries each. */
 const CACHE_SIZE = 16;
 /** Field evaluations the live look-ahead may spend (a few tenths of a second on the demo board). */
 const LOOK_AHEAD_EVALUATIONS = 6000;
 /** A predicted move of a phase difference below this (rad) is not worth a word in the message. */
 const MOVE_WORTH_SAYING = 0.005;
+
+// The continuation from the previous parameters (h = 0) to the new ones (h = 1), in h itself
+// (the homotopy's scale is 1).
+/** Accepted steps at most: the prediction runs inside the session's tick after a perturbation, so its work is bounded; a branch that needs more counts as lost there ('max-steps'). */
+const HOMOTOPY_MAX_STEPS = 80;
+/** First step: a quarter of the way, so a change that disturbs nothing reaches h = 1 in a few steps; the continuation cuts the step where its corrector fails. */
+const HOMOTOPY_INITIAL_STEP = 0.25;
+/** Largest step: half the way. */
+const HOMOTOPY_MAX_STEP = 0.5;
+/** The branch's last point must sit at h = 1 to this much: the rounding of the continuation's landing on its range end. */
+const HOMOTOPY_END_SLACK = 1e-9;
+/**
+ * Relative distance below which the look-ahead's destination and the continued state count as one
+ * state. Both are Newton solutions, so one state found twice agrees far closer; distinct locked
+ * states differ at order one (neighbouring twisted states by 2 pi / N in a phase difference).
+ */
+const SAME_STATE = 1e-3;
 
 export interface LivePredictorState {
   previous: { detuning: number[]; linkWeight: number[]; strength: number; reactive: number; dissipative: number };
@@ -109,7 +128,7 @@ export class LivePredictor {
    * @param arrivalTolerance the lock tolerance (rad): the look-ahead has arrived once every phase
    *   difference stays this close to its destination, as the lock detector settles
    */
-  constructor(scenario: Scenario, params: ModelParameters, private readonly arrivalTolerance = 0.05) {
+  constructor(scenario: Scenario, params: ModelParameters, private readonly arrivalTolerance = LOCK_TOLERANCE) {
     this.model = new GuideModel(scenario, params);
     this.previous = snapshotParameters(params);
   }
@@ -188,7 +207,7 @@ export class LivePredictor {
     const lookAheadInfo = { slowTime: ahead.slowTime, settled: ahead.settled, slipped: ahead.slipped, maxPhaseExcursion: ahead.maxPhaseExcursion, transitSlowTime: ahead.transitSlowTime };
     const settledOn = ahead.settled && ahead.locked && ahead.stability ? ahead.locked : null;
     if (continued) {
-      const elsewhere = settledOn !== null && !sameUpToSymmetry(settledOn.state, continued.locked.state, [identity(model.nodes)], model.nodes, model.modes, model.parts(), 1e-3);
+      const elsewhere = settledOn !== null && !sameUpToSymmetry(settledOn.state, continued.locked.state, [identity(model.nodes)], model.nodes, model.modes, model.parts(), SAME_STATE);
       if (!ahead.slipped && !elsewhere) {
         // Settled on the continued state, or still on the way within the budget without a slip.
         const pattern = this.predictedPattern(continued.locked, continued.stability, settledOn ? ahead.transitSlowTime : null);
@@ -236,11 +255,19 @@ export class LivePredictor {
       setParameter(model.params, spec, 0);
       // A perturbation is a jump, not a slow ramp: only the existence of the branch up to h = 1
       // matters on the way (folds); stability is judged once, at the end.
-      const branch = continueBranch(model, state, spec, { directions: ['increasing'], range: { max: 1 }, maxSteps: 80, initialStep: 0.25, maxStep: 0.5, keepStates: true, monitorStability: false });
+      const branch = continueBranch(model, state, spec, {
+        directions: ['increasing'],
+        range: { max: 1 },
+        maxSteps: HOMOTOPY_MAX_STEPS,
+        initialStep: HOMOTOPY_INITIAL_STEP,
+        maxStep: HOMOTOPY_MAX_STEP,
+        keepStates: true,
+        monitorStability: false,
+      });
       const limit = branch.limits.increasing!;
       if (limit.kind !== 'range') return { kind: 'lost', fraction: Math.min(1, Math.max(0, limit.parameter)), limit: limit.kind };
       const last = branch.points[branch.points.length - 1];
-      if (!last.state || Math.abs(last.parameter - 1) > 1e-9) return { kind: 'lost', fraction: last.parameter, limit: 'step-failure' };
+      if (!last.state || Math.abs(last.parameter - 1) > HOMOTOPY_END_SLACK) return { kind: 'lost', fraction: last.parameter, limit: 'step-failure' };
       end = Float64Array.from(last.state);
     } catch (error) {
       if (error instanceof RangeError) return { kind: 'lost', fraction: 0, limit: 'step-failure' };

@@ -10,9 +10,25 @@
  * orbit's tangents G_c y (complementBasis in orbit-complement.ts), so the zero eigenvalues
  * forced by the phase symmetry are removed by construction.
  */
-import { EigenvalueDecomposition, Matrix, solve } from 'ml-matrix';
-import { complementBasis, type Field } from './orbit-complement.js';
+import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { borderedMatrix, dot, norm, solveLinear } from '../util/linear-algebra.js';
+import { restrictToComplement, type Field } from './orbit-complement.js';
 import { activePhaseGenerators, applyPhaseGenerator, subtractRotation, type PhaseGenerator } from './phase-orbits.js';
+
+/**
+ * Default absolute residual norm of a solved locked state: the field is of order one near a lock
+ * (amplitudes near 2), so this asks for about ten digits, well above the field's own rounding
+ * (near 1e-15), which Newton could not get below.
+ */
+export const LOCKED_STATE_TOLERANCE = 1e-10;
+/** Default Newton iterations: near a solution a handful suffice; the rest is for far seeds, which the step halving pulls in slowly. */
+const NEWTON_ITERATIONS = 30;
+/** A Newton step that does not lower the residual is halved up to this many times before the solve counts as stalled: keeps far seeds from running away. */
+const NEWTON_HALVINGS = 6;
+/** Relative central-difference step of the Jacobians (fieldJacobian says why it balances truncation and rounding). */
+export const DIFFERENCE_STEP = 1e-6;
+/** Floor of the marginal band, times max(1, rateScale): it covers the finite-difference Jacobian's rounding (marginTolerance). */
+const MARGIN_FLOOR = 1e-8;
 
 export interface LockedState {
   /** The state on the orbit (rotating-frame layout, node-major, mode-minor). */
@@ -32,7 +48,7 @@ export interface LockedStateOptions {
   generators?: readonly PhaseGenerator[];
   /** Orthonormal columns spanning an invariant subspace that contains the guess: solve in it. */
   basis?: Matrix;
-  /** Absolute residual norm that counts as solved; default 1e-10. */
+  /** Absolute residual norm that counts as solved; default LOCKED_STATE_TOLERANCE. */
   tolerance?: number;
   maxIterations?: number;
 }
@@ -51,31 +67,40 @@ export interface LockedStability {
   verdict: Verdict;
 }
 
-const norm = (v: ArrayLike<number>): number => {
-  let s = 0;
-  for (let i = 0; i < v.length; i++) s += v[i] * v[i];
-  return Math.sqrt(s);
-};
-
-const dot = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
-  let s = 0;
-  for (let i = 0; i < a.length; i++) s += a[i] * b[i];
-  return s;
-};
-
 /** One part holding every node. */
 export function wholeGraph(nodes: number): Int32Array[] {
   return [Int32Array.from({ length: nodes }, (_, k) => k)];
 }
 
 /** r = fbar(y) - sum_c rate_c G_c y. */
-function rotatingResidual(field: Field, y: Float64Array, generators: readonly PhaseGenerator[], rates: ArrayLike<number>, modes: number, out: Float64Array, scratch: Float64Array): Float64Array {
+export function rotatingResidual(field: Field, y: Float64Array, generators: readonly PhaseGenerator[], rates: ArrayLike<number>, modes: number, out: Float64Array, scratch: Float64Array): Float64Array {
   field(y, out);
   generators.forEach((g, c) => {
     applyPhaseGenerator(g, modes, y, scratch);
     for (let i = 0; i < out.length; i++) out[i] -= rates[c] * scratch[i];
   });
   return out;
+}
+
+/**
+ * The Jacobian of the locked-state equations in the unknowns (y, Omega_c) (see the module
+ * header): `rotating` (D fbar - sum_c Omega_c G_c, n x n) bordered by one column -G_c y per
+ * generator (the derivative in its rate, from `tangents` G_c y) and one phase-condition row per
+ * generator (`anchors`, G_c y0); `extraColumns` (the continuation's parameter derivative) come
+ * last.
+ */
+export function lockedStateSystem(rotating: Matrix, tangents: readonly Float64Array[], anchors: readonly ArrayLike<number>[], extraColumns: readonly ArrayLike<number>[] = []): Matrix {
+  return borderedMatrix(rotating, [...tangents.map((t) => Float64Array.from(t, (v) => -v)), ...extraColumns], anchors);
+}
+
+/** B^T v for the orthonormal columns B of a subspace: v in the subspace's coordinates. */
+function inBasis(basis: Matrix, v: ArrayLike<number>): Float64Array {
+  const n = basis.rows;
+  return Float64Array.from({ length: basis.columns }, (_, i) => {
+    let s = 0;
+    for (let k = 0; k < n; k++) s += basis.get(k, i) * v[k];
+    return s;
+  });
 }
 
 /**
@@ -93,7 +118,7 @@ export function fieldJacobian(field: Field, y: Float64Array, basis?: Matrix): Ma
   let size = 1;
   for (let i = 0; i < n; i++) size = Math.max(size, Math.abs(y[i]));
   for (let c = 0; c < columns; c++) {
-    const h = 1e-6 * size;
+    const h = DIFFERENCE_STEP * size;
     if (basis) {
       for (let i = 0; i < n; i++) probe[i] = y[i] + h * basis.get(i, c);
       field(probe, plus);
@@ -117,8 +142,8 @@ export function fieldJacobian(field: Field, y: Float64Array, basis?: Matrix): Ma
  * lower the residual is halved up to six times, which keeps far seeds from running away.
  */
 export function solveLockedState(field: Field, guess: Float64Array, modes: number, options: LockedStateOptions = {}): LockedState {
-  const tolerance = options.tolerance ?? 1e-10;
-  const maxIterations = options.maxIterations ?? 30;
+  const tolerance = options.tolerance ?? LOCKED_STATE_TOLERANCE;
+  const maxIterations = options.maxIterations ?? NEWTON_ITERATIONS;
   const n = guess.length;
   const parts = options.parts ?? wholeGraph(n / (2 * modes));
   const generators = options.generators ? [...options.generators] : activePhaseGenerators(guess, modes, parts);
@@ -131,7 +156,7 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
   // Anchors of the phase conditions, in the unknowns' coordinates.
   const anchors = generators.map((g) => {
     const t = applyPhaseGenerator(g, modes, guess, new Float64Array(n));
-    return basis ? Float64Array.from({ length: p }, (_, i) => { let s = 0; for (let r = 0; r < n; r++) s += basis.get(r, i) * t[r]; return s; }) : t;
+    return basis ? inBasis(basis, t) : t;
   });
   const rates = generators.map((g) => {
     const t = applyPhaseGenerator(g, modes, guess, new Float64Array(n));
@@ -145,12 +170,10 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
   const offset = new Float64Array(p); // z - z0 (or y - y0)
   while (residual > tolerance && iterations < maxIterations && Number.isFinite(residual)) {
     iterations++;
-    const size = p + generators.length;
-    const system = new Matrix(size, size);
-    const rhs = new Matrix(size, 1);
     const jac = fieldJacobian(field, y, basis); // n x p
-    const r = Float64Array.from(residualVector);
     const tangents = generators.map((g) => applyPhaseGenerator(g, modes, y, new Float64Array(n)));
+    const rhs = new Float64Array(p + generators.length);
+    let system: Matrix;
     if (basis) {
       // Project rows onto the subspace: B^T (D fbar B - sum Omega G B) and B^T r.
       const bt = basis.transpose();
@@ -163,56 +186,39 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
           for (let i = 0; i < n; i++) rotated.set(i, c, rotated.get(i, c) - rates[gi] * scratch[i]);
         });
       }
-      const reducedRotation = bt.mmul(rotated);
-      for (let i = 0; i < p; i++) {
-        let ri = 0;
-        for (let k = 0; k < n; k++) ri += basis.get(k, i) * r[k];
-        rhs.set(i, 0, -ri);
-        for (let c = 0; c < p; c++) system.set(i, c, reduced.get(i, c) + reducedRotation.get(i, c));
-        tangents.forEach((t, gi) => {
-          let s = 0;
-          for (let k = 0; k < n; k++) s += basis.get(k, i) * t[k];
-          system.set(i, p + gi, -s);
-        });
-      }
+      const projectedResidual = inBasis(basis, residualVector);
+      for (let i = 0; i < p; i++) rhs[i] = -projectedResidual[i];
+      system = lockedStateSystem(reduced.add(bt.mmul(rotated)), tangents.map((t) => inBasis(basis, t)), anchors);
     } else {
       subtractRotation(jac, generators, rates, modes);
-      for (let i = 0; i < n; i++) {
-        rhs.set(i, 0, -r[i]);
-        for (let c = 0; c < n; c++) system.set(i, c, jac.get(i, c));
-      }
-      tangents.forEach((t, gi) => {
-        for (let i = 0; i < n; i++) system.set(i, n + gi, -t[i]);
-      });
+      for (let i = 0; i < n; i++) rhs[i] = -residualVector[i];
+      system = lockedStateSystem(jac, tangents, anchors);
     }
-    anchors.forEach((a, gi) => {
-      for (let i = 0; i < p; i++) system.set(p + gi, i, a[i]);
-      rhs.set(p + gi, 0, -dot(a, offset));
-    });
-    let step: Matrix;
+    anchors.forEach((a, gi) => (rhs[p + gi] = -dot(a, offset)));
+    let step: Float64Array;
     try {
-      step = solve(system, rhs);
+      step = solveLinear(system, rhs);
     } catch {
       break;
     }
-    if (!step.to1DArray().every(Number.isFinite)) break;
+    if (!step.every(Number.isFinite)) break;
     const y0 = Float64Array.from(y);
     const rates0 = [...rates];
     const offset0 = Float64Array.from(offset);
     let scale = 1;
     let next = Number.POSITIVE_INFINITY;
-    for (let attempt = 0; attempt < 7; attempt++) {
-      for (let i = 0; i < p; i++) offset[i] = offset0[i] + scale * step.get(i, 0);
+    for (let attempt = 0; attempt <= NEWTON_HALVINGS; attempt++) {
+      for (let i = 0; i < p; i++) offset[i] = offset0[i] + scale * step[i];
       if (basis) {
         for (let k = 0; k < n; k++) {
           let s = 0;
-          for (let i = 0; i < p; i++) s += basis.get(k, i) * step.get(i, 0);
+          for (let i = 0; i < p; i++) s += basis.get(k, i) * step[i];
           y[k] = y0[k] + scale * s;
         }
       } else {
-        for (let k = 0; k < n; k++) y[k] = y0[k] + scale * step.get(k, 0);
+        for (let k = 0; k < n; k++) y[k] = y0[k] + scale * step[k];
       }
-      generators.forEach((_, gi) => (rates[gi] = rates0[gi] + scale * step.get(p + gi, 0)));
+      generators.forEach((_, gi) => (rates[gi] = rates0[gi] + scale * step[p + gi]));
       next = residualNorm();
       if (next < residual) break;
       scale /= 2;
@@ -254,7 +260,7 @@ export interface Accuracy {
  * band does not widen for them.)
  */
 export function marginTolerance(rateScale: number, accuracy: Accuracy): number {
-  return (accuracy.epsilon * rateScale * accuracy.couplingRate) / accuracy.omegaMin + 1e-8 * Math.max(1, rateScale);
+  return (accuracy.epsilon * rateScale * accuracy.couplingRate) / accuracy.omegaMin + MARGIN_FLOOR * Math.max(1, rateScale);
 }
 
 /** Reduced Jacobian (orthonormal coordinates on the complement of the orbit tangents) at a locked state. */
@@ -263,8 +269,7 @@ export function reducedJacobian(field: Field, locked: LockedState, modes: number
   const jac = fieldJacobian(field, locked.state);
   subtractRotation(jac, locked.generators, locked.rates, modes);
   const tangents = locked.generators.map((g) => applyPhaseGenerator(g, modes, locked.state, new Float64Array(n)));
-  const q = complementBasis(tangents, n);
-  return q.transpose().mmul(jac).mmul(q);
+  return restrictToComplement(jac, tangents);
 }
 
 /** Eigenvalues of a real square matrix, sorted by decreasing real part (then imaginary part). */

@@ -17,6 +17,8 @@ import { accumulateExcursion, SLIP_EXCURSION } from '../observe/phase-excursion.
 import { carryingMode } from '../observe/amplitudes.js';
 import { CoupledPairs } from '../observe/coupled-pairs.js';
 import { wrapAngle } from '../util/angles.js';
+import { dot, squaredNorm } from '../util/linear-algebra.js';
+import { LOCK_TOLERANCE } from '../observe/lock-detector.js';
 
 export interface LookAheadOptions {
   /** Longest look-ahead in slow time; default 400 coupling relaxation times (see couplingRate). */
@@ -25,7 +27,7 @@ export interface LookAheadOptions {
   maxEvaluations?: number;
   /**
    * Distance (rad, every watched phase difference) within which the way counts as arrived at the
-   * destination, for the transit time; default 0.05, the session's default lock tolerance.
+   * destination, for the transit time; default LOCK_TOLERANCE, the session's default lock tolerance.
    */
   arrivalTolerance?: number;
 }
@@ -60,22 +62,14 @@ export function couplingRate(model: GuideModel): number {
 function rotatingSpeed(model: GuideModel, y: Float64Array, velocity: Float64Array, scratch: Float64Array): number {
   const modes = model.modes;
   model.field(y, velocity);
-  let total = 0;
-  for (let i = 0; i < y.length; i++) total += y[i] * y[i];
+  const total = squaredNorm(y);
   for (const g of activePhaseGenerators(y, modes, model.parts())) {
     applyPhaseGenerator(g, modes, y, scratch);
-    let along = 0;
-    let size = 0;
-    for (let i = 0; i < y.length; i++) {
-      along += scratch[i] * velocity[i];
-      size += scratch[i] * scratch[i];
-    }
-    const rate = size > 0 ? along / size : 0;
+    const size = squaredNorm(scratch);
+    const rate = size > 0 ? dot(scratch, velocity) / size : 0;
     for (let i = 0; i < y.length; i++) velocity[i] -= rate * scratch[i];
   }
-  let speed = 0;
-  for (let i = 0; i < y.length; i++) speed += velocity[i] * velocity[i];
-  return Math.sqrt(speed / Math.max(total, 1e-300));
+  return Math.sqrt(squaredNorm(velocity) / Math.max(total, 1e-300));
 }
 
 /**
@@ -93,11 +87,11 @@ const SAMPLES_PER_CHUNK = 8;
  * there.
  */
 class PhaseDifferenceWatch {
-  readonly last: Float64Array;
-  readonly offsets: Float64Array;
+  private readonly last: Float64Array;
+  private readonly offsets: Float64Array;
   private readonly phase: Float64Array;
   private readonly rate: Float64Array;
-  maxExcursion = 0;
+  private largest = 0;
 
   constructor(readonly pairs: CoupledPairs, private readonly nodes: number, private readonly modes: number, readonly mode: number) {
     this.last = new Float64Array(pairs.size);
@@ -126,6 +120,21 @@ class PhaseDifferenceWatch {
     const ends = this.pairs.ends;
     for (let p = 0; p < this.pairs.size; p++) out[p] = wrapAngle(phase[ends[2 * p + 1]] - phase[ends[2 * p]]);
     return out;
+  }
+
+  /** Takes the differences just read as where the excursions are measured from; returns a copy of them. */
+  begin(): Float64Array {
+    return Float64Array.from(this.differences(this.last));
+  }
+
+  /** Unwraps the differences just read (written to `out`) onto the running excursions, keeping the largest. */
+  accumulate(out: Float64Array): void {
+    this.largest = Math.max(this.largest, accumulateExcursion(this.last, this.offsets, this.differences(out), this.pairs.watched));
+  }
+
+  /** Largest total move of a watched difference so far (rad). */
+  get maxExcursion(): number {
+    return this.largest;
   }
 }
 
@@ -160,7 +169,7 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
   const pairs = new CoupledPairs(model.params);
   const watch = new PhaseDifferenceWatch(pairs, nodes, modes, carryingMode(start, nodes, modes));
   const differences = new Float64Array(pairs.size);
-  const arrivalTolerance = options.arrivalTolerance ?? 0.05;
+  const arrivalTolerance = options.arrivalTolerance ?? LOCK_TOLERANCE;
   // the watched differences over time, for the transit time once the destination is known
   const sampleTimes: number[] = [];
   const samples: Float64Array[] = [];
@@ -178,7 +187,7 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
   /** One watched sample: unwraps the differences and returns the time to the next sample. */
   const sample = (): number => {
     const next = look();
-    watch.maxExcursion = Math.max(watch.maxExcursion, accumulateExcursion(watch.last, watch.offsets, watch.differences(differences), pairs.watched));
+    watch.accumulate(differences);
     sampleTimes.push(t);
     samples.push(Float64Array.from(differences));
     return next;
@@ -188,9 +197,8 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
     transitSlowTime: settled ? arrivalTime(sampleTimes, samples, pairs.stateDifferences(state, modes, watch.mode), arrivalTolerance) : null,
   });
   let interval = look();
-  watch.differences(watch.last);
   sampleTimes.push(0);
-  samples.push(Float64Array.from(watch.last));
+  samples.push(watch.begin());
   while (t < maxSlowTime && spent() < maxEvaluations) {
     const end = t + chunk;
     let failed = false;

@@ -1,4 +1,5 @@
 import { Matrix } from 'ml-matrix';
+import { dot, norm } from '../util/linear-algebra.js';
 
 /**
  * Shared pieces of the locked-state computations. The averaged field is equivariant under a
@@ -10,18 +11,6 @@ import { Matrix } from 'ml-matrix';
 
 /** A slow vector field y -> out (rotating-frame layout). */
 export type Field = (y: Float64Array, out: Float64Array) => void;
-
-function norm(v: Float64Array): number {
-  let s = 0;
-  for (let i = 0; i < v.length; i++) s += v[i] * v[i];
-  return Math.sqrt(s);
-}
-
-function dot(a: Float64Array, b: Float64Array): number {
-  let s = 0;
-  for (let i = 0; i < a.length; i++) s += a[i] * b[i];
-  return s;
-}
 
 /** Orthonormal basis (as matrix columns) of the complement of the given vectors. */
 export function complementBasis(vectors: Float64Array[], n: number): Matrix {
@@ -49,4 +38,10 @@ export function complementBasis(vectors: Float64Array[], n: number): Matrix {
   const q = new Matrix(n, n - kept);
   for (let c = kept; c < n; c++) for (let r = 0; r < n; r++) q.set(r, c - kept, basis[c][r]);
   return q;
+}
+
+/** The Jacobian restricted to the orthogonal complement of the orbit tangents: Q^T J Q with Q = complementBasis(tangents). */
+export function restrictToComplement(jacobian: Matrix, tangents: Float64Array[]): Matrix {
+  const q = complementBasis(tangents, jacobian.rows);
+  return q.transpose().mmul(jacobian).mmul(q);
 }

@@ -10,6 +10,7 @@
  * (a -> i a with a = u - i v) and is zero elsewhere.
  */
 import type { ModelParameters } from '../model/parameters.js';
+import { squaredNorm } from '../util/linear-algebra.js';
 
 export interface PhaseGenerator {
   mode: number;
@@ -47,8 +48,7 @@ export function couplingComponents(params: ModelParameters): Int32Array[] {
  * direction worth removing (their tangent is numerically zero).
  */
 export function activePhaseGenerators(y: Float64Array, modes: number, parts: readonly Int32Array[], threshold = 1e-8): PhaseGenerator[] {
-  let total = 0;
-  for (let i = 0; i < y.length; i++) total += y[i] * y[i];
+  const total = squaredNorm(y);
   const found: PhaseGenerator[] = [];
   for (let j = 0; j < modes; j++) {
     for (const nodes of parts) {

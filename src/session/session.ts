@@ -1,13 +1,13 @@
 import type { ModeState, Scenario } from '../scenario/types.js';
 import { tauToSeconds } from '../scenario/units.js';
-import { ModelParameters } from '../model/parameters.js';
+import { ModelParameters, type MutableParameterValues } from '../model/parameters.js';
 import { addToAmplitude, originalFromRotating } from '../model/coordinates.js';
 import { initialRotatingState } from '../model/initial.js';
 import { FullSystem, type FullIntegrator } from '../integrate/full-system.js';
 import { IntegratorSwitch, type IntegratorSwitchCheckpoint } from '../envelope/integrator-switch.js';
 import type { IntegratorMode, IntegratorRequest } from '../envelope/choice.js';
 import type { NoiseModel } from '../envelope/averaged-noise.js';
-import { GuideSystem } from '../guide/guide.js';
+import { GUIDE_TOLERANCE, GuideSystem } from '../guide/guide.js';
 import { nearResonances, type ResonanceWarning } from '../guide/resonance.js';
 import { divergence, neighbourPhaseDifferences, readObservables, type Divergence, type SystemObservables } from '../observe/amplitudes.js';
 import { graphAutomorphisms } from '../pattern/automorphisms.js';
@@ -16,7 +16,7 @@ import { GuideModel } from '../predict/guide-model.js';
 import { LivePredictor, type LivePrediction, type LivePredictorState } from '../predict/live.js';
 import { applyPerturbation, describePerturbation, parsePerturbation, type Perturbation } from './perturbation.js';
 import { PatternTracker, patternIdentity, type PatternReport, type PatternTrackerState } from './pattern-tracker.js';
-import type { LockSettings, LockTransition } from '../observe/lock-detector.js';
+import { LOCK_TOLERANCE, type LockSettings, type LockTransition } from '../observe/lock-detector.js';
 import { CoupledPairs } from '../observe/coupled-pairs.js';
 import type { RandomState } from '../util/random.js';
 
@@ -27,7 +27,7 @@ export interface SessionOptions {
    * edge of the locking range is not mistaken for a lock.
    */
   lockWindow?: number;
-  /** Largest phase-difference excursion over the window that still counts as locked (rad); default 0.05. */
+  /** Largest phase-difference excursion over the window that still counts as locked (rad); default LOCK_TOLERANCE (0.05). */
   lockTolerance?: number;
   /** Relative residual below which a group element counts as a symmetry; default 0.02. */
   symmetryTolerance?: number;
@@ -69,15 +69,7 @@ export interface SessionCheckpoint {
   guideStep: number;
   guideFailed: boolean;
   random: RandomState;
-  parameters: {
-    detuning: number[];
-    linkWeight: number[];
-    strength: number;
-    reactive: number;
-    dissipative: number;
-    noiseIntensity: number;
-    detuningWalk: number;
-  };
+  parameters: MutableParameterValues;
   queue: { perturbation: Perturbation; by: string }[];
   eventCount: number;
   halted: string | null;
@@ -178,13 +170,13 @@ export class CoSimulation {
     this.params = new ModelParameters(scenario);
     const initial = initialRotatingState(scenario, this.params);
     const micro = new FullSystem(this.params, initial, scenario.integrator.stepsPerPeriod, scenario.noise.seed);
-    this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? 1e-10);
+    this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? GUIDE_TOLERANCE);
     this.macroStep = macroStepOf(scenario);
     this.integrator = new IntegratorSwitch(this.params, micro, options.integrator ?? 'auto', this.macroStep, (kind, message) => this.record(kind, message, 'engine'), options.envelopeAutoError);
     const eps = this.params.epsilon;
     const window = options.lockWindow ?? defaultLockWindow(this.params);
     const windowTicks = eps > 0 ? Math.min(MAX_LOCK_WINDOW_TICKS, Math.max(2, Math.round(window / (eps * this.macroStep)))) : 10;
-    const lockTolerance = options.lockTolerance ?? 0.05;
+    const lockTolerance = options.lockTolerance ?? LOCK_TOLERANCE;
     this.lock = { tolerance: lockTolerance, window: windowTicks * this.macroStep };
     const symmetryTolerance = options.symmetryTolerance ?? 0.02;
     this.pairs = new CoupledPairs(this.params);
@@ -231,10 +223,10 @@ export class CoSimulation {
       return this.frame();
     }
     if (outcome.detuningChanged) this.guide.invalidate();
-    if (!this.guide.failed && !this.guide.advance(tauEnd)) {
+    const guideRunning = !this.guide.failed;
+    if (!this.guide.advance(tauEnd) && guideRunning) {
       this.record('guide-failure', 'the guiding system failed (its step size collapsed); the full run goes on', 'engine');
     }
-    this.guide.tau = tauEnd;
     this.tick++;
     this.integrator.afterTick(this.tick);
     return this.frame();
@@ -257,7 +249,6 @@ export class CoSimulation {
 
   /** A bit-exact checkpoint (see SessionCheckpoint). Events not yet handed out are not part of it. */
   checkpoint(): SessionCheckpoint {
-    const p = this.params;
     return {
       version: 1,
       tick: this.tick,
@@ -267,15 +258,7 @@ export class CoSimulation {
       guideStep: this.guide.nextStep,
       guideFailed: this.guide.failed,
       random: this.full.random.getState(),
-      parameters: {
-        detuning: Array.from(p.detuning),
-        linkWeight: Array.from(p.linkWeight),
-        strength: p.strength,
-        reactive: p.reactive,
-        dissipative: p.dissipative,
-        noiseIntensity: p.noiseIntensity,
-        detuningWalk: p.detuningWalk,
-      },
+      parameters: this.params.mutableValues(),
       queue: this.queue.map((q) => ({ ...q })),
       eventCount: this.eventCount,
       halted: this.halted,
@@ -289,44 +272,7 @@ export class CoSimulation {
   /** A session of `scenario` continued from a checkpoint it wrote. */
   static fromCheckpoint(scenario: Scenario, saved: SessionCheckpoint, options: SessionOptions = {}): CoSimulation {
     const session = new CoSimulation(scenario, options);
-    session.pending = [];
-    const p = session.params;
-    if (saved.full.length !== session.full.state.length || saved.parameters.linkWeight.length !== p.linkWeight.length) {
-      throw new RangeError('the checkpoint does not belong to this scenario (state or link count differs)');
-    }
-    session.tick = saved.tick;
-    session.integrator.micro.state.set(saved.full);
-    session.integrator.micro.stepper.tau = saved.tau;
-    session.integrator.micro.random.setState(saved.random);
-    session.guide.state.set(saved.guide);
-    session.guide.tau = saved.tau;
-    session.guide.failed = saved.guideFailed;
-    if (saved.guideStep > 0) session.guide.nextStep = saved.guideStep;
-    p.detuning.set(saved.parameters.detuning);
-    p.setLinkWeights(saved.parameters.linkWeight);
-    p.strength = saved.parameters.strength;
-    p.reactive = saved.parameters.reactive;
-    p.dissipative = saved.parameters.dissipative;
-    p.noiseIntensity = saved.parameters.noiseIntensity;
-    p.detuningWalk = saved.parameters.detuningWalk;
-    session.integrator.load(saved.integrator);
-    session.queue.push(...saved.queue.map((q) => ({ ...q })));
-    session.eventCount = saved.eventCount;
-    session.halted = saved.halted;
-    session.fullTracker.load(saved.trackers.full);
-    session.guideTracker.load(saved.trackers.guide);
-    session.marginStale = saved.margin.stale;
-    session.margin = saved.margin.value;
-    if (saved.prediction) {
-      session.predictionStale = saved.prediction.stale;
-      session.predictionKicked = saved.prediction.kicked;
-      session.prediction = saved.prediction.value;
-      session.predictor.load(saved.prediction.predictor);
-    } else {
-      session.predictor.rememberParameters(p);
-    }
-    session.group = session.computeGroup();
-    session.pairs.update(p);
+    session.restore(saved);
     return session;
   }
 
@@ -336,6 +282,37 @@ export class CoSimulation {
    */
   recordNow(kind: SessionEventKind, message: string, by: string): SessionEvent {
     return { seq: ++this.eventCount, tau: this.tau, kind, message, by };
+  }
+
+  /** Continue as `saved` says (see fromCheckpoint): each part restores its own state. */
+  private restore(saved: SessionCheckpoint): void {
+    this.pending = [];
+    const p = this.params;
+    if (saved.full.length !== this.full.state.length || saved.parameters.linkWeight.length !== p.linkWeight.length) {
+      throw new RangeError('the checkpoint does not belong to this scenario (state or link count differs)');
+    }
+    this.tick = saved.tick;
+    this.integrator.micro.restore(saved.full, saved.tau, saved.random);
+    this.guide.restore({ state: saved.guide, tau: saved.tau, failed: saved.guideFailed, nextStep: saved.guideStep });
+    p.restoreValues(saved.parameters);
+    this.integrator.load(saved.integrator);
+    this.queue.push(...saved.queue.map((q) => ({ ...q })));
+    this.eventCount = saved.eventCount;
+    this.halted = saved.halted;
+    this.fullTracker.load(saved.trackers.full);
+    this.guideTracker.load(saved.trackers.guide);
+    this.marginStale = saved.margin.stale;
+    this.margin = saved.margin.value;
+    if (saved.prediction) {
+      this.predictionStale = saved.prediction.stale;
+      this.predictionKicked = saved.prediction.kicked;
+      this.prediction = saved.prediction.value;
+      this.predictor.load(saved.prediction.predictor);
+    } else {
+      this.predictor.rememberParameters(p);
+    }
+    this.group = this.computeGroup();
+    this.pairs.update(p);
   }
 
   private applyQueue(): void {

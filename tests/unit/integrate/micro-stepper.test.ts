@@ -416,10 +416,25 @@ describe('micro stepper: fitted Adams method', () => {
     kicked.advance(TWO_PI * 100);
     kicked.state[0] += 0.01;
     const fresh = new MicroStepper(params, kicked.state, 5);
-    fresh.tau = kicked.tau;
+    fresh.restore(kicked.state, kicked.tau);
     kicked.advance(TWO_PI * 150);
     fresh.advance(TWO_PI * 150);
     expect(Array.from(kicked.state)).toEqual(Array.from(fresh.state));
+  });
+
+  test('restore puts a stepper on another state and clock; from there it steps bit for bit like one that got there itself', () => {
+    const { params, start } = benchScenario(4);
+    const straight = new MicroStepper(params, start, 5);
+    straight.advance(TWO_PI * 30);
+    const saved = { state: Float64Array.from(straight.state), tau: straight.tau };
+    const other = new MicroStepper(params, start, 5);
+    other.advance(TWO_PI * 47); // somewhere else in state and time
+    other.restore(saved.state, saved.tau);
+    expect(other.tau).toBe(saved.tau);
+    straight.advance(TWO_PI * 60);
+    other.advance(TWO_PI * 60);
+    expect(Array.from(other.state)).toEqual(Array.from(straight.state));
+    expect(() => other.restore(new Float64Array(3), 0)).toThrow(RangeError);
   });
 
   test('a short final span that the fitted method cannot take goes to refined RK4', () => {
