@@ -53,7 +53,8 @@ function numberFlag(parsed: Parsed, name: string): number | undefined {
   const value = parsed.flags.get(name);
   if (value === undefined) return undefined;
   const n = Number(value);
-  if (value === true || !Number.isFinite(n)) throw new UsageError(`--${name} must be a number (got ${value === true ? 'nothing' : JSON.stringify(value)})`);
+  if (value === true || !Number.isFinite(n))
+    throw new UsageError(`--${name} must be a number (got ${value === true ? 'nothing' : JSON.stringify(value)})`);
   return n;
 }
 
@@ -69,7 +70,12 @@ export async function main(argv: string[]): Promise<number> {
         if (until === undefined) throw callError('simulate needs --until TAU');
         const out = parsed.flags.get('out');
         const mode = parsed.flags.get('mode');
-        const result = simulate({ scenario: parsed.positional[0], until, out: typeof out === 'string' ? out : undefined, mode: typeof mode === 'string' ? mode : undefined });
+        const result = simulate({
+          scenario: parsed.positional[0],
+          until,
+          out: typeof out === 'string' ? out : undefined,
+          mode: typeof mode === 'string' ? mode : undefined,
+        });
         process.stdout.write(`${JSON.stringify(result)}\n`);
         return result.status === 'halted' ? 3 : 0;
       }

@@ -11,7 +11,12 @@ export class Progress {
   /** Where this process started (a resumed run starts part way): the ETA uses only the rate seen here. */
   private firstDone: number | null = null;
 
-  constructor(private readonly label: string, private readonly total: number, private readonly stream: NodeJS.WriteStream = process.stderr, private readonly lineEverySeconds = 60) {}
+  constructor(
+    private readonly label: string,
+    private readonly total: number,
+    private readonly stream: NodeJS.WriteStream = process.stderr,
+    private readonly lineEverySeconds = 60,
+  ) {}
 
   update(done: number, detail = ''): void {
     this.firstDone ??= done;

@@ -5,7 +5,6 @@ import { builtInScenarioNames, builtInScenarioRaw } from '../src/scenarios/index
 import { InputError } from '../src/util/input-error.js';
 import { jsonErrorOffset } from './json-error-offset.js';
 
-
 /** Parse JSON text, turning a syntax error into an InputError whose source is the file, with the line. */
 export function parseJsonText(text: string, source: string): unknown {
   try {

@@ -36,7 +36,8 @@ function parseRange(text: string, names: ArgumentNames): { min?: number; max?: n
     return value;
   };
   const range = { min: side(match[1], 'MIN'), max: side(match[2], 'MAX') };
-  if (range.min !== undefined && range.max !== undefined && !(range.min < range.max)) throw new InputError(names.range, `MIN must be below MAX (got ${text})`);
+  if (range.min !== undefined && range.max !== undefined && !(range.min < range.max))
+    throw new InputError(names.range, `MIN must be below MAX (got ${text})`);
   return range;
 }
 
@@ -54,17 +55,27 @@ export function predict(args: PredictArgs): PredictOutput {
  * predict on a scenario already read from `source` (named in errors about the scenario), with
  * errors about the arguments worded in `names` (the command line's flags or the API's query fields).
  */
-export function predictScenario(scenario: Scenario, source: string, args: Omit<PredictArgs, 'scenario'>, names: ArgumentNames): PredictOutput {
+export function predictScenario(
+  scenario: Scenario,
+  source: string,
+  args: Omit<PredictArgs, 'scenario'>,
+  names: ArgumentNames,
+): PredictOutput {
   const model = new GuideModel(scenario);
   if (model.size > CATALOGUE_SIZE_LIMIT) {
-    throw new InputError('', `${scenario.nodes} nodes x ${model.modes} modes give ${model.size} slow variables; predict handles at most ${CATALOGUE_SIZE_LIMIT}`, { source });
+    throw new InputError(
+      '',
+      `${scenario.nodes} nodes x ${model.modes} modes give ${model.size} slow variables; predict handles at most ${CATALOGUE_SIZE_LIMIT}`,
+      { source },
+    );
   }
   const parameter = args.continueIn !== undefined ? continuationArgument(args.continueIn, model.params, names) : null;
   const range = args.range !== undefined ? parseRange(args.range, names) : undefined;
   const needsParameter = (name: string) => callError(`${name} needs ${names.given(names.continueIn, 'PARAM')}`);
   if (range && !parameter) throw needsParameter(names.range);
   if (args.pattern !== undefined && !parameter) throw needsParameter(names.pattern);
-  if (args.maxSteps !== undefined && (!Number.isInteger(args.maxSteps) || args.maxSteps < 1)) throw new UsageError(`${names.maxSteps} must be a positive integer (got ${args.maxSteps})`);
+  if (args.maxSteps !== undefined && (!Number.isInteger(args.maxSteps) || args.maxSteps < 1))
+    throw new UsageError(`${names.maxSteps} must be a positive integer (got ${args.maxSteps})`);
 
   const started = Date.now();
   const initial = initialRotatingState(scenario, model.params);
@@ -83,10 +94,15 @@ export function predictScenario(scenario: Scenario, source: string, args: Omit<P
     group: catalogue.group,
     parts: catalogue.parts,
     notes: {
-      units: 'eigenvalues, margins and rotation rates are in slow time (per unit eps tau); timeConstant = 1/|margin| in slow time, tau, carrier periods and seconds',
-      seconds: scenario.units.nominalFrequencyAssumed ? ASSUMED_FREQUENCY_NOTE : `seconds at the scenario's nominal frequency, ${scenario.units.nominalFrequencyHz} Hz`,
-      mirror: 'rotations and phase shifts make copies of a pattern (one entry; candidate.conjugates counts them); a reflection makes its mirror image (a rotating wave q becomes N - q), an entry of its own linked through mirror.partner, or mirror.relation "self" when the image is a copy',
-      marginal: 'a pattern is marginal when |margin| <= marginTolerance = eps rateScale K / omega_min + 1e-8 max(1, rateScale), K the coupling rate: the first-order guiding system cannot resolve its sign',
+      units:
+        'eigenvalues, margins and rotation rates are in slow time (per unit eps tau); timeConstant = 1/|margin| in slow time, tau, carrier periods and seconds',
+      seconds: scenario.units.nominalFrequencyAssumed
+        ? ASSUMED_FREQUENCY_NOTE
+        : `seconds at the scenario's nominal frequency, ${scenario.units.nominalFrequencyHz} Hz`,
+      mirror:
+        'rotations and phase shifts make copies of a pattern (one entry; candidate.conjugates counts them); a reflection makes its mirror image (a rotating wave q becomes N - q), an entry of its own linked through mirror.partner, or mirror.relation "self" when the image is a copy',
+      marginal:
+        'a pattern is marginal when |margin| <= marginTolerance = eps rateScale K / omega_min + 1e-8 max(1, rateScale), K the coupling rate: the first-order guiding system cannot resolve its sign',
     },
     patterns: catalogue.patterns.map((p, index) => ({ index, ...p })),
     initial: {
@@ -118,7 +134,12 @@ export function predictScenario(scenario: Scenario, source: string, args: Omit<P
     result.continuation = {
       parameter: args.continueIn!,
       syntax: CONTINUATION_SYNTAX,
-      pattern: { index: chosen, kind: catalogue.patterns[chosen].kind, q: catalogue.patterns[chosen].q ?? null, mode: catalogue.patterns[chosen].mode },
+      pattern: {
+        index: chosen,
+        kind: catalogue.patterns[chosen].kind,
+        q: catalogue.patterns[chosen].q ?? null,
+        mode: catalogue.patterns[chosen].mode,
+      },
       ...summariseBranch(branch),
     } satisfies ContinuationOutput;
   }
@@ -126,7 +147,12 @@ export function predictScenario(scenario: Scenario, source: string, args: Omit<P
   return result;
 }
 
-function choosePattern(patterns: readonly CataloguePattern[], requested: number | undefined, settled: number, names: ArgumentNames): number {
+function choosePattern(
+  patterns: readonly CataloguePattern[],
+  requested: number | undefined,
+  settled: number,
+  names: ArgumentNames,
+): number {
   if (patterns.length === 0) throw new UsageError('the catalogue holds no locked pattern to continue');
   if (requested !== undefined) {
     if (!Number.isInteger(requested) || requested < 0 || requested >= patterns.length) {
@@ -139,7 +165,8 @@ function choosePattern(patterns: readonly CataloguePattern[], requested: number 
   patterns.forEach((p, i) => {
     if (p.stable === true && (best < 0 || p.margin < patterns[best].margin)) best = i;
   });
-  if (best < 0) throw new UsageError(`no stable pattern to continue and the initial state does not settle; choose one with ${names.pattern} INDEX`);
+  if (best < 0)
+    throw new UsageError(`no stable pattern to continue and the initial state does not settle; choose one with ${names.pattern} INDEX`);
   return best;
 }
 

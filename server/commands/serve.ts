@@ -60,7 +60,11 @@ export async function serve(options: ServeOptions = {}): Promise<RunningServer> 
   await live.ready;
   live.on('log-error', (error: Error) => process.stderr.write(`syncring: ${error.message}\n`));
   let port = 0;
-  const policy: OriginPolicy = { allowedHosts: [], allowedOrigins: options.allowedOrigins ?? [], anyHost: host === '0.0.0.0' || host === '::' };
+  const policy: OriginPolicy = {
+    allowedHosts: [],
+    allowedOrigins: options.allowedOrigins ?? [],
+    anyHost: host === '0.0.0.0' || host === '::',
+  };
   const hub = new Hub(live, { token, port: () => port, policy, ...options.limits });
   const { app, close: closeApp } = createApp(live, () => hub.viewers, { soaksDir, control: { token, policy, port: () => port } });
   const server: Server = createServer(app);

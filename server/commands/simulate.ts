@@ -28,7 +28,8 @@ const MAX_LOGGED_SAMPLES = 2000;
 export function simulate(args: SimulateArgs): Record<string, unknown> {
   if (!(args.until > 0) || !Number.isFinite(args.until)) throw new UsageError(`--until must be a positive number (got ${args.until})`);
   const requested = (args.mode ?? 'auto') as IntegratorRequest;
-  if (!INTEGRATOR_REQUESTS.includes(requested)) throw new UsageError(`--mode must be one of ${INTEGRATOR_REQUESTS.join(', ')} (got ${JSON.stringify(args.mode)})`);
+  if (!INTEGRATOR_REQUESTS.includes(requested))
+    throw new UsageError(`--mode must be one of ${INTEGRATOR_REQUESTS.join(', ')} (got ${JSON.stringify(args.mode)})`);
   const { scenario } = loadScenario(args.scenario);
   const session = new CoSimulation(scenario, { integrator: requested });
   const log = args.out ? new NdjsonFile(args.out) : null;
@@ -79,7 +80,9 @@ function integratorReport(session: CoSimulation, requested: IntegratorRequest): 
     mode,
     reason,
     noiseModel,
-    ...(noiseModel === 'averaged-diffusion' ? { noiseNote: 'averaged diffusion of the slow variables: statistically, not pathwise, equivalent to micro-stepping' } : {}),
+    ...(noiseModel === 'averaged-diffusion'
+      ? { noiseNote: 'averaged diffusion of the slow variables: statistically, not pathwise, equivalent to micro-stepping' }
+      : {}),
     ticks: { ...ticksIn },
     method:
       ran > 1

@@ -14,9 +14,7 @@ import { registerSoakControl, type SoakControlOptions } from './soak-control.js'
  * Where `vite build` puts the dashboard: dist/web beside dist/server, also when the server runs
  * from its TypeScript sources (tests), whose ../../web/ would be the unbuilt sources.
  */
-export const WEB_ROOT = fileURLToPath(
-  new URL(import.meta.url.endsWith('.ts') ? '../../dist/web/' : '../../web/', import.meta.url),
-);
+export const WEB_ROOT = fileURLToPath(new URL(import.meta.url.endsWith('.ts') ? '../../dist/web/' : '../../web/', import.meta.url));
 
 /**
  * HTTP side: the built dashboard and a small JSON API.
@@ -29,7 +27,11 @@ export const WEB_ROOT = fileURLToPath(
  *   GET /api/campaigns, POST /api/soaks[/NAME/stop|resume]   starting soaks (soak-control.ts)
  * It returns the app with `close`, which stops the worker threads behind the slow endpoints.
  */
-export function createApp(live: LiveSession, viewers: () => number, options: { soaksDir?: string; control?: SoakControlOptions } = {}): { app: Express; close(): Promise<void> } {
+export function createApp(
+  live: LiveSession,
+  viewers: () => number,
+  options: { soaksDir?: string; control?: SoakControlOptions } = {},
+): { app: Express; close(): Promise<void> } {
   const app = express();
   app.disable('x-powered-by');
   const background: { close(): Promise<void> }[] = [];

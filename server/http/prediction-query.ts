@@ -21,7 +21,12 @@ export function whatIfArguments(req: Request, params: ModelParameters): Predicti
     if (error instanceof InputError) throw new HttpError(400, error.message, 'param');
     throw error;
   }
-  return { continueIn: param.trim(), pattern: integerQuery(req, 'pattern', 0), range: oneText(req, 'range'), maxSteps: integerQuery(req, 'maxSteps', 1) };
+  return {
+    continueIn: param.trim(),
+    pattern: integerQuery(req, 'pattern', 0),
+    range: oneText(req, 'range'),
+    maxSteps: integerQuery(req, 'maxSteps', 1),
+  };
 }
 
 function oneText(req: Request, name: string): string | undefined {
@@ -35,6 +40,7 @@ function integerQuery(req: Request, name: string, min: number): number | undefin
   const text = oneText(req, name);
   if (text === undefined) return undefined;
   const value = Number(text);
-  if (text.trim() === '' || !Number.isInteger(value) || value < min) throw new HttpError(400, `${name} must be an integer >= ${min} (got ${JSON.stringify(text)})`, name);
+  if (text.trim() === '' || !Number.isInteger(value) || value < min)
+    throw new HttpError(400, `${name} must be an integer >= ${min} (got ${JSON.stringify(text)})`, name);
   return value;
 }

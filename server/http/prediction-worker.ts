@@ -35,7 +35,8 @@ function answer({ id, scenario, args }: PredictionRequest & { id: number }): Wor
   try {
     return { id, ok: true, value: predictScenario(parseScenario(scenario, LIVE_SCENARIO), LIVE_SCENARIO, args, QUERY_NAMES) };
   } catch (error) {
-    const failure = error instanceof InputError ? HttpError.fromInput(error) : new HttpError(500, `prediction failed: ${(error as Error).message}`);
+    const failure =
+      error instanceof InputError ? HttpError.fromInput(error) : new HttpError(500, `prediction failed: ${(error as Error).message}`);
     return { id, ok: false, error: failure.toData() };
   }
 }

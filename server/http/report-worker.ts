@@ -24,7 +24,8 @@ port.on('message', ({ id, dir }: ReportRequest & { id: number }) => {
     reply = { id, ok: true, value: reportHtml(loadReportData(dir)) };
   } catch (error) {
     const message = (error as Error).message;
-    const failure = error instanceof UsageError ? new HttpError(404, message) : new HttpError(500, `the report could not be made: ${message}`);
+    const failure =
+      error instanceof UsageError ? new HttpError(404, message) : new HttpError(500, `the report could not be made: ${message}`);
     reply = { id, ok: false, error: failure.toData() };
   }
   port.postMessage(reply);

@@ -50,11 +50,19 @@ export function registerSoakApi(app: Express, soaksDir: string): { close(): Prom
 
   app.get('/api/soaks', async (_req, res) => {
     if (!existsSync(root)) {
-      res.json({ dir: root, soaks: [], note: `no soaks folder yet: soaks written with --out ${join(root, 'NAME')} show up here` } satisfies SoaksResponse);
+      res.json({
+        dir: root,
+        soaks: [],
+        note: `no soaks folder yet: soaks written with --out ${join(root, 'NAME')} show up here`,
+      } satisfies SoaksResponse);
       return;
     }
-    const names = (await readdir(root, { withFileTypes: true })).filter((d) => d.isDirectory() && SAFE_NAME.test(d.name)).map((d) => d.name);
-    const soaks = (await Promise.all(names.map((name) => listSoak(root, name, reader, tailOf)))).filter((s): s is SoakListing => s !== null);
+    const names = (await readdir(root, { withFileTypes: true }))
+      .filter((d) => d.isDirectory() && SAFE_NAME.test(d.name))
+      .map((d) => d.name);
+    const soaks = (await Promise.all(names.map((name) => listSoak(root, name, reader, tailOf)))).filter(
+      (s): s is SoakListing => s !== null,
+    );
     soaks.sort((a, b) => b.updatedAt.localeCompare(a.updatedAt) || a.name.localeCompare(b.name));
     res.json({ dir: root, soaks } satisfies SoaksResponse);
   });
@@ -63,7 +71,10 @@ export function registerSoakApi(app: Express, soaksDir: string): { close(): Prom
     const name = req.params.name;
     const dir = join(root, name);
     if (!SAFE_NAME.test(name) || !existsSync(dir)) {
-      res.status(404).type('text/plain').send(`no soak named ${JSON.stringify(name)} in ${root}\n`);
+      res
+        .status(404)
+        .type('text/plain')
+        .send(`no soak named ${JSON.stringify(name)} in ${root}\n`);
       return;
     }
     const file = join(dir, REPORT_FILE);
@@ -73,17 +84,28 @@ export function registerSoakApi(app: Express, soaksDir: string): { close(): Prom
       return;
     }
     try {
-      res.set('Cache-Control', 'no-store').type('html').send(await worker.request({ dir }));
+      res
+        .set('Cache-Control', 'no-store')
+        .type('html')
+        .send(await worker.request({ dir }));
     } catch (error) {
       const status = httpErrorOf(error).status;
-      res.status(status).type('text/plain').send(`${(error as Error).message}\n`);
+      res
+        .status(status)
+        .type('text/plain')
+        .send(`${(error as Error).message}\n`);
     }
   });
 
   return { close: () => worker.close() };
 }
 
-async function listSoak(root: string, name: string, reader: JsonFileCache, tailOf: (dir: string) => VerdictTail): Promise<SoakListing | null> {
+async function listSoak(
+  root: string,
+  name: string,
+  reader: JsonFileCache,
+  tailOf: (dir: string) => VerdictTail,
+): Promise<SoakListing | null> {
   const dir = join(root, name);
   const problems: string[] = [];
   const read = async <T>(file: string, narrow: (value: unknown) => T | null, what: string): Promise<T | null> => {
@@ -107,7 +129,8 @@ async function listSoak(root: string, name: string, reader: JsonFileCache, tailO
   if (!status && !summary && !start && problems.length === 0) return null;
   const launch = start ? launchOf(start) : null;
   const state = stateOf({ status, summary, start });
-  if (state === 'unknown' && launch && !status && !summary) problems.push(`the soak process ended before its first status: ${lastLine(join(dir, SOAK_ERR)) ?? `${SOAK_ERR} is empty`}`);
+  if (state === 'unknown' && launch && !status && !summary)
+    problems.push(`the soak process ended before its first status: ${lastLine(join(dir, SOAK_ERR)) ?? `${SOAK_ERR} is empty`}`);
   // Until the summary exists, the log has the full verdicts (status.json only ids and outcomes).
   let running: FaultVerdict[] = [];
   if (!summary) {
@@ -124,7 +147,15 @@ async function listSoak(root: string, name: string, reader: JsonFileCache, tailO
     name,
     state,
     progress: status
-      ? { tau: status.tau, until: status.until, slowTime: status.slowTime, slowUntil: status.slowUntil, fraction: status.fraction, eta: status.eta, wallSeconds: status.wallSeconds }
+      ? {
+          tau: status.tau,
+          until: status.until,
+          slowTime: status.slowTime,
+          slowUntil: status.slowUntil,
+          fraction: status.fraction,
+          eta: status.eta,
+          wallSeconds: status.wallSeconds,
+        }
       : null,
     faults: status?.faults ?? null,
     pass: summary?.pass ?? null,
@@ -132,7 +163,10 @@ async function listSoak(root: string, name: string, reader: JsonFileCache, tailO
     scenario: summary?.scenario ?? null,
     campaign: summary?.campaign ?? null,
     epsilon: summary?.timeBase.epsilon ?? (status && status.tau ? status.slowTime / status.tau : null),
-    nominalFrequency: nominal && typeof nominal.nominalFrequencyHz === 'number' ? { hz: nominal.nominalFrequencyHz, assumed: nominal.nominalFrequencyAssumed === true } : null,
+    nominalFrequency:
+      nominal && typeof nominal.nominalFrequencyHz === 'number'
+        ? { hz: nominal.nominalFrequencyHz, assumed: nominal.nominalFrequencyAssumed === true }
+        : null,
     verdicts: rows.slice(-VERDICTS_LISTED),
     verdictsTotal: rows.length,
     updatedAt: status?.updatedAt ?? new Date(0).toISOString(),
@@ -143,13 +177,24 @@ async function listSoak(root: string, name: string, reader: JsonFileCache, tailO
 }
 
 function launchOf(start: StartRecord): SoakListing['launch'] {
-  return { scenario: start.scenario, campaign: start.campaign, untilSlow: start.untilSlow, pace: start.pace, runs: start.runs.length, alive: processAlive(start.pid) };
+  return {
+    scenario: start.scenario,
+    campaign: start.campaign,
+    untilSlow: start.untilSlow,
+    pace: start.pace,
+    runs: start.runs.length,
+    alive: processAlive(start.pid),
+  };
 }
 
 /** The last non-empty line of a small text file (a soak's stderr), or null. */
 function lastLine(path: string): string | null {
   try {
-    const lines = readFileSync(path, 'utf8').slice(-4000).split('\n').map((l) => l.trim()).filter(Boolean);
+    const lines = readFileSync(path, 'utf8')
+      .slice(-4000)
+      .split('\n')
+      .map((l) => l.trim())
+      .filter(Boolean);
     return lines.at(-1) ?? null;
   } catch {
     return null;

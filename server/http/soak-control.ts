@@ -88,7 +88,8 @@ function answerFor(error: unknown): unknown {
   if (error instanceof InputError) return HttpError.fromInput(error);
   const e = error as { status?: number; type?: string; message?: string };
   if (e.type === 'entity.parse.failed') return new HttpError(400, `body: not valid JSON (${e.message})`, 'body');
-  if (e.type === 'entity.too.large') return new HttpError(413, `body: larger than ${BODY_LIMIT}; a soak request is a few short fields`, 'body');
+  if (e.type === 'entity.too.large')
+    return new HttpError(413, `body: larger than ${BODY_LIMIT}; a soak request is a few short fields`, 'body');
   if (typeof e.status === 'number' && e.status >= 400 && e.status < 500) return new HttpError(e.status, `body: ${e.message}`, 'body');
   return error;
 }
@@ -100,11 +101,18 @@ function startRequest(body: unknown, fallbackScenario: string | null): LaunchReq
   const name = checks.required(obj, 'name', '');
   if (typeof name !== 'string') throw badField('name', `must be a string (got ${describeValue(name)})`);
   if (name.length > NAME_MAX || !SAFE_NAME.test(name)) {
-    throw badField('name', `must be 1 to ${NAME_MAX} letters, digits, '.', '_' or '-', starting with a letter or digit (got ${describeValue(name)})`);
+    throw badField(
+      'name',
+      `must be 1 to ${NAME_MAX} letters, digits, '.', '_' or '-', starting with a letter or digit (got ${describeValue(name)})`,
+    );
   }
   let scenario: unknown = obj.scenario;
   if (!has(obj, 'scenario')) {
-    if (fallbackScenario === null) throw badField('scenario', `is required (the live session does not run a built-in scenario); one of ${builtInScenarioNames.join(', ')}`);
+    if (fallbackScenario === null)
+      throw badField(
+        'scenario',
+        `is required (the live session does not run a built-in scenario); one of ${builtInScenarioNames.join(', ')}`,
+      );
     scenario = fallbackScenario;
   }
   if (typeof scenario !== 'string' || !builtInScenarioNames.includes(scenario)) {
@@ -134,7 +142,10 @@ function paceField(obj: JsonObject): number | null | undefined {
   const pace = obj.pace;
   if (pace === null) return null;
   if (typeof pace !== 'number' || !Number.isFinite(pace) || !(pace > 0)) {
-    throw badField('pace', `must be a positive number of slow time units per second, or null for as fast as possible (got ${describeValue(pace)})`);
+    throw badField(
+      'pace',
+      `must be a positive number of slow time units per second, or null for as fast as possible (got ${describeValue(pace)})`,
+    );
   }
   return pace;
 }

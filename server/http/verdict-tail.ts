@@ -37,7 +37,11 @@ export class VerdictTail {
       // Split on the last newline in bytes, so a character cut by the end of the read stays whole.
       const joined = Buffer.concat([seen.rest, bytes.subarray(0, bytesRead)]);
       const end = joined.lastIndexOf(0x0a);
-      for (const line of joined.subarray(0, end + 1).toString('utf8').split('\n')) this.take(line);
+      for (const line of joined
+        .subarray(0, end + 1)
+        .toString('utf8')
+        .split('\n'))
+        this.take(line);
       this.files.set(path, { offset: seen.offset + bytesRead, rest: Buffer.from(joined.subarray(end + 1)) });
     } finally {
       await handle.close();
@@ -48,7 +52,8 @@ export class VerdictTail {
     if (!line.startsWith(VERDICT_LINE)) return;
     try {
       const record = JSON.parse(line) as { seq?: unknown; verdict?: FaultVerdict };
-      if (typeof record.seq === 'number' && record.verdict && typeof record.verdict === 'object') this.bySeq.set(record.seq, record.verdict);
+      if (typeof record.seq === 'number' && record.verdict && typeof record.verdict === 'object')
+        this.bySeq.set(record.seq, record.verdict);
     } catch {
       // a corrupt line: the report and --resume name it; the listing just skips it
     }

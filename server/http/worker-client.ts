@@ -27,7 +27,10 @@ export class BackgroundWorker<TRequest extends object, TValue> {
   private readonly pending = new Map<number, { resolve: (value: TValue) => void; reject: (error: Error) => void }>();
   private closed = false;
 
-  constructor(private readonly url: URL, private readonly label: string) {}
+  constructor(
+    private readonly url: URL,
+    private readonly label: string,
+  ) {}
 
   request(message: TRequest): Promise<TValue> {
     if (this.closed) return Promise.reject(new Error(`the ${this.label} worker is closed`));

@@ -71,7 +71,9 @@ export class LiveSession extends EventEmitter {
     };
     if ((options.thread ?? 'worker') === 'worker') {
       this.worker = new Worker(workerUrl(), { workerData: runnerOptions });
-      this.worker.on('message', (message: RunnerOutput | ReplyMessage) => (message.kind === 'reply' ? this.settle(message) : this.receive(message)));
+      this.worker.on('message', (message: RunnerOutput | ReplyMessage) =>
+        message.kind === 'reply' ? this.settle(message) : this.receive(message),
+      );
       this.worker.on('error', (error) => this.emit('log-error', new Error(`simulation worker failed: ${error.message}`)));
     } else {
       this.inThread = new SessionRunner(runnerOptions, (output) => this.receive(output));
@@ -120,7 +122,9 @@ export class LiveSession extends EventEmitter {
     await this.log?.close();
   }
 
-  private request(message: { kind: 'command'; command: ClientCommand; by: string } | { kind: 'run-to-tick'; tick: number }): Promise<ReplyMessage> {
+  private request(
+    message: { kind: 'command'; command: ClientCommand; by: string } | { kind: 'run-to-tick'; tick: number },
+  ): Promise<ReplyMessage> {
     const id = this.nextId++;
     return new Promise((resolve, reject) => {
       this.replies.set(id, { resolve, reject });
@@ -181,9 +185,7 @@ export class LiveSession extends EventEmitter {
     void previous?.close();
     if (!this.options.logDir || this.closed) return;
     this.log = new SessionLog(SessionLog.fileFor(this.options.logDir, label), (error) => this.emit('log-error', error));
-    void this.log
-      .append(logHeader(scenario, scenarioJson, SOFTWARE_VERSION))
-      .catch(() => undefined);
+    void this.log.append(logHeader(scenario, scenarioJson, SOFTWARE_VERSION)).catch(() => undefined);
   }
 }
 

@@ -6,7 +6,15 @@ import { builtInScenarioNames, builtInScenarioRaw } from '../../src/scenarios/in
 import { parsePerturbation } from '../../src/session/perturbation.js';
 import { InputError } from '../../src/util/input-error.js';
 import { sampleOf, type NewLogRecord } from '../../src/protocol/log-records.js';
-import { historyPointOf, type ClientCommand, type HistoryPoint, type RunStatus, type SessionInfo, type Speed, type WireFrame } from '../../src/protocol/messages.js';
+import {
+  historyPointOf,
+  type ClientCommand,
+  type HistoryPoint,
+  type RunStatus,
+  type SessionInfo,
+  type Speed,
+  type WireFrame,
+} from '../../src/protocol/messages.js';
 
 /** What a runner reports; the same stream whether it runs in a worker or in the main thread. */
 export type RunnerOutput =
@@ -50,7 +58,10 @@ export class SessionRunner {
   private sampleEveryTicks = 1;
   private samplesLogged = 0;
 
-  constructor(private readonly options: RunnerOptions, private readonly emit: (output: RunnerOutput) => void) {
+  constructor(
+    private readonly options: RunnerOptions,
+    private readonly emit: (output: RunnerOutput) => void,
+  ) {
     this.speed = options.speed;
     this.frameInterval = 1000 / options.frameRate;
     this.start(parseScenario(options.scenario, 'scenario'));
@@ -85,7 +96,8 @@ export class SessionRunner {
   /** Carry out a command validated by the caller; throws InputError (answering the command's id) when it cannot be done. */
   command(command: ClientCommand, by: string): void {
     if (command.kind === 'perturbation') {
-      if (this.status === 'halted') throw new InputError('action', 'the run is halted after a blow-up; reset or load a scenario first', { requestId: command.id });
+      if (this.status === 'halted')
+        throw new InputError('action', 'the run is halted after a blow-up; reset or load a scenario first', { requestId: command.id });
       // validated again here: the caller's copy of the network may be one scenario behind
       try {
         this.session.enqueue(parsePerturbation(command.perturbation, this.session.params), by);
@@ -101,13 +113,17 @@ export class SessionRunner {
         if (this.status === 'running') this.setStatus('paused', by);
         return;
       case 'resume':
-        if (this.status === 'halted') throw new InputError('action', 'the run is halted after a blow-up; reset it first', { requestId: command.id });
+        if (this.status === 'halted')
+          throw new InputError('action', 'the run is halted after a blow-up; reset it first', { requestId: command.id });
         if (this.status === 'paused') this.setStatus('running', by);
         return;
       case 'set-speed':
         this.speed = command.speed;
         this.resetPace();
-        this.announce(`speed set to ${command.speed === 'max' ? 'as fast as possible' : `${command.speed} slow-time units per second`}`, by);
+        this.announce(
+          `speed set to ${command.speed === 'max' ? 'as fast as possible' : `${command.speed} slow-time units per second`}`,
+          by,
+        );
         return;
       case 'reset':
         this.start(this.scenario);
@@ -115,11 +131,18 @@ export class SessionRunner {
         return;
       case 'load-scenario': {
         if (command.name !== undefined && !builtInScenarioNames.includes(command.name)) {
-          throw new InputError('name', `no built-in scenario ${JSON.stringify(command.name)} (available: ${builtInScenarioNames.join(', ')})`, { requestId: command.id });
+          throw new InputError(
+            'name',
+            `no built-in scenario ${JSON.stringify(command.name)} (available: ${builtInScenarioNames.join(', ')})`,
+            { requestId: command.id },
+          );
         }
         let scenario: Scenario;
         try {
-          scenario = command.name !== undefined ? parseScenario(builtInScenarioRaw(command.name), `built-in scenario ${command.name}`) : parseScenario(command.scenario);
+          scenario =
+            command.name !== undefined
+              ? parseScenario(builtInScenarioRaw(command.name), `built-in scenario ${command.name}`)
+              : parseScenario(command.scenario);
         } catch (error) {
           // the scenario's fields lie inside the command's field `scenario`
           if (error instanceof InputError) throw error.under('scenario').answering(command.id);
@@ -217,7 +240,10 @@ export class SessionRunner {
   }
 
   private checkpoint(): void {
-    this.emit({ kind: 'log', record: { record: 'checkpoint', tau: this.session.tau, tick: this.session.tick, state: this.session.fullState() } });
+    this.emit({
+      kind: 'log',
+      record: { record: 'checkpoint', tau: this.session.tau, tick: this.session.tick, state: this.session.fullState() },
+    });
   }
 
   private publish(event: SessionEvent): void {

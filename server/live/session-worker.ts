@@ -13,22 +13,30 @@ const port = parentPort;
 const runner = new SessionRunner(workerData as RunnerOptions, (output) => port.postMessage(output));
 port.postMessage({ kind: 'status', info: runner.info(), tau: runner.session.tau, tick: runner.session.tick });
 
-port.on('message', (message: { kind: 'command'; id: number; command: ClientCommand; by: string } | { kind: 'stop' } | { kind: 'run-to-tick'; id: number; tick: number }) => {
-  if (message.kind === 'stop') {
-    runner.stop();
-    port.close();
-    return;
-  }
-  if (message.kind === 'run-to-tick') {
-    runner.runToTick(message.tick);
-    port.postMessage({ kind: 'reply', id: message.id, checkpoint: runner.session.checkpoint() });
-    return;
-  }
-  try {
-    runner.command(message.command, message.by);
-    port.postMessage({ kind: 'reply', id: message.id });
-  } catch (error) {
-    if (!(error instanceof InputError)) throw error;
-    port.postMessage({ kind: 'reply', id: message.id, error: error.toData() });
-  }
-});
+port.on(
+  'message',
+  (
+    message:
+      | { kind: 'command'; id: number; command: ClientCommand; by: string }
+      | { kind: 'stop' }
+      | { kind: 'run-to-tick'; id: number; tick: number },
+  ) => {
+    if (message.kind === 'stop') {
+      runner.stop();
+      port.close();
+      return;
+    }
+    if (message.kind === 'run-to-tick') {
+      runner.runToTick(message.tick);
+      port.postMessage({ kind: 'reply', id: message.id, checkpoint: runner.session.checkpoint() });
+      return;
+    }
+    try {
+      runner.command(message.command, message.by);
+      port.postMessage({ kind: 'reply', id: message.id });
+    } catch (error) {
+      if (!(error instanceof InputError)) throw error;
+      port.postMessage({ kind: 'reply', id: message.id, error: error.toData() });
+    }
+  },
+);

@@ -246,7 +246,13 @@ export function readSegments(dir: string, prefix: string): SegmentedRead {
     if (parsed.tornTail > 0) {
       const offset = text.length - parsed.tornTail;
       if (isLast) result.tornTail = { path: file.path, bytes: Buffer.byteLength(text.slice(offset)) };
-      else result.problems.push({ path: file.path, line: starts.length, offset: Buffer.byteLength(text.slice(0, offset)), reason: `segment ends in an unterminated line of ${parsed.tornTail} characters (only the last segment may)` });
+      else
+        result.problems.push({
+          path: file.path,
+          line: starts.length,
+          offset: Buffer.byteLength(text.slice(0, offset)),
+          reason: `segment ends in an unterminated line of ${parsed.tornTail} characters (only the last segment may)`,
+        });
     }
     const ordered = parsed.records;
     for (const record of ordered) result.records.push({ record, segment: file.index });

@@ -12,14 +12,22 @@ import type { NewLogRecord } from '../../src/protocol/log-records.js';
 export class SessionLog {
   private readonly writer: SegmentedLog;
 
-  constructor(readonly path: string, onError: (error: Error) => void = () => {}) {
+  constructor(
+    readonly path: string,
+    onError: (error: Error) => void = () => {},
+  ) {
     this.writer = new SegmentedLog({ segmentPath: () => path, segmentBytes: Infinity, onError, label: 'session log' });
   }
 
   /** A fresh file name in `dir` for a run of `label`. */
   static fileFor(dir: string, label: string, now = new Date()): string {
     const stamp = now.toISOString().replace(/[:.]/g, '-');
-    const safe = label.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 40) || 'run';
+    const safe =
+      label
+        .toLowerCase()
+        .replace(/[^a-z0-9]+/g, '-')
+        .replace(/^-|-$/g, '')
+        .slice(0, 40) || 'run';
     return join(dir, `${stamp}-${safe}.ndjson`);
   }
 

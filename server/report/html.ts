@@ -1,4 +1,11 @@
-import { PHASE_SERIES, SERIES_LABELS, timeErrorOf, type FaultVerdict, type PhaseSeriesName, type SeriesStability } from '../../src/campaign/index.js';
+import {
+  PHASE_SERIES,
+  SERIES_LABELS,
+  timeErrorOf,
+  type FaultVerdict,
+  type PhaseSeriesName,
+  type SeriesStability,
+} from '../../src/campaign/index.js';
 import { describePerturbation } from '../../src/session/perturbation.js';
 import { PASS_CAUTION, PASS_CAUTION_SHORT, SIMULATION_CAUTION, STABILITY_CAUTION } from '../../src/campaign/cautions.js';
 import { ASSUMED_FREQUENCY_NOTE, ASSUMED_FREQUENCY_TAG } from '../../src/scenario/units.js';
@@ -96,7 +103,11 @@ footer { margin-top: 30px; color: #4a5561; }
 function unitText(d: ReportData): { name: string; of: (tau: number) => number; note: string } {
   switch (d.campaignUnit) {
     case 'slow':
-      return { name: 'slow time units (eps tau)', of: (tau) => tau * d.epsilon, note: `one slow time unit is 1/eps = ${fmt(1 / d.epsilon)} tau = ${seconds(d.secondsPerTau / d.epsilon)} ${basis(d)}` };
+      return {
+        name: 'slow time units (eps tau)',
+        of: (tau) => tau * d.epsilon,
+        note: `one slow time unit is 1/eps = ${fmt(1 / d.epsilon)} tau = ${seconds(d.secondsPerTau / d.epsilon)} ${basis(d)}`,
+      };
     case 'seconds':
       return { name: `seconds ${basis(d)}`, of: (tau) => tau * d.secondsPerTau, note: `one second is ${fmt(1 / d.secondsPerTau)} tau` };
     default:
@@ -116,7 +127,8 @@ function keyNumbers(d: ReportData): string {
   if (array) boxes.push(box(`${fmt(array.frequencyOffsetPpb)} ppb`, 'array frequency offset from nominal (mean over the record)'));
   if (single) boxes.push(box(`${fmt(single.frequencyOffsetPpb)} ppb`, 'single part frequency offset from nominal'));
   const benefit = couplingBenefit(st);
-  if (benefit) boxes.push(box(`${fmt(benefit.node)} x`, `Coupled node / uncoupled part (ADEV). ${couplingBenefitText(d, benefit)}`, 'wide'));
+  if (benefit)
+    boxes.push(box(`${fmt(benefit.node)} x`, `Coupled node / uncoupled part (ADEV). ${couplingBenefitText(d, benefit)}`, 'wide'));
   boxes.push(box(seconds(st.span), `stability record (${array?.points ?? 0} samples every ${seconds(st.tau0)})${assumed(d)}`));
   return `<div class="key" data-testid="key-numbers">${boxes.join('')}</div>${caution(STABILITY_CAUTION, 'stability-caution')}`;
 }
@@ -131,7 +143,9 @@ function box(value: string, label: string, kind = ''): string {
  * it. Those two come out nearly alike because most of the array output's gain is plain
  * averaging of the parts, which needs no coupling.
  */
-function couplingBenefit(st: NonNullable<ReportData['stability']>): { tau: number; node: number; ensemble: number; uncoupledEnsemble: number } | null {
+function couplingBenefit(
+  st: NonNullable<ReportData['stability']>,
+): { tau: number; node: number; ensemble: number; uncoupledEnsemble: number } | null {
   const r = st.ratioToSinglePart;
   const at = r ? reliableIndex(st, r.node) : null;
   if (!r || at === null) return null;
@@ -170,7 +184,13 @@ function stabilityPlots(d: ReportData): string {
     [-0.5, 'slope -1/2: white FM'],
     [0, 'slope 0: flicker FM'],
     [0.5, 'slope +1/2: random-walk FM'],
-  ].map(([slope, label]) => ({ points: [[tau0 / 1.5, y0 * (1 / 1.5) ** (slope as number)], [tauMax, y0 * (tauMax / tau0) ** (slope as number)]] as [number, number][], label: label as string }));
+  ].map(([slope, label]) => ({
+    points: [
+      [tau0 / 1.5, y0 * (1 / 1.5) ** (slope as number)],
+      [tauMax, y0 * (tauMax / tau0) ** (slope as number)],
+    ] as [number, number][],
+    label: label as string,
+  }));
   const all = adev.flatMap((c) => Array.from(c.y)).filter((v) => v > 0);
   const yRange: [number, number] = [Math.min(...all) / 2.5, Math.max(...all) * 2.5];
   const adevPlot = linePlot({
@@ -193,10 +213,20 @@ function stabilityPlots(d: ReportData): string {
     yLog: true,
     series: [...tdev, ...mtie],
   });
-  const ratioNote = couplingBenefit(st) ? ' The key numbers above compare one coupled node with a single part: the coupling\'s own benefit.' : '';
+  const ratioNote = couplingBenefit(st)
+    ? " The key numbers above compare one coupled node with a single part: the coupling's own benefit."
+    : '';
   return [
-    figure(adevPlot, `Overlapping ADEV of the array output (mean phase of the coupled nodes), one node inside the array, the uncoupled ensemble average of the same parts, and a single free-running part (same noise, coupling 0). Dashed lines: reference slopes of the power-law noise types through the single part's first point. Samples every ${seconds(st.tau0)}${assumed(d)}; octave-spaced tau up to a third of the record. The record includes the faults: a detuning step or a kick raises the deviations at the tau it spans, so the curves show noise and faults together.${ratioNote}`, true),
-    figure(timePlot, 'TDEV = (tau / sqrt 3) MDEV and MTIE (largest peak-to-peak time error in any window of length tau), in ns. MTIE includes the frequency offset; TDEV does not.', true),
+    figure(
+      adevPlot,
+      `Overlapping ADEV of the array output (mean phase of the coupled nodes), one node inside the array, the uncoupled ensemble average of the same parts, and a single free-running part (same noise, coupling 0). Dashed lines: reference slopes of the power-law noise types through the single part's first point. Samples every ${seconds(st.tau0)}${assumed(d)}; octave-spaced tau up to a third of the record. The record includes the faults: a detuning step or a kick raises the deviations at the tau it spans, so the curves show noise and faults together.${ratioNote}`,
+      true,
+    ),
+    figure(
+      timePlot,
+      'TDEV = (tau / sqrt 3) MDEV and MTIE (largest peak-to-peak time error in any window of length tau), in ns. MTIE includes the frequency offset; TDEV does not.',
+      true,
+    ),
   ].join('');
 }
 
@@ -208,8 +238,19 @@ function timePlots(d: ReportData, unit: ReturnType<typeof unitText>): string {
   const shown = Math.min(nodes, PALETTE.length);
   const phaseSeries: PlotSeries[] = [];
   for (let k = 0; k < shown; k++) {
-    const dec = decimateMinMax(t, d.samples.map((s) => s.phaseDifferences[k]), PLOT_POINTS);
-    phaseSeries.push({ name: `node ${(k + 1) % nodes} - node ${k}`, color: PALETTE[k], x: dec.x, y: dec.y, width: 1.1, breakAbove: Math.PI });
+    const dec = decimateMinMax(
+      t,
+      d.samples.map((s) => s.phaseDifferences[k]),
+      PLOT_POINTS,
+    );
+    phaseSeries.push({
+      name: `node ${(k + 1) % nodes} - node ${k}`,
+      color: PALETTE[k],
+      x: dec.x,
+      y: dec.y,
+      width: 1.1,
+      breakAbove: Math.PI,
+    });
   }
   const phasePlot = linePlot({
     title: 'Neighbour phase differences (mode 0), faults shaded',
@@ -236,15 +277,42 @@ function timePlots(d: ReportData, unit: ReturnType<typeof unitText>): string {
           const x = timeErrorOf(record, name, n, d.nominalFrequencyHz);
           const slope = n > 1 ? (x[n - 1] - x[0]) / (record[n - 1].tau - record[0].tau) : 0;
           const ns = Array.from(x, (v, i) => (detrend ? v - slope * (record[i].tau - record[0].tau) : v) * 1e9);
-          const dec = decimateMinMax(record.slice(0, n).map((s) => unit.of(s.tau)), ns, PLOT_POINTS);
+          const dec = decimateMinMax(
+            record.slice(0, n).map((s) => unit.of(s.tau)),
+            ns,
+            PLOT_POINTS,
+          );
           return { name: SERIES_SHORT[name], color: SERIES_COLORS[name], x: dec.x, y: dec.y, width: 1.3 };
         });
-  const tePlot = linePlot({ title: 'Time error against the nominal frequency', xLabel: `time (${unit.name})`, yLabel: `time error (ns${assumedAside(d)})`, series: te(false), bands });
-  const wanderPlot = linePlot({ title: 'Time error with each series\' mean frequency offset removed', xLabel: `time (${unit.name})`, yLabel: `time error, offset removed (ns${assumedAside(d)})`, series: te(true), bands });
+  const tePlot = linePlot({
+    title: 'Time error against the nominal frequency',
+    xLabel: `time (${unit.name})`,
+    yLabel: `time error (ns${assumedAside(d)})`,
+    series: te(false),
+    bands,
+  });
+  const wanderPlot = linePlot({
+    title: "Time error with each series' mean frequency offset removed",
+    xLabel: `time (${unit.name})`,
+    yLabel: `time error, offset removed (ns${assumedAside(d)})`,
+    series: te(true),
+    bands,
+  });
   return [
-    figure(phasePlot, `Phase of node k+1 minus node k of the full system, wrapped to (-pi, pi]. Shaded: each fault from its application to its restore (instantaneous kicks as thin bars), labelled with its id (yellow: passed, red: failed). ${capitalize(unit.note)}.${nodes > shown ? ` The first ${shown} of ${nodes} differences are drawn.` : ''}`),
-    figure(tePlot, `Time error x(t) = (phi(t) - phi(start)) / (2 pi f0) of each series, in ns, from the start of the stability record (the first lock unless the campaign says otherwise). Its slope is the frequency offset: 1 ppb is 1 ns per second.`, true),
-    figure(wanderPlot, 'The same with each series\' straight-line offset (first to last point) removed, to show the wander the noise and the faults leave.', true),
+    figure(
+      phasePlot,
+      `Phase of node k+1 minus node k of the full system, wrapped to (-pi, pi]. Shaded: each fault from its application to its restore (instantaneous kicks as thin bars), labelled with its id (yellow: passed, red: failed). ${capitalize(unit.note)}.${nodes > shown ? ` The first ${shown} of ${nodes} differences are drawn.` : ''}`,
+    ),
+    figure(
+      tePlot,
+      `Time error x(t) = (phi(t) - phi(start)) / (2 pi f0) of each series, in ns, from the start of the stability record (the first lock unless the campaign says otherwise). Its slope is the frequency offset: 1 ppb is 1 ns per second.`,
+      true,
+    ),
+    figure(
+      wanderPlot,
+      "The same with each series' straight-line offset (first to last point) removed, to show the wander the noise and the faults leave.",
+      true,
+    ),
   ].join('');
 }
 
@@ -253,7 +321,12 @@ function faultBands(d: ReportData, unit: ReturnType<typeof unitText>): PlotBand[
     const from = unit.of(v.appliedAt);
     const to = unit.of(v.restoredAt ?? v.appliedAt);
     const outcome = outcomeOf(v);
-    return { from, to: Math.max(to, from), label: v.id, color: outcome === 'pass' ? '#d1a000' : outcome === 'fail' ? '#c0392b' : '#8a939c' };
+    return {
+      from,
+      to: Math.max(to, from),
+      label: v.id,
+      color: outcome === 'pass' ? '#d1a000' : outcome === 'fail' ? '#c0392b' : '#8a939c',
+    };
   });
 }
 
@@ -273,34 +346,55 @@ function outcomeOf(v: FaultVerdict): FaultVerdict['outcome'] {
 function verdictRow(v: FaultVerdict, d: ReportData, unit: ReturnType<typeof unitText>): string {
   const what = perturbationText(v, d.epsilon);
   const outcome = outcomeOf(v);
-  const relock = v.became.length === 0 && v.recovered ? 'never lost' : v.recovered && v.timeToRelock ? `after ${fmt(unit.of(v.timeToRelock.tau))} (${seconds(v.timeToRelock.seconds)})` : v.complete ? 'no' : 'not yet';
+  const relock =
+    v.became.length === 0 && v.recovered
+      ? 'never lost'
+      : v.recovered && v.timeToRelock
+        ? `after ${fmt(unit.of(v.timeToRelock.tau))} (${seconds(v.timeToRelock.seconds)})`
+        : v.complete
+          ? 'no'
+          : 'not yet';
   const prediction =
-    v.prediction.persists === null ? 'none' : `${v.prediction.source === 'frame' ? 'live prediction' : 'guide'}: ${v.prediction.persists ? 'persists' : 'lost'}, ${v.prediction.agreed === null ? 'not yet judged' : v.prediction.agreed ? 'agreed' : 'disagreed'}`;
+    v.prediction.persists === null
+      ? 'none'
+      : `${v.prediction.source === 'frame' ? 'live prediction' : 'guide'}: ${v.prediction.persists ? 'persists' : 'lost'}, ${v.prediction.agreed === null ? 'not yet judged' : v.prediction.agreed ? 'agreed' : 'disagreed'}`;
   const persisted = v.persisted ? 'yes' : v.slipped ? 'no (slip)' : v.became.length > 0 ? 'no' : v.settled === false ? 'not settled' : 'no';
   const rowClass = outcome === 'fail' ? 'fail' : outcome === 'incomplete' ? 'open' : '';
-  const remarks = [...v.reasons.map((r) => `<span class="reasons">${esc(r)}</span>`), ...(v.notes ?? []).map((n) => `<span class="small">${esc(n)}</span>`)];
+  const remarks = [
+    ...v.reasons.map((r) => `<span class="reasons">${esc(r)}</span>`),
+    ...(v.notes ?? []).map((n) => `<span class="small">${esc(n)}</span>`),
+  ];
   const under = remarks.length > 0 ? `<tr class="${rowClass}"><td></td><td colspan="10">${remarks.join('<br>')}</td></tr>` : '';
-  return `<tr class="${rowClass}"><td><b>${esc(v.id)}</b> <span class="small">(${v.source})</span><br><span class="small">${esc(v.before)}</span></td><td>${esc(what)}</td>` +
+  return (
+    `<tr class="${rowClass}"><td><b>${esc(v.id)}</b> <span class="small">(${v.source})</span><br><span class="small">${esc(v.before)}</span></td><td>${esc(what)}</td>` +
     `<td class="num">${fmt(unit.of(v.appliedAt))}</td><td class="num">${v.restoredAt === null ? '-' : fmt(unit.of(v.restoredAt))}</td>` +
     `<td class="${v.persisted ? 'ok' : outcome === 'incomplete' ? 'open' : 'bad'}">${persisted}</td>` +
     `<td>${esc(v.became.join(', ') || '-')}</td><td>${esc(relock)}</td><td class="num">${fmt(v.maxPhaseExcursion)}</td>` +
     `<td class="num">${fmt(v.divergence.before)} &rarr; ${fmt(v.divergence.max)}</td><td>${esc(prediction)}</td>` +
-    `<td class="${outcome === 'pass' ? 'ok' : outcome === 'fail' ? 'bad' : 'open'}">${outcome.toUpperCase()}${outcome === 'pass' ? `<span class="caution">${esc(PASS_CAUTION_SHORT)}</span>` : ''}</td></tr>${under}`;
+    `<td class="${outcome === 'pass' ? 'ok' : outcome === 'fail' ? 'bad' : 'open'}">${outcome.toUpperCase()}${outcome === 'pass' ? `<span class="caution">${esc(PASS_CAUTION_SHORT)}</span>` : ''}</td></tr>${under}`
+  );
 }
 
 function stabilityTables(d: ReportData): string {
   const st = d.stability;
   if (!st) return '<p>Not enough samples yet.</p>';
   const summaryRows = st.series
-    .map((s) => `<tr><td>${esc(SERIES_LABELS[s.name])}</td><td class="num">${s.points}</td><td class="num">${fmt(s.frequencyOffsetPpb)}</td><td class="num">${seconds(s.timeErrorPerDayUs * 1e-6)}</td><td class="num">${fmt(s.finalTimeErrorNs)}</td><td class="num">${fmt(s.maxTimeErrorNs)}</td><td class="num">${s.oadevSlope === null ? '-' : fmt(s.oadevSlope)}</td></tr>`)
+    .map(
+      (s) =>
+        `<tr><td>${esc(SERIES_LABELS[s.name])}</td><td class="num">${s.points}</td><td class="num">${fmt(s.frequencyOffsetPpb)}</td><td class="num">${seconds(s.timeErrorPerDayUs * 1e-6)}</td><td class="num">${fmt(s.finalTimeErrorNs)}</td><td class="num">${fmt(s.maxTimeErrorNs)}</td><td class="num">${s.oadevSlope === null ? '-' : fmt(s.oadevSlope)}</td></tr>`,
+    )
     .join('');
   const first = st.series[0];
   const header = st.series.map((s) => `<th class="num">${esc(SERIES_SHORT[s.name])}</th>`).join('');
   const r = st.ratioToSinglePart;
-  const ratioHeader = r ? '<th class="num">coupled node / single part (coupling)</th><th class="num">array / single part</th><th class="num">uncoupled ensemble / single part (averaging alone)</th>' : '';
+  const ratioHeader = r
+    ? '<th class="num">coupled node / single part (coupling)</th><th class="num">array / single part</th><th class="num">uncoupled ensemble / single part (averaging alone)</th>'
+    : '';
   const rows = first.sweep.tau
     .map((tau, i) => {
-      const cells = st.series.map((s) => `<td class="num">${s.sweep.tau[i] === tau ? sci(s.sweep.series.oadev!.deviation[i]) : '-'}</td>`).join('');
+      const cells = st.series
+        .map((s) => `<td class="num">${s.sweep.tau[i] === tau ? sci(s.sweep.series.oadev!.deviation[i]) : '-'}</td>`)
+        .join('');
       const ratios = r ? [r.node[i], r.ensemble[i], r.uncoupledEnsemble[i]].map((v) => `<td class="num">${fmt(v)}</td>`).join('') : '';
       return `<tr><td class="num">${seconds(tau)}</td><td class="num">${first.sweep.m[i]}</td>${cells}${ratios}</tr>`;
     })
@@ -323,7 +417,10 @@ function perDayBasis(d: ReportData, st: NonNullable<ReportData['stability']>): s
 function notes(d: ReportData): string {
   const list = ((d.summary?.notes as string[] | undefined) ?? []).map((n) => `<li>${esc(n)}</li>`);
   const resumes = (d.summary?.resumes as unknown[] | undefined) ?? [];
-  if (resumes.length > 0) list.push(`<li>The soak was resumed ${resumes.length} time${resumes.length === 1 ? '' : 's'} from its log; the replayed records matched the ones written before the interruption (${esc(JSON.stringify(d.summary?.resumeCheck ?? {}))}).</li>`);
+  if (resumes.length > 0)
+    list.push(
+      `<li>The soak was resumed ${resumes.length} time${resumes.length === 1 ? '' : 's'} from its log; the replayed records matched the ones written before the interruption (${esc(JSON.stringify(d.summary?.resumeCheck ?? {}))}).</li>`,
+    );
   return list.length > 0 ? `<section><h2>Notes</h2><ul>${list.join('')}</ul></section>` : '';
 }
 
@@ -347,11 +444,15 @@ function definitions(d: ReportData): string {
 /** A plot with its caption; a stability plot also carries the stability caution beside it. */
 /** A ring that ended locked on an unwanted mode: a design defect, said at the top. */
 function unwantedModeNote(d: ReportData): string {
-  const pattern = (d.summary?.final as { pattern?: { locked?: boolean; carryingMode?: number; kind?: string } } | null | undefined)?.pattern;
+  const pattern = (d.summary?.final as { pattern?: { locked?: boolean; carryingMode?: number; kind?: string } } | null | undefined)
+    ?.pattern;
   if (!pattern?.locked || !pattern.carryingMode) return '';
   const omega = (d.header.scenario as { modes?: { omega?: number }[] }).modes?.map((m) => m.omega ?? 1) ?? [];
   const ppm = omega.length > pattern.carryingMode ? (omega[pattern.carryingMode] / omega[0] - 1) * 1e6 : null;
-  const where = ppm === null ? '' : `, about ${ppm >= 0 ? '+' : ''}${fmt(ppm)} ppm (${fmtHz(Math.abs(ppm) * 1e-6 * d.nominalFrequencyHz)} ${basis(d)}) from the wanted frequency`;
+  const where =
+    ppm === null
+      ? ''
+      : `, about ${ppm >= 0 ? '+' : ''}${fmt(ppm)} ppm (${fmtHz(Math.abs(ppm) * 1e-6 * d.nominalFrequencyHz)} ${basis(d)}) from the wanted frequency`;
   return `<p class="defect" data-testid="unwanted-mode">Design defect: the soak ended with the ring locked (${esc(pattern.kind ?? '')}) on unwanted mode ${pattern.carryingMode}; the board's output then sits at that mode's frequency${esc(where)}.</p>`;
 }
 
@@ -405,7 +506,10 @@ function perturbationText(v: FaultVerdict, eps: number): string {
     case 'set-noise':
       return `noise set to ${[p.intensity !== undefined ? `intensity ${fmt(p.intensity)}` : '', p.detuningWalk !== undefined ? `detuning walk ${fmt(p.detuningWalk)}` : ''].filter(Boolean).join(', ')}`;
     case 'set-coupling':
-      return `coupling set to ${(['strength', 'reactive', 'dissipative'] as const).filter((k) => p[k] !== undefined).map((k) => `${k} ${fmt(p[k])}`).join(', ')}`;
+      return `coupling set to ${(['strength', 'reactive', 'dissipative'] as const)
+        .filter((k) => p[k] !== undefined)
+        .map((k) => `${k} ${fmt(p[k])}`)
+        .join(', ')}`;
     case 'set-link-weight':
       return `link ${p.from} -> ${p.to} weight set to ${fmt(p.weight)}`;
     case 'kick-mode':

@@ -77,16 +77,22 @@ export function linePlot(o: PlotOptions): string {
   }
   if (xs.length === 0) return emptyPlot(o.title, width, height, 'no data to plot');
   const xDomain = padDomain(extent(xs.map(fx.to)), o.xLog ? 0 : 0);
-  const yDomain = o.yRange ? [fy.to(o.yRange[0]), fy.to(o.yRange[1])] as [number, number] : padDomain(extent(ys.map(fy.to)), o.yLog ? 0.05 : 0.06);
+  const yDomain = o.yRange
+    ? ([fy.to(o.yRange[0]), fy.to(o.yRange[1])] as [number, number])
+    : padDomain(extent(ys.map(fy.to)), o.yLog ? 0.05 : 0.06);
   const px = (v: number) => MARGIN.left + ((fx.to(v) - xDomain[0]) / (xDomain[1] - xDomain[0] || 1)) * plotW;
   const py = (v: number) => MARGIN.top + plotH - ((fy.to(v) - yDomain[0]) / (yDomain[1] - yDomain[0] || 1)) * plotH;
 
   const parts: string[] = [];
-  parts.push(`<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${totalH}" width="${width}" height="${totalH}" role="img" aria-label="${esc(o.title)}" font-family="system-ui, -apple-system, 'Segoe UI', sans-serif" font-size="12">`);
+  parts.push(
+    `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${totalH}" width="${width}" height="${totalH}" role="img" aria-label="${esc(o.title)}" font-family="system-ui, -apple-system, 'Segoe UI', sans-serif" font-size="12">`,
+  );
   parts.push(`<rect x="0" y="0" width="${width}" height="${totalH}" fill="#ffffff"/>`);
   parts.push(`<text x="${MARGIN.left}" y="20" font-size="14" font-weight="600" fill="#1b1f23">${esc(o.title)}</text>`);
   const clipId = `clip${Math.abs(hash(o.title))}`;
-  parts.push(`<defs><clipPath id="${clipId}"><rect x="${MARGIN.left}" y="${MARGIN.top}" width="${plotW}" height="${plotH}"/></clipPath></defs>`);
+  parts.push(
+    `<defs><clipPath id="${clipId}"><rect x="${MARGIN.left}" y="${MARGIN.top}" width="${plotW}" height="${plotH}"/></clipPath></defs>`,
+  );
 
   // shaded intervals under everything; labels step down a row when they would run into the
   // previous one, and are left out when all rows are taken there (the band stays; a note counts them)
@@ -96,7 +102,9 @@ export function linePlot(o: PlotOptions): string {
     const x0 = Math.max(MARGIN.left, px(band.from));
     const x1 = Math.min(MARGIN.left + plotW, px(band.to));
     if (!(x1 > x0 - 0.5)) continue;
-    parts.push(`<rect x="${f(x0)}" y="${MARGIN.top}" width="${f(Math.max(1.5, x1 - x0))}" height="${plotH}" fill="${band.color}" fill-opacity="0.16"/>`);
+    parts.push(
+      `<rect x="${f(x0)}" y="${MARGIN.top}" width="${f(Math.max(1.5, x1 - x0))}" height="${plotH}" fill="${band.color}" fill-opacity="0.16"/>`,
+    );
     let row = rowEnds.findIndex((end) => x0 + 2 >= end + 4);
     if (row < 0 && rowEnds.length < LABEL_ROWS) row = rowEnds.length;
     if (row < 0) {
@@ -107,29 +115,41 @@ export function linePlot(o: PlotOptions): string {
     parts.push(`<text x="${f(x0 + 2)}" y="${MARGIN.top + 11 + row * 11}" font-size="10" fill="#5a3a00">${esc(band.label)}</text>`);
   }
   if (unlabelled > 0) {
-    parts.push(`<text x="${MARGIN.left}" y="${MARGIN.top + plotH + 48}" font-size="10" fill="#5a3a00">${unlabelled} more shaded intervals without a label (too close together; see the verdict table)</text>`);
+    parts.push(
+      `<text x="${MARGIN.left}" y="${MARGIN.top + plotH + 48}" font-size="10" fill="#5a3a00">${unlabelled} more shaded intervals without a label (too close together; see the verdict table)</text>`,
+    );
   }
 
   // grid and ticks
   const xTicks = o.xLog ? logTicks(xDomain) : linearTicks(xDomain).map((v) => ({ value: v, label: formatNumber(v), major: true }));
   const yTicks = o.yTicks
     ? o.yTicks.map((t) => ({ value: fy.to(t.value), label: t.label, major: true }))
-    : o.yLog ? logTicks(yDomain) : linearTicks(yDomain).map((v) => ({ value: v, label: formatNumber(v), major: true }));
+    : o.yLog
+      ? logTicks(yDomain)
+      : linearTicks(yDomain).map((v) => ({ value: v, label: formatNumber(v), major: true }));
   for (const t of xTicks) {
     const x = MARGIN.left + ((t.value - xDomain[0]) / (xDomain[1] - xDomain[0] || 1)) * plotW;
     if (x < MARGIN.left - 0.5 || x > MARGIN.left + plotW + 0.5) continue;
-    parts.push(`<line x1="${f(x)}" x2="${f(x)}" y1="${MARGIN.top}" y2="${MARGIN.top + plotH}" stroke="${t.major ? '#d8dde3' : '#eef1f4'}"/>`);
+    parts.push(
+      `<line x1="${f(x)}" x2="${f(x)}" y1="${MARGIN.top}" y2="${MARGIN.top + plotH}" stroke="${t.major ? '#d8dde3' : '#eef1f4'}"/>`,
+    );
     if (t.label) parts.push(`<text x="${f(x)}" y="${MARGIN.top + plotH + 16}" text-anchor="middle" fill="#3c4650">${t.label}</text>`);
   }
   for (const t of yTicks) {
     const y = MARGIN.top + plotH - ((t.value - yDomain[0]) / (yDomain[1] - yDomain[0] || 1)) * plotH;
     if (y < MARGIN.top - 0.5 || y > MARGIN.top + plotH + 0.5) continue;
-    parts.push(`<line x1="${MARGIN.left}" x2="${MARGIN.left + plotW}" y1="${f(y)}" y2="${f(y)}" stroke="${t.major ? '#d8dde3' : '#eef1f4'}"/>`);
+    parts.push(
+      `<line x1="${MARGIN.left}" x2="${MARGIN.left + plotW}" y1="${f(y)}" y2="${f(y)}" stroke="${t.major ? '#d8dde3' : '#eef1f4'}"/>`,
+    );
     if (t.label) parts.push(`<text x="${MARGIN.left - 6}" y="${f(y + 4)}" text-anchor="end" fill="#3c4650">${t.label}</text>`);
   }
   parts.push(`<rect x="${MARGIN.left}" y="${MARGIN.top}" width="${plotW}" height="${plotH}" fill="none" stroke="#8a949e"/>`);
-  parts.push(`<text x="${MARGIN.left + plotW / 2}" y="${MARGIN.top + plotH + 36}" text-anchor="middle" fill="#1b1f23">${esc(o.xLabel)}</text>`);
-  parts.push(`<text transform="translate(16 ${MARGIN.top + plotH / 2}) rotate(-90)" text-anchor="middle" fill="#1b1f23">${esc(o.yLabel)}</text>`);
+  parts.push(
+    `<text x="${MARGIN.left + plotW / 2}" y="${MARGIN.top + plotH + 36}" text-anchor="middle" fill="#1b1f23">${esc(o.xLabel)}</text>`,
+  );
+  parts.push(
+    `<text transform="translate(16 ${MARGIN.top + plotH / 2}) rotate(-90)" text-anchor="middle" fill="#1b1f23">${esc(o.yLabel)}</text>`,
+  );
 
   // guide lines (reference slopes), clipped to the plot
   parts.push(`<g clip-path="url(#${clipId})">`);
@@ -141,7 +161,8 @@ export function linePlot(o: PlotOptions): string {
   parts.push('</g>');
   for (const g of o.guides ?? []) {
     const label = guideLabelPosition(g, px, py, MARGIN.left, MARGIN.top, plotW, plotH);
-    if (label) parts.push(`<text x="${f(label[0])}" y="${f(label[1])}" font-size="11" fill="#5f6b73" text-anchor="end">${esc(g.label)}</text>`);
+    if (label)
+      parts.push(`<text x="${f(label[0])}" y="${f(label[1])}" font-size="11" fill="#5f6b73" text-anchor="end">${esc(g.label)}</text>`);
   }
 
   // legend below the plot, two columns
@@ -150,7 +171,9 @@ export function linePlot(o: PlotOptions): string {
     const row = Math.floor(i / 2);
     const x = MARGIN.left + col * (plotW / 2);
     const y = height + row * 18 + 4;
-    parts.push(`<line x1="${x}" x2="${x + 22}" y1="${y}" y2="${y}" stroke="${s.color}" stroke-width="${(s.width ?? 1.6) + 0.6}"${s.dash ? ` stroke-dasharray="${s.dash}"` : ''}/>`);
+    parts.push(
+      `<line x1="${x}" x2="${x + 22}" y1="${y}" y2="${y}" stroke="${s.color}" stroke-width="${(s.width ?? 1.6) + 0.6}"${s.dash ? ` stroke-dasharray="${s.dash}"` : ''}/>`,
+    );
     parts.push(`<text x="${x + 28}" y="${y + 4}" fill="#1b1f23">${esc(s.name)}</text>`);
   });
   parts.push('</svg>');
@@ -179,7 +202,15 @@ function seriesPath(s: PlotSeries, px: (v: number) => number, py: (v: number) =>
 }
 
 /** Put a guide's label near its last point inside the plot. */
-function guideLabelPosition(g: PlotGuide, px: (v: number) => number, py: (v: number) => number, left: number, top: number, w: number, h: number): [number, number] | null {
+function guideLabelPosition(
+  g: PlotGuide,
+  px: (v: number) => number,
+  py: (v: number) => number,
+  left: number,
+  top: number,
+  w: number,
+  h: number,
+): [number, number] | null {
   for (let i = g.points.length - 1; i >= 0; i--) {
     const x = px(g.points[i][0]);
     const y = py(g.points[i][1]);

@@ -25,7 +25,9 @@ export function lockSoakDir(dir: string): () => void {
       if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
       const holder = Number(readFileSync(path, 'utf8').trim());
       if (Number.isInteger(holder) && holder > 0 && holder !== process.pid && isAlive(holder)) {
-        throw new UsageError(`${dir} is in use by another soak (pid ${holder}); wait for it or stop it first (remove ${path} if no soak is running there)`);
+        throw new UsageError(
+          `${dir} is in use by another soak (pid ${holder}); wait for it or stop it first (remove ${path} if no soak is running there)`,
+        );
       }
       unlinkSync(path);
     }

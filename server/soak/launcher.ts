@@ -29,7 +29,10 @@ export type LaunchRefusal = 'invalid' | 'not-found' | 'conflict' | 'busy' | 'fai
 
 /** A refused start, stop or resume: what kind of refusal, and a message naming what is wrong. */
 export class LaunchError extends Error {
-  constructor(readonly kind: LaunchRefusal, message: string) {
+  constructor(
+    readonly kind: LaunchRefusal,
+    message: string,
+  ) {
     super(message);
     this.name = 'LaunchError';
   }
@@ -44,14 +47,16 @@ export interface LaunchRequest {
   pace: number | null;
 }
 
-
 export class SoakLauncher {
   readonly root: string;
   /** Processes started by this server instance: their exit is known at once (no zombie to poll). */
   private readonly children = new Map<number, ChildProcess>();
   readonly campaigns: CampaignChoice[];
 
-  constructor(soaksDir: string, readonly maxRunning = DEFAULT_MAX_RUNNING) {
+  constructor(
+    soaksDir: string,
+    readonly maxRunning = DEFAULT_MAX_RUNNING,
+  ) {
     this.root = resolve(soaksDir);
     this.campaigns = builtInCampaignNames.map((name) => {
       const raw = builtInCampaignRaw(name) as { name?: unknown; description?: unknown };
@@ -64,14 +69,29 @@ export class SoakLauncher {
     });
   }
 
-  start(request: LaunchRequest): { name: string; state: 'starting'; pid: number; scenario: string; campaign: string; untilSlow: number; until: number; pace: number | null; dir: string } {
+  start(request: LaunchRequest): {
+    name: string;
+    state: 'starting';
+    pid: number;
+    scenario: string;
+    campaign: string;
+    untilSlow: number;
+    until: number;
+    pace: number | null;
+    dir: string;
+  } {
     const dir = join(this.root, request.name);
-    const taken = () => new LaunchError('conflict', `name: a soak named ${JSON.stringify(request.name)} already exists in ${this.root}; choose another name`);
+    const taken = () =>
+      new LaunchError('conflict', `name: a soak named ${JSON.stringify(request.name)} already exists in ${this.root}; choose another name`);
     if (existsSync(dir)) throw taken();
     this.roomForOneMore();
     const scenario = loadBuiltInScenario(request.scenario);
     const until = Number((request.untilSlow / scenario.epsilon).toPrecision(15));
-    if (!Number.isFinite(until)) throw new LaunchError('invalid', `until: ${request.untilSlow} slow time units is beyond the largest tau (epsilon ${scenario.epsilon})`);
+    if (!Number.isFinite(until))
+      throw new LaunchError(
+        'invalid',
+        `until: ${request.untilSlow} slow time units is beyond the largest tau (epsilon ${scenario.epsilon})`,
+      );
     mkdirSync(this.root, { recursive: true });
     try {
       mkdirSync(dir);
@@ -93,17 +113,34 @@ export class SoakLauncher {
       runs: [],
     };
     const pid = this.launch(dir, record, false);
-    return { name: request.name, state: 'starting', pid, scenario: request.scenario, campaign: request.campaign, untilSlow: request.untilSlow, until, pace: request.pace, dir };
+    return {
+      name: request.name,
+      state: 'starting',
+      pid,
+      scenario: request.scenario,
+      campaign: request.campaign,
+      untilSlow: request.untilSlow,
+      until,
+      pace: request.pace,
+      dir,
+    };
   }
 
-  async stop(name: string): Promise<{ name: string; pid: number; signal: NodeJS.Signals; state: 'interrupted'; resumable: true; note: string }> {
+  async stop(
+    name: string,
+  ): Promise<{ name: string; pid: number; signal: NodeJS.Signals; state: 'interrupted'; resumable: true; note: string }> {
     const { dir, start } = this.startedHere(name, 'stopped');
     const files = readSoakFiles(dir);
     const state = stateOf(files);
-    if (state !== 'running' && state !== 'starting') throw new LaunchError('conflict', `${name} is not running (it is ${state}); nothing to stop`);
+    if (state !== 'running' && state !== 'starting')
+      throw new LaunchError('conflict', `${name} is not running (it is ${state}); nothing to stop`);
     const pid = start.pid;
     const written = files.status?.pid ?? null;
-    if (state === 'running' && written !== pid) throw new LaunchError('conflict', `status.json of ${name} names pid ${written}, not the process this server started (${pid}); stop it where it runs`);
+    if (state === 'running' && written !== pid)
+      throw new LaunchError(
+        'conflict',
+        `status.json of ${name} names pid ${written}, not the process this server started (${pid}); stop it where it runs`,
+      );
     if (!ours(start)) throw new LaunchError('conflict', `pid ${pid} is not the soak process of ${name} any more; nothing to stop`);
     // The soak is a process group of its own (detached): the signal reaches all of it.
     process.kill(-pid, 'SIGTERM');
@@ -124,7 +161,10 @@ export class SoakLauncher {
   }
 
   /** `pace` undefined: the pace it was started with. */
-  resume(name: string, pace: number | null | undefined): { name: string; state: 'starting'; pid: number; resume: true; pace: number | null } {
+  resume(
+    name: string,
+    pace: number | null | undefined,
+  ): { name: string; state: 'starting'; pid: number; resume: true; pace: number | null } {
     const { dir, start } = this.startedHere(name, 'resumed');
     const state = stateOf(readSoakFiles(dir));
     if (state !== 'interrupted' && !(state === 'unknown' && !processAlive(start.pid))) {
@@ -176,16 +216,24 @@ export class SoakLauncher {
   private roomForOneMore(): void {
     const now = this.running();
     if (now.length >= this.maxRunning) {
-      throw new LaunchError('busy', `${now.length} soaks started here are running (${now.join(', ')}); at most ${this.maxRunning} run at once on this machine: stop one or wait for it to finish`);
+      throw new LaunchError(
+        'busy',
+        `${now.length} soaks started here are running (${now.join(', ')}); at most ${this.maxRunning} run at once on this machine: stop one or wait for it to finish`,
+      );
     }
   }
 
   /** The folder and START_FILE of a soak started from the dashboard. */
   private startedHere(name: string, verb: string): { dir: string; start: StartRecord } {
     const dir = join(this.root, name);
-    if (!SAFE_NAME.test(name) || !existsSync(dir)) throw new LaunchError('not-found', `no soak named ${JSON.stringify(name)} in ${this.root}`);
+    if (!SAFE_NAME.test(name) || !existsSync(dir))
+      throw new LaunchError('not-found', `no soak named ${JSON.stringify(name)} in ${this.root}`);
     const start = readSoakFiles(dir).start;
-    if (!start) throw new LaunchError('conflict', `${name} was not started from the dashboard (no ${START_FILE}); it can only be ${verb} where it was started`);
+    if (!start)
+      throw new LaunchError(
+        'conflict',
+        `${name} was not started from the dashboard (no ${START_FILE}); it can only be ${verb} where it was started`,
+      );
     return { dir, start };
   }
 }

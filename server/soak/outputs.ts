@@ -5,7 +5,14 @@ import type { Scenario } from '../../src/scenario/types.js';
 import { ASSUMED_FREQUENCY_NOTE, tauToSeconds } from '../../src/scenario/units.js';
 import { PASS_CAUTION } from '../../src/campaign/cautions.js';
 import type { SoakOutcome } from '../../src/protocol/soak-records.js';
-import { RESUMES_FILE, SUMMARY_FILE, type ResumeEntry, type SoakStatus, type SoakSummary, type SoakTimeBase } from '../../src/protocol/soak-files.js';
+import {
+  RESUMES_FILE,
+  SUMMARY_FILE,
+  type ResumeEntry,
+  type SoakStatus,
+  type SoakSummary,
+  type SoakTimeBase,
+} from '../../src/protocol/soak-files.js';
 
 /**
  * The files a soak keeps beside its log (formats in src/protocol/soak-files.ts), each replaced
@@ -21,7 +28,9 @@ export function writeJsonAtomically(dir: string, name: string, value: unknown): 
 
 /** Whether the soak's seconds rest on the default nominal frequency, with the sentence that says so. */
 export function nominalFrequencyFields(scenario: Scenario): Pick<SoakStatus, 'nominalFrequencyAssumed' | 'secondsNote'> {
-  return scenario.units.nominalFrequencyAssumed ? { nominalFrequencyAssumed: true, secondsNote: ASSUMED_FREQUENCY_NOTE } : { nominalFrequencyAssumed: false };
+  return scenario.units.nominalFrequencyAssumed
+    ? { nominalFrequencyAssumed: true, secondsNote: ASSUMED_FREQUENCY_NOTE }
+    : { nominalFrequencyAssumed: false };
 }
 
 export function timeBaseOf(scenario: Scenario, campaign: Campaign, macroStep: number, stride: number): SoakTimeBase {

@@ -60,10 +60,21 @@ export function findResumePoint(out: string): ResumePoint | null {
     if (record.record === 'checkpoint') last = i;
     if (record.record === 'end') end = record;
   });
-  const point: ResumePoint = { header, checkpoint: null, checkpointAt: null, samples: [], sampleLines: [], verdicts: [], discarded: new Map(), end, tornTailBytes: read.tornTail?.bytes ?? 0 };
+  const point: ResumePoint = {
+    header,
+    checkpoint: null,
+    checkpointAt: null,
+    samples: [],
+    sampleLines: [],
+    verdicts: [],
+    discarded: new Map(),
+    end,
+    tornTailBytes: read.tornTail?.bytes ?? 0,
+  };
   if (last < 0) return point;
   const at = read.records[last];
-  if (!isSoakCheckpoint(at.record)) throw new UsageError(`cannot resume: the last checkpoint in ${soakLogDir(out)} is not a soak checkpoint`);
+  if (!isSoakCheckpoint(at.record))
+    throw new UsageError(`cannot resume: the last checkpoint in ${soakLogDir(out)} is not a soak checkpoint`);
   point.checkpointAt = at;
   point.checkpoint = at.record;
   read.records.forEach(({ record }, i) => {
@@ -76,7 +87,12 @@ export function findResumePoint(out: string): ResumePoint | null {
 }
 
 /** A resume must continue the same soak: the same scenario, campaign and end. */
-export function checkSameSoak(point: ResumePoint, scenario: Scenario, campaign: Campaign, asked: { scenario: string; campaign: string; out: string; until?: number }): void {
+export function checkSameSoak(
+  point: ResumePoint,
+  scenario: Scenario,
+  campaign: Campaign,
+  asked: { scenario: string; campaign: string; out: string; until?: number },
+): void {
   const header = point.header;
   if (JSON.stringify(header.scenario) !== JSON.stringify(scenarioToJSON(scenario))) {
     throw new UsageError(`cannot resume: ${asked.scenario} is not the scenario the soak in ${asked.out} was started with`);

@@ -81,7 +81,12 @@ async function soakLocked(options: SoakOptions, scenario: Scenario, campaign: Ca
   if (point?.end) {
     // it had finished: rewrite its summary from the end record
     const soak = point.header.soak;
-    const { path, summary } = writeSummary(options.out, point.end.result, { scenario, campaign, until: soak.until, macroStep: soak.macroStep, stride: soak.stride }, { note: 'the soak had already finished; summary rewritten from its log' });
+    const { path, summary } = writeSummary(
+      options.out,
+      point.end.result,
+      { scenario, campaign, until: soak.until, macroStep: soak.macroStep, stride: soak.stride },
+      { note: 'the soak had already finished; summary rewritten from its log' },
+    );
     return { exitCode: point.end.result.exitCode, summaryPath: path, summary };
   }
   if (point && !point.checkpoint) {
@@ -146,7 +151,8 @@ class SoakRunner {
         for (const record of sim.tick()) this.append(record);
       }
       this.status.update(false);
-      if (this.log.error) throw new Error(`the soak stopped because its log failed: ${this.log.error.message}; fix the disk and continue with --resume`);
+      if (this.log.error)
+        throw new Error(`the soak stopped because its log failed: ${this.log.error.message}; fix the disk and continue with --resume`);
       if (this.log.pending > MAX_PENDING_LINES) await this.log.drain();
       else await new Promise((resolve) => (delay > 0 ? setTimeout(resolve, delay) : setImmediate(resolve)));
     }
@@ -159,7 +165,13 @@ class SoakRunner {
     await this.log.close();
     if (this.log.error) throw new Error(`the soak's log failed: ${this.log.error.message}; its summary was not written`);
     const sim = this.simulation;
-    const about = { scenario: this.scenario, campaign: this.campaign, until: sim.plan.until, macroStep: sim.session.macroStep, stride: sim.plan.stride };
+    const about = {
+      scenario: this.scenario,
+      campaign: this.campaign,
+      until: sim.plan.until,
+      macroStep: sim.session.macroStep,
+      stride: sim.plan.stride,
+    };
     const { path, summary } = writeSummary(this.options.out, outcome, about, { ...this.log.facts(), wallSeconds: this.status.wallSeconds });
     this.status.finish();
     return { exitCode: outcome.exitCode, summaryPath: path, summary };
@@ -170,10 +182,13 @@ class SoakRunner {
     const written = this.log.append(record);
     if (record.record !== 'verdict') return;
     const verdict = record.verdict;
-    void written.then(() => {
-      this.status.acknowledge(verdict);
-      this.say(verdictLine(verdict, this.simulation.base));
-    }, () => undefined);
+    void written.then(
+      () => {
+        this.status.acknowledge(verdict);
+        this.say(verdictLine(verdict, this.simulation.base));
+      },
+      () => undefined,
+    );
   }
 
   private resumed(point: ResumePoint): void {
@@ -181,7 +196,9 @@ class SoakRunner {
     const engine = engineFingerprint();
     const sameEngine = point.header.soak.engine === undefined || point.header.soak.engine === engine;
     if (!sameEngine) {
-      this.notes.push(`resumed under other engine code (${engine}, started with ${point.header.soak.engine}): the part after tau ${cp.tau.toPrecision(8)} is not bit-identical to an uninterrupted run`);
+      this.notes.push(
+        `resumed under other engine code (${engine}, started with ${point.header.soak.engine}): the part after tau ${cp.tau.toPrecision(8)} is not bit-identical to an uninterrupted run`,
+      );
       this.say(`soak: warning: the engine code changed since this soak started; it continues, but not bit for bit`);
     }
     recordResume(this.options.out, {
@@ -194,7 +211,9 @@ class SoakRunner {
       engine,
       sameEngine,
     });
-    this.say(`soak: resuming ${this.options.out} from tau ${cp.tau.toPrecision(8)} (tick ${cp.tick}); ${point.discarded.size} later records will be written again${point.tornTailBytes ? `, a torn last line of ${point.tornTailBytes} bytes dropped` : ''}`);
+    this.say(
+      `soak: resuming ${this.options.out} from tau ${cp.tau.toPrecision(8)} (tick ${cp.tick}); ${point.discarded.size} later records will be written again${point.tornTailBytes ? `, a torn last line of ${point.tornTailBytes} bytes dropped` : ''}`,
+    );
   }
 
   private say(line: string): void {
@@ -207,13 +226,28 @@ class SoakRunner {
  * samples stability often enough to fill the campaign's sample budget and checkpoints every 1/64
  * of its length (at least every 50 ticks) unless told otherwise.
  */
-function newSimulation(scenario: Scenario, campaign: Campaign, until: number, checkpointEvery: number | undefined, plan: SoakPlan | null, point: ResumePoint | null): SoakSimulation {
+function newSimulation(
+  scenario: Scenario,
+  campaign: Campaign,
+  until: number,
+  checkpointEvery: number | undefined,
+  plan: SoakPlan | null,
+  point: ResumePoint | null,
+): SoakSimulation {
   try {
-    if (plan && point?.checkpoint) return new SoakSimulation(scenario, campaign, plan, { checkpoint: point.checkpoint, samples: point.samples, verdicts: point.verdicts });
+    if (plan && point?.checkpoint)
+      return new SoakSimulation(scenario, campaign, plan, {
+        checkpoint: point.checkpoint,
+        samples: point.samples,
+        verdicts: point.verdicts,
+      });
     const macroStep = macroStepOf(scenario);
     const totalTicks = Math.ceil(until / macroStep);
     const stride = Math.max(1, Math.ceil(totalTicks / campaign.stability.maxSamples));
-    const checkpointTicks = Math.max(1, checkpointEvery ? Math.round(checkpointEvery / macroStep) : Math.max(50, Math.ceil(totalTicks / 64)));
+    const checkpointTicks = Math.max(
+      1,
+      checkpointEvery ? Math.round(checkpointEvery / macroStep) : Math.max(50, Math.ceil(totalTicks / 64)),
+    );
     return new SoakSimulation(scenario, campaign, { until, stride, checkpointTicks });
   } catch (error) {
     if (error instanceof RangeError && point) throw new UsageError(`cannot resume: ${error.message}`);

@@ -1,6 +1,17 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { START_FILE, STATUS_FILE, SUMMARY_FILE, readSoakStatus, readSoakSummary, readStartRecord, type SoakState, type SoakStatus, type SoakSummary, type StartRecord } from '../../src/protocol/soak-files.js';
+import {
+  START_FILE,
+  STATUS_FILE,
+  SUMMARY_FILE,
+  readSoakStatus,
+  readSoakSummary,
+  readStartRecord,
+  type SoakState,
+  type SoakStatus,
+  type SoakSummary,
+  type StartRecord,
+} from '../../src/protocol/soak-files.js';
 
 /** Names a soak folder may have: no path separators, no leading dot. */
 export const SAFE_NAME = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;

@@ -19,7 +19,10 @@ export class SoakLog {
   /** The first write or sync error; the log stops at it. */
   error: Error | null = null;
 
-  constructor(readonly out: string, options: { segmentBytes?: number; from?: ResumePoint } = {}) {
+  constructor(
+    readonly out: string,
+    options: { segmentBytes?: number; from?: ResumePoint } = {},
+  ) {
     const dir = soakLogDir(out);
     const segmentPath = segmentPathFor(dir, SEGMENT_PREFIX);
     const segmentBytes = options.segmentBytes ?? DEFAULT_SEGMENT_BYTES;

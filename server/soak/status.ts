@@ -22,7 +22,11 @@ export class SoakStatusReport {
   private readonly startTau: number;
   private lastWritten = 0;
 
-  constructor(private readonly out: string, private readonly simulation: SoakSimulation, stderr: NodeJS.WriteStream) {
+  constructor(
+    private readonly out: string,
+    private readonly simulation: SoakSimulation,
+    stderr: NodeJS.WriteStream,
+  ) {
     this.progress = new Progress('soak', simulation.plan.until, stderr);
     // verdicts read back from the log of a resumed soak are on disk already
     this.durable = simulation.verdicts.map(durableEntry);
@@ -44,7 +48,10 @@ export class SoakStatusReport {
     const s = sim.session;
     const eps = sim.scenario.epsilon;
     const until = sim.plan.until;
-    this.progress.update(s.tau, `slow ${(eps * s.tau).toFixed(1)}/${(eps * until).toFixed(1)}  faults ${sim.faults.finished}/${sim.faults.started}  failed ${sim.faults.failed}`);
+    this.progress.update(
+      s.tau,
+      `slow ${(eps * s.tau).toFixed(1)}/${(eps * until).toFixed(1)}  faults ${sim.faults.finished}/${sim.faults.started}  failed ${sim.faults.failed}`,
+    );
     const now = performance.now();
     if (!done && now - this.lastWritten < STATUS_EVERY_MS) return;
     this.lastWritten = now;

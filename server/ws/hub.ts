@@ -63,7 +63,10 @@ export class Hub {
   private readonly burst: number;
   private readonly rate: number;
 
-  constructor(private readonly live: LiveSession, private readonly options: HubOptions) {
+  constructor(
+    private readonly live: LiveSession,
+    private readonly options: HubOptions,
+  ) {
     this.wss = new WebSocketServer({ noServer: true, maxPayload: MAX_CLIENT_MESSAGE_BYTES, perMessageDeflate: false });
     this.frameBacklog = options.frameBacklogBytes ?? 256 * 1024;
     this.cutoff = options.cutoffBytes ?? 4 * 1024 * 1024;
@@ -144,7 +147,10 @@ export class Hub {
         return;
       }
       if (client.refused === 1 || client.refused % this.burst === 0) {
-        this.send(client, { type: 'error', reason: `too many messages: at most ${this.rate} per second (burst ${this.burst}); messages are being dropped` });
+        this.send(client, {
+          type: 'error',
+          reason: `too many messages: at most ${this.rate} per second (burst ${this.burst}); messages are being dropped`,
+        });
       }
       return;
     }

@@ -26,7 +26,8 @@ export function checkUpgrade(request: IncomingMessage, port: number, policy: Ori
   const host = request.headers.host;
   if (!host) return 'missing Host header';
   const { name, port: hostPort } = splitHost(host);
-  const hostAllowed = policy.anyHost || (LOOPBACK.has(name) && hostPort === String(port)) || policy.allowedHosts.includes(host.toLowerCase());
+  const hostAllowed =
+    policy.anyHost || (LOOPBACK.has(name) && hostPort === String(port)) || policy.allowedHosts.includes(host.toLowerCase());
   if (!hostAllowed) return `Host ${host} is not this server`;
   const origin = request.headers.origin;
   if (origin === undefined) return null;

@@ -61,7 +61,13 @@ export class CampaignRun {
    * @param until end of the soak (tau); random faults whose window would pass it are not drawn
    * @param lock the session's lock detector settings: settling is judged with them
    */
-  constructor(readonly campaign: Campaign, private readonly params: ModelParameters, readonly until: number, readonly lock: LockSettings, readonly base: TimeBase) {
+  constructor(
+    readonly campaign: Campaign,
+    private readonly params: ModelParameters,
+    readonly until: number,
+    readonly lock: LockSettings,
+    readonly base: TimeBase,
+  ) {
     this.generator = campaign.random ? new FaultGenerator(campaign.random, params, until) : null;
     this.pendingRandom = this.generator?.next() ?? null;
   }
@@ -81,10 +87,15 @@ export class CampaignRun {
       const evaluation = this.open.find((e) => e.id === pending.id);
       evaluation?.markRestored(tau);
       // a restore inside another fault's span is part of what that fault is judged on: say so
-      for (const other of this.open) if (other !== evaluation && !other.overlapsWith(pending.id)) other.noteOverlap(`${pending.id} (restore)`);
+      for (const other of this.open)
+        if (other !== evaluation && !other.overlapsWith(pending.id)) other.noteOverlap(`${pending.id} (restore)`);
       if (pending.restore) {
         applyToView(pending.restore, view, this.params);
-        queued.push({ perturbation: pending.restore, by: `campaign:${pending.id} (restore)`, uncoupled: appliesToUncoupled(pending.restore) });
+        queued.push({
+          perturbation: pending.restore,
+          by: `campaign:${pending.id} (restore)`,
+          uncoupled: appliesToUncoupled(pending.restore),
+        });
       }
       return false;
     });
@@ -168,7 +179,9 @@ export class CampaignRun {
     this.open = state.open.map((s) => new FaultEvaluation(s));
     this.restores =
       state.restores ??
-      state.open.filter((s) => s.restoreAt !== null && s.restoredAt === null).map((s) => ({ id: s.plan.id, at: s.restoreAt!, restore: s.restore }));
+      state.open
+        .filter((s) => s.restoreAt !== null && s.restoredAt === null)
+        .map((s) => ({ id: s.plan.id, at: s.restoreAt!, restore: s.restore }));
     this.lastView = state.lastView;
     this.started = state.started;
     this.finished = state.finished;

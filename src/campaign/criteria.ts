@@ -23,4 +23,3 @@ export function parseCriteria(raw: unknown, path: string, base: Criteria, scale:
     predictionMustAgree: booleanField(obj, path, 'predictionMustAgree', base.predictionMustAgree),
   };
 }
-

@@ -22,7 +22,11 @@ export class FaultGenerator {
   private exhausted = false;
   private readonly totalRate: number;
 
-  constructor(readonly spec: RandomSpec, private readonly model: ModelParameters, private readonly soakUntil: number) {
+  constructor(
+    readonly spec: RandomSpec,
+    private readonly model: ModelParameters,
+    private readonly soakUntil: number,
+  ) {
     this.random = new Random(spec.seed);
     this.cursor = spec.from;
     this.totalRate = spec.actions.reduce((s, a) => s + a.rate, 0);

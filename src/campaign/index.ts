@@ -4,7 +4,21 @@ export { CampaignRun, type CampaignRunState, type PendingRestore, type QueuedPer
 export { FaultGenerator, type GeneratorState } from './generator.js';
 export { FaultEvaluation, spanOf, type FaultVerdict, type Span, type TimeBase, type VerdictOutcome } from './verdict.js';
 export { tickViewOf, patternLabel, predictionOf, type TickView, type SystemView, type PredictionView } from './tick-view.js';
-export { PhaseRecorder, NodePhases, PHASE_SERIES, type PhaseSample, type PhaseSeriesName, type PhaseRecorderState } from './phase-record.js';
-export { analyzeStability, timeErrorOf, SERIES_LABELS, MIN_STABILITY_SAMPLES, type StabilityReport, type SeriesStability } from './stability-analysis.js';
+export {
+  PhaseRecorder,
+  NodePhases,
+  PHASE_SERIES,
+  type PhaseSample,
+  type PhaseSeriesName,
+  type PhaseRecorderState,
+} from './phase-record.js';
+export {
+  analyzeStability,
+  timeErrorOf,
+  SERIES_LABELS,
+  MIN_STABILITY_SAMPLES,
+  type StabilityReport,
+  type SeriesStability,
+} from './stability-analysis.js';
 export { appliesToUncoupled, previousValuesOf } from './restore.js';
 export type * from './types.js';

@@ -37,7 +37,11 @@ function parseRandomAction(raw: unknown, path: string, model: ModelParameters, s
   const restore = parseRandomRestore(obj, path, action);
   let duration: RandomActionSpec['duration'] = null;
   if (restore === 'none') {
-    if (has(obj, 'duration')) fail(child(path, 'duration'), action === 'kick-mode' ? 'a kick is instantaneous: it has no duration' : 'a permanent fault (restore "none") has no duration');
+    if (has(obj, 'duration'))
+      fail(
+        child(path, 'duration'),
+        action === 'kick-mode' ? 'a kick is instantaneous: it has no duration' : 'a permanent fault (restore "none") has no duration',
+      );
   } else {
     duration = parseDuration(required(obj, 'duration', path), child(path, 'duration'), scale);
   }
@@ -58,7 +62,8 @@ function parseRandomRestore(obj: JsonObject, path: string, action: PerturbationA
     return 'none';
   }
   if (!has(obj, 'restore')) return 'previous';
-  if (obj.restore !== 'previous' && obj.restore !== 'none') fail(at, `must be "previous" or "none" for random faults (got ${JSON.stringify(obj.restore)})`);
+  if (obj.restore !== 'previous' && obj.restore !== 'none')
+    fail(at, `must be "previous" or "none" for random faults (got ${JSON.stringify(obj.restore)})`);
   return obj.restore;
 }
 
@@ -103,7 +108,8 @@ function parseRange(raw: unknown, path: string, key: string, action: Perturbatio
     return { kind: 'fixed', value };
   }
   const pair = expectArray(raw, path);
-  if (pair.length !== 2) fail(path, `must be a number, [min, max]${isInteger || key === 'mode' ? ' or "any"' : ''} (got ${pair.length} values)`);
+  if (pair.length !== 2)
+    fail(path, `must be a number, [min, max]${isInteger || key === 'mode' ? ' or "any"' : ''} (got ${pair.length} values)`);
   const check = isInteger ? integer : finiteNumber;
   const min = check(pair[0], item(path, 0));
   const max = check(pair[1], item(path, 1));

@@ -14,7 +14,18 @@ import type { Scenario } from '../scenario/types.js';
 import { secondsToTau } from '../scenario/units.js';
 import { defaultLockWindow } from '../session/session.js';
 import { InputError } from '../util/input-error.js';
-import { actionField, anyObject, booleanField, checks, fail, perturbationAt, perturbationObject, stringField, timeField, type TimeScale } from './fields.js';
+import {
+  actionField,
+  anyObject,
+  booleanField,
+  checks,
+  fail,
+  perturbationAt,
+  perturbationObject,
+  stringField,
+  timeField,
+  type TimeScale,
+} from './fields.js';
 import { parseCriteria } from './criteria.js';
 import { parseRandomSpec } from './parse-random.js';
 import type { Campaign, Criteria, DetectorSpec, FaultPlan, RestoreSpec, StabilitySpec, TimeUnit } from './types.js';
@@ -43,7 +54,11 @@ export function parseCampaign(raw: unknown, scenario: Scenario, source?: string)
 
 function parseUnsourced(raw: unknown, scenario: Scenario): Campaign {
   const top = expectObject(raw, '', TOP_FIELDS);
-  if (!(scenario.epsilon > 0)) fail('', `a campaign needs a scenario with epsilon > 0 (got ${scenario.epsilon}): lock windows and re-lock times are slow-time quantities`);
+  if (!(scenario.epsilon > 0))
+    fail(
+      '',
+      `a campaign needs a scenario with epsilon > 0 (got ${scenario.epsilon}): lock windows and re-lock times are slow-time quantities`,
+    );
   const model = new ModelParameters(scenario);
   const name = stringField(top, '', 'name', 'Untitled campaign');
   if (has(top, 'description')) stringField(top, '', 'description', '');
@@ -125,7 +140,10 @@ function parseFaults(raw: unknown, model: ModelParameters, scale: TimeScale, cri
     return fault;
   });
   // stable sort by start: equal starts keep the file's order
-  return faults.map((f, i) => ({ f, i })).sort((a, b) => a.f.start - b.f.start || a.i - b.i).map(({ f }) => f);
+  return faults
+    .map((f, i) => ({ f, i }))
+    .sort((a, b) => a.f.start - b.f.start || a.i - b.i)
+    .map(({ f }) => f);
 }
 
 function parseFault(raw: unknown, path: string, index: number, model: ModelParameters, scale: TimeScale, base: Criteria): FaultPlan {
@@ -139,7 +157,13 @@ function parseFault(raw: unknown, path: string, index: number, model: ModelParam
   const restore = parseRestore(obj, path, action, model);
   let duration: number | null = null;
   if (restore === 'none') {
-    if (has(obj, 'duration')) fail(child(path, 'duration'), action === 'kick-mode' ? 'a kick is instantaneous: it has no duration' : 'a fault with restore "none" is permanent: it has no duration');
+    if (has(obj, 'duration'))
+      fail(
+        child(path, 'duration'),
+        action === 'kick-mode'
+          ? 'a kick is instantaneous: it has no duration'
+          : 'a fault with restore "none" is permanent: it has no duration',
+      );
   } else {
     duration = timeField(obj, path, 'duration', scale, true);
   }
@@ -158,4 +182,3 @@ function parseRestore(obj: JsonObject, path: string, action: FaultPlan['perturba
   if (typeof obj.restore === 'string') fail(at, `must be "previous", "none" or a perturbation object (got ${JSON.stringify(obj.restore)})`);
   return perturbationObject(obj.restore, model, at);
 }
-

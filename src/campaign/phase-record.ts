@@ -79,7 +79,12 @@ export class PhaseRecorder {
   private startTick: number | null = null;
   samples = 0;
 
-  constructor(readonly from: number | 'first-lock', readonly stride: number, readonly macroStep: number, withTwin: boolean) {
+  constructor(
+    readonly from: number | 'first-lock',
+    readonly stride: number,
+    readonly macroStep: number,
+    withTwin: boolean,
+  ) {
     this.uncoupled = withTwin ? new NodePhases() : null;
   }
 

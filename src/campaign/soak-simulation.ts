@@ -47,13 +47,24 @@ export class SoakSimulation {
   private lastFrame: Frame | null = null;
   private lastFinal: RunSummary | null = null;
 
-  constructor(readonly scenario: Scenario, readonly campaign: Campaign, readonly plan: SoakPlan, from: SoakContinuation | null = null) {
+  constructor(
+    readonly scenario: Scenario,
+    readonly campaign: Campaign,
+    readonly plan: SoakPlan,
+    from: SoakContinuation | null = null,
+  ) {
     const options = sessionOptionsOf(campaign);
     const twinScenario: Scenario = { ...scenario, coupling: { ...scenario.coupling, strength: 0 } };
     const cp = from?.checkpoint ?? null;
     this.session = cp ? CoSimulation.fromCheckpoint(scenario, cp.session, options) : new CoSimulation(scenario, options);
     const withTwin = campaign.stability.uncoupledReference;
-    this.twin = !withTwin ? null : cp ? (cp.twin ? CoSimulation.fromCheckpoint(twinScenario, cp.twin, options) : null) : new CoSimulation(twinScenario, options);
+    this.twin = !withTwin
+      ? null
+      : cp
+        ? cp.twin
+          ? CoSimulation.fromCheckpoint(twinScenario, cp.twin, options)
+          : null
+        : new CoSimulation(twinScenario, options);
     const params = this.session.params;
     this.base = { epsilon: scenario.epsilon, secondsPerTau: tauToSeconds(1, scenario.units.nominalFrequencyHz, params.omega[0]) };
     this.faults = new CampaignRun(campaign, params, plan.until, this.session.lock, this.base);
@@ -96,7 +107,13 @@ export class SoakSimulation {
     const records: NewLogRecord[] = frame.events.map((event) => ({ record: 'event', event }));
     const view = tickViewOf(frame, s.pairs);
     for (const verdict of this.faults.afterTick(view)) records.push(this.verdictRecord(verdict));
-    const sample = this.recorder.observe(frame.tick, frame.tau, frame.full.pattern.locked, frame.full.phase, twinFrame ? twinFrame.full.phase : null);
+    const sample = this.recorder.observe(
+      frame.tick,
+      frame.tau,
+      frame.full.pattern.locked,
+      frame.full.phase,
+      twinFrame ? twinFrame.full.phase : null,
+    );
     if (sample) this.samples.push(sample);
     if (sample || this.recorder.isSampleTick(frame.tick, frame.tau)) {
       records.push({
@@ -131,14 +148,26 @@ export class SoakSimulation {
     const tau0 = this.plan.stride * s.macroStep * this.base.secondsPerTau;
     const stability = analyzeStability(this.samples, tau0, this.scenario.units.nominalFrequencyHz);
     const twinStop = this.samples.findIndex((sample) => sample.uncoupledEnsemble === null);
-    if (this.campaign.stability.uncoupledReference && twinStop >= 0) notes.push(`the uncoupled twin halted (blow-up); its stability series stop after ${twinStop} samples`);
-    if (!stability) notes.push(`too few stability samples (${this.samples.length}) for frequency-stability metrics; run longer or let the ring lock earlier`);
+    if (this.campaign.stability.uncoupledReference && twinStop >= 0)
+      notes.push(`the uncoupled twin halted (blow-up); its stability series stop after ${twinStop} samples`);
+    if (!stability)
+      notes.push(
+        `too few stability samples (${this.samples.length}) for frequency-stability metrics; run longer or let the ring lock earlier`,
+      );
     const failed = this.verdicts.filter((v) => v.outcome === 'fail').length;
     const incomplete = this.verdicts.filter((v) => v.outcome === 'incomplete').length;
-    const exitCode = halted ? SOAK_EXIT.halted : failed > 0 || (options.failIncomplete && incomplete > 0) ? SOAK_EXIT.failed : SOAK_EXIT.pass;
+    const exitCode = halted
+      ? SOAK_EXIT.halted
+      : failed > 0 || (options.failIncomplete && incomplete > 0)
+        ? SOAK_EXIT.failed
+        : SOAK_EXIT.pass;
     if (incomplete > 0) {
-      const counted = options.failIncomplete ? '; --fail-incomplete counts them as failures' : '; they do not fail the soak unless --fail-incomplete is given';
-      notes.push(`${incomplete} fault${incomplete === 1 ? ' was' : 's were'} INCOMPLETE (judging stopped before the outcome was decided)${counted}`);
+      const counted = options.failIncomplete
+        ? '; --fail-incomplete counts them as failures'
+        : '; they do not fail the soak unless --fail-incomplete is given';
+      notes.push(
+        `${incomplete} fault${incomplete === 1 ? ' was' : 's were'} INCOMPLETE (judging stopped before the outcome was decided)${counted}`,
+      );
     }
     const notStarted = this.faults.notStarted;
     if (notStarted.length > 0) notes.push(`faults starting after the end of the soak were not run: ${notStarted.join(', ')}`);

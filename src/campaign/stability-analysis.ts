@@ -79,7 +79,12 @@ export function analyzeStability(samples: readonly PhaseSample[], tau0: number, 
         return j < 0 ? Number.NaN : s.sweep.series.oadev!.deviation[j] / single.sweep.series.oadev!.deviation[i];
       });
     };
-    ratioToSinglePart = { tau: single.sweep.tau, ensemble: ratio('ensemble'), node: ratio('node'), uncoupledEnsemble: ratio('uncoupledEnsemble') };
+    ratioToSinglePart = {
+      tau: single.sweep.tau,
+      ensemble: ratio('ensemble'),
+      node: ratio('node'),
+      uncoupledEnsemble: ratio('uncoupledEnsemble'),
+    };
   }
   return {
     tau0,
@@ -93,7 +98,12 @@ export function analyzeStability(samples: readonly PhaseSample[], tau0: number, 
 }
 
 /** x_i = (phi_i - phi_0) / (2 pi f0), seconds. */
-export function timeErrorOf(samples: readonly PhaseSample[], name: PhaseSeriesName, count: number, nominalFrequencyHz: number): Float64Array {
+export function timeErrorOf(
+  samples: readonly PhaseSample[],
+  name: PhaseSeriesName,
+  count: number,
+  nominalFrequencyHz: number,
+): Float64Array {
   const x = new Float64Array(count);
   const phi0 = samples[0][name]!;
   const scale = 1 / (2 * Math.PI * nominalFrequencyHz);
@@ -118,6 +128,12 @@ function seriesStability(name: PhaseSeriesName, x: Float64Array, tau0: number): 
     maxTimeErrorNs: maxAbs * 1e9,
     timeErrorPerDayUs: offset * 86400 * 1e6,
     sweep,
-    oadevSlope: usable.length >= 2 ? powerLawFit(usable.map((p) => p.t), usable.map((p) => p.d)).slope : null,
+    oadevSlope:
+      usable.length >= 2
+        ? powerLawFit(
+            usable.map((p) => p.t),
+            usable.map((p) => p.d),
+          ).slope
+        : null,
   };
 }

@@ -87,7 +87,8 @@ export function observeTrack(track: SystemTrackState, view: SystemView, tau: num
     track.lostAt ??= tau;
     return;
   }
-  if (track.lostAt !== null && track.relockedAt === null && reference !== null && tau >= reference && view.status !== 'unlocked') track.relockedAt = tau;
+  if (track.lostAt !== null && track.relockedAt === null && reference !== null && tau >= reference && view.status !== 'unlocked')
+    track.relockedAt = tau;
 }
 
 /** The pattern was lost during the span: a slip, another committed pattern, or another carrying mode. */

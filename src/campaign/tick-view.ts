@@ -79,7 +79,12 @@ export function predictionOf(frame: Frame): PredictionView | null {
   const p = frame.prediction;
   if (p === null) return null;
   if (p.verdict === 'persists' || p.verdict === 'marginal') {
-    return { persists: true, tau: p.tau, message: p.message, continued: p.pattern ? { mode: p.pattern.mode, phaseDifferences: p.pattern.phaseDifferences } : null };
+    return {
+      persists: true,
+      tau: p.tau,
+      message: p.message,
+      continued: p.pattern ? { mode: p.pattern.mode, phaseDifferences: p.pattern.phaseDifferences } : null,
+    };
   }
   if (p.verdict === 'lost') return { persists: false, tau: p.tau, message: p.message, continued: null };
   return null;

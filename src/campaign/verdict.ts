@@ -1,5 +1,15 @@
 import type { Perturbation } from '../session/perturbation.js';
-import { distanceTo, finalShift, lost, observeTrack, persisted, settledAfter, settledInBaseline, startTrack, type SystemTrackState } from './system-track.js';
+import {
+  distanceTo,
+  finalShift,
+  lost,
+  observeTrack,
+  persisted,
+  settledAfter,
+  settledInBaseline,
+  startTrack,
+  type SystemTrackState,
+} from './system-track.js';
 import type { SystemView, TickView } from './tick-view.js';
 import type { Criteria, FaultPlan } from './types.js';
 import type { LockSettings } from '../observe/lock-detector.js';
@@ -123,9 +133,23 @@ export class FaultEvaluation {
   constructor(readonly state: EvaluationState) {}
 
   /** Start evaluating `plan`, applied at `appliedAt`; `before` is the last tick before it (null at the very start). */
-  static begin(plan: FaultPlan, appliedAt: number, restore: Perturbation | null, before: TickView | null, lock: LockSettings): FaultEvaluation {
+  static begin(
+    plan: FaultPlan,
+    appliedAt: number,
+    restore: Perturbation | null,
+    before: TickView | null,
+    lock: LockSettings,
+  ): FaultEvaluation {
     const restoreAt = plan.duration !== null ? appliedAt + plan.duration : null;
-    const nothing: SystemView = { label: 'unlocked', status: 'unlocked', mode: 0, phaseDifferences: [], pairDifferences: [], watched: [], slips: 0 };
+    const nothing: SystemView = {
+      label: 'unlocked',
+      status: 'unlocked',
+      mode: 0,
+      phaseDifferences: [],
+      pairDifferences: [],
+      watched: [],
+      slips: 0,
+    };
     return new FaultEvaluation({
       plan,
       appliedAt,
@@ -208,7 +232,8 @@ export class FaultEvaluation {
     const relockTau = wasLost && track.relockedAt !== null && reference !== null ? Math.max(0, track.relockedAt - reference) : null;
     const settleTau = settled ? settledAfter(track, s.lockTolerance) : null;
     const settledSpan = settleTau !== null ? spanOf(Math.max(0, settleTau - (reference ?? s.appliedAt)), base) : null;
-    const fromContinued = s.continued !== null && s.continued.mode === track.baselineMode ? distanceTo(track, s.continued.phaseDifferences) : null;
+    const fromContinued =
+      s.continued !== null && s.continued.mode === track.baselineMode ? distanceTo(track, s.continued.phaseDifferences) : null;
     const shift = finalShift(track);
 
     const reasons: string[] = [];
@@ -217,17 +242,29 @@ export class FaultEvaluation {
     let open = !complete && cutShort === null;
     if (track.baseline === 'unlocked') reasons.push('the ring was not locked when the fault began; schedule faults after the first lock');
     else {
-      if (track.baselineMode !== 0) reasons.push(`the ring was locked on unwanted mode ${track.baselineMode} before the fault: a design defect (the output sits at that mode's frequency), not a healthy lock`);
+      if (track.baselineMode !== 0)
+        reasons.push(
+          `the ring was locked on unwanted mode ${track.baselineMode} before the fault: a design defect (the output sits at that mode's frequency), not a healthy lock`,
+        );
       if (c.mustPersist && wasLost) reasons.push(`the locked pattern did not persist: ${lossDescription(track)}`);
       else if (!wasLost && !settled) {
-        if (complete && c.mustPersist) reasons.push(`the ring did not settle within the window (still ${track.finalStatus} at the end; largest move ${track.maxExcursion.toFixed(3)} rad, no cycle slip)`);
+        if (complete && c.mustPersist)
+          reasons.push(
+            `the ring did not settle within the window (still ${track.finalStatus} at the end; largest move ${track.maxExcursion.toFixed(3)} rad, no cycle slip)`,
+          );
         else if (!complete) open = true;
       }
       if (c.mustRelock && wasLost) {
         if (relockTau === null) {
-          if (complete) reasons.push(`did not re-lock into ${track.baseline} within ${spanText(c.relockWithin, base)} of the ${s.restoreAt === null ? 'fault' : 'restore'}`);
+          if (complete)
+            reasons.push(
+              `did not re-lock into ${track.baseline} within ${spanText(c.relockWithin, base)} of the ${s.restoreAt === null ? 'fault' : 'restore'}`,
+            );
           else open = true;
-        } else if (relockTau > c.relockWithin) reasons.push(`re-locked into ${track.baseline} only after ${spanText(relockTau, base)}, more than ${spanText(c.relockWithin, base)}`);
+        } else if (relockTau > c.relockWithin)
+          reasons.push(
+            `re-locked into ${track.baseline} only after ${spanText(relockTau, base)}, more than ${spanText(c.relockWithin, base)}`,
+          );
       }
     }
     if (c.maxPhaseExcursion !== null && track.maxExcursion > c.maxPhaseExcursion) {
@@ -237,14 +274,21 @@ export class FaultEvaluation {
     // the noiseless guide over the whole soak, so the level says more about elapsed time than the fault
     const growth = s.maxDivergence - s.divergenceBefore;
     if (c.maxDivergence !== null && growth > c.maxDivergence) {
-      reasons.push(`full-vs-guide divergence grew by ${growth.toPrecision(3)} (from ${s.divergenceBefore.toPrecision(3)} to ${s.maxDivergence.toPrecision(3)}), more than ${c.maxDivergence}`);
+      reasons.push(
+        `full-vs-guide divergence grew by ${growth.toPrecision(3)} (from ${s.divergenceBefore.toPrecision(3)} to ${s.maxDivergence.toPrecision(3)}), more than ${c.maxDivergence}`,
+      );
     }
     // whether the pattern persisted is known once it was lost or has settled
     const decided = wasLost || settled;
     const guidePersisted = windowSeen && persisted(s.guide);
     const prediction: FaultVerdict['prediction'] =
       s.predictedDuring !== null
-        ? { source: 'frame', persists: s.predictedDuring.persists, agreed: decided ? s.predictedDuring.persists === fullPersisted : null, message: s.predictedDuring.message }
+        ? {
+            source: 'frame',
+            persists: s.predictedDuring.persists,
+            agreed: decided ? s.predictedDuring.persists === fullPersisted : null,
+            message: s.predictedDuring.message,
+          }
         : { source: 'guide', persists: guidePersisted, agreed: decided ? guidePersisted === fullPersisted : null, message: null };
     if (c.predictionMustAgree && prediction.agreed === false) {
       reasons.push(`the prediction (${prediction.source}) said the pattern would ${prediction.persists ? '' : 'not '}persist`);
@@ -252,9 +296,23 @@ export class FaultEvaluation {
     if (extraReason) reasons.push(extraReason);
 
     const notes: string[] = [];
-    if (cutShort) notes.push(`judged until the next fault (${cutShort.by}) at tau ${cutShort.at.toPrecision(6)} (slow ${(cutShort.at * base.epsilon).toPrecision(4)}), settled: ${settled ? 'yes' : 'no'}`);
-    if (settled && !wasLost) notes.push(settleNote({ shift, largest: track.maxExcursion, restored: s.restoredAt !== null, fromContinued, after: settledSpan, tolerance: s.lockTolerance }));
-    if (settled && fromContinued !== null && fromContinued > CONTINUED_NOTE) notes.push(`settled ${fromContinued.toFixed(2)} rad from the predicted continued state`);
+    if (cutShort)
+      notes.push(
+        `judged until the next fault (${cutShort.by}) at tau ${cutShort.at.toPrecision(6)} (slow ${(cutShort.at * base.epsilon).toPrecision(4)}), settled: ${settled ? 'yes' : 'no'}`,
+      );
+    if (settled && !wasLost)
+      notes.push(
+        settleNote({
+          shift,
+          largest: track.maxExcursion,
+          restored: s.restoredAt !== null,
+          fromContinued,
+          after: settledSpan,
+          tolerance: s.lockTolerance,
+        }),
+      );
+    if (settled && fromContinued !== null && fromContinued > CONTINUED_NOTE)
+      notes.push(`settled ${fromContinued.toFixed(2)} rad from the predicted continued state`);
     const outcome: VerdictOutcome = reasons.length > 0 ? 'fail' : open ? 'incomplete' : 'pass';
     if (outcome === 'incomplete') {
       const why = wasLost
@@ -316,16 +374,30 @@ export class FaultEvaluation {
 const CONTINUED_NOTE = 0.1;
 
 /** How far the fault moved a ring that kept its pattern, and how long it took to settle. */
-function settleNote(m: { shift: number; largest: number; restored: boolean; fromContinued: number | null; after: Span | null; tolerance: number }): string {
+function settleNote(m: {
+  shift: number;
+  largest: number;
+  restored: boolean;
+  fromContinued: number | null;
+  after: Span | null;
+  tolerance: number;
+}): string {
   const toContinued = m.fromContinued !== null && m.fromContinued <= CONTINUED_NOTE;
-  const when = m.after && m.after.slow > 0 ? `, settled in ${Number(m.after.slow.toPrecision(2))} slow units${m.restored ? ' after the restore' : ''}` : ', never left the lock tolerance';
-  if (m.restored) return `moved up to ${m.largest.toFixed(2)} rad during the fault and came back to within ${m.shift.toFixed(2)} rad${toContinued ? ' of the continued state' : ''}${when}`;
+  const when =
+    m.after && m.after.slow > 0
+      ? `, settled in ${Number(m.after.slow.toPrecision(2))} slow units${m.restored ? ' after the restore' : ''}`
+      : ', never left the lock tolerance';
+  if (m.restored)
+    return `moved up to ${m.largest.toFixed(2)} rad during the fault and came back to within ${m.shift.toFixed(2)} rad${toContinued ? ' of the continued state' : ''}${when}`;
   return `moved ${m.shift.toFixed(2)} rad${toContinued ? ' to the continued state' : ''}${when}`;
 }
 
 function lossDescription(track: SystemTrackState): string {
   const parts: string[] = [];
-  if (track.slips > 0) parts.push(`${track.slips === 1 ? 'a cycle slip' : `${track.slips} cycle slips`} (a phase difference moved ${track.maxExcursion.toFixed(2)} rad)`);
+  if (track.slips > 0)
+    parts.push(
+      `${track.slips === 1 ? 'a cycle slip' : `${track.slips} cycle slips`} (a phase difference moved ${track.maxExcursion.toFixed(2)} rad)`,
+    );
   if (track.modeChanged) parts.push('the carrying mode changed');
   const others = track.became.filter((l) => l !== 'unlocked');
   if (others.length > 0) parts.push(`${track.slips > 0 ? 'then' : 'moved without a cycle slip into'} ${others.join(', then ')}`);

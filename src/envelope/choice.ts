@@ -79,11 +79,17 @@ export function chooseIntegrator(
   if (unavailable || !health || !costs) return { mode: 'micro', reason: `the envelope cannot run: ${unavailable ?? 'no health figures'}` };
   const trouble = envelopeTrouble(health, eps);
   if (trouble) return { mode: 'micro', reason: `the envelope is not trusted here: ${trouble}` };
-  const divisor = health.smallestDivisor === null ? 'no carried harmonic' : `smallest divisor ${(health.smallestDivisor / eps).toPrecision(3)} eps at ${health.harmonic}`;
+  const divisor =
+    health.smallestDivisor === null
+      ? 'no carried harmonic'
+      : `smallest divisor ${(health.smallestDivisor / eps).toPrecision(3)} eps at ${health.harmonic}`;
   const figures = `${divisor}, indicator ${health.indicator.toExponential(2)}, estimated error ${health.estimatedError.toExponential(2)}`;
   if (request === 'envelope') return { mode: 'envelope', reason: `the envelope was requested and is trusted (${figures})` };
   if (health.estimatedError > autoError * hysteresis) {
-    return { mode: 'micro', reason: `micro-stepping is more accurate here: the envelope's estimated error ${health.estimatedError.toExponential(2)} is above ${autoError * hysteresis}` };
+    return {
+      mode: 'micro',
+      reason: `micro-stepping is more accurate here: the envelope's estimated error ${health.estimatedError.toExponential(2)} is above ${autoError * hysteresis}`,
+    };
   }
   const ratio = costs.microPerTick / costs.envelopePerTick;
   if (ratio < PAYOFF) {
@@ -92,5 +98,8 @@ export function chooseIntegrator(
       reason: `micro-stepping is about as cheap (${Math.round(costs.microPerTick)} against about ${Math.round(costs.envelopePerTick)} field evaluations per tick)`,
     };
   }
-  return { mode: 'envelope', reason: `the envelope is valid (${figures}) and about ${ratio.toPrecision(2)} times cheaper than micro-stepping` };
+  return {
+    mode: 'envelope',
+    reason: `the envelope is valid (${figures}) and about ${ratio.toPrecision(2)} times cheaper than micro-stepping`,
+  };
 }

@@ -112,7 +112,9 @@ export class EnvelopeSystem implements FullIntegrator {
   ) {
     const size = 2 * params.nodes * params.modes;
     if (initial.length !== size) {
-      throw new Error(`EnvelopeSystem: initial state has ${initial.length} numbers, expected ${size} (2 x ${params.nodes} nodes x ${params.modes} modes)`);
+      throw new Error(
+        `EnvelopeSystem: initial state has ${initial.length} numbers, expected ${size} (2 x ${params.nodes} nodes x ${params.modes} modes)`,
+      );
     }
     if (!(params.epsilon > 0)) throw new Error(`EnvelopeSystem: needs eps > 0 (got ${params.epsilon}); with eps = 0 nothing is slow`);
     const content = SecondOrderField.checkFieldContent(params);
@@ -291,7 +293,7 @@ export class EnvelopeSystem implements FullIntegrator {
       trial.set(startSlow);
       const accepted = solver.accepted;
       if (!solver.integrate(start, start + span, trial)) {
-        return 'the envelope\'s slow integrator failed (its step size collapsed)';
+        return "the envelope's slow integrator failed (its step size collapsed)";
       }
       if (solver.accepted - accepted === 1 || attempt === CHUNK_RETRIES) break;
       // The controller split this chunk: redo it as one step of the size it now proposes, so

@@ -1,7 +1,14 @@
 import type { ModelParameters } from '../model/parameters.js';
 import type { FullIntegrator, FullSystem, StepOutcome } from '../integrate/full-system.js';
 import type { NoiseModel } from './averaged-noise.js';
-import { chooseIntegrator, estimateCosts, type IntegratorChoice, type IntegratorMode, type IntegratorRequest, INTEGRATOR_REQUESTS } from './choice.js';
+import {
+  chooseIntegrator,
+  estimateCosts,
+  type IntegratorChoice,
+  type IntegratorMode,
+  type IntegratorRequest,
+  INTEGRATOR_REQUESTS,
+} from './choice.js';
 import { EnvelopeSystem, type EnvelopeCheckpoint, type EnvelopeOptions } from './envelope-system.js';
 import { AUTO_ERROR, TRUST_INDICATOR } from './validity.js';
 
@@ -124,7 +131,8 @@ export class IntegratorSwitch {
       return;
     }
     this.mode = 'micro';
-    if (saved?.mode === 'envelope') this.reason = `micro-stepping: the checkpoint ran the envelope, which this session cannot (${this.unavailable ?? 'no envelope state saved'})`;
+    if (saved?.mode === 'envelope')
+      this.reason = `micro-stepping: the checkpoint ran the envelope, which this session cannot (${this.unavailable ?? 'no envelope state saved'})`;
     else this.reason = saved?.reason ?? 'micro-stepping (restored from a checkpoint without integrator data)';
   }
 

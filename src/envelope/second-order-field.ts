@@ -64,12 +64,17 @@ export class SecondOrderField {
   private readonly out2: Float64Array;
   private readonly out3: Float64Array;
 
-  constructor(readonly params: ModelParameters, grid: EnvelopeGrid = 'parity') {
+  constructor(
+    readonly params: ModelParameters,
+    grid: EnvelopeGrid = 'parity',
+  ) {
     this.field = new SlowField(params);
     if (grid instanceof TorusHarmonics) this.torus = grid;
-    else if (grid === 'parity') this.torus = params.modes <= 2 ? TorusHarmonics.parity(params.omega) : TorusHarmonics.tensor(params.omega, minimumEnvelopeGrid());
+    else if (grid === 'parity')
+      this.torus = params.modes <= 2 ? TorusHarmonics.parity(params.omega) : TorusHarmonics.tensor(params.omega, minimumEnvelopeGrid());
     else this.torus = TorusHarmonics.tensor(params.omega, grid);
-    if (this.torus.modes !== params.modes) throw new RangeError(`SecondOrderField: the torus has ${this.torus.modes} angles but the model ${params.modes} modes`);
+    if (this.torus.modes !== params.modes)
+      throw new RangeError(`SecondOrderField: the torus has ${this.torus.modes} angles but the model ${params.modes} modes`);
     const size = 2 * params.nodes * params.modes;
     this.size = size;
     const { points, count, table, divisor } = this.torus;
@@ -121,10 +126,16 @@ export class SecondOrderField {
     const shifted = new Float64Array(size);
     let parityGap = 0;
     for (let p = 0; p < torus.points; p++) {
-      field.evaluate(torus.pointCos[p].map((c) => -c), torus.pointSin[p].map((s) => -s), y, shifted);
+      field.evaluate(
+        torus.pointCos[p].map((c) => -c),
+        torus.pointSin[p].map((s) => -s),
+        y,
+        shifted,
+      );
       for (let i = 0; i < size; i++) parityGap = Math.max(parityGap, Math.abs(shifted[i] - samples[p][i]));
     }
-    if (parityGap > 1e-12 * largest) return `the field changes when every carrier angle moves by pi (gap ${(parityGap / largest).toExponential(2)}): it has odd harmonics, which the envelope does not model`;
+    if (parityGap > 1e-12 * largest)
+      return `the field changes when every carrier angle moves by pi (gap ${(parityGap / largest).toExponential(2)}): it has odd harmonics, which the envelope does not model`;
     let gap = 0;
     const expansion = samples.map(() => new Float64Array(size));
     const points = torus.points;
@@ -137,11 +148,13 @@ export class SecondOrderField {
           a += (torus.table[2 * (p * torus.count + h)] * samples[p][i]) / points;
           b += (torus.table[2 * (p * torus.count + h) + 1] * samples[p][i]) / points;
         }
-        for (let p = 0; p < points; p++) expansion[p][i] += 2 * (a * torus.table[2 * (p * torus.count + h)] + b * torus.table[2 * (p * torus.count + h) + 1]);
+        for (let p = 0; p < points; p++)
+          expansion[p][i] += 2 * (a * torus.table[2 * (p * torus.count + h)] + b * torus.table[2 * (p * torus.count + h) + 1]);
       }
     }
     for (let p = 0; p < points; p++) for (let i = 0; i < size; i++) gap = Math.max(gap, Math.abs(expansion[p][i] - samples[p][i]));
-    if (gap > 1e-12 * largest) return `the field has harmonics above total degree 4 (residual ${(gap / largest).toExponential(2)}), which the envelope does not model`;
+    if (gap > 1e-12 * largest)
+      return `the field has harmonics above total degree 4 (residual ${(gap / largest).toExponential(2)}), which the envelope does not model`;
     return null;
   }
 

@@ -46,7 +46,9 @@ export class TorusHarmonics {
   static tensor(omega: Float64Array, grid: number): TorusHarmonics {
     const least = minimumEnvelopeGrid();
     if (!Number.isInteger(grid) || grid < least) {
-      throw new RangeError(`TorusHarmonics: grid must be an integer >= ${least} (2 x harmonic degree ${FIELD_HARMONIC_DEGREE} + 1) so that products of the field average exactly (got ${grid})`);
+      throw new RangeError(
+        `TorusHarmonics: grid must be an integer >= ${least} (2 x harmonic degree ${FIELD_HARMONIC_DEGREE} + 1) so that products of the field average exactly (got ${grid})`,
+      );
     }
     const m = omega.length;
     const count = grid ** m;
@@ -65,7 +67,11 @@ export class TorusHarmonics {
   static parity(omega: Float64Array): TorusHarmonics {
     const m = omega.length;
     const q = 5;
-    if (m === 1) return new TorusHarmonics(omega, Float64Array.from({ length: q }, (_, p) => (Math.PI * p) / q));
+    if (m === 1)
+      return new TorusHarmonics(
+        omega,
+        Float64Array.from({ length: q }, (_, p) => (Math.PI * p) / q),
+      );
     if (m !== 2) throw new RangeError(`TorusHarmonics: the parity grid is for one or two modes (got ${m}); use the tensor grid`);
     const angles = new Float64Array(q * q * 2);
     for (let a = 0; a < q; a++) {

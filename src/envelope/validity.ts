@@ -28,7 +28,12 @@ export const TRUST_INDICATOR = 1e-2;
 export const AUTO_ERROR = 1e-8;
 
 /** Why the envelope cannot be trusted with this health, or null. */
-export function envelopeTrouble(health: EnvelopeHealth, eps: number, indicatorLimit = TRUST_INDICATOR, margin = DIVISOR_MARGIN): string | null {
+export function envelopeTrouble(
+  health: EnvelopeHealth,
+  eps: number,
+  indicatorLimit = TRUST_INDICATOR,
+  margin = DIVISOR_MARGIN,
+): string | null {
   const divisor = health.smallestDivisor;
   if (divisor !== null && divisor < margin * eps) {
     const inEps = divisor / eps;

@@ -28,7 +28,12 @@ export class GuideSystem {
   private clock = 0;
   private collapsed = false;
 
-  constructor(readonly params: ModelParameters, initial: Float64Array, grid: number, tolerance = GUIDE_TOLERANCE) {
+  constructor(
+    readonly params: ModelParameters,
+    initial: Float64Array,
+    grid: number,
+    tolerance = GUIDE_TOLERANCE,
+  ) {
     this.average = new TorusAverage(params, grid);
     this.state = Float64Array.from(initial);
     this.solver = new DormandPrince(initial.length, (_s, y, dy) => this.average.evaluate(y, dy), {

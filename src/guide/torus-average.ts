@@ -19,7 +19,10 @@ export class TorusAverage {
   private readonly sin: Float64Array;
   private readonly sample: Float64Array;
 
-  constructor(readonly params: ModelParameters, readonly grid: number) {
+  constructor(
+    readonly params: ModelParameters,
+    readonly grid: number,
+  ) {
     this.field = new SlowField(params);
     const m = params.modes;
     this.points = grid ** m;

@@ -48,14 +48,36 @@ export interface DormandPrinceOptions {
   maxSteps?: number;
 }
 
-const C2 = 1 / 5, C3 = 3 / 10, C4 = 4 / 5, C5 = 8 / 9;
+const C2 = 1 / 5,
+  C3 = 3 / 10,
+  C4 = 4 / 5,
+  C5 = 8 / 9;
 const A21 = 1 / 5;
-const A31 = 3 / 40, A32 = 9 / 40;
-const A41 = 44 / 45, A42 = -56 / 15, A43 = 32 / 9;
-const A51 = 19372 / 6561, A52 = -25360 / 2187, A53 = 64448 / 6561, A54 = -212 / 729;
-const A61 = 9017 / 3168, A62 = -355 / 33, A63 = 46732 / 5247, A64 = 49 / 176, A65 = -5103 / 18656;
-const B1 = 35 / 384, B3 = 500 / 1113, B4 = 125 / 192, B5 = -2187 / 6784, B6 = 11 / 84;
-const E1 = 71 / 57600, E3 = -71 / 16695, E4 = 71 / 1920, E5 = -17253 / 339200, E6 = 22 / 525, E7 = -1 / 40;
+const A31 = 3 / 40,
+  A32 = 9 / 40;
+const A41 = 44 / 45,
+  A42 = -56 / 15,
+  A43 = 32 / 9;
+const A51 = 19372 / 6561,
+  A52 = -25360 / 2187,
+  A53 = 64448 / 6561,
+  A54 = -212 / 729;
+const A61 = 9017 / 3168,
+  A62 = -355 / 33,
+  A63 = 46732 / 5247,
+  A64 = 49 / 176,
+  A65 = -5103 / 18656;
+const B1 = 35 / 384,
+  B3 = 500 / 1113,
+  B4 = 125 / 192,
+  B5 = -2187 / 6784,
+  B6 = 11 / 84;
+const E1 = 71 / 57600,
+  E3 = -71 / 16695,
+  E4 = 71 / 1920,
+  E5 = -17253 / 339200,
+  E6 = 22 / 525,
+  E7 = -1 / 40;
 
 export class DormandPrince {
   readonly rtol: number;
@@ -79,15 +101,25 @@ export class DormandPrince {
   private readonly next: Float64Array;
   private firstValid = false;
 
-  constructor(readonly dimension: number, readonly field: VectorField, options: DormandPrinceOptions = {}) {
+  constructor(
+    readonly dimension: number,
+    readonly field: VectorField,
+    options: DormandPrinceOptions = {},
+  ) {
     this.rtol = options.rtol ?? DEFAULT_RTOL;
     this.atol = options.atol ?? DEFAULT_ATOL;
     this.maxStep = options.maxStep ?? Number.POSITIVE_INFINITY;
     this.maxSteps = options.maxSteps ?? DEFAULT_MAX_STEPS;
     const make = () => new Float64Array(dimension);
-    this.k1 = make(); this.k2 = make(); this.k3 = make(); this.k4 = make();
-    this.k5 = make(); this.k6 = make(); this.k7 = make();
-    this.trial = make(); this.next = make();
+    this.k1 = make();
+    this.k2 = make();
+    this.k3 = make();
+    this.k4 = make();
+    this.k5 = make();
+    this.k6 = make();
+    this.k7 = make();
+    this.trial = make();
+    this.next = make();
   }
 
   /** The step the next call tries first (0 before the first call). */

@@ -99,13 +99,17 @@ export function fittedStructure(params: ModelParameters, h: number): FittedStruc
     const cycles = (d * space.phase) / (2 * Math.PI);
     const nearest = Math.round(cycles);
     if (nearest >= 1 && Math.abs(cycles - nearest) < ALIAS_MARGIN) {
-      return fail(`harmonic ${d} of the carrier advances ${cycles.toFixed(3)} cycles per step and aliases (use 5, 7, 9 or more steps per period, not 6 or 8)`);
+      return fail(
+        `harmonic ${d} of the carrier advances ${cycles.toFixed(3)} cycles per step and aliases (use 5, 7, 9 or more steps per period, not 6 or 8)`,
+      );
     }
   }
   if (m === 2) {
     const beat = 2 * Math.abs(params.omega[1] - params.omega[0]) * (k - 1) * h;
     if (beat > MAX_BEAT_PHASE) {
-      return fail(`the two mode frequencies are too far apart for one fitted carrier (beat phase ${beat.toFixed(2)} rad over the history, limit ${MAX_BEAT_PHASE})`);
+      return fail(
+        `the two mode frequencies are too far apart for one fitted carrier (beat phase ${beat.toFixed(2)} rad over the history, limit ${MAX_BEAT_PHASE})`,
+      );
     }
   }
   const weights = fittedWeights(space);
@@ -148,7 +152,10 @@ export class FittedAdamsScheme {
   private readonly cosPast: Float64Array;
   private readonly sinPast: Float64Array;
 
-  constructor(readonly params: ModelParameters, field?: SlowField) {
+  constructor(
+    readonly params: ModelParameters,
+    field?: SlowField,
+  ) {
     this.field = field ?? new SlowField(params);
     this.angles = new CarrierAngles(params.omega);
     const size = 2 * params.nodes * params.modes;
@@ -254,12 +261,34 @@ export class FittedAdamsScheme {
 // since V8 runs the unrolled form several times faster than the double loop.
 
 function addWeightedSum11(y: Float64Array, h: Float64Array, o: Int32Array, b: Float64Array, size: number): void {
-  const o0 = o[0], o1 = o[1], o2 = o[2], o3 = o[3], o4 = o[4], o5 = o[5], o6 = o[6], o7 = o[7], o8 = o[8], o9 = o[9], o10 = o[10];
-  const b0 = b[0], b1 = b[1], b2 = b[2], b3 = b[3], b4 = b[4], b5 = b[5], b6 = b[6], b7 = b[7], b8 = b[8], b9 = b[9], b10 = b[10];
+  const o0 = o[0],
+    o1 = o[1],
+    o2 = o[2],
+    o3 = o[3],
+    o4 = o[4],
+    o5 = o[5],
+    o6 = o[6],
+    o7 = o[7],
+    o8 = o[8],
+    o9 = o[9],
+    o10 = o[10];
+  const b0 = b[0],
+    b1 = b[1],
+    b2 = b[2],
+    b3 = b[3],
+    b4 = b[4],
+    b5 = b[5],
+    b6 = b[6],
+    b7 = b[7],
+    b8 = b[8],
+    b9 = b[9],
+    b10 = b[10];
   for (let i = 0; i < size; i++) {
     // pairwise, so the additions do not form one 11-long dependency chain
     y[i] +=
-      b0 * h[o0 + i] + b1 * h[o1 + i] + (b2 * h[o2 + i] + b3 * h[o3 + i]) +
+      b0 * h[o0 + i] +
+      b1 * h[o1 + i] +
+      (b2 * h[o2 + i] + b3 * h[o3 + i]) +
       (b4 * h[o4 + i] + b5 * h[o5 + i] + (b6 * h[o6 + i] + b7 * h[o7 + i])) +
       (b8 * h[o8 + i] + b9 * h[o9 + i] + b10 * h[o10 + i]);
   }

@@ -54,8 +54,10 @@ export function basisIntegrals(space: FittedSpace, s0: number, s1: number, out: 
   let r = 3;
   for (const m of space.harmonics) {
     const a = m * space.phase;
-    const c0 = Math.cos(a * s0), c1 = Math.cos(a * s1);
-    const n0 = Math.sin(a * s0), n1 = Math.sin(a * s1);
+    const c0 = Math.cos(a * s0),
+      c1 = Math.cos(a * s1);
+    const n0 = Math.sin(a * s0),
+      n1 = Math.sin(a * s1);
     out[r++] = (n1 - n0) / a;
     out[r++] = -(c1 - c0) / a;
     if (space.modulated) {

@@ -41,7 +41,12 @@ export class FullSystem implements FullIntegrator {
   readonly random: Random;
   private readonly previous: Float64Array;
 
-  constructor(readonly params: ModelParameters, initial: Float64Array, stepsPerPeriod: number, noiseSeed: number) {
+  constructor(
+    readonly params: ModelParameters,
+    initial: Float64Array,
+    stepsPerPeriod: number,
+    noiseSeed: number,
+  ) {
     this.stepper = new MicroStepper(params, initial, stepsPerPeriod);
     this.random = new Random(noiseSeed);
     this.previous = new Float64Array(initial.length);

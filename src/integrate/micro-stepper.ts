@@ -65,7 +65,9 @@ export class MicroStepper {
   ) {
     const size = 2 * params.nodes * params.modes;
     if (initial.length !== size) {
-      throw new Error(`MicroStepper: initial state has ${initial.length} numbers, expected ${size} (2 x ${params.nodes} nodes x ${params.modes} modes)`);
+      throw new Error(
+        `MicroStepper: initial state has ${initial.length} numbers, expected ${size} (2 x ${params.nodes} nodes x ${params.modes} modes)`,
+      );
     }
     if (!(Number.isFinite(stepsPerPeriod) && stepsPerPeriod > 0)) {
       throw new Error(`MicroStepper: stepsPerPeriod must be a positive number (got ${stepsPerPeriod})`);
@@ -81,7 +83,7 @@ export class MicroStepper {
     }
     const structure = requested === 'rk4' ? null : fittedStructure(params, this.nominalStep);
     const problem = structure
-      ? structure.problem ?? fittedStabilityProblem(params, this.nominalStep, structure.weightNorm)
+      ? (structure.problem ?? fittedStabilityProblem(params, this.nominalStep, structure.weightNorm))
       : 'RK4 was requested';
     this.checked = structure;
     this.checkedStep = this.nominalStep;
@@ -155,7 +157,6 @@ export class MicroStepper {
     // Parameters may have changed since the last check (stronger coupling, larger detuning).
     return fittedStabilityProblem(this.params, canonical, checked.weightNorm) === null ? checked.weights : null;
   }
-
 }
 
 /** RK4 steps per period at least, when RK4 stands in for the fitted method. */

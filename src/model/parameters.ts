@@ -119,7 +119,8 @@ export class ModelParameters {
 
   /** Set every link's weight at once (scenario order). */
   setLinkWeights(weights: ArrayLike<number>): void {
-    if (weights.length !== this.linkWeight.length) throw new RangeError(`expected ${this.linkWeight.length} link weights, got ${weights.length}`);
+    if (weights.length !== this.linkWeight.length)
+      throw new RangeError(`expected ${this.linkWeight.length} link weights, got ${weights.length}`);
     this.linkWeight.set(weights);
     this.refreshWeightSums();
   }

@@ -108,9 +108,17 @@ export class SlowField {
     const m = this.params.modes;
     const omega = this.params.omega;
     if (m === 2) {
-      const c0 = cos[0], s0 = sin[0], c1 = cos[1], s1 = sin[1], w0 = omega[0], w1 = omega[1];
+      const c0 = cos[0],
+        s0 = sin[0],
+        c1 = cos[1],
+        s1 = sin[1],
+        w0 = omega[0],
+        w1 = omega[1];
       for (let k = 0, i = 0; k < n; k++, i += 4) {
-        const u0 = y[i], v0 = y[i + 1], u1 = y[i + 2], v1 = y[i + 3];
+        const u0 = y[i],
+          v0 = y[i + 1],
+          u1 = y[i + 2],
+          v1 = y[i + 3];
         const x0 = u0 * c0 + v0 * s0;
         const r0 = w0 * (v0 * c0 - u0 * s0);
         const x1 = u1 * c1 + v1 * s1;
@@ -123,9 +131,12 @@ export class SlowField {
         signalRate[k] = r0 + r1;
       }
     } else if (m === 1) {
-      const c = cos[0], s = sin[0], w = omega[0];
+      const c = cos[0],
+        s = sin[0],
+        w = omega[0];
       for (let k = 0, i = 0; k < n; k++, i += 2) {
-        const u = y[i], v = y[i + 1];
+        const u = y[i],
+          v = y[i + 1];
         const x = u * c + v * s;
         const r = w * (v * c - u * s);
         motion[i] = x;
@@ -139,7 +150,8 @@ export class SlowField {
         let sd = 0;
         for (let j = 0; j < m; j++) {
           const i = 2 * (k * m + j);
-          const u = y[i], v = y[i + 1];
+          const u = y[i],
+            v = y[i + 1];
           const x = u * cos[j] + v * sin[j];
           const r = omega[j] * (v * cos[j] - u * sin[j]);
           motion[i] = x;
@@ -170,22 +182,36 @@ export class SlowField {
     const detuning = p.detuning;
     const kr = p.strength * p.reactive;
     const ks = p.strength * p.dissipative;
-    const w0 = p.omega[0], w1 = p.omega[1];
-    const g0 = p.gain[0], g1 = p.gain[1], d0 = p.loss[0], d1 = p.loss[1];
-    const q0 = 2 * w0 * w0, q1 = 2 * w1 * w1;
-    const su0 = -sin[0] / w0, sv0 = cos[0] / w0, su1 = -sin[1] / w1, sv1 = cos[1] / w1;
+    const w0 = p.omega[0],
+      w1 = p.omega[1];
+    const g0 = p.gain[0],
+      g1 = p.gain[1],
+      d0 = p.loss[0],
+      d1 = p.loss[1];
+    const q0 = 2 * w0 * w0,
+      q1 = 2 * w1 * w1;
+    const su0 = -sin[0] / w0,
+      sv0 = cos[0] / w0,
+      su1 = -sin[1] / w1,
+      sv1 = cos[1] / w1;
     const n = p.nodes;
     for (let k = 0, i = 0; k < n; k++, i += 4) {
-      const sk = signal[k], rk = signalRate[k];
-      const la = fromA[k], lb = fromB[k];
-      const wa = weight[linkA[k]], wb = weight[linkB[k]];
+      const sk = signal[k],
+        rk = signalRate[k];
+      const la = fromA[k],
+        lb = fromB[k];
+      const wa = weight[linkA[k]],
+        wb = weight[linkB[k]];
       const coupling =
         kr * (wa * (signal[la] - sk) + wb * (signal[lb] - sk)) + ks * (wa * (signalRate[la] - rk) + wb * (signalRate[lb] - rk));
       const sustain = (1 - sk * sk) * rk;
       const dk = detuning[k];
       const f0 = g0 * sustain - d0 * motion[i + 1] - q0 * dk * motion[i] + coupling;
       const f1 = g1 * sustain - d1 * motion[i + 3] - q1 * dk * motion[i + 2] + coupling;
-      const fu0 = f0 * su0, fv0 = f0 * sv0, fu1 = f1 * su1, fv1 = f1 * sv1;
+      const fu0 = f0 * su0,
+        fv0 = f0 * sv0,
+        fu1 = f1 * su1,
+        fv1 = f1 * sv1;
       if (plain) {
         next[i] = fu0;
         next[i + 1] = fv0;
@@ -222,18 +248,24 @@ export class SlowField {
     const kr = p.strength * p.reactive;
     const ks = p.strength * p.dissipative;
     const w = p.omega[0];
-    const g = p.gain[0], d = p.loss[0];
+    const g = p.gain[0],
+      d = p.loss[0];
     const q = 2 * w * w;
-    const su = -s / w, sv = c / w;
+    const su = -s / w,
+      sv = c / w;
     const n = p.nodes;
     for (let k = 0, i = 0; k < n; k++, i += 2) {
-      const sk = signal[k], rk = signalRate[k];
-      const la = fromA[k], lb = fromB[k];
-      const wa = weight[linkA[k]], wb = weight[linkB[k]];
+      const sk = signal[k],
+        rk = signalRate[k];
+      const la = fromA[k],
+        lb = fromB[k];
+      const wa = weight[linkA[k]],
+        wb = weight[linkB[k]];
       const coupling =
         kr * (wa * (signal[la] - sk) + wb * (signal[lb] - sk)) + ks * (wa * (signalRate[la] - rk) + wb * (signalRate[lb] - rk));
       const f = g * (1 - sk * sk) * rk - d * rk - q * detuning[k] * sk + coupling;
-      const fu = f * su, fv = f * sv;
+      const fu = f * su,
+        fv = f * sv;
       if (plain) {
         next[i] = fu;
         next[i + 1] = fv;
@@ -266,7 +298,8 @@ export class SlowField {
     const n = p.nodes;
     const m = p.modes;
     for (let k = 0; k < n; k++) {
-      const sk = signal[k], rk = signalRate[k];
+      const sk = signal[k],
+        rk = signalRate[k];
       let pull = 0;
       let pullRate = 0;
       for (let e = inStart[k]; e < inStart[k + 1]; e++) {

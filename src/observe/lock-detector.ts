@@ -64,7 +64,13 @@ export type UnlockCause = 'slip' | 'amplitude' | 'mode';
 /** A change of the committed lock state at one tick (none on most ticks). */
 export type LockTransition =
   | { kind: 'lock'; label: string }
-  | { kind: 'unlock'; was: string; cause: UnlockCause; /** Index of the difference (the caller's pair) that slipped. */ pair?: number; move?: number }
+  | {
+      kind: 'unlock';
+      was: string;
+      cause: UnlockCause;
+      /** Index of the difference (the caller's pair) that slipped. */ pair?: number;
+      move?: number;
+    }
   | { kind: 'pattern-change'; from: string; to: string; move: number }
   | { kind: 'settled'; label: string; move: number };
 
@@ -150,7 +156,14 @@ export class LockDetector {
    * the caller kept the committed one); `watched[k]` = 0 exempts difference k from slipping for
    * now. Returns the transition this tick made, if any.
    */
-  push(tau: number, differences: ArrayLike<number>, meanAmplitude: number, identity: string, watched?: ArrayLike<number>, shape = identity): LockTransition | null {
+  push(
+    tau: number,
+    differences: ArrayLike<number>,
+    meanAmplitude: number,
+    identity: string,
+    watched?: ArrayLike<number>,
+    shape = identity,
+  ): LockTransition | null {
     this.history.set(differences, this.head * this.size);
     this.head = (this.head + 1) % this.window;
     this.count = Math.min(this.count + 1, this.window);

@@ -9,7 +9,12 @@ import { wrapAngle } from '../util/angles.js';
  * by pi between two of them. Where `coupled[k]` is 0 the pair is not coupled for now: its
  * difference may wind freely, so its offset is held at 0 and it cannot slip.
  */
-export function accumulateExcursion(last: number[] | Float64Array, offsets: number[] | Float64Array, differences: ArrayLike<number>, coupled?: ArrayLike<number>): number {
+export function accumulateExcursion(
+  last: number[] | Float64Array,
+  offsets: number[] | Float64Array,
+  differences: ArrayLike<number>,
+  coupled?: ArrayLike<number>,
+): number {
   let largest = 0;
   for (let k = 0; k < differences.length; k++) {
     offsets[k] = coupled && coupled[k] === 0 ? 0 : offsets[k] + wrapAngle(differences[k] - last[k]);

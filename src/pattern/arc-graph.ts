@@ -55,9 +55,22 @@ export function buildArcGraph(nodes: number, links: readonly Link[], tolerance: 
 
   const threshold = tolerance * scale;
   const present = links.filter((link) => Math.abs(link.weight) > threshold);
-  const classes = weightClasses(present.map((link) => link.weight), threshold);
-  const out = compressedRows(nodes, present.map((link) => link.from), present.map((link) => link.to), classes);
-  const into = compressedRows(nodes, present.map((link) => link.to), present.map((link) => link.from), classes);
+  const classes = weightClasses(
+    present.map((link) => link.weight),
+    threshold,
+  );
+  const out = compressedRows(
+    nodes,
+    present.map((link) => link.from),
+    present.map((link) => link.to),
+    classes,
+  );
+  const into = compressedRows(
+    nodes,
+    present.map((link) => link.to),
+    present.map((link) => link.from),
+    classes,
+  );
   const selfClass = new Int32Array(nodes).fill(-1);
   present.forEach((link, i) => {
     if (link.from === link.to) selfClass[link.from] = classes[i];

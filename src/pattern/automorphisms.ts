@@ -52,11 +52,7 @@ export interface AutomorphismGroup {
  * Every automorphism of the graph with `nodes` nodes and the given links, up to `limit` of them.
  * Throws a RangeError or TypeError naming the bad argument or link.
  */
-export function graphAutomorphisms(
-  nodes: number,
-  links: readonly Link[],
-  options: AutomorphismOptions = {},
-): AutomorphismGroup {
+export function graphAutomorphisms(nodes: number, links: readonly Link[], options: AutomorphismOptions = {}): AutomorphismGroup {
   const limit = options.limit ?? DEFAULT_AUTOMORPHISM_LIMIT;
   const tolerance = options.tolerance ?? DEFAULT_WEIGHT_TOLERANCE;
   if (!Number.isInteger(limit) || limit < 1) {

@@ -39,7 +39,12 @@ export interface NodeOrder {
  * such as detuning ranks). `symmetries` (every automorphism keeping arcs, arc classes and node
  * classes, or null when they are not all listed) is only used to check the ties broken.
  */
-export function canonicalNodeOrder(nodes: number, arcs: readonly ClassedArc[], nodeClass: ArrayLike<number>, symmetries: readonly Int32Array[] | null): NodeOrder {
+export function canonicalNodeOrder(
+  nodes: number,
+  arcs: readonly ClassedArc[],
+  nodeClass: ArrayLike<number>,
+  symmetries: readonly Int32Array[] | null,
+): NodeOrder {
   const adjacency = new ClassedAdjacency(nodes, arcs);
   let colour = refine(adjacency, ranksOf(Array.from(nodeClass, (c) => [c])));
   const individualised: number[] = [];
@@ -71,7 +76,10 @@ class ClassedAdjacency {
   readonly outgoing: { node: number; cls: number }[][];
   readonly incoming: { node: number; cls: number }[][];
 
-  constructor(readonly nodes: number, arcs: readonly ClassedArc[]) {
+  constructor(
+    readonly nodes: number,
+    arcs: readonly ClassedArc[],
+  ) {
     this.outgoing = Array.from({ length: nodes }, () => []);
     this.incoming = Array.from({ length: nodes }, () => []);
     for (const a of arcs) {
@@ -85,7 +93,8 @@ class ClassedAdjacency {
 function refine(adjacency: ClassedAdjacency, colour: Int32Array): Int32Array {
   let count = distinct(colour);
   for (;;) {
-    const describe = (list: { node: number; cls: number }[]): number[] => list.map((a) => a.cls * adjacency.nodes + colour[a.node]).sort((x, y) => x - y);
+    const describe = (list: { node: number; cls: number }[]): number[] =>
+      list.map((a) => a.cls * adjacency.nodes + colour[a.node]).sort((x, y) => x - y);
     const descriptions = Array.from(colour, (c, k) => [c, ...describe(adjacency.outgoing[k]), -1, ...describe(adjacency.incoming[k])]);
     const next = ranksOf(descriptions);
     const nextCount = distinct(next);
@@ -103,7 +112,9 @@ function ranksOf(descriptions: readonly number[][]): Int32Array {
   };
   const sorted = descriptions.map((_, k) => k).sort((a, b) => compare(descriptions[a], descriptions[b]));
   const rank = new Int32Array(descriptions.length);
-  sorted.forEach((k, i) => (rank[k] = i === 0 ? 0 : rank[sorted[i - 1]] + (compare(descriptions[sorted[i - 1]], descriptions[k]) === 0 ? 0 : 1)));
+  sorted.forEach(
+    (k, i) => (rank[k] = i === 0 ? 0 : rank[sorted[i - 1]] + (compare(descriptions[sorted[i - 1]], descriptions[k]) === 0 ? 0 : 1)),
+  );
   return rank;
 }
 
@@ -122,8 +133,14 @@ function firstSharedColour(colour: Int32Array): number {
  * null when `members` is exactly the orbit of `chosen` under the listed symmetries that fix every
  * node of `fixed`; otherwise why the tie may follow the numbering.
  */
-function tieIsSymmetric(members: readonly number[], chosen: number, fixed: readonly number[], symmetries: readonly Int32Array[] | null): string | null {
-  if (!symmetries) return 'a tie between nodes was broken without the full symmetry group to confirm it, so the order may follow the numbering';
+function tieIsSymmetric(
+  members: readonly number[],
+  chosen: number,
+  fixed: readonly number[],
+  symmetries: readonly Int32Array[] | null,
+): string | null {
+  if (!symmetries)
+    return 'a tie between nodes was broken without the full symmetry group to confirm it, so the order may follow the numbering';
   const orbit = new Set<number>();
   for (const g of symmetries) if (fixed.every((k) => g[k] === k)) orbit.add(g[chosen]);
   if (orbit.size === members.length && members.every((k) => orbit.has(k))) return null;

@@ -68,11 +68,7 @@ function fillOrderParameters(re: ArrayLike<number>, im: ArrayLike<number>, out: 
 }
 
 /** Classifies one snapshot by the rules in this module's header. */
-export function classifySnapshot(
-  re: ArrayLike<number>,
-  im: ArrayLike<number>,
-  tolerance = DEFAULT_CLASSIFY_TOLERANCE,
-): SnapshotClass {
+export function classifySnapshot(re: ArrayLike<number>, im: ArrayLike<number>, tolerance = DEFAULT_CLASSIFY_TOLERANCE): SnapshotClass {
   const n = checkAmplitudes(re, im, 'classifySnapshot');
   if (!Number.isFinite(tolerance) || tolerance < 0 || tolerance >= 0.5) {
     throw new RangeError(`classifySnapshot: tolerance must lie in [0, 0.5) (got ${tolerance})`);

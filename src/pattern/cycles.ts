@@ -55,7 +55,12 @@ export function undirectedGraph(nodes: number, pairs: readonly (readonly [number
   const start = new Int32Array(nodes + 1);
   lists.forEach((s, k) => (start[k + 1] = start[k] + s.size));
   const neighbour = new Int32Array(start[nodes]);
-  lists.forEach((s, k) => neighbour.set([...s].sort((x, y) => x - y), start[k]));
+  lists.forEach((s, k) =>
+    neighbour.set(
+      [...s].sort((x, y) => x - y),
+      start[k],
+    ),
+  );
   return { nodes, start, neighbour };
 }
 
@@ -98,7 +103,13 @@ export function simpleCycles(graph: UndirectedGraph, limits: CycleLimits = {}): 
 }
 
 /** Every open path one edge longer (to a node larger than its start, not on it), or null past `limit`. */
-function extendPaths(graph: UndirectedGraph, paths: Int32Array, count: number, width: number, limit: number): { paths: Int32Array; count: number } | null {
+function extendPaths(
+  graph: UndirectedGraph,
+  paths: Int32Array,
+  count: number,
+  width: number,
+  limit: number,
+): { paths: Int32Array; count: number } | null {
   const { start, neighbour } = graph;
   const onPath = (at: number, node: number): boolean => {
     for (let i = at; i < at + width; i++) if (paths[i] === node) return true;

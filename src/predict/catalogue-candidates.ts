@@ -66,7 +66,7 @@ export function classifyClass(table: GroupTable, cls: IsotropyClass, nodes: numb
   const sub = cls.subgroup;
   const at = ring.rotation >= 0 ? sub.elements.indexOf(ring.rotation) : -1;
   if (at >= 0) {
-    const q = (((Math.round((-sub.phases[at] * nodes) / (2 * Math.PI)) % nodes) + nodes) % nodes);
+    const q = ((Math.round((-sub.phases[at] * nodes) / (2 * Math.PI)) % nodes) + nodes) % nodes;
     return { type: waveType(q, nodes), q };
   }
   if (ring.rotation >= 0) {
@@ -76,12 +76,18 @@ export function classifyClass(table: GroupTable, cls: IsotropyClass, nodes: numb
       if (line.length === 1 && subgroupKey(isotropyOf(table, line[0])) === own) return { type: 'standing-wave', q };
     }
   }
-  if (cls.fixDimension === 1 && sub.elements.length === table.elements.length && sub.phases.every((p) => p === 0)) return { type: 'in-phase', q: 0 };
+  if (cls.fixDimension === 1 && sub.elements.length === table.elements.length && sub.phases.every((p) => p === 0))
+    return { type: 'in-phase', q: 0 };
   return { type: 'cluster' };
 }
 
 /** The recipe's type, wave number and cycle in the caller's numbering (the rest of CandidateInfo comes from the recipe). */
-export function candidateName(recipe: Recipe, table: GroupTable | null, renumbering: Renumbering, ring: CallerRing): { type: CandidateType; q?: number; cycle?: number[] } {
+export function candidateName(
+  recipe: Recipe,
+  table: GroupTable | null,
+  renumbering: Renumbering,
+  ring: CallerRing,
+): { type: CandidateType; q?: number; cycle?: number[] } {
   const origin = recipe.origin;
   const nodes = renumbering.order.length;
   switch (origin.kind) {
@@ -124,13 +130,25 @@ export function mirroredRecipe(recipe: Recipe, table: GroupTable | null, reversi
     const index = table.elements.indexOf(reversing);
     return { ...mirrored, origin: { kind: 'class', cls: index >= 0 ? conjugateClass(table, origin.cls, index) : origin.cls } };
   }
-  if (origin.kind === 'shape' && origin.cycle) return { ...mirrored, origin: { kind: 'shape', cycle: Int32Array.from(origin.cycle, (c) => reversing[c]), q: origin.q } };
+  if (origin.kind === 'shape' && origin.cycle)
+    return { ...mirrored, origin: { kind: 'shape', cycle: Int32Array.from(origin.cycle, (c) => reversing[c]), q: origin.q } };
   return mirrored;
 }
 
 /** The full CandidateInfo of a recipe. */
-export function candidateInfo(recipe: Recipe, name: { type: CandidateType; q?: number; cycle?: number[] }, conjugates: number): CandidateInfo {
-  const info: CandidateInfo = { type: name.type, mode: recipe.mode, fixDimension: recipe.fixDimension, symmetryOrder: recipe.symmetryOrder, conjugates, exact: recipe.exact };
+export function candidateInfo(
+  recipe: Recipe,
+  name: { type: CandidateType; q?: number; cycle?: number[] },
+  conjugates: number,
+): CandidateInfo {
+  const info: CandidateInfo = {
+    type: name.type,
+    mode: recipe.mode,
+    fixDimension: recipe.fixDimension,
+    symmetryOrder: recipe.symmetryOrder,
+    conjugates,
+    exact: recipe.exact,
+  };
   if (name.q !== undefined) info.q = name.q;
   if (name.cycle) info.cycle = name.cycle;
   if (recipe.mirrored) info.mirrored = true;

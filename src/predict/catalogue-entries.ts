@@ -88,7 +88,15 @@ export class EntryList<Recipe> {
  * True when b = (gamma.a) with one phase shift per (mode, part) for some listed gamma, within a
  * relative distance `tolerance`.
  */
-export function sameUpToSymmetry(a: Float64Array, b: Float64Array, group: readonly Int32Array[], nodes: number, modes: number, parts: readonly Int32Array[], tolerance = COPY_TOLERANCE): boolean {
+export function sameUpToSymmetry(
+  a: Float64Array,
+  b: Float64Array,
+  group: readonly Int32Array[],
+  nodes: number,
+  modes: number,
+  parts: readonly Int32Array[],
+  tolerance = COPY_TOLERANCE,
+): boolean {
   const normB = squaredNorm(b);
   const inverse = new Int32Array(nodes);
   for (const g of group) {
@@ -104,7 +112,10 @@ export function sameUpToSymmetry(a: Float64Array, b: Float64Array, group: readon
         for (const k of part) {
           const ia = 2 * (inverse[k] * modes + j);
           const ib = 2 * (k * modes + j);
-          const ar = a[ia], ai = -a[ia + 1], br = b[ib], bi = -b[ib + 1];
+          const ar = a[ia],
+            ai = -a[ia + 1],
+            br = b[ib],
+            bi = -b[ib + 1];
           re += ar * br + ai * bi;
           im += ar * bi - ai * br;
           sa += ar * ar + ai * ai;

@@ -65,7 +65,8 @@ import { callerRing, candidateInfo, candidateName, mirroredRecipe, type CallerRi
 
 export { sameUpToSymmetry } from './catalogue-entries.js';
 
-export type CandidateType = 'in-phase' | 'anti-phase' | 'rotating-wave' | 'standing-wave' | 'cluster' | 'cycle-wave' | 'random-start' | 'seed';
+export type CandidateType =
+  'in-phase' | 'anti-phase' | 'rotating-wave' | 'standing-wave' | 'cluster' | 'cycle-wave' | 'random-start' | 'seed';
 
 export interface CandidateInfo {
   /**
@@ -204,14 +205,26 @@ const SAME_DIRECTION = 1e-9;
 /** Mean squared amplitude per (node, mode) below which a locked state is the trivial rest state, not a pattern (rms 1e-3; hasEnergy). */
 const ENERGY_FLOOR = 1e-6;
 
-const TYPE_ORDER: CandidateType[] = ['in-phase', 'anti-phase', 'rotating-wave', 'standing-wave', 'cluster', 'cycle-wave', 'random-start', 'seed'];
+const TYPE_ORDER: CandidateType[] = [
+  'in-phase',
+  'anti-phase',
+  'rotating-wave',
+  'standing-wave',
+  'cluster',
+  'cycle-wave',
+  'random-start',
+  'seed',
+];
 
 /**
  * The symmetry group of the guiding system: automorphisms of the coupling graph (current link
  * weights) that also keep every node's detuning (the other parameters are the same at every
  * node). A detuned node breaks the symmetries that move it.
  */
-export function dynamicalSymmetries(model: GuideModel, limit = GROUP_LIMIT): { elements: Int32Array[]; truncated: boolean; graphOrder: number } {
+export function dynamicalSymmetries(
+  model: GuideModel,
+  limit = GROUP_LIMIT,
+): { elements: Int32Array[]; truncated: boolean; graphOrder: number } {
   const { nodes, detuning } = model.params;
   const graph = graphAutomorphisms(nodes, model.params.currentLinks(), { limit });
   const same = (a: number, b: number): boolean => Math.abs(a - b) <= SAME_DETUNING * Math.max(1, Math.abs(a), Math.abs(b));
@@ -281,7 +294,9 @@ function mergeParts(parts: readonly Int32Array[], permutations: readonly Int32Ar
 /** The catalogue of locked patterns for the model's current parameters (see the module header). */
 export function patternCatalogue(model: GuideModel, options: CatalogueOptions = {}): PatternCatalogue {
   if (model.size > CATALOGUE_SIZE_LIMIT) {
-    throw new RangeError(`the catalogue needs dense Jacobians of ${model.size} slow variables; at most ${CATALOGUE_SIZE_LIMIT} (nodes x modes x 2) are supported`);
+    throw new RangeError(
+      `the catalogue needs dense Jacobians of ${model.size} slow variables; at most ${CATALOGUE_SIZE_LIMIT} (nodes x modes x 2) are supported`,
+    );
   }
   const limit = options.groupLimit ?? GROUP_LIMIT;
   const callerGroup = dynamicalSymmetries(model, limit);
@@ -314,7 +329,11 @@ class CatalogueSearch {
   private solves = 0;
   private randomStarts = { tried: 0, settled: 0, found: 0 };
 
-  constructor(private readonly renumbering: Renumbering, private readonly options: CatalogueOptions, limit: number) {
+  constructor(
+    private readonly renumbering: Renumbering,
+    private readonly options: CatalogueOptions,
+    limit: number,
+  ) {
     this.work = renumbering.model;
     const { nodes, modes, gain, loss } = this.work.params;
     this.nodes = nodes;
@@ -330,7 +349,9 @@ class CatalogueSearch {
     this.cycles = couplingCycles(this.work.params);
     this.mirrors = mirrorRelation(this.group, listed.truncated, this.cycles.listing, this.cycles.current);
     const reversing = this.mirrors.reversing;
-    this.entries = new EntryList<Recipe>(this.mirrors, nodes, modes, this.parts, (r) => (reversing ? mirroredRecipe(r, this.table, reversing) : r));
+    this.entries = new EntryList<Recipe>(this.mirrors, nodes, modes, this.parts, (r) =>
+      reversing ? mirroredRecipe(r, this.table, reversing) : r,
+    );
     this.shapes = structuralShapes(this.cycles.graph, this.cycles.listing.cycles);
     this.seedModes = options.modes ? [...options.modes] : Array.from(gain, (g, j) => (g > loss[j] ? j : -1)).filter((j) => j >= 0);
     this.solvedSeeds = Array.from({ length: modes }, () => []);
@@ -356,9 +377,17 @@ class CatalogueSearch {
     for (const cls of this.classes) {
       const seeds = classSeeds(table, cls, this.shapes, randomSeeds, random);
       for (const mode of this.seedModes) {
-        const recipe: Recipe = { origin: { kind: 'class', cls }, mode, fixDimension: cls.fixDimension, symmetryOrder: cls.subgroup.elements.length, exact: true, mirrored: false };
+        const recipe: Recipe = {
+          origin: { kind: 'class', cls },
+          mode,
+          fixDimension: cls.fixDimension,
+          symmetryOrder: cls.subgroup.elements.length,
+          exact: true,
+          mirrored: false,
+        };
         if (!this.allowed(recipe)) continue;
-        for (const v of seeds) this.solveSeed(stiffSeed(v, this.nodes, this.modes, mode, this.amplitude(mode)), cls.subgroup.elements, cls.basis, recipe);
+        for (const v of seeds)
+          this.solveSeed(stiffSeed(v, this.nodes, this.modes, mode, this.amplitude(mode)), cls.subgroup.elements, cls.basis, recipe);
       }
     }
   }
@@ -367,7 +396,10 @@ class CatalogueSearch {
   seedShapes(): void {
     for (const shape of this.shapes) {
       const isotropy = this.table ? isotropyOf(this.table, shape.shape) : null;
-      const symmetric = this.table && isotropy && isotropy.elements.length > 1 ? { elements: isotropy.elements, basis: fixedPointBasis(this.table, isotropy, this.nodes) } : null;
+      const symmetric =
+        this.table && isotropy && isotropy.elements.length > 1
+          ? { elements: isotropy.elements, basis: fixedPointBasis(this.table, isotropy, this.nodes) }
+          : null;
       for (const mode of this.seedModes) {
         const recipe: Recipe = {
           origin: { kind: 'shape', cycle: shape.cycle, q: shape.q },
@@ -378,28 +410,53 @@ class CatalogueSearch {
           mirrored: false,
         };
         if (!this.allowed(recipe)) continue;
-        this.solveSeed(stiffSeed(shape.shape, this.nodes, this.modes, mode, this.amplitude(mode)), symmetric?.elements ?? null, symmetric?.basis ?? null, recipe);
+        this.solveSeed(
+          stiffSeed(shape.shape, this.nodes, this.modes, mode, this.amplitude(mode)),
+          symmetric?.elements ?? null,
+          symmetric?.basis ?? null,
+          recipe,
+        );
       }
     }
   }
 
   /** Step 3: seeded random starts followed to the stable state they settle on. */
   seedRandomStarts(): void {
-    const recipeFor = (mode: number): Recipe => ({ origin: { kind: 'random-start' }, mode, fixDimension: this.nodes, symmetryOrder: 1, exact: false, mirrored: false });
+    const recipeFor = (mode: number): Recipe => ({
+      origin: { kind: 'random-start' },
+      mode,
+      fixDimension: this.nodes,
+      symmetryOrder: 1,
+      exact: false,
+      mirrored: false,
+    });
     if (!this.allowed(recipeFor(0))) return;
     const count = this.options.randomStarts ?? (this.large ? RANDOM_STARTS_LARGE : RANDOM_STARTS);
-    const run = runRandomStarts(this.work, this.seedModes, count, (mode) => this.amplitude(mode), (s) => {
-      const added = hasEnergy(s.locked) && this.record(s.locked, recipeFor(s.mode), s.stability).added;
-      if (added) this.randomStarts.found++;
-      return added;
-    });
+    const run = runRandomStarts(
+      this.work,
+      this.seedModes,
+      count,
+      (mode) => this.amplitude(mode),
+      (s) => {
+        const added = hasEnergy(s.locked) && this.record(s.locked, recipeFor(s.mode), s.stability).added;
+        if (added) this.randomStarts.found++;
+        return added;
+      },
+    );
     this.randomStarts.tried = run.tried;
     this.randomStarts.settled = run.settled;
   }
 
   /** Step 4: the caller's extra seeds, solved in the full space; the entry each one lands in. */
   seedExtra(seeds: readonly Float64Array[]): (Entry<Recipe> | null)[] {
-    const recipe = (mode: number): Recipe => ({ origin: { kind: 'seed' }, mode, fixDimension: this.nodes, symmetryOrder: 1, exact: false, mirrored: false });
+    const recipe = (mode: number): Recipe => ({
+      origin: { kind: 'seed' },
+      mode,
+      fixDimension: this.nodes,
+      symmetryOrder: 1,
+      exact: false,
+      mirrored: false,
+    });
     if (!this.allowed(recipe(0))) return seeds.map(() => null);
     return seeds.map((y) => {
       const moved = movedState(y, this.renumbering.rank, this.modes);
@@ -425,7 +482,13 @@ class CatalogueSearch {
   private solve(seed: Float64Array, elements: readonly number[] | null, basis: Matrix | null): LockedState | null {
     const field = this.work.field;
     this.solves++;
-    const generatorParts = elements ? mergeParts(this.parts, elements.map((e) => this.group[e]), this.nodes) : this.parts;
+    const generatorParts = elements
+      ? mergeParts(
+          this.parts,
+          elements.map((e) => this.group[e]),
+          this.nodes,
+        )
+      : this.parts;
     let locked = solveLockedState(field, seed, this.modes, { parts: generatorParts, basis: basis ?? undefined });
     if (!locked.converged) return null;
     if (basis) {
@@ -437,7 +500,11 @@ class CatalogueSearch {
 
   /** Adds a solved state unless it is held already (its stability is computed only when it is new). */
   private record(locked: LockedState, recipe: Recipe, stability?: LockedStability): { entry: Entry<Recipe>; added: boolean } {
-    return this.entries.add(locked, () => stability ?? lockedStateStability(this.work.field, locked, this.modes, this.work.accuracy), recipe);
+    return this.entries.add(
+      locked,
+      () => stability ?? lockedStateStability(this.work.field, locked, this.modes, this.work.accuracy),
+      recipe,
+    );
   }
 
   /** The catalogue in the caller's numbering, sorted by type, wave number and margin. */
@@ -447,9 +514,21 @@ class CatalogueSearch {
       const name = candidateName(entry.recipe, this.table, this.renumbering, this.ring);
       const locked = movedLockedState(entry.locked, order, this.modes);
       const description = describeLockedState(model, locked, entry.stability, callerGroup.elements);
-      return { entry, pattern: { ...description, candidate: candidateInfo(entry.recipe, name, this.entries.copies(entry)), mirror: { relation: 'none', partner: null } as MirrorLink } };
+      return {
+        entry,
+        pattern: {
+          ...description,
+          candidate: candidateInfo(entry.recipe, name, this.entries.copies(entry)),
+          mirror: { relation: 'none', partner: null } as MirrorLink,
+        },
+      };
     });
-    named.sort((a, b) => TYPE_ORDER.indexOf(a.pattern.candidate.type) - TYPE_ORDER.indexOf(b.pattern.candidate.type) || (a.pattern.candidate.q ?? 0) - (b.pattern.candidate.q ?? 0) || a.pattern.margin - b.pattern.margin);
+    named.sort(
+      (a, b) =>
+        TYPE_ORDER.indexOf(a.pattern.candidate.type) - TYPE_ORDER.indexOf(b.pattern.candidate.type) ||
+        (a.pattern.candidate.q ?? 0) - (b.pattern.candidate.q ?? 0) ||
+        a.pattern.margin - b.pattern.margin,
+    );
     const indexOf = new Map(named.map((n, i) => [n.entry, i]));
     for (const { entry, pattern } of named) {
       if (entry.mirror === 'self') pattern.mirror = { relation: 'self', partner: null };
@@ -460,7 +539,12 @@ class CatalogueSearch {
     return {
       nodes: this.nodes,
       modes: this.modes,
-      group: { order: callerGroup.elements.length, graphOrder: callerGroup.graphOrder, truncated: callerGroup.truncated, elements: callerGroup.elements.map((g) => describeElement(g).text) },
+      group: {
+        order: callerGroup.elements.length,
+        graphOrder: callerGroup.graphOrder,
+        truncated: callerGroup.truncated,
+        elements: callerGroup.elements.map((g) => describeElement(g).text),
+      },
       parts: model.parts().map((p) => Array.from(p)),
       classesExamined: this.classes.length,
       solves: this.solves,
@@ -490,7 +574,13 @@ class CatalogueSearch {
  * projections of the structural shapes that keep the class's own isotropy and `randomSeeds`
  * generic points, at most one per direction.
  */
-function classSeeds(table: GroupTable, cls: IsotropyClass, shapes: readonly StructuralShape[], randomSeeds: number, random: Random): ComplexVector[] {
+function classSeeds(
+  table: GroupTable,
+  cls: IsotropyClass,
+  shapes: readonly StructuralShape[],
+  randomSeeds: number,
+  random: Random,
+): ComplexVector[] {
   const key = subgroupKey(cls.subgroup);
   const seeds: ComplexVector[] = [];
   const addSeed = (v: ComplexVector): void => {

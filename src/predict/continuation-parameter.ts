@@ -81,7 +81,8 @@ export function parseContinuationParameter(text: string, params: ModelParameters
       const links = [forward];
       if (both) {
         const backward = params.findLink(to, from);
-        if (backward < 0) throw new InputError('', `there is no link from node ${to} back to node ${from} (use link:${from}-${to} for one direction)`);
+        if (backward < 0)
+          throw new InputError('', `there is no link from node ${to} back to node ${from} (use link:${from}-${to} for one direction)`);
         links.push(backward);
       }
       return { kind: 'link', links, from, to, both };

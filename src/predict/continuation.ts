@@ -147,7 +147,12 @@ interface Node {
 }
 
 /** Follows the locked state near `start` (see the module header). The model's parameters are restored afterwards. */
-export function continueBranch(model: GuideModel, start: Float64Array, parameter: ContinuationParameter, options: ContinuationOptions = {}): Branch {
+export function continueBranch(
+  model: GuideModel,
+  start: Float64Array,
+  parameter: ContinuationParameter,
+  options: ContinuationOptions = {},
+): Branch {
   const params = model.params;
   const lambda0 = getParameter(params, parameter);
   try {
@@ -167,7 +172,12 @@ class Continuation {
   private readonly ppm: (value: number) => number | null;
   private steps = 0;
 
-  constructor(private readonly model: GuideModel, private readonly parameter: ContinuationParameter, private readonly lambda0: number, private readonly options: ContinuationOptions) {
+  constructor(
+    private readonly model: GuideModel,
+    private readonly parameter: ContinuationParameter,
+    private readonly lambda0: number,
+    private readonly options: ContinuationOptions,
+  ) {
     this.n = model.size;
     this.modes = model.modes;
     this.scale = parameterScale(model.params, parameter);
@@ -180,7 +190,8 @@ class Continuation {
     setParameter(model.params, this.parameter, this.lambda0);
     const parts = model.parts();
     const first = solveLockedState(model.field, start, this.modes, { parts });
-    if (!first.converged) throw new RangeError(`continuation: no locked state near the start (Newton residual ${first.residual.toExponential(2)})`);
+    if (!first.converged)
+      throw new RangeError(`continuation: no locked state near the start (Newton residual ${first.residual.toExponential(2)})`);
     this.generators = first.generators;
     this.g = this.generators.length;
     const x0 = new Float64Array(n + this.g + 1);
@@ -200,7 +211,12 @@ class Continuation {
     const down = sides.decreasing.points.map((p) => this.point(p)).reverse();
     const up = sides.increasing.points.map((p) => this.point(p));
     return {
-      parameter: { name: describeContinuationParameter(this.parameter), start: this.lambda0, startPpm: this.ppm(this.lambda0), scale: this.scale },
+      parameter: {
+        name: describeContinuationParameter(this.parameter),
+        start: this.lambda0,
+        startPpm: this.ppm(this.lambda0),
+        scale: this.scale,
+      },
       points: [...down, this.point(startNode), ...up],
       startIndex: down.length,
       limits: { decreasing: sides.decreasing.limit, increasing: sides.increasing.limit },
@@ -331,11 +347,12 @@ class Continuation {
     let h = this.options.initialStep ?? INITIAL_STEP;
     const points: Node[] = [];
     let current = startNode;
-    for (let accepted = 0; accepted < maxSteps; ) {
+    for (let accepted = 0; accepted < maxSteps;) {
       const next = this.step(current, h);
       if (!next) {
         h *= STEP_CUT;
-        if (h < minStep) return { points, limit: this.limit('step-failure', current, undefined, `the corrector failed with steps down to ${minStep}`) };
+        if (h < minStep)
+          return { points, limit: this.limit('step-failure', current, undefined, `the corrector failed with steps down to ${minStep}`) };
         continue;
       }
       this.steps++;
@@ -356,7 +373,15 @@ class Continuation {
         const landed = this.landOn(current, edge);
         if (landed) points.push(landed);
         const kind: LimitKind = edge === parameterLowerBound(this.parameter) ? 'bound' : 'range';
-        return { points, limit: this.limit(kind, landed ?? current, undefined, kind === 'bound' ? 'the parameter reached its physical bound' : 'the parameter left the requested range') };
+        return {
+          points,
+          limit: this.limit(
+            kind,
+            landed ?? current,
+            undefined,
+            kind === 'bound' ? 'the parameter reached its physical bound' : 'the parameter left the requested range',
+          ),
+        };
       }
       points.push(next);
       current = next;
@@ -383,18 +408,43 @@ class Continuation {
       }
     }
     const node = hiNode ?? this.step(from, h) ?? from;
-    if (fold || !node.stability) return { node, limit: this.limit('fold', node, undefined, 'turning point of the parameter: the locked state disappears (saddle-node)') };
-    const critical = node.stability.eigenvalues.reduce((best, e) => (Math.abs(e.re) < Math.abs(best.re) ? e : best), node.stability.eigenvalues[0]);
+    if (fold || !node.stability)
+      return {
+        node,
+        limit: this.limit('fold', node, undefined, 'turning point of the parameter: the locked state disappears (saddle-node)'),
+      };
+    const critical = node.stability.eigenvalues.reduce(
+      (best, e) => (Math.abs(e.re) < Math.abs(best.re) ? e : best),
+      node.stability.eigenvalues[0],
+    );
     const hopf = Math.abs(critical.im) > HOPF_IMAGINARY * Math.max(node.stability.rateScale, 1e-12);
     return hopf
-      ? { node, limit: this.limit('hopf', node, Math.abs(critical.im), 'a complex pair of eigenvalues crosses the imaginary axis (Hopf): the lock turns into a modulated state') }
-      : { node, limit: this.limit('branch-point', node, undefined, 'a real eigenvalue crosses zero without a turning point (symmetry-breaking branch point)') };
+      ? {
+          node,
+          limit: this.limit(
+            'hopf',
+            node,
+            Math.abs(critical.im),
+            'a complex pair of eigenvalues crosses the imaginary axis (Hopf): the lock turns into a modulated state',
+          ),
+        }
+      : {
+          node,
+          limit: this.limit(
+            'branch-point',
+            node,
+            undefined,
+            'a real eigenvalue crosses zero without a turning point (symmetry-breaking branch point)',
+          ),
+        };
   }
 
   /** Fixed-parameter solve at lambda = edge starting from a node. */
   private landOn(from: Node, edge: number): Node | null {
     setParameter(this.model.params, this.parameter, edge);
-    const locked = solveLockedState(this.model.field, Float64Array.from(from.x.subarray(0, this.n)), this.modes, { generators: this.generators });
+    const locked = solveLockedState(this.model.field, Float64Array.from(from.x.subarray(0, this.n)), this.modes, {
+      generators: this.generators,
+    });
     if (!locked.converged) return null;
     const x = new Float64Array(this.n + this.g + 1);
     x.set(locked.state);
@@ -425,7 +475,12 @@ class Continuation {
     const y = Float64Array.from(node.x.subarray(0, this.n));
     const rates = Array.from(node.x.subarray(this.n, this.n + this.g));
     const unknown: LockedStability = { eigenvalues: [], margin: Number.NaN, rateScale: 0, tolerance: 0, verdict: 'marginal' };
-    const described = describeLockedState(this.model, { state: y, generators: this.generators, rates, residual: 0, iterations: 0, converged: true }, node.stability ?? unknown, []);
+    const described = describeLockedState(
+      this.model,
+      { state: y, generators: this.generators, rates, residual: 0, iterations: 0, converged: true },
+      node.stability ?? unknown,
+      [],
+    );
     const point: BranchPoint = {
       parameter,
       ppm: this.ppm(parameter),
@@ -442,4 +497,3 @@ class Continuation {
     return point;
   }
 }
-

@@ -99,7 +99,13 @@ export function timeConstantOf(rate: number, model: GuideModel): Duration | null
 }
 
 /** The description of a solved locked state (see LockedPatternDescription). */
-export function describeLockedState(model: GuideModel, locked: LockedState, stability: LockedStability, group: readonly Int32Array[], symmetryTolerance = 1e-6): LockedPatternDescription {
+export function describeLockedState(
+  model: GuideModel,
+  locked: LockedState,
+  stability: LockedStability,
+  group: readonly Int32Array[],
+  symmetryTolerance = 1e-6,
+): LockedPatternDescription {
   const { nodes, modes, epsilon, omega } = model.params;
   const observed = readObservables(locked.state, nodes, modes);
   const mode = observed.dominantMode;
@@ -132,7 +138,11 @@ export function describeLockedState(model: GuideModel, locked: LockedState, stab
     rotation,
     frequencyShiftPpm: rotation.map((rate, j) => (epsilon > 0 ? deltaToPpm(rate / omega[j], epsilon) : null)),
     shifts,
-    symmetry: patternSymmetry(re, im, group, symmetryTolerance).map((s) => ({ element: s.text, permutation: Array.from(s.element), phase: s.phase })),
+    symmetry: patternSymmetry(re, im, group, symmetryTolerance).map((s) => ({
+      element: s.text,
+      permutation: Array.from(s.element),
+      phase: s.phase,
+    })),
     residual: locked.residual,
     state: Array.from(locked.state),
   };

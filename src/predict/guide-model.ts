@@ -16,7 +16,10 @@ export class GuideModel {
   readonly average: TorusAverage;
   readonly field: Field;
 
-  constructor(readonly scenario: Scenario, source?: ModelParameters) {
+  constructor(
+    readonly scenario: Scenario,
+    source?: ModelParameters,
+  ) {
     this.params = new ModelParameters(scenario);
     if (source) copyParameters(source, this.params);
     this.average = new TorusAverage(this.params, exactGrid(scenario.integrator.averagingGrid));
@@ -80,5 +83,11 @@ export function copyParameters(from: ModelParameters, to: ModelParameters): void
  * (detuning, link weights, coupling constants); noise is left out.
  */
 export function parameterFingerprint(params: ModelParameters): string {
-  return [Array.from(params.detuning).join(','), Array.from(params.linkWeight).join(','), params.strength, params.reactive, params.dissipative].join('|');
+  return [
+    Array.from(params.detuning).join(','),
+    Array.from(params.linkWeight).join(','),
+    params.strength,
+    params.reactive,
+    params.dissipative,
+  ].join('|');
 }

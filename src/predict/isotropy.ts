@@ -248,7 +248,11 @@ export function complexInner(a: ComplexVector, b: ComplexVector): { re: number; 
 }
 
 /** Sum of complex vectors with coefficients. */
-export function combine(basis: readonly ComplexVector[], coefficients: readonly { re: number; im: number }[], nodes: number): ComplexVector {
+export function combine(
+  basis: readonly ComplexVector[],
+  coefficients: readonly { re: number; im: number }[],
+  nodes: number,
+): ComplexVector {
   const v: ComplexVector = { re: new Float64Array(nodes), im: new Float64Array(nodes) };
   basis.forEach((b, i) => {
     const c = coefficients[i];
@@ -262,7 +266,11 @@ export function combine(basis: readonly ComplexVector[], coefficients: readonly 
 
 /** Projection onto span(basis) (orthonormal complex basis). */
 export function projectOnto(basis: readonly ComplexVector[], v: ComplexVector): ComplexVector {
-  return combine(basis, basis.map((b) => complexInner(b, v)), v.re.length);
+  return combine(
+    basis,
+    basis.map((b) => complexInner(b, v)),
+    v.re.length,
+  );
 }
 
 /** Orthonormalises complex vectors (modified Gram-Schmidt), dropping dependent ones. */
@@ -333,7 +341,11 @@ export function isotropyClasses(table: GroupTable, nodes: number, options: Isotr
     if (candidate.elements.length === 1) continue;
     const basis = options.within ? fixedPointBasisWithin(table, candidate, options.within) : fixedPointBasis(table, candidate, nodes);
     if (basis.length === 0) continue;
-    const generic = combine(basis, basis.map(() => ({ re: random.uniform() + 0.5, im: random.uniform() - 0.5 })), nodes);
+    const generic = combine(
+      basis,
+      basis.map(() => ({ re: random.uniform() + 0.5, im: random.uniform() - 0.5 })),
+      nodes,
+    );
     const isotropy = isotropyOf(table, generic);
     if (isotropy.elements.length === 1) continue;
     const k = subgroupKey(isotropy);
@@ -371,7 +383,10 @@ export function movedVector(v: ComplexVector, g: ArrayLike<number>): ComplexVect
 }
 
 /** Readable list of a twisted subgroup: element names with their phases. */
-export function describeSubgroup(table: GroupTable, subgroup: TwistedSubgroup): { element: string; permutation: number[]; phase: number }[] {
+export function describeSubgroup(
+  table: GroupTable,
+  subgroup: TwistedSubgroup,
+): { element: string; permutation: number[]; phase: number }[] {
   return subgroup.elements.map((e, i) => ({
     element: describeElement(table.elements[e]).text,
     permutation: Array.from(table.elements[e]),

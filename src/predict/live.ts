@@ -128,7 +128,11 @@ export class LivePredictor {
    * @param arrivalTolerance the lock tolerance (rad): the look-ahead has arrived once every phase
    *   difference stays this close to its destination, as the lock detector settles
    */
-  constructor(scenario: Scenario, params: ModelParameters, private readonly arrivalTolerance = LOCK_TOLERANCE) {
+  constructor(
+    scenario: Scenario,
+    params: ModelParameters,
+    private readonly arrivalTolerance = LOCK_TOLERANCE,
+  ) {
     this.model = new GuideModel(scenario, params);
     this.previous = snapshotParameters(params);
   }
@@ -145,7 +149,14 @@ export class LivePredictor {
    * the look-ahead starts; different from `before` when the state itself was kicked). Kicked
    * results depend on the kick, so they are not cached.
    */
-  predict(params: ModelParameters, before: Float64Array, state: Float64Array, current: PatternLabel, tau: number, kicked = false): LivePrediction {
+  predict(
+    params: ModelParameters,
+    before: Float64Array,
+    state: Float64Array,
+    current: PatternLabel,
+    tau: number,
+    kicked = false,
+  ): LivePrediction {
     const from = this.previous;
     const to = snapshotParameters(params);
     this.previous = to;
@@ -167,23 +178,49 @@ export class LivePredictor {
   save(): LivePredictorState {
     const p = this.previous;
     return {
-      previous: { detuning: Array.from(p.detuning), linkWeight: Array.from(p.linkWeight), strength: p.strength, reactive: p.reactive, dissipative: p.dissipative },
+      previous: {
+        detuning: Array.from(p.detuning),
+        linkWeight: Array.from(p.linkWeight),
+        strength: p.strength,
+        reactive: p.reactive,
+        dissipative: p.dissipative,
+      },
       cache: [...this.cache.entries()].map(([k, v]) => [k, structuredClone(v)]),
     };
   }
 
   load(saved: LivePredictorState): void {
     const p = saved.previous;
-    this.previous = { detuning: Float64Array.from(p.detuning), linkWeight: Float64Array.from(p.linkWeight), strength: p.strength, reactive: p.reactive, dissipative: p.dissipative };
+    this.previous = {
+      detuning: Float64Array.from(p.detuning),
+      linkWeight: Float64Array.from(p.linkWeight),
+      strength: p.strength,
+      reactive: p.reactive,
+      dissipative: p.dissipative,
+    };
     this.cache.clear();
     for (const [k, v] of saved.cache) this.cache.set(k, structuredClone(v));
   }
 
-  private compute(params: ModelParameters, from: ParameterSnapshot, to: ParameterSnapshot, before: Float64Array, state: Float64Array, current: PatternLabel, tau: number): LivePrediction {
+  private compute(
+    params: ModelParameters,
+    from: ParameterSnapshot,
+    to: ParameterSnapshot,
+    before: Float64Array,
+    state: Float64Array,
+    current: PatternLabel,
+    tau: number,
+  ): LivePrediction {
     const model = this.model;
     const base = { tau, current, lostAt: null, lookAhead: null, shift: null, fromCache: false };
     if (model.size > LIVE_PREDICTION_SIZE_LIMIT) {
-      return { ...base, verdict: 'unknown', pattern: null, margin: null, message: `not predicted: ${model.size} slow variables is above the live limit of ${LIVE_PREDICTION_SIZE_LIMIT}` };
+      return {
+        ...base,
+        verdict: 'unknown',
+        pattern: null,
+        margin: null,
+        message: `not predicted: ${model.size} slow variables is above the live limit of ${LIVE_PREDICTION_SIZE_LIMIT}`,
+      };
     }
     copyParameters(params, model.params);
     let lostAt: LivePrediction['lostAt'] = null;
@@ -193,10 +230,18 @@ export class LivePredictor {
       if (outcome.kind === 'reached' && outcome.stability.verdict === 'marginal') {
         const pattern = this.predictedPattern(outcome.locked, outcome.stability, null);
         const message = `the ${describeLabel(current)} pattern continues but its stability is not resolved (|margin| <= ${outcome.stability.tolerance.toPrecision(2)})`;
-        return { ...base, verdict: 'marginal', pattern, margin: pattern.margin, shift: largestShift(before, outcome.locked.state, model, current.mode), message };
+        return {
+          ...base,
+          verdict: 'marginal',
+          pattern,
+          margin: pattern.margin,
+          shift: largestShift(before, outcome.locked.state, model, current.mode),
+          message,
+        };
       }
       if (outcome.kind === 'reached' && outcome.stability.verdict === 'stable') continued = outcome;
-      else lostAt = outcome.kind === 'reached' ? { fraction: 1, kind: 'branch-point' } : { fraction: outcome.fraction, kind: outcome.limit };
+      else
+        lostAt = outcome.kind === 'reached' ? { fraction: 1, kind: 'branch-point' } : { fraction: outcome.fraction, kind: outcome.limit };
     }
     // The way there: a fault is a jump, so the continued state existing and being stable is not
     // enough; the state the ring is actually in must also lie in its basin (no cycle slip on the
@@ -204,10 +249,26 @@ export class LivePredictor {
     // a slip is a move of pi, and arrival is within the lock tolerance.
     copyParameters(params, model.params);
     const ahead = lookAhead(model, state, { maxEvaluations: LOOK_AHEAD_EVALUATIONS, arrivalTolerance: this.arrivalTolerance });
-    const lookAheadInfo = { slowTime: ahead.slowTime, settled: ahead.settled, slipped: ahead.slipped, maxPhaseExcursion: ahead.maxPhaseExcursion, transitSlowTime: ahead.transitSlowTime };
+    const lookAheadInfo = {
+      slowTime: ahead.slowTime,
+      settled: ahead.settled,
+      slipped: ahead.slipped,
+      maxPhaseExcursion: ahead.maxPhaseExcursion,
+      transitSlowTime: ahead.transitSlowTime,
+    };
     const settledOn = ahead.settled && ahead.locked && ahead.stability ? ahead.locked : null;
     if (continued) {
-      const elsewhere = settledOn !== null && !sameUpToSymmetry(settledOn.state, continued.locked.state, [identity(model.nodes)], model.nodes, model.modes, model.parts(), SAME_STATE);
+      const elsewhere =
+        settledOn !== null &&
+        !sameUpToSymmetry(
+          settledOn.state,
+          continued.locked.state,
+          [identity(model.nodes)],
+          model.nodes,
+          model.modes,
+          model.parts(),
+          SAME_STATE,
+        );
       if (!ahead.slipped && !elsewhere) {
         // Settled on the continued state, or still on the way within the budget without a slip.
         const pattern = this.predictedPattern(continued.locked, continued.stability, settledOn ? ahead.transitSlowTime : null);
@@ -220,59 +281,98 @@ export class LivePredictor {
         return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, shift, message };
       }
     }
-    const pattern = settledOn ? this.predictedPattern(settledOn, ahead.stability!, ahead.transitSlowTime) : this.unsettledPattern(ahead.state);
+    const pattern = settledOn
+      ? this.predictedPattern(settledOn, ahead.stability!, ahead.transitSlowTime)
+      : this.unsettledPattern(ahead.state);
     const becomes = settledOn
       ? `becomes ${describeLabel(pattern)} after about ${ahead.transitSlowTime!.toPrecision(3)} slow time units (margin ${pattern.margin?.toPrecision(3)})`
       : `does not settle within ${ahead.slowTime.toPrecision(3)} slow time units (predicted unlocked)`;
     const shift = settledOn ? largestShift(before, settledOn.state, model, current.mode) : null;
     if (!current.locked) {
-      return { ...base, verdict: 'not-locked', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, shift, message: `the guide was not locked; it ${becomes}` };
+      return {
+        ...base,
+        verdict: 'not-locked',
+        pattern,
+        margin: pattern.margin,
+        lookAhead: lookAheadInfo,
+        shift,
+        message: `the guide was not locked; it ${becomes}`,
+      };
     }
     const slip = ahead.slipped ? ` with a cycle slip (a phase difference moves ${ahead.maxPhaseExcursion.toFixed(2)} rad)` : '';
     if (continued) {
       const why = ahead.slipped ? 'the jump throws the phases out of its basin' : 'the jump carries the state into another basin';
-      return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, shift, message: `the ${describeLabel(current)} pattern is lost although it still exists and is stable under the new parameters: ${why}${slip}; it ${becomes}` };
+      return {
+        ...base,
+        verdict: 'lost',
+        pattern,
+        margin: pattern.margin,
+        lookAhead: lookAheadInfo,
+        shift,
+        message: `the ${describeLabel(current)} pattern is lost although it still exists and is stable under the new parameters: ${why}${slip}; it ${becomes}`,
+      };
     }
     const same = settledOn !== null && pattern.kind === current.kind && pattern.q === current.q && pattern.mode === current.mode;
     if (same && !ahead.slipped) {
       // The continuation could not carry it, but the guiding system returns to the same pattern
       // without a slip.
-      return { ...base, verdict: 'persists', pattern, margin: pattern.margin, lookAhead: lookAheadInfo, shift, message: `the ${describeLabel(current)} pattern returns without a cycle slip (margin ${pattern.margin?.toPrecision(3)})` };
+      return {
+        ...base,
+        verdict: 'persists',
+        pattern,
+        margin: pattern.margin,
+        lookAhead: lookAheadInfo,
+        shift,
+        message: `the ${describeLabel(current)} pattern returns without a cycle slip (margin ${pattern.margin?.toPrecision(3)})`,
+      };
     }
     const where = lostAt && lostAt.fraction < 1 ? ` at ${(100 * lostAt.fraction).toFixed(1)}% of the change (${lostAt.kind})` : '';
-    return { ...base, verdict: 'lost', pattern, margin: pattern.margin, lostAt, lookAhead: lookAheadInfo, shift, message: `the ${describeLabel(current)} pattern is lost${where}${slip}; it ${becomes}` };
+    return {
+      ...base,
+      verdict: 'lost',
+      pattern,
+      margin: pattern.margin,
+      lostAt,
+      lookAhead: lookAheadInfo,
+      shift,
+      message: `the ${describeLabel(current)} pattern is lost${where}${slip}; it ${becomes}`,
+    };
   }
 
   /** Continues the current state from the previous to the new parameters (see the module header). */
-  private continueToNewParameters(from: ParameterSnapshot, to: ParameterSnapshot, state: Float64Array):
-    | { kind: 'reached'; locked: LockedState; stability: LockedStability }
-    | { kind: 'lost'; fraction: number; limit: LimitKind } {
+  private continueToNewParameters(
+    from: ParameterSnapshot,
+    to: ParameterSnapshot,
+    state: Float64Array,
+  ): { kind: 'reached'; locked: LockedState; stability: LockedStability } | { kind: 'lost'; fraction: number; limit: LimitKind } {
     const model = this.model;
     const spec = homotopy(from, to);
     let end: Float64Array = state;
     // a kick (or a noise change) leaves the parameters as they were: nothing to continue along
-    if (!sameParameters(from, to)) try {
-      setParameter(model.params, spec, 0);
-      // A perturbation is a jump, not a slow ramp: only the existence of the branch up to h = 1
-      // matters on the way (folds); stability is judged once, at the end.
-      const branch = continueBranch(model, state, spec, {
-        directions: ['increasing'],
-        range: { max: 1 },
-        maxSteps: HOMOTOPY_MAX_STEPS,
-        initialStep: HOMOTOPY_INITIAL_STEP,
-        maxStep: HOMOTOPY_MAX_STEP,
-        keepStates: true,
-        monitorStability: false,
-      });
-      const limit = branch.limits.increasing!;
-      if (limit.kind !== 'range') return { kind: 'lost', fraction: Math.min(1, Math.max(0, limit.parameter)), limit: limit.kind };
-      const last = branch.points[branch.points.length - 1];
-      if (!last.state || Math.abs(last.parameter - 1) > HOMOTOPY_END_SLACK) return { kind: 'lost', fraction: last.parameter, limit: 'step-failure' };
-      end = Float64Array.from(last.state);
-    } catch (error) {
-      if (error instanceof RangeError) return { kind: 'lost', fraction: 0, limit: 'step-failure' };
-      throw error;
-    }
+    if (!sameParameters(from, to))
+      try {
+        setParameter(model.params, spec, 0);
+        // A perturbation is a jump, not a slow ramp: only the existence of the branch up to h = 1
+        // matters on the way (folds); stability is judged once, at the end.
+        const branch = continueBranch(model, state, spec, {
+          directions: ['increasing'],
+          range: { max: 1 },
+          maxSteps: HOMOTOPY_MAX_STEPS,
+          initialStep: HOMOTOPY_INITIAL_STEP,
+          maxStep: HOMOTOPY_MAX_STEP,
+          keepStates: true,
+          monitorStability: false,
+        });
+        const limit = branch.limits.increasing!;
+        if (limit.kind !== 'range') return { kind: 'lost', fraction: Math.min(1, Math.max(0, limit.parameter)), limit: limit.kind };
+        const last = branch.points[branch.points.length - 1];
+        if (!last.state || Math.abs(last.parameter - 1) > HOMOTOPY_END_SLACK)
+          return { kind: 'lost', fraction: last.parameter, limit: 'step-failure' };
+        end = Float64Array.from(last.state);
+      } catch (error) {
+        if (error instanceof RangeError) return { kind: 'lost', fraction: 0, limit: 'step-failure' };
+        throw error;
+      }
     setParameter(model.params, spec, 1);
     const locked = solveLockedState(model.field, end, model.modes, { parts: model.parts() });
     if (!locked.converged) return { kind: 'lost', fraction: 1, limit: 'step-failure' };
@@ -330,7 +430,13 @@ export class LivePredictor {
 
 function sameParameters(a: ParameterSnapshot, b: ParameterSnapshot): boolean {
   const equal = (x: Float64Array, y: Float64Array) => x.length === y.length && x.every((v, i) => v === y[i]);
-  return a.strength === b.strength && a.reactive === b.reactive && a.dissipative === b.dissipative && equal(a.detuning, b.detuning) && equal(a.linkWeight, b.linkWeight);
+  return (
+    a.strength === b.strength &&
+    a.reactive === b.reactive &&
+    a.dissipative === b.dissipative &&
+    equal(a.detuning, b.detuning) &&
+    equal(a.linkWeight, b.linkWeight)
+  );
 }
 
 /** Largest |change| of a coupled pair's phase difference of `mode` from one rotating-frame state to another (rad). */

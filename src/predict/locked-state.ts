@@ -73,7 +73,15 @@ export function wholeGraph(nodes: number): Int32Array[] {
 }
 
 /** r = fbar(y) - sum_c rate_c G_c y. */
-export function rotatingResidual(field: Field, y: Float64Array, generators: readonly PhaseGenerator[], rates: ArrayLike<number>, modes: number, out: Float64Array, scratch: Float64Array): Float64Array {
+export function rotatingResidual(
+  field: Field,
+  y: Float64Array,
+  generators: readonly PhaseGenerator[],
+  rates: ArrayLike<number>,
+  modes: number,
+  out: Float64Array,
+  scratch: Float64Array,
+): Float64Array {
   field(y, out);
   generators.forEach((g, c) => {
     applyPhaseGenerator(g, modes, y, scratch);
@@ -89,7 +97,12 @@ export function rotatingResidual(field: Field, y: Float64Array, generators: read
  * generator (`anchors`, G_c y0); `extraColumns` (the continuation's parameter derivative) come
  * last.
  */
-export function lockedStateSystem(rotating: Matrix, tangents: readonly Float64Array[], anchors: readonly ArrayLike<number>[], extraColumns: readonly ArrayLike<number>[] = []): Matrix {
+export function lockedStateSystem(
+  rotating: Matrix,
+  tangents: readonly Float64Array[],
+  anchors: readonly ArrayLike<number>[],
+  extraColumns: readonly ArrayLike<number>[] = [],
+): Matrix {
   return borderedMatrix(rotating, [...tangents.map((t) => Float64Array.from(t, (v) => -v)), ...extraColumns], anchors);
 }
 
@@ -188,7 +201,11 @@ export function solveLockedState(field: Field, guess: Float64Array, modes: numbe
       }
       const projectedResidual = inBasis(basis, residualVector);
       for (let i = 0; i < p; i++) rhs[i] = -projectedResidual[i];
-      system = lockedStateSystem(reduced.add(bt.mmul(rotated)), tangents.map((t) => inBasis(basis, t)), anchors);
+      system = lockedStateSystem(
+        reduced.add(bt.mmul(rotated)),
+        tangents.map((t) => inBasis(basis, t)),
+        anchors,
+      );
     } else {
       subtractRotation(jac, generators, rates, modes);
       for (let i = 0; i < n; i++) rhs[i] = -residualVector[i];

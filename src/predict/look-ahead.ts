@@ -93,7 +93,12 @@ class PhaseDifferenceWatch {
   private readonly rate: Float64Array;
   private largest = 0;
 
-  constructor(readonly pairs: CoupledPairs, private readonly nodes: number, private readonly modes: number, readonly mode: number) {
+  constructor(
+    readonly pairs: CoupledPairs,
+    private readonly nodes: number,
+    private readonly modes: number,
+    readonly mode: number,
+  ) {
     this.last = new Float64Array(pairs.size);
     this.offsets = new Float64Array(pairs.size);
     this.phase = new Float64Array(nodes);
@@ -105,7 +110,8 @@ class PhaseDifferenceWatch {
     const { nodes, modes, mode, phase, rate } = this;
     for (let k = 0; k < nodes; k++) {
       const i = 2 * (k * modes + mode);
-      const x = y[i], v = y[i + 1];
+      const x = y[i],
+        v = y[i + 1];
       phase[k] = Math.atan2(-v, x);
       rate[k] = (v * velocity[i] - x * velocity[i + 1]) / Math.max(x * x + v * v, 1e-300);
     }
@@ -192,8 +198,20 @@ export function lookAhead(model: GuideModel, start: Float64Array, options: LookA
     samples.push(Float64Array.from(differences));
     return next;
   };
-  const result = (settled: boolean, state: Float64Array, locked: LockedState | null, stability: LockedStability | null): LookAheadResult => ({
-    settled, slowTime: t, evaluations: spent(), state, locked, stability, maxPhaseExcursion: watch.maxExcursion, slipped: watch.maxExcursion >= SLIP_EXCURSION,
+  const result = (
+    settled: boolean,
+    state: Float64Array,
+    locked: LockedState | null,
+    stability: LockedStability | null,
+  ): LookAheadResult => ({
+    settled,
+    slowTime: t,
+    evaluations: spent(),
+    state,
+    locked,
+    stability,
+    maxPhaseExcursion: watch.maxExcursion,
+    slipped: watch.maxExcursion >= SLIP_EXCURSION,
     transitSlowTime: settled ? arrivalTime(sampleTimes, samples, pairs.stateDifferences(state, modes, watch.mode), arrivalTolerance) : null,
   });
   let interval = look();

@@ -32,7 +32,12 @@ export interface MirrorRelation {
  * The mirror relation of a listed symmetry group. `currentCycle[i]` says whether every edge of
  * listing.cycles[i] carries a link now.
  */
-export function mirrorRelation(group: readonly Int32Array[], truncated: boolean, listing: CycleListing, currentCycle: readonly boolean[]): MirrorRelation {
+export function mirrorRelation(
+  group: readonly Int32Array[],
+  truncated: boolean,
+  listing: CycleListing,
+  currentCycle: readonly boolean[],
+): MirrorRelation {
   const noMirrors = (reason: string): MirrorRelation => ({ keeping: [...group], reversing: null, reason });
   if (truncated) return noMirrors('the symmetry group is too large to list, so copies and mirror images are not told apart');
   const current = listing.cycles.filter((_, i) => currentCycle[i]);
@@ -46,10 +51,19 @@ export function mirrorRelation(group: readonly Int32Array[], truncated: boolean,
     if (signs.some((s) => s === 0)) continue; // some symmetry does not map the family onto itself
     const keeping = group.filter((_, i) => signs[i] > 0);
     const at = signs.indexOf(-1);
-    if (at < 0) return noMirrors(`no symmetry of the network reverses the direction of ${family.what}, so no entry is the mirror image of another`);
-    return { keeping, reversing: group[at], reason: `a symmetry reverses the direction of ${family.what}: mirror images are listed as two entries` };
+    if (at < 0)
+      return noMirrors(`no symmetry of the network reverses the direction of ${family.what}, so no entry is the mirror image of another`);
+    return {
+      keeping,
+      reversing: group[at],
+      reason: `a symmetry reverses the direction of ${family.what}: mirror images are listed as two entries`,
+    };
   }
-  return noMirrors(current.length + listing.cycles.length === 0 ? 'the graph has no cycle, so there is no direction to reverse' : 'the symmetries do not map the cycles onto each other, so no direction is defined');
+  return noMirrors(
+    current.length + listing.cycles.length === 0
+      ? 'the graph has no cycle, so there is no direction to reverse'
+      : 'the symmetries do not map the cycles onto each other, so no direction is defined',
+  );
 }
 
 function longest(cycles: readonly Int32Array[]): Int32Array[] {

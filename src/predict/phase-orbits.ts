@@ -75,7 +75,12 @@ export function applyPhaseGenerator(generator: PhaseGenerator, modes: number, y:
 }
 
 /** Subtracts sum_c rate_c G_c from a dense Jacobian (row-major rows of length n), in place. */
-export function subtractRotation(jacobian: { get(r: number, c: number): number; set(r: number, c: number, v: number): unknown }, generators: readonly PhaseGenerator[], rates: ArrayLike<number>, modes: number): void {
+export function subtractRotation(
+  jacobian: { get(r: number, c: number): number; set(r: number, c: number, v: number): unknown },
+  generators: readonly PhaseGenerator[],
+  rates: ArrayLike<number>,
+  modes: number,
+): void {
   generators.forEach((g, c) => {
     const rate = rates[c];
     if (rate === 0) return;

@@ -45,7 +45,13 @@ export interface RandomStartRun {
  * each stable state one settles on and says whether it was new (see the module header for when
  * the run stops).
  */
-export function runRandomStarts(model: GuideModel, modes: readonly number[], count: number, amplitude: (mode: number) => number, keep: (found: SettledStart) => boolean): RandomStartRun {
+export function runRandomStarts(
+  model: GuideModel,
+  modes: readonly number[],
+  count: number,
+  amplitude: (mode: number) => number,
+  keep: (found: SettledStart) => boolean,
+): RandomStartRun {
   const { nodes, modes: modeCount } = model.params;
   const random = new Random(RANDOM_START_SEED);
   let tried = 0;
@@ -65,7 +71,10 @@ export function runRandomStarts(model: GuideModel, modes: readonly number[], cou
     }
     tried++;
     const destination = lookAhead(model, start, { maxEvaluations: RANDOM_START_EVALUATIONS });
-    const found = destination.settled && destination.locked && destination.stability ? { mode, locked: destination.locked, stability: destination.stability } : null;
+    const found =
+      destination.settled && destination.locked && destination.stability
+        ? { mode, locked: destination.locked, stability: destination.stability }
+        : null;
     if (found) settled++;
     idle = found && keep(found) ? 0 : idle + 1;
   }

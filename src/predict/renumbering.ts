@@ -48,7 +48,9 @@ export function canonicalRenumbering(model: GuideModel, symmetries: { elements: 
 
   const links: Link[] = [];
   const current: number[] = [];
-  const byPosition = Array.from(params.linkFrom, (from, e) => ({ e, from: rank[from], to: rank[params.linkTo[e]] })).sort((a, b) => a.to - b.to || a.from - b.from);
+  const byPosition = Array.from(params.linkFrom, (from, e) => ({ e, from: rank[from], to: rank[params.linkTo[e]] })).sort(
+    (a, b) => a.to - b.to || a.from - b.from,
+  );
   for (const { e, from, to } of byPosition) {
     links.push({ from, to, weight: params.linkNominal[e] });
     current.push(params.linkWeight[e]);
@@ -95,7 +97,12 @@ export function movedLockedState(locked: LockedState, perm: ArrayLike<number>, m
     rate: locked.rates[c],
   }));
   moved.sort((a, b) => a.generator.mode - b.generator.mode || a.generator.nodes[0] - b.generator.nodes[0]);
-  return { ...locked, state: movedState(locked.state, perm, modes), generators: moved.map((m) => m.generator), rates: moved.map((m) => m.rate) };
+  return {
+    ...locked,
+    state: movedState(locked.state, perm, modes),
+    generators: moved.map((m) => m.generator),
+    rates: moved.map((m) => m.rate),
+  };
 }
 
 /** The permutation g written in other labels: label a becomes map[a], so the result sends map[a] to map[g[a]]. */

@@ -1,4 +1,12 @@
-import { LOG_FORMAT_VERSION, asLogRecord, type CheckpointRecord, type EventRecord, type HeaderRecord, type LogRecord, type SampleRecord } from './log-records.js';
+import {
+  LOG_FORMAT_VERSION,
+  asLogRecord,
+  type CheckpointRecord,
+  type EventRecord,
+  type HeaderRecord,
+  type LogRecord,
+  type SampleRecord,
+} from './log-records.js';
 
 /**
  * Reads a session log (NDJSON text) back. A record counts only when its line ends with a
@@ -60,7 +68,11 @@ export function parseLog(text: string, options: { firstSeq?: number } = {}): Par
     switch (record.record) {
       case 'header':
         if (record.format !== 'syncring-log') result.problems.push({ line: at, reason: 'header: not a syncring log' });
-        else if (record.formatVersion > LOG_FORMAT_VERSION) result.problems.push({ line: at, reason: `header: format version ${record.formatVersion} is newer than this reader (${LOG_FORMAT_VERSION})` });
+        else if (record.formatVersion > LOG_FORMAT_VERSION)
+          result.problems.push({
+            line: at,
+            reason: `header: format version ${record.formatVersion} is newer than this reader (${LOG_FORMAT_VERSION})`,
+          });
         if (result.header === null) result.header = record;
         break;
       case 'event':

@@ -81,7 +81,13 @@ export function isSoakCheckpoint(record: LogRecord): record is SoakCheckpointRec
 }
 
 /** The one header every log starts with (`soak` in soak logs); the caller's software version. */
-export function logHeader(scenario: Scenario, scenarioJson: unknown, version: string, soak?: SoakHeader, createdAt = new Date()): Omit<HeaderRecord, 'seq'> {
+export function logHeader(
+  scenario: Scenario,
+  scenarioJson: unknown,
+  version: string,
+  soak?: SoakHeader,
+  createdAt = new Date(),
+): Omit<HeaderRecord, 'seq'> {
   return {
     record: 'header',
     format: 'syncring-log',

@@ -73,7 +73,16 @@ export interface HistoryPoint {
 export type WireFrame = Omit<Frame, 'events'>;
 
 export type ServerMessage =
-  | { type: 'hello'; protocol: number; software: string; role: Role; session: SessionInfo; history: HistoryPoint[]; events: SessionEvent[]; viewers: number }
+  | {
+      type: 'hello';
+      protocol: number;
+      software: string;
+      role: Role;
+      session: SessionInfo;
+      history: HistoryPoint[];
+      events: SessionEvent[];
+      viewers: number;
+    }
   /** emittedAt: wall clock (ms since 1970) when the simulation handed the frame out, for frame-age measurements. */
   | { type: 'frame'; frame: WireFrame; emittedAt: number }
   | { type: 'event'; event: SessionEvent }
@@ -88,7 +97,9 @@ export type ControlCommand =
   | { action: 'set-speed'; speed: Speed }
   | { action: 'load-scenario'; name?: string; scenario?: unknown };
 
-export type ClientCommand = { id: string | number | null } & ({ kind: 'perturbation'; perturbation: Perturbation } | ({ kind: 'control' } & ControlCommand));
+export type ClientCommand = { id: string | number | null } & (
+  { kind: 'perturbation'; perturbation: Perturbation } | ({ kind: 'control' } & ControlCommand)
+);
 
 export const CONTROL_ACTIONS = ['pause', 'resume', 'reset', 'set-speed', 'load-scenario'] as const;
 export const COMMAND_ACTIONS: readonly string[] = [...PERTURBATION_ACTIONS, ...CONTROL_ACTIONS];
@@ -108,7 +119,8 @@ export function parseClientMessage(text: string, params: ModelParameters): Clien
   } catch (error) {
     throw new InputError('', `not valid JSON: ${(error as Error).message}`);
   }
-  if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) throw new InputError('', 'a message must be a JSON object with a "type"');
+  if (raw === null || typeof raw !== 'object' || Array.isArray(raw))
+    throw new InputError('', 'a message must be a JSON object with a "type"');
   const obj = raw as Record<string, unknown>;
   const id = typeof obj.id === 'string' || typeof obj.id === 'number' ? obj.id : null;
   try {

@@ -20,7 +20,14 @@ export interface ContinuationOutput {
   start: number;
   startPpm: number | null;
   limits: { decreasing: BranchLimit | null; increasing: BranchLimit | null };
-  range: { lower: number | null; upper: number | null; lowerPpm: number | null; upperPpm: number | null; lowerKind: LimitKind | null; upperKind: LimitKind | null };
+  range: {
+    lower: number | null;
+    upper: number | null;
+    lowerPpm: number | null;
+    upperPpm: number | null;
+    lowerKind: LimitKind | null;
+    upperKind: LimitKind | null;
+  };
   startIndex: number;
   steps: number;
   branch: BranchPoint[];

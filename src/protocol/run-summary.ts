@@ -72,7 +72,15 @@ export function runSummaryOf(frame: Frame): RunSummary {
     phaseDifferences: frame.full.phaseDifferences,
     amplitudes: frame.full.amplitude,
     guide: {
-      pattern: { kind: g.kind, ...(g.q !== undefined ? { q: g.q } : {}), locked: g.locked, status: g.status, carryingMode: g.carryingMode, wantedMode: g.wantedMode, symmetry: g.symmetry },
+      pattern: {
+        kind: g.kind,
+        ...(g.q !== undefined ? { q: g.q } : {}),
+        locked: g.locked,
+        status: g.status,
+        carryingMode: g.carryingMode,
+        wantedMode: g.wantedMode,
+        symmetry: g.symmetry,
+      },
       margin: frame.guide.margin,
       stable: frame.guide.margin === null ? null : frame.guide.margin < 0,
       rotation: frame.guide.rotation,

@@ -117,8 +117,31 @@ export type SoakState = 'starting' | 'running' | 'finished' | 'halted' | 'interr
 
 /** The fields of a verdict the dashboard's table shows (the raw perturbation records stay out). */
 export const VERDICT_ROW_FIELDS = [
-  'id', 'source', 'action', 'appliedAt', 'restoredAt', 'before', 'persisted', 'slipped', 'maxPhaseExcursion', 'shift', 'settled', 'settledAfter', 'fromContinued',
-  'became', 'recovered', 'timeToRelock', 'final', 'divergence', 'prediction', 'cutShort', 'complete', 'outcome', 'pass', 'reasons', 'notes',
+  'id',
+  'source',
+  'action',
+  'appliedAt',
+  'restoredAt',
+  'before',
+  'persisted',
+  'slipped',
+  'maxPhaseExcursion',
+  'shift',
+  'settled',
+  'settledAfter',
+  'fromContinued',
+  'became',
+  'recovered',
+  'timeToRelock',
+  'final',
+  'divergence',
+  'prediction',
+  'cutShort',
+  'complete',
+  'outcome',
+  'pass',
+  'reasons',
+  'notes',
 ] as const satisfies readonly (keyof FaultVerdict)[];
 export type VerdictRow = Pick<FaultVerdict, (typeof VERDICT_ROW_FIELDS)[number]>;
 
@@ -186,7 +209,13 @@ export function readStartRecord(value: unknown): StartRecord | null {
  * no nominal frequency, verdicts without an outcome), which are filled in as they then were.
  */
 export function readSoakStatus(value: unknown): SoakStatus | null {
-  if (!isObject(value) || !['running', 'finished', 'halted'].includes(value.state as string) || !isNumber(value.tau) || !Number.isInteger(value.pid)) return null;
+  if (
+    !isObject(value) ||
+    !['running', 'finished', 'halted'].includes(value.state as string) ||
+    !isNumber(value.tau) ||
+    !Number.isInteger(value.pid)
+  )
+    return null;
   const faults = isObject(value.faults) ? value.faults : {};
   const count = (key: string) => (isNumber(faults[key]) ? (faults[key] as number) : 0);
   const verdicts = (Array.isArray(value.verdicts) ? value.verdicts : []).filter(isObject).map((v) => {
@@ -214,6 +243,13 @@ export function readSoakStatus(value: unknown): SoakStatus | null {
 
 /** summary.json (older summaries lack the time base's nominal-frequency fields; they read as given). */
 export function readSoakSummary(value: unknown): SoakSummary | null {
-  if (!isObject(value) || value.format !== 'syncring-soak-summary' || typeof value.pass !== 'boolean' || !Array.isArray(value.verdicts) || !isObject(value.timeBase)) return null;
+  if (
+    !isObject(value) ||
+    value.format !== 'syncring-soak-summary' ||
+    typeof value.pass !== 'boolean' ||
+    !Array.isArray(value.verdicts) ||
+    !isObject(value.timeBase)
+  )
+    return null;
   return value as unknown as SoakSummary;
 }

@@ -99,7 +99,14 @@ export function stabilitySamples(lines: readonly SoakSampleRecord[]): PhaseSampl
   const samples: PhaseSample[] = [];
   for (const s of lines) {
     if (s.ensemble === null || s.node === null) continue;
-    samples.push({ tick: s.tick, tau: s.tau, ensemble: s.ensemble, node: s.node, uncoupledEnsemble: s.uncoupledEnsemble, singlePart: s.singlePart });
+    samples.push({
+      tick: s.tick,
+      tau: s.tau,
+      ensemble: s.ensemble,
+      node: s.node,
+      uncoupledEnsemble: s.uncoupledEnsemble,
+      singlePart: s.singlePart,
+    });
   }
   return samples;
 }

@@ -1,13 +1,5 @@
 /** Public API of the scenario layer: validation, normalization and the engineering-unit mapping. */
-export {
-  parseScenario,
-  scenarioToJSON,
-  ringLinks,
-  defaultMacroPeriods,
-  MAX_NODES,
-  DEFAULT_NAME,
-  DEFAULT_AVERAGING_GRID,
-} from './parse.js';
+export { parseScenario, scenarioToJSON, ringLinks, defaultMacroPeriods, MAX_NODES, DEFAULT_NAME, DEFAULT_AVERAGING_GRID } from './parse.js';
 export type { ScenarioJSON } from './parse.js';
 export {
   ppmToDelta,

@@ -21,17 +21,7 @@
  *   `units.nominalFrequencyAssumed` when it was left out), `detuningPpm`, per-mode `offsetPpm`
  *   instead of `omega` and `quality` instead of `loss`.
  */
-import type {
-  CouplingSpec,
-  InitialSpec,
-  IntegratorSpec,
-  Link,
-  ModeSpec,
-  ModeState,
-  NoiseSpec,
-  Scenario,
-  Topology,
-} from './types.js';
+import type { CouplingSpec, InitialSpec, IntegratorSpec, Link, ModeSpec, ModeState, NoiseSpec, Scenario, Topology } from './types.js';
 import { DEFAULT_NOMINAL_FREQUENCY_HZ, offsetPpmToOmega, ppmToDelta, qualityToLoss } from './units.js';
 import { defaultStepsPerPeriod } from '../integrate/default-steps.js';
 import { child, describeValue, fieldChecks, has, item, type Check, type JsonObject } from '../util/json-fields.js';
@@ -55,8 +45,19 @@ export function defaultMacroPeriods(epsilon: number): number {
 
 const describe = describeValue;
 const {
-  expectObject, expectArray, expectLength, required, finiteNumber, integer, inRange, atLeast, positive, uint32,
-  anyFinite, nonNegative, numberField,
+  expectObject,
+  expectArray,
+  expectLength,
+  required,
+  finiteNumber,
+  integer,
+  inRange,
+  atLeast,
+  positive,
+  uint32,
+  anyFinite,
+  nonNegative,
+  numberField,
 } = fieldChecks();
 
 /** A unit conversion can overflow even from finite input; say so at the input's path. */
@@ -117,10 +118,7 @@ function parseTopology(value: unknown, nodes: number): { topology: Topology; lin
     return { topology: value, links: ringLinks(value, nodes) };
   }
   if (value === null || typeof value !== 'object' || Array.isArray(value)) {
-    fail(
-      'topology',
-      `must be "ring-one-way", "ring-two-way" or {"edges": [[from, to, weight], ...]} (got ${describe(value)})`,
-    );
+    fail('topology', `must be "ring-one-way", "ring-two-way" or {"edges": [[from, to, weight], ...]} (got ${describe(value)})`);
   }
   const obj = expectObject(value, 'topology', ['edges']);
   const edgesPath = 'topology.edges';
@@ -309,8 +307,7 @@ function parseIntegrator(value: unknown, epsilon: number): IntegratorSpec {
     (min: number, max: number): Check =>
     (n, path) =>
       inRange(integer(n, path), path, min, max);
-  const field = (key: string, check: Check, fallback: number): number =>
-    numberField(obj, 'integrator', key, check, fallback);
+  const field = (key: string, check: Check, fallback: number): number => numberField(obj, 'integrator', key, check, fallback);
   return {
     // 0 stands for 'not given'; parseScenario fills in the default once the whole scenario is known
     stepsPerPeriod: field('stepsPerPeriod', intIn(4, 4096), 0),
@@ -347,9 +344,7 @@ function parseUnsourced(raw: unknown): Scenario {
   const coupling = parseCoupling(required(top, 'coupling', ''));
   const detuning = parseDetuning(top, nodes, epsilon);
   const noise = has(top, 'noise') ? parseNoise(top.noise) : { ...DEFAULT_NOISE };
-  const initial = has(top, 'initial')
-    ? parseInitial(top.initial, nodes, modes.length)
-    : { random: { ...DEFAULT_INITIAL_RANDOM } };
+  const initial = has(top, 'initial') ? parseInitial(top.initial, nodes, modes.length) : { random: { ...DEFAULT_INITIAL_RANDOM } };
   const integrator = parseIntegrator(top.integrator, epsilon);
   const scenario: Scenario = {
     name,

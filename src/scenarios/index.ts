@@ -22,9 +22,7 @@ export const builtInScenarioNames: string[] = [...RAW_BY_NAME.keys()];
 export function builtInScenarioRaw(name: string): unknown {
   const raw = RAW_BY_NAME.get(name);
   if (raw === undefined) {
-    throw new Error(
-      `unknown built-in scenario ${JSON.stringify(name)}; available: ${builtInScenarioNames.join(', ')}`,
-    );
+    throw new Error(`unknown built-in scenario ${JSON.stringify(name)}; available: ${builtInScenarioNames.join(', ')}`);
   }
   return structuredClone(raw);
 }

@@ -109,7 +109,14 @@ export class PatternTracker {
   private readonly matchTolerance: number;
   private readonly pairDifferences: Float64Array;
 
-  constructor(readonly nodes: number, readonly modes: number, private readonly pairs: CoupledPairs, windowTicks: number, readonly lockTolerance: number, readonly symmetryTolerance: number) {
+  constructor(
+    readonly nodes: number,
+    readonly modes: number,
+    private readonly pairs: CoupledPairs,
+    windowTicks: number,
+    readonly lockTolerance: number,
+    readonly symmetryTolerance: number,
+  ) {
     this.detector = new LockDetector(pairs.size, Math.max(2, windowTicks), lockTolerance);
     this.matchTolerance = continuationTolerance(nodes, lockTolerance);
     this.pairDifferences = new Float64Array(pairs.size);
@@ -128,7 +135,9 @@ export class PatternTracker {
   committedPattern(): { kind: ObservedPatternKind; q?: number; mode: number; locked: boolean } {
     const c = this.committed;
     if (!this.detector.locked || !c) return { kind: 'unlocked', mode: this.carryingMode, locked: false };
-    return c.q !== undefined ? { kind: c.kind, q: c.q, mode: this.carryingMode, locked: true } : { kind: c.kind, mode: this.carryingMode, locked: true };
+    return c.q !== undefined
+      ? { kind: c.kind, q: c.q, mode: this.carryingMode, locked: true }
+      : { kind: c.kind, mode: this.carryingMode, locked: true };
   }
 
   /** Where the committed pattern is predicted to settle under the current parameters (null: no prediction). */
@@ -154,7 +163,12 @@ export class PatternTracker {
   }
 
   /** One tick: the report for the frame and the lock transition this tick made, if any. */
-  observe(tau: number, y: Float64Array, observed: SystemObservables, group: Int32Array[]): { report: PatternReport; transition: LockTransition | null } {
+  observe(
+    tau: number,
+    y: Float64Array,
+    observed: SystemObservables,
+    group: Int32Array[],
+  ): { report: PatternReport; transition: LockTransition | null } {
     const mode = observed.dominantMode;
     let modeTransition: LockTransition | null = null;
     if (mode !== this.carryingMode) {
@@ -177,7 +191,11 @@ export class PatternTracker {
         identity !== own && hint
           ? { kind: hint.kind, ...(hint.q !== undefined ? { q: hint.q } : {}) }
           : shape
-            ? { kind: shape.kind, ...(shape.q !== undefined ? { q: shape.q } : {}), ...(shape.clusters ? { clusters: shape.clusters } : {}) }
+            ? {
+                kind: shape.kind,
+                ...(shape.q !== undefined ? { q: shape.q } : {}),
+                ...(shape.clusters ? { clusters: shape.clusters } : {}),
+              }
             : null;
     }
     if (!this.detector.locked) this.committed = null;

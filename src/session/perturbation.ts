@@ -52,7 +52,8 @@ export function parsePerturbation(raw: unknown, params: ModelParameters, path = 
     throw new InputError(child(path, 'action'), `must be one of ${PERTURBATION_ACTIONS.join(', ')} (got ${JSON.stringify(action)})`);
   }
   const obj = expectObject(raw, path, ['action', ...allowedFor[action as PerturbationAction], ...extraFields]);
-  const node = (key = 'node'): number => inRange(integer(required(obj, key, path), child(path, key)), child(path, key), 0, params.nodes - 1);
+  const node = (key = 'node'): number =>
+    inRange(integer(required(obj, key, path), child(path, key)), child(path, key), 0, params.nodes - 1);
   const link = (): { from: number; to: number } => {
     const from = node('from');
     const to = node('to');
@@ -76,14 +77,23 @@ export function parsePerturbation(raw: unknown, params: ModelParameters, path = 
     }
     case 'set-link-weight': {
       const ends = link();
-      return { action: 'set-link-weight', ...ends, weight: atLeast(finiteNumber(required(obj, 'weight', path), child(path, 'weight')), child(path, 'weight'), 0) };
+      return {
+        action: 'set-link-weight',
+        ...ends,
+        weight: atLeast(finiteNumber(required(obj, 'weight', path), child(path, 'weight')), child(path, 'weight'), 0),
+      };
     }
     case 'break-link':
       return { action: 'break-link', ...link() };
     case 'restore-link':
       return { action: 'restore-link', ...link() };
     case 'set-coupling': {
-      const p: Perturbation = { action: 'set-coupling', strength: optional('strength'), reactive: optional('reactive'), dissipative: optional('dissipative') };
+      const p: Perturbation = {
+        action: 'set-coupling',
+        strength: optional('strength'),
+        reactive: optional('reactive'),
+        dissipative: optional('dissipative'),
+      };
       if (p.strength === undefined && p.reactive === undefined && p.dissipative === undefined) {
         throw new InputError(path, 'give at least one of strength, reactive, dissipative');
       }
@@ -151,9 +161,15 @@ export function describePerturbation(p: Perturbation): string {
     case 'restore-link':
       return `link ${p.from} -> ${p.to} restored`;
     case 'set-coupling':
-      return `coupling set to ${Object.entries(p).filter(([k, v]) => k !== 'action' && v !== undefined).map(([k, v]) => `${k} ${v}`).join(', ')}`;
+      return `coupling set to ${Object.entries(p)
+        .filter(([k, v]) => k !== 'action' && v !== undefined)
+        .map(([k, v]) => `${k} ${v}`)
+        .join(', ')}`;
     case 'set-noise':
-      return `noise set to ${Object.entries(p).filter(([k, v]) => k !== 'action' && v !== undefined).map(([k, v]) => `${k} ${v}`).join(', ')}`;
+      return `noise set to ${Object.entries(p)
+        .filter(([k, v]) => k !== 'action' && v !== undefined)
+        .map(([k, v]) => `${k} ${v}`)
+        .join(', ')}`;
     case 'kick-mode':
       return `mode ${p.mode} of node ${p.node} kicked by ${p.amount}${p.phase ? ` at phase ${p.phase.toFixed(3)}` : ''}`;
   }

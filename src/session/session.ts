@@ -166,13 +166,23 @@ export class CoSimulation {
   private predictionStale = false;
   private predictionKicked = false;
 
-  constructor(readonly scenario: Scenario, readonly options: SessionOptions = {}) {
+  constructor(
+    readonly scenario: Scenario,
+    readonly options: SessionOptions = {},
+  ) {
     this.params = new ModelParameters(scenario);
     const initial = initialRotatingState(scenario, this.params);
     const micro = new FullSystem(this.params, initial, scenario.integrator.stepsPerPeriod, scenario.noise.seed);
     this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? GUIDE_TOLERANCE);
     this.macroStep = macroStepOf(scenario);
-    this.integrator = new IntegratorSwitch(this.params, micro, options.integrator ?? 'auto', this.macroStep, (kind, message) => this.record(kind, message, 'engine'), options.envelopeAutoError);
+    this.integrator = new IntegratorSwitch(
+      this.params,
+      micro,
+      options.integrator ?? 'auto',
+      this.macroStep,
+      (kind, message) => this.record(kind, message, 'engine'),
+      options.envelopeAutoError,
+    );
     const eps = this.params.epsilon;
     const window = options.lockWindow ?? defaultLockWindow(this.params);
     const windowTicks = eps > 0 ? Math.min(MAX_LOCK_WINDOW_TICKS, Math.max(2, Math.round(window / (eps * this.macroStep)))) : 10;
@@ -395,7 +405,11 @@ export class CoSimulation {
         return;
       }
       case 'pattern-change':
-        this.record('pattern-change', `pattern changed from ${t.from} to ${t.to} without a cycle slip (the new pattern held over a lock window)`, 'engine');
+        this.record(
+          'pattern-change',
+          `pattern changed from ${t.from} to ${t.to} without a cycle slip (the new pattern held over a lock window)`,
+          'engine',
+        );
         return;
       case 'settled':
         return; // settling back onto the same pattern is not an event
@@ -422,7 +436,13 @@ export class CoSimulation {
     const current = p?.current;
     const hint =
       p && current && current.locked && current.kind !== 'unlocked' && (p.verdict === 'persists' || p.verdict === 'marginal') && p.pattern
-        ? { label: patternIdentity(current.kind, current.q, current.mode), kind: current.kind, ...(current.q !== undefined ? { q: current.q } : {}), mode: p.pattern.mode, phaseDifferences: p.pattern.phaseDifferences }
+        ? {
+            label: patternIdentity(current.kind, current.q, current.mode),
+            kind: current.kind,
+            ...(current.q !== undefined ? { q: current.q } : {}),
+            mode: p.pattern.mode,
+            phaseDifferences: p.pattern.phaseDifferences,
+          }
         : null;
     this.fullTracker.expectContinuation(hint);
     this.guideTracker.expectContinuation(hint);

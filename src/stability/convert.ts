@@ -25,11 +25,7 @@ export function phaseToFrequency(x: ArrayLike<number>, tau0: number): Float64Arr
  * because a long sum otherwise carries rounding of the size of the running total into every
  * later difference.
  */
-export function integrateFrequency(
-  y: ArrayLike<number>,
-  tau0: number,
-  offset: number,
-): Float64Array {
+export function integrateFrequency(y: ArrayLike<number>, tau0: number, offset: number): Float64Array {
   const x = new Float64Array(y.length + 1);
   let sum = 0;
   let carry = 0;

@@ -4,12 +4,7 @@ import type { MetricKernel, SeriesOptions, StabilityPoint } from './types.js';
 import { requireAveragingFactor, requirePhasePoints } from './validate.js';
 
 /** Signature shared by adev, oadev, mdev, tdev, hdev, hdevNonOverlapping and mtie. */
-export type MetricFunction = (
-  data: ArrayLike<number>,
-  tau0: number,
-  m: number,
-  options?: SeriesOptions,
-) => StabilityPoint;
+export type MetricFunction = (data: ArrayLike<number>, tau0: number, m: number, options?: SeriesOptions) => StabilityPoint;
 
 export function publicMetric(name: string, kernel: MetricKernel): MetricFunction {
   return (data, tau0, m, options) => {

@@ -21,8 +21,7 @@ export const mdevKernel: MetricKernel = {
     for (let j = 1; j < terms; j++) {
       const enter = j + m - 1;
       const leave = j - 1;
-      window +=
-        x[enter + 2 * m] - 2 * x[enter + m] + x[enter] - (x[leave + 2 * m] - 2 * x[leave + m] + x[leave]);
+      window += x[enter + 2 * m] - 2 * x[enter + m] + x[enter] - (x[leave + 2 * m] - 2 * x[leave + m] + x[leave]);
       sum += window * window;
     }
     const tau = m * tau0;

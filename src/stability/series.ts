@@ -13,12 +13,7 @@ export function seriesKind(where: string, options: SeriesOptions | undefined): S
 }
 
 /** Validates the samples and the interval of a call. */
-export function checkSeries(
-  where: string,
-  data: ArrayLike<number>,
-  tau0: number,
-  kind: SeriesKind,
-): void {
+export function checkSeries(where: string, data: ArrayLike<number>, tau0: number, kind: SeriesKind): void {
   requireSeries(where, kind === 'phase' ? 'x (phase data)' : 'y (frequency data)', data, 1);
   requireSampleInterval(where, tau0);
 }
@@ -29,12 +24,7 @@ export function checkSeries(
  * phase stays small, so its differences keep their digits (measured: a 1e-6 offset on 1e-12
  * noise over 2^20 samples otherwise costs about six of them).
  */
-export function toPhase(
-  data: ArrayLike<number>,
-  tau0: number,
-  kind: SeriesKind,
-  offsetSensitive: boolean,
-): ArrayLike<number> {
+export function toPhase(data: ArrayLike<number>, tau0: number, kind: SeriesKind, offsetSensitive: boolean): ArrayLike<number> {
   if (kind === 'phase') return data;
   return integrateFrequency(data, tau0, offsetSensitive ? 0 : meanOf(data));
 }

@@ -49,11 +49,7 @@ export function averagingFactors(mMax: number, spacing: SweepSpacing = 'octave')
   return factors;
 }
 
-export function stabilitySweep(
-  data: ArrayLike<number>,
-  tau0: number,
-  options: SweepOptions,
-): SweepResult {
+export function stabilitySweep(data: ArrayLike<number>, tau0: number, options: SweepOptions): SweepResult {
   const where = 'stabilitySweep';
   if (options === null || typeof options !== 'object') {
     throw new TypeError(`${where}: options must be an object with a metrics list, got ${describeValue(options)}`);
@@ -62,9 +58,7 @@ export function stabilitySweep(
   checkSeries(where, data, tau0, kind);
   const metrics = checkedMetrics(where, options.metrics);
   const phasePoints = kind === 'phase' ? data.length : data.length + 1;
-  const m = options.mValues === undefined
-    ? ladder(where, phasePoints, options.spacing)
-    : [...checkedFactors(where, options.mValues)];
+  const m = options.mValues === undefined ? ladder(where, phasePoints, options.spacing) : [...checkedFactors(where, options.mValues)];
   for (const metric of metrics) {
     for (const factor of m) {
       requirePhasePoints(`${where} (${metric})`, factor, phasePoints, METRIC_KERNELS[metric].minPhasePoints(factor));
@@ -98,9 +92,7 @@ function checkedMetrics(where: string, metrics: unknown): StabilityMetric[] {
   }
   metrics.forEach((name, i) => {
     if (!isStabilityMetric(name)) {
-      throw new RangeError(
-        `${where}: options.metrics[${i}] is ${describeValue(name)}; known metrics: ${METRIC_NAMES.join(', ')}`,
-      );
+      throw new RangeError(`${where}: options.metrics[${i}] is ${describeValue(name)}; known metrics: ${METRIC_NAMES.join(', ')}`);
     }
   });
   return [...new Set(metrics as StabilityMetric[])];
@@ -120,9 +112,7 @@ function ladder(where: string, phasePoints: number, spacing: unknown = 'octave')
   }
   const mMax = largestSweepFactor(phasePoints);
   if (mMax < 1) {
-    throw new RangeError(
-      `${where}: needs at least 4 phase points (3 frequency samples); the series gives ${phasePoints}`,
-    );
+    throw new RangeError(`${where}: needs at least 4 phase points (3 frequency samples); the series gives ${phasePoints}`);
   }
   return averagingFactors(mMax, spacing);
 }

@@ -27,12 +27,7 @@ export const mtie = publicMetric('mtie', mtieKernel);
  * TIE series for observation interval m tau0: element i is x_{i+m} - x_i (seconds),
  * N - m elements for N phase points.
  */
-export function timeIntervalError(
-  data: ArrayLike<number>,
-  tau0: number,
-  m: number,
-  options?: SeriesOptions,
-): Float64Array {
+export function timeIntervalError(data: ArrayLike<number>, tau0: number, m: number, options?: SeriesOptions): Float64Array {
   const where = 'timeIntervalError';
   const kind = seriesKind(where, options);
   checkSeries(where, data, tau0, kind);

@@ -30,14 +30,7 @@ export interface StabilityPoint {
 }
 
 /** The statistics `stabilitySweep` can tabulate. */
-export type StabilityMetric =
-  | 'adev'
-  | 'oadev'
-  | 'mdev'
-  | 'tdev'
-  | 'hdev'
-  | 'hdevNonOverlapping'
-  | 'mtie';
+export type StabilityMetric = 'adev' | 'oadev' | 'mdev' | 'tdev' | 'hdev' | 'hdevNonOverlapping' | 'mtie';
 
 /** A statistic evaluated on phase data that has already been validated. */
 export interface MetricKernel {

@@ -3,19 +3,12 @@
  * that was called and names the offending argument or sample.
  */
 
-export function requireSeries(
-  where: string,
-  name: string,
-  values: ArrayLike<number>,
-  minLength: number,
-): void {
+export function requireSeries(where: string, name: string, values: ArrayLike<number>, minLength: number): void {
   if (values === null || typeof values !== 'object' || typeof values.length !== 'number') {
     throw new TypeError(`${where}: ${name} must be an array of numbers, got ${describeValue(values)}`);
   }
   if (values.length < minLength) {
-    throw new RangeError(
-      `${where}: ${name} has ${values.length} samples; at least ${minLength} are needed`,
-    );
+    throw new RangeError(`${where}: ${name} has ${values.length} samples; at least ${minLength} are needed`);
   }
   for (let i = 0; i < values.length; i++) {
     const v = values[i];

@@ -54,7 +54,12 @@ export class InputError extends Error {
   }
 
   toData(): InputErrorData {
-    return { path: this.path, reason: this.reason, ...(this.source !== undefined ? { source: this.source } : {}), requestId: this.requestId };
+    return {
+      path: this.path,
+      reason: this.reason,
+      ...(this.source !== undefined ? { source: this.source } : {}),
+      requestId: this.requestId,
+    };
   }
 
   static fromData(data: InputErrorData): InputError {

@@ -119,5 +119,19 @@ export function fieldChecks(fail: Fail = failInput) {
     return check(finiteNumber(obj[key], fieldPath), fieldPath);
   }
 
-  return { expectObject, expectArray, expectLength, required, finiteNumber, integer, inRange, atLeast, positive, uint32, anyFinite, nonNegative, numberField };
+  return {
+    expectObject,
+    expectArray,
+    expectLength,
+    required,
+    finiteNumber,
+    integer,
+    inRange,
+    atLeast,
+    positive,
+    uint32,
+    anyFinite,
+    nonNegative,
+    numberField,
+  };
 }

@@ -22,7 +22,11 @@ export class OriginalRk4 {
   private readonly linkB: Int32Array;
   private readonly step: number;
 
-  constructor(readonly params: ModelParameters, initial: Float64Array, stepsPerPeriod: number) {
+  constructor(
+    readonly params: ModelParameters,
+    initial: Float64Array,
+    stepsPerPeriod: number,
+  ) {
     if (params.modes !== 2) throw new Error(`OriginalRk4: written for two modes, got ${params.modes}`);
     const n = params.nodes;
     if (initial.length !== 4 * n) throw new Error(`OriginalRk4: initial state has ${initial.length} numbers, expected ${4 * n}`);
@@ -38,7 +42,8 @@ export class OriginalRk4 {
     for (let k = 0; k < n; k++) {
       const first = params.inStart[k];
       const degree = params.inStart[k + 1] - first;
-      if (degree > 2 || params.linkWeight.length === 0) throw new Error(`OriginalRk4: node ${k} has ${degree} incoming links (1 or 2 supported)`);
+      if (degree > 2 || params.linkWeight.length === 0)
+        throw new Error(`OriginalRk4: node ${k} has ${degree} incoming links (1 or 2 supported)`);
       this.fromA[k] = degree > 0 ? params.inFrom[first] : k;
       this.linkA[k] = degree > 0 ? params.inLink[first] : 0;
       this.fromB[k] = degree > 1 ? params.inFrom[first + 1] : k;
@@ -64,7 +69,15 @@ export class OriginalRk4 {
   }
 
   /** With D = dz/dtau at zIn: next = base + a D, accOut = accIn + b D (zIn is read first). */
-  private stage(zIn: Float64Array, base: Float64Array, a: number, next: Float64Array, accIn: Float64Array, b: number, accOut: Float64Array): void {
+  private stage(
+    zIn: Float64Array,
+    base: Float64Array,
+    a: number,
+    next: Float64Array,
+    accIn: Float64Array,
+    b: number,
+    accOut: Float64Array,
+  ): void {
     const p = this.params;
     const { signal, signalRate, fromA, fromB, linkA, linkB } = this;
     const n = p.nodes;
@@ -77,14 +90,25 @@ export class OriginalRk4 {
     const detuning = p.detuning;
     const kr = p.strength * p.reactive;
     const ks = p.strength * p.dissipative;
-    const w0 = p.omega[0], w1 = p.omega[1];
-    const sq0 = w0 * w0, sq1 = w1 * w1;
-    const g0 = p.gain[0], g1 = p.gain[1], d0 = p.loss[0], d1 = p.loss[1];
+    const w0 = p.omega[0],
+      w1 = p.omega[1];
+    const sq0 = w0 * w0,
+      sq1 = w1 * w1;
+    const g0 = p.gain[0],
+      g1 = p.gain[1],
+      d0 = p.loss[0],
+      d1 = p.loss[1];
     for (let k = 0, i = 0; k < n; k++, i += 4) {
-      const x0 = zIn[i], r0 = zIn[i + 1], x1 = zIn[i + 2], r1 = zIn[i + 3];
-      const sk = signal[k], rk = signalRate[k];
-      const la = fromA[k], lb = fromB[k];
-      const wa = weight[linkA[k]], wb = weight[linkB[k]];
+      const x0 = zIn[i],
+        r0 = zIn[i + 1],
+        x1 = zIn[i + 2],
+        r1 = zIn[i + 3];
+      const sk = signal[k],
+        rk = signalRate[k];
+      const la = fromA[k],
+        lb = fromB[k];
+      const wa = weight[linkA[k]],
+        wb = weight[linkB[k]];
       const coupling =
         kr * (wa * (signal[la] - sk) + wb * (signal[lb] - sk)) + ks * (wa * (signalRate[la] - rk) + wb * (signalRate[lb] - rk));
       const sustain = (1 - sk * sk) * rk;

@@ -72,7 +72,8 @@ const TARGET_SLOWEST_SHARE = 0.9;
 
 const SECTIONS = ['micro', 'envelope', 'c', 'scipy', 'stream'] as const;
 type Section = (typeof SECTIONS)[number];
-const USAGE = 'expected --json, --steps=S, --sections=LIST (of micro,envelope,c,scipy,stream), --stream-seconds N, --envelope-budget=SECONDS';
+const USAGE =
+  'expected --json, --steps=S, --sections=LIST (of micro,envelope,c,scipy,stream), --stream-seconds N, --envelope-budget=SECONDS';
 
 /** `--name=value` or `--name value`; undefined when absent. */
 function option(args: string[], name: string): string | undefined {
@@ -91,7 +92,8 @@ function fail(message: string): never {
 function positive(name: string, text: string | undefined, fallback: number, integer: boolean): number {
   if (text === undefined) return fallback;
   const value = Number(text);
-  if (!(value > 0 && Number.isFinite(value) && (!integer || Number.isInteger(value)))) fail(`${name} must be a positive ${integer ? 'integer' : 'number'} (got '${text}')`);
+  if (!(value > 0 && Number.isFinite(value) && (!integer || Number.isInteger(value))))
+    fail(`${name} must be a positive ${integer ? 'integer' : 'number'} (got '${text}')`);
   return value;
 }
 
@@ -103,7 +105,8 @@ const sectionsText = option(args, '--sections');
 const sections = new Set<Section>(sectionsText === undefined ? SECTIONS : (sectionsText.split(',') as Section[]));
 for (const name of sections) if (!SECTIONS.includes(name)) fail(`unknown section '${name}' in --sections`);
 const json = args.includes('--json');
-for (const a of args) if (a !== '--json' && !/^--(steps|stream-seconds|envelope-budget|sections)(=|$)/.test(a)) fail(`unknown argument '${a}'`);
+for (const a of args)
+  if (a !== '--json' && !/^--(steps|stream-seconds|envelope-budget|sections)(=|$)/.test(a)) fail(`unknown argument '${a}'`);
 
 /** The bench's two-way ring (spurious mode at omega1; the envelope section moves it to 1.37, away from 1:1). */
 function ringScenario(nodes: number, epsilon = 1e-5, omega1 = 1.0015, macroPeriods?: number) {
@@ -175,13 +178,15 @@ const rk4Error = (steps: number) => {
   return relativeError(s.state, reference.state);
 };
 const rk4Search = microSection ? searchSteps(rk4Error, microError, 12, 16) : null;
-const rk4Speed = rk4Search && measureThroughput(
-  () => new MicroStepper(params, start, rk4Search.stepsPerPeriod, { method: 'rk4' }),
-  (s, p) => s.advance(TWO_PI * p),
-  macroPeriods,
-  5,
-  400,
-);
+const rk4Speed =
+  rk4Search &&
+  measureThroughput(
+    () => new MicroStepper(params, start, rk4Search.stepsPerPeriod, { method: 'rk4' }),
+    (s, p) => s.advance(TWO_PI * p),
+    macroPeriods,
+    5,
+    400,
+  );
 
 // Plain RK4 in the original coordinates at equal error.
 if (microSection) log('original-coordinate RK4 at equal error (the slow part) ...');
@@ -203,13 +208,15 @@ const originalError = (steps: number) => {
   return relativeError(originalToRotating(s.state, s.tau), reference.state);
 };
 const originalSearch = microSection ? searchSteps(originalError, microError, 256, 512) : null;
-const originalSpeed = originalSearch && measureThroughput(
-  () => new OriginalRk4(params, startOriginal, originalSearch.stepsPerPeriod),
-  (s, p) => s.advance(TWO_PI * p),
-  1,
-  3,
-  Math.min(1000, 300 + 300 * originalSeconds),
-);
+const originalSpeed =
+  originalSearch &&
+  measureThroughput(
+    () => new OriginalRk4(params, startOriginal, originalSearch.stepsPerPeriod),
+    (s, p) => s.advance(TWO_PI * p),
+    1,
+    3,
+    Math.min(1000, 300 + 300 * originalSeconds),
+  );
 
 // Cost per node.
 if (microSection) log('scaling with N ...');
@@ -222,7 +229,12 @@ const scaling = (microSection ? SCALING_NODES : []).map((nodes) => {
     5,
     250,
   );
-  return { nodes, nsPerPeriodPerNode: 1e9 / (speed.best * nodes), cpuNsPerPeriodPerNode: 1e9 / (speed.bestCpu * nodes), periodsPerSecond: speed };
+  return {
+    nodes,
+    nsPerPeriodPerNode: 1e9 / (speed.best * nodes),
+    cpuNsPerPeriodPerNode: 1e9 / (speed.bestCpu * nodes),
+    periodsPerSecond: speed,
+  };
 });
 // Judged on CPU time: wall time of short trials on a loaded machine says more about the load.
 const perNodeLargest = scaling.at(-1)?.cpuNsPerPeriodPerNode ?? Number.NaN;
@@ -295,7 +307,15 @@ function benchScipy() {
     notes.push(missing);
     return null;
   }
-  const tried: { tolerance: number; periods: number; relativeError: number; microError: number; periodsPerSecond: number; cpuPeriodsPerSecond: number; evaluationsPerPeriod: number }[] = [];
+  const tried: {
+    tolerance: number;
+    periods: number;
+    relativeError: number;
+    microError: number;
+    periodsPerSecond: number;
+    cpuPeriodsPerSecond: number;
+    evaluationsPerPeriod: number;
+  }[] = [];
   for (const tolerance of SCIPY_TOLERANCES) {
     log(`SciPy DOP853 at rtol = atol = ${tolerance} ...`);
     const run = runDop853(params, startOriginal, tolerance, ERROR_PERIODS, SCIPY_BUDGET_SECONDS);
@@ -315,12 +335,30 @@ function benchScipy() {
     };
     tried.push(entry);
     if (entry.relativeError <= entry.microError) {
-      return { version: scipyVersion(), ...entry, reachedMicroAccuracy: true, speedRatio: microSpeed.best / entry.periodsPerSecond, cpuSpeedRatio: microSpeed.bestCpu / entry.cpuPeriodsPerSecond, tried, target: TARGET_SCIPY_RATIO };
+      return {
+        version: scipyVersion(),
+        ...entry,
+        reachedMicroAccuracy: true,
+        speedRatio: microSpeed.best / entry.periodsPerSecond,
+        cpuSpeedRatio: microSpeed.bestCpu / entry.cpuPeriodsPerSecond,
+        tried,
+        target: TARGET_SCIPY_RATIO,
+      };
     }
   }
   const last = tried.at(-1)!;
-  notes.push(`SciPy DOP853 did not reach the micro stepper's accuracy at rtol ${last.tolerance} (error ${last.relativeError.toExponential(2)} against ${last.microError.toExponential(2)}); its ratio is shown at that tolerance`);
-  return { version: scipyVersion(), ...last, reachedMicroAccuracy: false, speedRatio: microSpeed.best / last.periodsPerSecond, cpuSpeedRatio: microSpeed.bestCpu / last.cpuPeriodsPerSecond, tried, target: TARGET_SCIPY_RATIO };
+  notes.push(
+    `SciPy DOP853 did not reach the micro stepper's accuracy at rtol ${last.tolerance} (error ${last.relativeError.toExponential(2)} against ${last.microError.toExponential(2)}); its ratio is shown at that tolerance`,
+  );
+  return {
+    version: scipyVersion(),
+    ...last,
+    reachedMicroAccuracy: false,
+    speedRatio: microSpeed.best / last.periodsPerSecond,
+    cpuSpeedRatio: microSpeed.bestCpu / last.cpuPeriodsPerSecond,
+    tried,
+    target: TARGET_SCIPY_RATIO,
+  };
 }
 const scipy = sections.has('scipy') ? benchScipy() : null;
 
@@ -332,13 +370,21 @@ if (sections.has('stream')) {
   } else {
     log(`streaming: ${STREAM_CLIENTS} WebSocket clients for ${streamSeconds} s ...`);
     streaming = await benchStreaming({ clients: STREAM_CLIENTS, seconds: streamSeconds, warmupSeconds: STREAM_WARMUP_SECONDS });
-    if (streamSeconds < 600) notes.push(`streaming measured over ${streamSeconds} s; the issue's memory figure is over 600 s (--stream-seconds 600)`);
+    if (streamSeconds < 600)
+      notes.push(`streaming measured over ${streamSeconds} s; the issue's memory figure is over 600 s (--stream-seconds 600)`);
   }
 }
 
 const result = {
   machine: { node: process.version, cpus: availableParallelism(), loadAverage: loadavg().map((l) => Number(l.toFixed(2))) },
-  case: { nodes: 8, topology: 'ring-two-way', modes: Array.from(params.omega), epsilon: params.epsilon, macroPeriods, errorPeriods: ERROR_PERIODS },
+  case: {
+    nodes: 8,
+    topology: 'ring-two-way',
+    modes: Array.from(params.omega),
+    epsilon: params.epsilon,
+    macroPeriods,
+    errorPeriods: ERROR_PERIODS,
+  },
   reference: { method: 'rk4', stepsPerPeriod: REFERENCE_STEPS, estimatedError: referenceError },
   micro: {
     method: micro.method,
@@ -357,11 +403,19 @@ const result = {
     periodsPerSecond: s.periodsPerSecond.best,
   })),
   envelope: envelopeCases.length
-    ? { omega1: ENVELOPE_OMEGA1, slowSpan: '10/eps', cases: envelopeCases, targets: { periodsPerSecondAt1e6: TARGET_ENVELOPE_RATE, relativeError: TARGET_ENVELOPE_ERROR } }
+    ? {
+        omega1: ENVELOPE_OMEGA1,
+        slowSpan: '10/eps',
+        cases: envelopeCases,
+        targets: { periodsPerSecondAt1e6: TARGET_ENVELOPE_RATE, relativeError: TARGET_ENVELOPE_ERROR },
+      }
     : null,
   cYardstick: yardstick,
   scipyDop853: scipy,
-  streaming: streaming && { ...streaming, targets: { frameAgeP99Ms: TARGET_FRAME_AGE_P99_MS, memoryGrowth: TARGET_MEMORY_GROWTH, slowestClientShare: TARGET_SLOWEST_SHARE } },
+  streaming: streaming && {
+    ...streaming,
+    targets: { frameAgeP99Ms: TARGET_FRAME_AGE_P99_MS, memoryGrowth: TARGET_MEMORY_GROWTH, slowestClientShare: TARGET_SLOWEST_SHARE },
+  },
   notes,
   seconds: (performance.now() - started) / 1000,
 };
@@ -373,18 +427,43 @@ function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: 
   for (const c of envelopeCases) {
     const atTarget = c.epsilon === 1e-6;
     rows.push(
-      [`envelope mode, eps = ${c.epsilon}, omega_1 = ${ENVELOPE_OMEGA1}, to tau = 10/eps: effective periods per wall second`, n(c.periodsPerSecond), atTarget ? `>= ${n(TARGET_ENVELOPE_RATE)}` : '-', atTarget ? verdict(c.periodsPerSecond >= TARGET_ENVELOPE_RATE) : ''],
-      ['  per CPU second of this process', n(c.cpuPeriodsPerSecond), atTarget ? `>= ${n(TARGET_ENVELOPE_RATE)}` : '-', atTarget ? verdict(c.cpuPeriodsPerSecond >= TARGET_ENVELOPE_RATE) : ''],
-      [`  ticks in envelope mode (${c.macroPeriods} periods per tick) | slow evaluations | set-up`, `${c.ticksInEnvelope}/${c.ticks} | ${c.slowEvaluations} | ${(1000 * c.setupSeconds).toFixed(0)} ms`, `${c.ticks}/${c.ticks}`, verdict(c.ticksInEnvelope === c.ticks)],
+      [
+        `envelope mode, eps = ${c.epsilon}, omega_1 = ${ENVELOPE_OMEGA1}, to tau = 10/eps: effective periods per wall second`,
+        n(c.periodsPerSecond),
+        atTarget ? `>= ${n(TARGET_ENVELOPE_RATE)}` : '-',
+        atTarget ? verdict(c.periodsPerSecond >= TARGET_ENVELOPE_RATE) : '',
+      ],
+      [
+        '  per CPU second of this process',
+        n(c.cpuPeriodsPerSecond),
+        atTarget ? `>= ${n(TARGET_ENVELOPE_RATE)}` : '-',
+        atTarget ? verdict(c.cpuPeriodsPerSecond >= TARGET_ENVELOPE_RATE) : '',
+      ],
+      [
+        `  ticks in envelope mode (${c.macroPeriods} periods per tick) | slow evaluations | set-up`,
+        `${c.ticksInEnvelope}/${c.ticks} | ${c.slowEvaluations} | ${(1000 * c.setupSeconds).toFixed(0)} ms`,
+        `${c.ticks}/${c.ticks}`,
+        verdict(c.ticksInEnvelope === c.ticks),
+      ],
       c.relativeError === null
         ? ['  full-state relative error against micro-stepping', 'not measured', `<= ${e(TARGET_ENVELOPE_ERROR)}`, '']
-        : ['  full-state relative error against micro-stepping', e(c.relativeError), `<= ${e(TARGET_ENVELOPE_ERROR)}`, verdict(c.relativeError <= TARGET_ENVELOPE_ERROR)],
+        : [
+            '  full-state relative error against micro-stepping',
+            e(c.relativeError),
+            `<= ${e(TARGET_ENVELOPE_ERROR)}`,
+            verdict(c.relativeError <= TARGET_ENVELOPE_ERROR),
+          ],
     );
     if (c.referenceUncertainty !== null) {
       // The reference's own error is not small against the envelope's: judge their sum.
       const bound = c.relativeError! + c.referenceUncertainty;
       rows.push(
-        [`  reference (RK4 ${ENVELOPE_REFERENCE_STEPS} and ${2 * ENVELOPE_REFERENCE_STEPS} steps, extrapolated, ${c.referenceSeconds!.toFixed(0)} s): error bound`, e(c.referenceUncertainty), '-', ''],
+        [
+          `  reference (RK4 ${ENVELOPE_REFERENCE_STEPS} and ${2 * ENVELOPE_REFERENCE_STEPS} steps, extrapolated, ${c.referenceSeconds!.toFixed(0)} s): error bound`,
+          e(c.referenceUncertainty),
+          '-',
+          '',
+        ],
         ['  envelope error + reference bound', e(bound), `<= ${e(TARGET_ENVELOPE_ERROR)}`, verdict(bound <= TARGET_ENVELOPE_ERROR)],
       );
     }
@@ -392,32 +471,97 @@ function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: 
   if (yardstick) {
     const y = yardstick;
     rows.push(
-      [`C yardstick (RK4 rotating frame, ${y.stepsPerPeriod} steps, ${y.compile}): periods per wall second`, n(y.periodsPerSecond), '-', ''],
+      [
+        `C yardstick (RK4 rotating frame, ${y.stepsPerPeriod} steps, ${y.compile}): periods per wall second`,
+        n(y.periodsPerSecond),
+        '-',
+        '',
+      ],
       ['  periods per CPU second', n(y.cpuPeriodsPerSecond), '-', ''],
       [`  relative error after ${ERROR_PERIODS} periods`, e(y.errorAfter1000Periods), '-', ''],
-      [`  agreement with the TypeScript RK4 at ${y.stepsPerPeriod} steps (same method) after ${ERROR_PERIODS} periods`, e(y.agreementWithTypeScriptRk4), `<= ${e(TARGET_AGREEMENT)}`, verdict(y.agreementWithTypeScriptRk4 <= TARGET_AGREEMENT)],
-      [`  TypeScript RK4 at ${y.stepsPerPeriod} steps (same method), periods per wall | CPU second`, `${n(y.typeScriptRk4PeriodsPerSecond.best)} | ${n(y.typeScriptRk4PeriodsPerSecond.bestCpu)}`, '-', ''],
-      ['  micro stepper / C yardstick, periods per wall second', `${y.speedRatio.toFixed(3)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.speedRatio >= TARGET_YARDSTICK_RATIO)],
-      ['  micro stepper / C yardstick, periods per CPU second', `${y.cpuSpeedRatio.toFixed(3)}x`, `>= ${TARGET_YARDSTICK_RATIO}`, verdict(y.cpuSpeedRatio >= TARGET_YARDSTICK_RATIO)],
+      [
+        `  agreement with the TypeScript RK4 at ${y.stepsPerPeriod} steps (same method) after ${ERROR_PERIODS} periods`,
+        e(y.agreementWithTypeScriptRk4),
+        `<= ${e(TARGET_AGREEMENT)}`,
+        verdict(y.agreementWithTypeScriptRk4 <= TARGET_AGREEMENT),
+      ],
+      [
+        `  TypeScript RK4 at ${y.stepsPerPeriod} steps (same method), periods per wall | CPU second`,
+        `${n(y.typeScriptRk4PeriodsPerSecond.best)} | ${n(y.typeScriptRk4PeriodsPerSecond.bestCpu)}`,
+        '-',
+        '',
+      ],
+      [
+        '  micro stepper / C yardstick, periods per wall second',
+        `${y.speedRatio.toFixed(3)}x`,
+        `>= ${TARGET_YARDSTICK_RATIO}`,
+        verdict(y.speedRatio >= TARGET_YARDSTICK_RATIO),
+      ],
+      [
+        '  micro stepper / C yardstick, periods per CPU second',
+        `${y.cpuSpeedRatio.toFixed(3)}x`,
+        `>= ${TARGET_YARDSTICK_RATIO}`,
+        verdict(y.cpuSpeedRatio >= TARGET_YARDSTICK_RATIO),
+      ],
     );
   }
   if (scipy) {
     rows.push(
-      [`SciPy ${scipy.version} DOP853, original coordinates, rtol = atol = ${scipy.tolerance}: periods per wall | CPU second`, `${n(scipy.periodsPerSecond)} | ${n(scipy.cpuPeriodsPerSecond)}`, '-', ''],
-      [`  relative error after ${scipy.periods} periods (micro stepper over the same span)`, e(scipy.relativeError), `<= ${e(scipy.microError)} (micro)`, verdict(scipy.relativeError <= scipy.microError)],
+      [
+        `SciPy ${scipy.version} DOP853, original coordinates, rtol = atol = ${scipy.tolerance}: periods per wall | CPU second`,
+        `${n(scipy.periodsPerSecond)} | ${n(scipy.cpuPeriodsPerSecond)}`,
+        '-',
+        '',
+      ],
+      [
+        `  relative error after ${scipy.periods} periods (micro stepper over the same span)`,
+        e(scipy.relativeError),
+        `<= ${e(scipy.microError)} (micro)`,
+        verdict(scipy.relativeError <= scipy.microError),
+      ],
       ['  field evaluations per period', scipy.evaluationsPerPeriod.toFixed(0), '-', ''],
-      ['  micro stepper / SciPy DOP853, periods per wall | CPU second', `${n(scipy.speedRatio)}x | ${n(scipy.cpuSpeedRatio)}x`, `>= ${TARGET_SCIPY_RATIO}`, verdict(scipy.speedRatio >= TARGET_SCIPY_RATIO)],
+      [
+        '  micro stepper / SciPy DOP853, periods per wall | CPU second',
+        `${n(scipy.speedRatio)}x | ${n(scipy.cpuSpeedRatio)}x`,
+        `>= ${TARGET_SCIPY_RATIO}`,
+        verdict(scipy.speedRatio >= TARGET_SCIPY_RATIO),
+      ],
     );
   }
   if (streaming) {
     const st = streaming;
     const share = st.slowestClientFramesPerSecond / st.framesPerClientPerSecond;
     rows.push(
-      [`streaming, ${st.clients} WebSocket clients on loopback over ${st.seconds.toFixed(0)} s: server CPU share`, `${(100 * st.serverCpuShare).toFixed(0)} %`, '-', ''],
-      ['  frame age at the client, p50 | p99', `${st.frameAgeP50Ms.toFixed(0)} | ${st.frameAgeP99Ms.toFixed(0)} ms`, `p99 < ${TARGET_FRAME_AGE_P99_MS} ms`, verdict(st.frameAgeP99Ms < TARGET_FRAME_AGE_P99_MS)],
-      ['  frames per second per client, mean | slowest client', `${st.framesPerClientPerSecond.toFixed(1)} | ${st.slowestClientFramesPerSecond.toFixed(1)}`, `slowest >= ${TARGET_SLOWEST_SHARE} x mean`, verdict(share >= TARGET_SLOWEST_SHARE)],
-      ['  server resident memory, median of the first -> last tenth (peak)', `${st.rssStartMb.toFixed(0)} -> ${st.rssEndMb.toFixed(0)} MB (${st.rssPeakMb.toFixed(0)}), ${(100 * st.memoryGrowth).toFixed(1)} %`, `< ${100 * TARGET_MEMORY_GROWTH} %`, verdict(st.memoryGrowth < TARGET_MEMORY_GROWTH)],
-      [`  resident memory trend over the run (least squares, ${st.rssSamples} samples)`, `${(100 * st.memoryTrend).toFixed(1)} %`, `< ${100 * TARGET_MEMORY_GROWTH} %`, verdict(st.memoryTrend < TARGET_MEMORY_GROWTH)],
+      [
+        `streaming, ${st.clients} WebSocket clients on loopback over ${st.seconds.toFixed(0)} s: server CPU share`,
+        `${(100 * st.serverCpuShare).toFixed(0)} %`,
+        '-',
+        '',
+      ],
+      [
+        '  frame age at the client, p50 | p99',
+        `${st.frameAgeP50Ms.toFixed(0)} | ${st.frameAgeP99Ms.toFixed(0)} ms`,
+        `p99 < ${TARGET_FRAME_AGE_P99_MS} ms`,
+        verdict(st.frameAgeP99Ms < TARGET_FRAME_AGE_P99_MS),
+      ],
+      [
+        '  frames per second per client, mean | slowest client',
+        `${st.framesPerClientPerSecond.toFixed(1)} | ${st.slowestClientFramesPerSecond.toFixed(1)}`,
+        `slowest >= ${TARGET_SLOWEST_SHARE} x mean`,
+        verdict(share >= TARGET_SLOWEST_SHARE),
+      ],
+      [
+        '  server resident memory, median of the first -> last tenth (peak)',
+        `${st.rssStartMb.toFixed(0)} -> ${st.rssEndMb.toFixed(0)} MB (${st.rssPeakMb.toFixed(0)}), ${(100 * st.memoryGrowth).toFixed(1)} %`,
+        `< ${100 * TARGET_MEMORY_GROWTH} %`,
+        verdict(st.memoryGrowth < TARGET_MEMORY_GROWTH),
+      ],
+      [
+        `  resident memory trend over the run (least squares, ${st.rssSamples} samples)`,
+        `${(100 * st.memoryTrend).toFixed(1)} %`,
+        `< ${100 * TARGET_MEMORY_GROWTH} %`,
+        verdict(st.memoryTrend < TARGET_MEMORY_GROWTH),
+      ],
     );
   }
   return rows;
@@ -445,11 +589,26 @@ if (json) {
   const verdict = (ok: boolean) => (ok ? 'ok' : 'MISSED');
   type Row = [string, string, string, string];
   const rows: Row[] = [
-    [`micro stepper (${micro.method}, ${microSteps} steps/period): periods per wall second`, n(microSpeed.best), `>= ${n(TARGET_PERIODS_PER_SECOND)}`, verdict(microSpeed.best >= TARGET_PERIODS_PER_SECOND)],
-    ['  periods per CPU second of this process', n(microSpeed.bestCpu), `>= ${n(TARGET_PERIODS_PER_SECOND)}`, verdict(microSpeed.bestCpu >= TARGET_PERIODS_PER_SECOND)],
+    [
+      `micro stepper (${micro.method}, ${microSteps} steps/period): periods per wall second`,
+      n(microSpeed.best),
+      `>= ${n(TARGET_PERIODS_PER_SECOND)}`,
+      verdict(microSpeed.best >= TARGET_PERIODS_PER_SECOND),
+    ],
+    [
+      '  periods per CPU second of this process',
+      n(microSpeed.bestCpu),
+      `>= ${n(TARGET_PERIODS_PER_SECOND)}`,
+      verdict(microSpeed.bestCpu >= TARGET_PERIODS_PER_SECOND),
+    ],
     [`  relative error after ${ERROR_PERIODS} periods`, e(microError), `<= ${e(TARGET_ERROR)}`, verdict(microError <= TARGET_ERROR)],
     ['  field evaluations per period', microEvaluations.toFixed(2), '-', ''],
-    [`reference (RK4 rotating frame, ${REFERENCE_STEPS} steps): own error`, e(referenceError), `< micro error / 10 = ${e(microError / 10)}`, verdict(referenceError < microError / 10)],
+    [
+      `reference (RK4 rotating frame, ${REFERENCE_STEPS} steps): own error`,
+      e(referenceError),
+      `< micro error / 10 = ${e(microError / 10)}`,
+      verdict(referenceError < microError / 10),
+    ],
   ];
   const rk4 = result.rotatingRk4;
   if (rk4Search && rk4Speed && rk4) {
@@ -457,7 +616,12 @@ if (json) {
       [`RK4 rotating frame at equal error: steps/period`, String(rk4Search.stepsPerPeriod), '-', ''],
       ['  relative error', e(rk4Search.error), `<= ${e(microError)} (micro)`, verdict(rk4Search.error <= microError)],
       ['  periods per second, wall | CPU', `${n(rk4Speed.best)} | ${n(rk4Speed.bestCpu)}`, '-', ''],
-      ['  micro / RK4 rotating, speed (CPU time) | evaluations', `${rk4.speedRatio.toFixed(1)}x | ${rk4.evaluationRatio.toFixed(1)}x`, '> 1', verdict(rk4.speedRatio > 1)],
+      [
+        '  micro / RK4 rotating, speed (CPU time) | evaluations',
+        `${rk4.speedRatio.toFixed(1)}x | ${rk4.evaluationRatio.toFixed(1)}x`,
+        '> 1',
+        verdict(rk4.speedRatio > 1),
+      ],
     );
   }
   const original = result.originalRk4;
@@ -466,24 +630,31 @@ if (json) {
       [`RK4 original coordinates (x, x') at equal error: steps/period`, String(originalSearch.stepsPerPeriod), '-', ''],
       ['  relative error', e(originalSearch.error), `<= ${e(microError)} (micro)`, verdict(originalSearch.error <= microError)],
       ['  periods per second, wall | CPU', `${n(originalSpeed.best)} | ${n(originalSpeed.bestCpu)}`, '-', ''],
-      ['  micro / RK4 original, speed (CPU time) | evaluations', `${n(original.speedRatio)}x | ${n(original.evaluationRatio)}x`, '> 1', verdict(original.speedRatio > 1)],
+      [
+        '  micro / RK4 original, speed (CPU time) | evaluations',
+        `${n(original.speedRatio)}x | ${n(original.evaluationRatio)}x`,
+        '> 1',
+        verdict(original.speedRatio > 1),
+      ],
     );
   }
   rows.push(
-    ...scaling.map(
-      (s): Row => [
-        `time per period per node, N = ${s.nodes} (wall | CPU)`,
-        `${s.nsPerPeriodPerNode.toFixed(0)} | ${s.cpuNsPerPeriodPerNode.toFixed(0)} ns`,
-        `CPU <= ${LINEAR_SLACK} x N=${SCALING_NODES.at(-1)} (${(LINEAR_SLACK * perNodeLargest).toFixed(0)} ns)`,
-        verdict(s.cpuNsPerPeriodPerNode <= LINEAR_SLACK * perNodeLargest),
-      ],
-    ),
+    ...scaling.map((s): Row => [
+      `time per period per node, N = ${s.nodes} (wall | CPU)`,
+      `${s.nsPerPeriodPerNode.toFixed(0)} | ${s.cpuNsPerPeriodPerNode.toFixed(0)} ns`,
+      `CPU <= ${LINEAR_SLACK} x N=${SCALING_NODES.at(-1)} (${(LINEAR_SLACK * perNodeLargest).toFixed(0)} ns)`,
+      verdict(s.cpuNsPerPeriodPerNode <= LINEAR_SLACK * perNodeLargest),
+    ]),
   );
   rows.push(...extraRows(e, n, verdict));
   const widths = [0, 1, 2].map((c) => Math.max(...rows.map((r) => r[c].length)));
   console.log('');
-  console.log(`syncring benchmark (sections: ${[...sections].join(', ')}): N = 8 two-way ring, modes ${Array.from(params.omega).join(' and ')}, eps = ${params.epsilon}, macro tick ${macroPeriods} periods`);
-  console.log(`node ${process.version}, ${result.machine.cpus} CPUs, load average ${result.machine.loadAverage.join(' ')} (best of several trials is shown)`);
+  console.log(
+    `syncring benchmark (sections: ${[...sections].join(', ')}): N = 8 two-way ring, modes ${Array.from(params.omega).join(' and ')}, eps = ${params.epsilon}, macro tick ${macroPeriods} periods`,
+  );
+  console.log(
+    `node ${process.version}, ${result.machine.cpus} CPUs, load average ${result.machine.loadAverage.join(' ')} (best of several trials is shown)`,
+  );
   if (result.machine.loadAverage[0] > result.machine.cpus) {
     console.log('the machine is busier than its CPU count: wall-clock rates are depressed, the CPU-time rate is the fairer figure');
   }

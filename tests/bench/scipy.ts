@@ -31,7 +31,13 @@ export function scipyVersion(): string {
   return spawnSync('python3', ['-c', 'import scipy; print(scipy.__version__)'], { encoding: 'utf8' }).stdout.trim();
 }
 
-export function runDop853(params: ModelParameters, z0: Float64Array, tolerance: number, maxPeriods: number, budgetSeconds: number): Dop853Run {
+export function runDop853(
+  params: ModelParameters,
+  z0: Float64Array,
+  tolerance: number,
+  maxPeriods: number,
+  budgetSeconds: number,
+): Dop853Run {
   const p = params;
   const slot = (k: number, s: number) => {
     const first = p.inStart[k];
@@ -59,6 +65,10 @@ export function runDop853(params: ModelParameters, z0: Float64Array, tolerance: 
     maxPeriods,
     budgetSeconds,
   };
-  const output = execFileSync('python3', [SCRIPT], { input: JSON.stringify(problem), encoding: 'utf8', timeout: (10 * budgetSeconds + 60) * 1000 });
+  const output = execFileSync('python3', [SCRIPT], {
+    input: JSON.stringify(problem),
+    encoding: 'utf8',
+    timeout: (10 * budgetSeconds + 60) * 1000,
+  });
   return JSON.parse(output) as Dop853Run;
 }

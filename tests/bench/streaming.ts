@@ -43,7 +43,9 @@ function procCpuSeconds(pid: number): number {
 }
 
 function procRssMb(pid: number): number {
-  const line = readFileSync(`/proc/${pid}/status`, 'utf8').split('\n').find((l) => l.startsWith('VmRSS:'))!;
+  const line = readFileSync(`/proc/${pid}/status`, 'utf8')
+    .split('\n')
+    .find((l) => l.startsWith('VmRSS:'))!;
   return Number(line.split(/\s+/)[1]) / 1024;
 }
 
@@ -75,11 +77,16 @@ function percentile(sorted: number[], p: number): number {
   return sorted.length === 0 ? Number.NaN : sorted[Math.min(sorted.length - 1, Math.floor(p * sorted.length))];
 }
 
-export async function benchStreaming(options: { clients?: number; seconds?: number; warmupSeconds?: number; speed?: number } = {}): Promise<StreamingResult> {
+export async function benchStreaming(
+  options: { clients?: number; seconds?: number; warmupSeconds?: number; speed?: number } = {},
+): Promise<StreamingResult> {
   const clients = options.clients ?? 50;
   const seconds = options.seconds ?? 60;
   const main = fileURLToPath(new URL('../../server/main.js', import.meta.url));
-  const server = spawn(process.execPath, [main, '--port', '0', '--speed', String(options.speed ?? 2)], { stdio: ['ignore', 'pipe', 'inherit'], env: { ...process.env, SYNCRING_TOKEN: 'bench' } });
+  const server = spawn(process.execPath, [main, '--port', '0', '--speed', String(options.speed ?? 2)], {
+    stdio: ['ignore', 'pipe', 'inherit'],
+    env: { ...process.env, SYNCRING_TOKEN: 'bench' },
+  });
   try {
     const url = await new Promise<string>((resolve, reject) => {
       let text = '';
@@ -95,20 +102,22 @@ export async function benchStreaming(options: { clients?: number; seconds?: numb
     const counts = new Array<number>(clients).fill(0);
     let measuring = false;
     const sockets = await Promise.all(
-      Array.from({ length: clients }, (_, i) =>
-        new Promise<WebSocket>((resolve, reject) => {
-          const socket = new WebSocket(ws);
-          socket.on('message', (data) => {
-            if (!measuring) return;
-            const text = String(data);
-            if (!text.startsWith('{"type":"frame"')) return;
-            const emittedAt = Number(/"emittedAt":(\d+)/.exec(text.slice(-40))?.[1]);
-            ages.push(Date.now() - emittedAt);
-            counts[i]++;
-          });
-          socket.once('open', () => resolve(socket));
-          socket.once('error', reject);
-        }),
+      Array.from(
+        { length: clients },
+        (_, i) =>
+          new Promise<WebSocket>((resolve, reject) => {
+            const socket = new WebSocket(ws);
+            socket.on('message', (data) => {
+              if (!measuring) return;
+              const text = String(data);
+              if (!text.startsWith('{"type":"frame"')) return;
+              const emittedAt = Number(/"emittedAt":(\d+)/.exec(text.slice(-40))?.[1]);
+              ages.push(Date.now() - emittedAt);
+              counts[i]++;
+            });
+            socket.once('open', () => resolve(socket));
+            socket.once('error', reject);
+          }),
       ),
     );
     await sleep((options.warmupSeconds ?? 5) * 1000);

@@ -57,7 +57,9 @@ export function compileYardstick(params: ModelParameters, start: Float64Array, s
 function describeProblem(params: ModelParameters, start: Float64Array): string {
   const p = params;
   const exact = (x: number) => x.toPrecision(17);
-  const lines = [[p.omega[0], p.omega[1], p.gain[0], p.gain[1], p.loss[0], p.loss[1], p.strength, p.reactive, p.dissipative].map(exact).join(' ')];
+  const lines = [
+    [p.omega[0], p.omega[1], p.gain[0], p.gain[1], p.loss[0], p.loss[1], p.strength, p.reactive, p.dissipative].map(exact).join(' '),
+  ];
   for (let k = 0; k < p.nodes; k++) {
     const first = p.inStart[k];
     const degree = p.inStart[k + 1] - first;

@@ -140,7 +140,15 @@ describe('replay log', () => {
     const lines: string[] = [];
     let seq = 0;
     const write = (record: Record<string, unknown>) => lines.push(JSON.stringify({ ...record, seq: seq++ }));
-    write({ record: 'header', format: 'syncring-log', formatVersion: LOG_FORMAT_VERSION, software: { name: 'syncring', version: 'test' }, createdAt: '2026-01-01T00:00:00Z', scenario: scenarioToJSON(scenario), seeds: { noise: 1, initial: null } });
+    write({
+      record: 'header',
+      format: 'syncring-log',
+      formatVersion: LOG_FORMAT_VERSION,
+      software: { name: 'syncring', version: 'test' },
+      createdAt: '2026-01-01T00:00:00Z',
+      scenario: scenarioToJSON(scenario),
+      seeds: { noise: 1, initial: null },
+    });
     const frames: WireFrame[] = [];
     let breakTau = NaN;
     for (let i = 0; i < 30; i++) {
@@ -177,6 +185,10 @@ describe('replay log', () => {
     expect(() => ReplayLog.fromText('{"hello":1}\n', 'x.ndjson')).toThrow(/x\.ndjson: not a syncring session log/);
     // an input error like any other: the file as its source, the reason apart
     const refused = thrown(() => ReplayLog.fromText('{"hello":1}\n', 'x.ndjson'), ReplayError);
-    expect({ source: refused.source, path: refused.path, reason: refused.reason }).toEqual({ source: 'x.ndjson', path: '', reason: 'not a syncring session log (no header record on line 1)' });
+    expect({ source: refused.source, path: refused.path, reason: refused.reason }).toEqual({
+      source: 'x.ndjson',
+      path: '',
+      reason: 'not a syncring session log (no header record on line 1)',
+    });
   });
 });

@@ -26,7 +26,9 @@ type Running = Awaited<ReturnType<typeof serve>>;
 async function expectBuiltDashboard(url: string): Promise<void> {
   const page = await (await fetch(url)).text();
   if (/src\/main\.ts/.test(page)) {
-    throw new Error(`the server at ${url} serves the dashboard sources (web/index.html loading ./src/main.ts) instead of the build in dist/web; its static root must be dist/web also when it runs from the TypeScript sources`);
+    throw new Error(
+      `the server at ${url} serves the dashboard sources (web/index.html loading ./src/main.ts) instead of the build in dist/web; its static root must be dist/web also when it runs from the TypeScript sources`,
+    );
   }
   expect(page).toMatch(/<syncring-app>/);
 }
@@ -85,7 +87,9 @@ describe.runIf(available)('dashboard in Chromium', () => {
     for (const chart of CHARTS) expect(await operator.locator(`${chart} canvas`).count()).toBe(1);
     expect(await textOf(operator, '[data-testid=role]')).toBe('OPERATOR');
     expect(await textOf(operator, '[data-testid=connection]')).toBe('live');
-    expect(await textOf(operator, '[data-testid=caution]')).toMatch(/does not replace qualification of real hardware.*simulated noise model only.*compliance with any standard's mask.*with accredited practice/s);
+    expect(await textOf(operator, '[data-testid=caution]')).toMatch(
+      /does not replace qualification of real hardware.*simulated noise model only.*compliance with any standard's mask.*with accredited practice/s,
+    );
   });
 
   test('the ring and the charts follow the run', async () => {
@@ -104,7 +108,10 @@ describe.runIf(available)('dashboard in Chromium', () => {
       expect(await paintedPixels(operator, chart)).toBeGreaterThan(1000);
     }
     // The node hands are drawn at the current phase: at least one of them has moved.
-    const hands = () => operator.locator('sr-ring-view .node line').evaluateAll((lines) => lines.map((l) => `${l.getAttribute('x2')},${l.getAttribute('y2')}`).join(' '));
+    const hands = () =>
+      operator
+        .locator('sr-ring-view .node line')
+        .evaluateAll((lines) => lines.map((l) => `${l.getAttribute('x2')},${l.getAttribute('y2')}`).join(' '));
     const before = await hands();
     await expect.poll(hands, { timeout: 10_000 }).not.toBe(before);
     expect(operatorErrors).toEqual([]);
@@ -121,14 +128,20 @@ describe.runIf(available)('dashboard in Chromium', () => {
     await operator.mouse.click(middle.x, middle.y);
     await viewer.locator('sr-ring-view .link.broken[data-from="0"][data-to="1"]').waitFor({ timeout: 15_000 });
     expect(await viewer.locator('sr-ring-view .link.broken').count()).toBe(1);
-    await expect.poll(() => viewer.locator('sr-event-timeline tr[data-kind=perturbation]').allTextContents()).toContainEqual(expect.stringMatching(/link 0 -> 1 broken/));
+    await expect
+      .poll(() => viewer.locator('sr-event-timeline tr[data-kind=perturbation]').allTextContents())
+      .toContainEqual(expect.stringMatching(/link 0 -> 1 broken/));
     expect((await session()).links.find((l) => l.from === 0 && l.to === 1)?.weight).toBe(0);
     expect(await textOf(operator, '[data-testid=last-command]')).toMatch(/break-link accepted/);
     // Let the charts show a few slow units after the break before taking the pictures.
     await operator.waitForTimeout(2500);
     // opening one direction of one link moves the locked ring to its continued state: no loss of lock
-    expect(await operator.locator('sr-event-timeline tr[data-kind=unlock], sr-event-timeline tr[data-kind=pattern-change]').count()).toBe(0);
-    expect(await textOf(operator, '[data-testid=array-output]')).toMatch(/^array output: phase spread ±\d\.\d\d rad \(±\d+°\) · combining loss -?\d/);
+    expect(await operator.locator('sr-event-timeline tr[data-kind=unlock], sr-event-timeline tr[data-kind=pattern-change]').count()).toBe(
+      0,
+    );
+    expect(await textOf(operator, '[data-testid=array-output]')).toMatch(
+      /^array output: phase spread ±\d\.\d\d rad \(±\d+°\) · combining loss -?\d/,
+    );
     await operator.screenshot({ path: join(DOCS, 'dashboard.png') });
     await viewer.screenshot({ path: join(DOCS, 'dashboard-viewer.png') });
   });
@@ -144,7 +157,11 @@ describe.runIf(available)('dashboard in Chromium', () => {
       const find = (root: Document | ShadowRoot): Element | null => {
         const hit = root.querySelector('[data-testid=lock-state]');
         if (hit) return hit;
-        for (const el of root.querySelectorAll('*')) if (el.shadowRoot) { const inner = find(el.shadowRoot); if (inner) return inner; }
+        for (const el of root.querySelectorAll('*'))
+          if (el.shadowRoot) {
+            const inner = find(el.shadowRoot);
+            if (inner) return inner;
+          }
         return null;
       };
       const tick = () => {
@@ -158,15 +175,23 @@ describe.runIf(available)('dashboard in Chromium', () => {
     await panel.locator('fieldset:has(legend:text("Kick a mode")) select').nth(1).selectOption('0');
     await panel.locator('button[data-action=kick-mode]').click();
     await expect.poll(() => operator.locator('sr-event-timeline tr[data-kind=perturbation]').count()).toBeGreaterThan(kicks);
-    await expect.poll(() => operator.evaluate(() => (window as unknown as { seen: string[] }).seen.some((t) => /settling/.test(t))), { timeout: 15_000 }).toBe(true);
+    await expect
+      .poll(() => operator.evaluate(() => (window as unknown as { seen: string[] }).seen.some((t) => /settling/.test(t))), {
+        timeout: 15_000,
+      })
+      .toBe(true);
     await expect.poll(lockState, { timeout: 30_000 }).toMatch(/^locked since/);
-    expect(await operator.locator('sr-event-timeline tr[data-kind=unlock], sr-event-timeline tr[data-kind=pattern-change]').count()).toBe(0);
+    expect(await operator.locator('sr-event-timeline tr[data-kind=unlock], sr-event-timeline tr[data-kind=pattern-change]').count()).toBe(
+      0,
+    );
   });
 
   test('a viewer cannot issue commands: controls are disabled and a forced command is refused', async () => {
     const buttons = viewer.locator('sr-control-panel button');
     expect(await buttons.count()).toBeGreaterThan(5);
-    const enabled = await buttons.evaluateAll((all) => all.filter((b) => !(b as HTMLButtonElement).disabled).map((b) => b.textContent?.trim()));
+    const enabled = await buttons.evaluateAll((all) =>
+      all.filter((b) => !(b as HTMLButtonElement).disabled).map((b) => b.textContent?.trim()),
+    );
     expect(enabled).toEqual([]);
     expect(await textOf(viewer, '[data-testid=controls-readonly]')).toMatch(/View only/);
     // A click on the ring explains itself instead of opening an editor.
@@ -189,20 +214,27 @@ describe.runIf(available)('dashboard in Chromium', () => {
     const [download] = await Promise.all([operator.waitForEvent('download'), operator.locator('[data-testid=save-log]').click()]);
     const file = await download.path();
     const text = readFileSync(file, 'utf8');
-    const records = text.trim().split('\n').map((line) => JSON.parse(line) as { record: string });
+    const records = text
+      .trim()
+      .split('\n')
+      .map((line) => JSON.parse(line) as { record: string });
     expect(records[0].record).toBe('header');
     const samples = records.filter((r) => r.record === 'sample').length;
     expect(samples).toBeGreaterThan(2);
 
     const page = await openDashboard(server.operatorUrl);
-    await page.locator('sr-status-header input[type=file]').setInputFiles({ name: 'session.ndjson', mimeType: 'application/x-ndjson', buffer: Buffer.from(text) });
+    await page
+      .locator('sr-status-header input[type=file]')
+      .setInputFiles({ name: 'session.ndjson', mimeType: 'application/x-ndjson', buffer: Buffer.from(text) });
     await page.locator('[data-testid=replay-bar]').waitFor();
     expect(await textOf(page, '[data-testid=role]')).toBe('REPLAY · READ-ONLY');
     const scrubber = page.locator('[data-testid=scrubber]');
     expect(Number(await scrubber.getAttribute('max'))).toBe(samples - 1);
     // At the end of the log the link is broken and the break is on the timeline ...
     await page.locator('sr-ring-view .link.broken[data-from="0"][data-to="1"]').waitFor();
-    expect(await page.locator('sr-event-timeline tr[data-kind=perturbation]').allTextContents()).toContainEqual(expect.stringMatching(/link 0 -> 1 broken/));
+    expect(await page.locator('sr-event-timeline tr[data-kind=perturbation]').allTextContents()).toContainEqual(
+      expect.stringMatching(/link 0 -> 1 broken/),
+    );
     const pointsAtEnd = await chartPoints(page, 'sr-phase-chart');
     // ... at the start it is not, and nothing has happened yet.
     const scrubTo = (index: number) =>

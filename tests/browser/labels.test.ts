@@ -60,7 +60,8 @@ describe.runIf(available)('labels in the dashboard', () => {
     // the labels chart.js drew, read from the chart instance the element owns
     const labels = () =>
       page.locator('sr-lock-chart').evaluate((el) => {
-        const chart = (el as unknown as { charts: { chart: { scales: Record<string, { ticks: { label: string | string[] }[] }> } | null } }).charts.chart;
+        const chart = (el as unknown as { charts: { chart: { scales: Record<string, { ticks: { label: string | string[] }[] }> } | null } })
+          .charts.chart;
         return chart ? chart.scales.y.ticks.map((t) => String(t.label)) : [];
       });
     await expect.poll(labels).toEqual(['0', '0.25', '0.5', '0.75', '1']);
@@ -81,15 +82,22 @@ describe.runIf(available)('labels in the dashboard', () => {
   });
 
   test('seconds carry the 10 MHz assumption for a scenario without nominalFrequencyHz', async () => {
-    const session = (await (await fetch(new URL('api/session', server.url))).json()) as { nominalFrequencyAssumed: boolean; nominalFrequencyHz: number };
+    const session = (await (await fetch(new URL('api/session', server.url))).json()) as {
+      nominalFrequencyAssumed: boolean;
+      nominalFrequencyHz: number;
+    };
     expect(session).toMatchObject({ nominalFrequencyAssumed: true, nominalFrequencyHz: 10e6 });
     await expect.poll(() => textOf(page, '[data-testid=clock-seconds]')).toMatch(/^t [\d.]+ (ns|µs|ms|s) at an assumed 10 MHz$/);
     expect(await textOf(page, '[data-testid=scenario] small')).toMatch(/f₀ = 10 MHz assumed \(not in the scenario\)/);
     // the one-way ring starts in its q = 1 wave and locks within a few lock windows
     await page.locator('sr-event-timeline tr[data-kind=lock]').first().waitFor({ timeout: 60_000 });
     expect(await textOf(page, '[data-testid=timeline-seconds]')).toMatch(ASSUMED);
-    await expect.poll(() => textOf(page, '[data-testid=pattern-full]')).toMatch(/locked since τ = [\d.e]+ \([\d.]+ (ns|µs|ms|s) at an assumed 10 MHz\)/);
-    await expect.poll(() => textOf(page, '[data-testid=pattern-guide]')).toMatch(/time constant.*≈ [\d.]+ (ns|µs|ms|s) at an assumed 10 MHz/s);
+    await expect
+      .poll(() => textOf(page, '[data-testid=pattern-full]'))
+      .toMatch(/locked since τ = [\d.e]+ \([\d.]+ (ns|µs|ms|s) at an assumed 10 MHz\)/);
+    await expect
+      .poll(() => textOf(page, '[data-testid=pattern-guide]'))
+      .toMatch(/time constant.*≈ [\d.]+ (ns|µs|ms|s) at an assumed 10 MHz/s);
     await page.locator('nav.views button[data-view=prediction]').click();
     await page.locator('sr-catalogue-panel [data-testid=catalogue]').waitFor({ timeout: 60_000 });
     expect(await textOf(page, '[data-testid=catalogue-seconds]')).toMatch(ASSUMED);
@@ -112,8 +120,11 @@ describe.runIf(available)('labels in the dashboard', () => {
     // every PASS row of the verdict table and the list entry carry the short form
     const passRows = page.locator('[data-testid=verdicts] tr[data-pass=true]');
     expect(await passRows.count()).toBeGreaterThan(0);
-    for (const text of await passRows.locator('td').last().allTextContents()) expect(text).toMatch(/PASS\s+simulated criteria, not a standard's mask/);
-    expect(await page.locator('sr-soak-panel button[data-soak="pair-pass"]').textContent()).toMatch(/PASS: simulated criteria, not a standard's mask/);
+    for (const text of await passRows.locator('td').last().allTextContents())
+      expect(text).toMatch(/PASS\s+simulated criteria, not a standard's mask/);
+    expect(await page.locator('sr-soak-panel button[data-soak="pair-pass"]').textContent()).toMatch(
+      /PASS: simulated criteria, not a standard's mask/,
+    );
     expect(await textOf(page, '[data-testid=relock-heading]')).toMatch(ASSUMED);
     expect(errors).toEqual([]);
   });

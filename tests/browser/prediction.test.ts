@@ -34,22 +34,28 @@ async function pairSoak(work: string, out: string): Promise<void> {
   const scenario = join(work, 'pair.json');
   writeFileSync(scenario, JSON.stringify(adlerPairScenario()));
   const campaign = join(work, 'campaign.json');
-  writeFileSync(campaign, JSON.stringify({
-    name: 'pair: inside and beyond the locking limit, a kick',
-    timeUnit: 'slow',
-    detector: { lockWindow: 5 },
-    criteria: { relockWithin: 40 },
-    faults: [
-      // kappa sigma = 0.05 is the limit in Delta_0
-      { id: 'inside-limit', start: 20, action: 'set-detuning', params: { node: 0, delta: 0.025 }, duration: 15 },
-      { id: 'beyond-limit', start: 80, action: 'set-detuning', params: { node: 0, delta: 0.125 }, duration: 60 },
-      { id: 'kick-node-1', start: 190, action: 'kick-mode', params: { node: 1, mode: 0, amount: 0.5 } },
-    ],
-    stability: { uncoupledReference: false },
-  }));
+  writeFileSync(
+    campaign,
+    JSON.stringify({
+      name: 'pair: inside and beyond the locking limit, a kick',
+      timeUnit: 'slow',
+      detector: { lockWindow: 5 },
+      criteria: { relockWithin: 40 },
+      faults: [
+        // kappa sigma = 0.05 is the limit in Delta_0
+        { id: 'inside-limit', start: 20, action: 'set-detuning', params: { node: 0, delta: 0.025 }, duration: 15 },
+        { id: 'beyond-limit', start: 80, action: 'set-detuning', params: { node: 0, delta: 0.125 }, duration: 60 },
+        { id: 'kick-node-1', start: 190, action: 'kick-mode', params: { node: 1, mode: 0, amount: 0.5 } },
+      ],
+      stability: { uncoupledReference: false },
+    }),
+  );
   await new Promise<void>((resolve, reject) =>
-    execFile('node', [bin, 'soak', scenario, '--campaign', campaign, '--until', '24000', '--out', out], { cwd: ROOT, timeout: 60_000 }, (error) =>
-      error && (error as { code?: unknown }).code !== 1 ? reject(error) : resolve(),
+    execFile(
+      'node',
+      [bin, 'soak', scenario, '--campaign', campaign, '--until', '24000', '--out', out],
+      { cwd: ROOT, timeout: 60_000 },
+      (error) => (error && (error as { code?: unknown }).code !== 1 ? reject(error) : resolve()),
     ),
   );
 }
@@ -83,7 +89,19 @@ describe.runIf(available)('prediction and soak views in Chromium', () => {
     cpSync(finished, running, { recursive: true });
     rmSync(join(running, 'summary.json'));
     const status = JSON.parse(readFileSync(join(finished, 'status.json'), 'utf8')) as Record<string, unknown>;
-    writeFileSync(join(running, 'status.json'), JSON.stringify({ ...status, state: 'running', pid: process.pid, tau: 15600, slowTime: 156, fraction: 0.65, eta: '1.1 s', updatedAt: new Date().toISOString() }));
+    writeFileSync(
+      join(running, 'status.json'),
+      JSON.stringify({
+        ...status,
+        state: 'running',
+        pid: process.pid,
+        tau: 15600,
+        slowTime: 156,
+        fraction: 0.65,
+        eta: '1.1 s',
+        updatedAt: new Date().toISOString(),
+      }),
+    );
     server = await serve({ port: 0, token: TOKEN, logDir: null, speed: 'max', quiet: true, scenario: 'timing-board-8', soaksDir });
     browser = await launchChromium();
     mkdirSync(DOCS, { recursive: true });

@@ -78,7 +78,9 @@ describe.runIf(available)('starting soaks from the dashboard in Chromium', () =>
 
     await page.locator('[data-testid=soak-start-until]').fill('-3');
     await page.locator('button[data-action=start-soak]').click();
-    await expect.poll(() => textOf(page, '[data-testid=soak-start-error]')).toBe('until: must be a positive number of slow time units (got -3)');
+    await expect
+      .poll(() => textOf(page, '[data-testid=soak-start-error]'))
+      .toBe('until: must be a positive number of slow time units (got -3)');
     expect(await page.locator('sr-soak-panel button[data-soak]').count()).toBe(0);
 
     first = await page.locator('[data-testid=soak-start-name]').inputValue();
@@ -92,7 +94,9 @@ describe.runIf(available)('starting soaks from the dashboard in Chromium', () =>
     // a fresh default name for the next one
     expect(await page.locator('[data-testid=soak-start-name]').inputValue()).not.toBe(first);
     await expect.poll(() => textOf(page, '[data-testid=soak-verdict]'), { timeout: 15_000 }).toBe('RUNNING');
-    await expect.poll(async () => Number((await textOf(page, '[data-testid=soak-progress]')).replace(/[^\d.]/g, '')), { timeout: 20_000 }).toBeGreaterThan(0);
+    await expect
+      .poll(async () => Number((await textOf(page, '[data-testid=soak-progress]')).replace(/[^\d.]/g, '')), { timeout: 20_000 })
+      .toBeGreaterThan(0);
   });
 
   test('a paced soak is stopped, resumed and stopped again with the buttons', async () => {
@@ -112,7 +116,10 @@ describe.runIf(available)('starting soaks from the dashboard in Chromium', () =>
     await expect.poll(() => textOf(page, '[data-testid=soak-action-result]'), { timeout: 10_000 }).toMatch(/^Resumed as pid \d+/);
     await expect.poll(() => textOf(page, '[data-testid=soak-verdict]'), { timeout: 15_000 }).toBe('RUNNING');
     const start = JSON.parse(readFileSync(join(soaksDir, second, 'start.json'), 'utf8')) as { runs: { resume: boolean; pace: number }[] };
-    expect(start.runs.map((r) => [r.resume, r.pace])).toEqual([[false, 2], [true, 2]]);
+    expect(start.runs.map((r) => [r.resume, r.pace])).toEqual([
+      [false, 2],
+      [true, 2],
+    ]);
     await page.locator('button[data-action=stop-soak]').click();
     await expect.poll(() => textOf(page, '[data-testid=soak-verdict]'), { timeout: 10_000 }).toBe('INTERRUPTED');
   });
@@ -125,12 +132,16 @@ describe.runIf(available)('starting soaks from the dashboard in Chromium', () =>
     const row = page.locator('[data-testid=verdicts] tr[data-fault=warm-part-3]');
     expect(await row.getAttribute('data-outcome')).toBe('incomplete');
     expect(await row.locator('.badge').textContent()).toBe('INCOMPLETE');
-    expect(await row.locator('.notes').textContent()).toMatch(/^undecided when judging stopped: less than a lock window had passed since the fault$/);
+    expect(await row.locator('.notes').textContent()).toMatch(
+      /^undecided when judging stopped: less than a lock window had passed since the fault$/,
+    );
     expect(await textOf(page, '[data-testid=soak-progress]')).toBe('100 %');
     expect(await page.locator('button[data-action=stop-soak], button[data-action=resume-soak]').count()).toBe(0);
     await page.locator('[data-testid=soak-start-until]').fill('300');
     await page.locator('[data-testid=soak-start-pace]').fill('');
-    await expect.poll(() => textOf(page, '[data-testid=soak-start-hint]')).toMatch(new RegExp(`^≈ .+ of wall time at [\\d.]+ slow units/s \\(measured on ${first}\\)$`));
+    await expect
+      .poll(() => textOf(page, '[data-testid=soak-start-hint]'))
+      .toMatch(new RegExp(`^≈ .+ of wall time at [\\d.]+ slow units/s \\(measured on ${first}\\)$`));
     await page.locator('[data-testid=soak-start-pace]').blur();
     await page.mouse.move(5, 1075);
     await page.screenshot({ path: join(DOCS, 'soaks-start.png') });

@@ -78,7 +78,17 @@ describe('npx syncring simulate', () => {
   test('a malformed scenario file names the file and the field', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'syncring-cli-'));
     const broken = join(dir, 'broken.json');
-    writeFileSync(broken, JSON.stringify({ nodes: 3, topology: 'ring-one-way', epsilon: 1e-3, modes: [{ omega: 1, gain: 1, loss: 0 }], coupling: { strength: 0.1 }, colour: 'blue' }));
+    writeFileSync(
+      broken,
+      JSON.stringify({
+        nodes: 3,
+        topology: 'ring-one-way',
+        epsilon: 1e-3,
+        modes: [{ omega: 1, gain: 1, loss: 0 }],
+        coupling: { strength: 0.1 },
+        colour: 'blue',
+      }),
+    );
     const unknown = await syncring('simulate', broken, '--until', '10');
     expect(unknown.code).toBe(2);
     expect(unknown.stderr).toContain(`${broken}: colour: unknown field`);

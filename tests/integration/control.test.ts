@@ -14,7 +14,14 @@ describe('run control over the WebSocket', () => {
   let viewer: TestClient;
 
   beforeAll(async () => {
-    server = await serve({ port: 0, scenario: fixture('fast-ring-6.json'), token: 't', logDir: mkdtempSync(join(tmpdir(), 'syncring-ctl-')), speed: 20, quiet: true });
+    server = await serve({
+      port: 0,
+      scenario: fixture('fast-ring-6.json'),
+      token: 't',
+      logDir: mkdtempSync(join(tmpdir(), 'syncring-ctl-')),
+      speed: 20,
+      quiet: true,
+    });
     const ws = server.url.replace('http', 'ws') + 'ws';
     operator = await TestClient.connect(`${ws}?token=t`);
     viewer = await TestClient.connect(ws);

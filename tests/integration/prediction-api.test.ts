@@ -94,7 +94,9 @@ describe('prediction and soak API', () => {
     // Restored: the parameters are the first ones again, and so is the (cached) catalogue.
     operator.command({ action: 'restore-link', from: 0, to: 1, id: 2 });
     // (earlier status messages also have every link intact: ask the session instead)
-    const linkWeight = async () => (await getJson<Catalogue['computedFor']>(new URL('api/session', base).href)).body.links.find((l) => l.from === 0 && l.to === 1)?.weight;
+    const linkWeight = async () =>
+      (await getJson<Catalogue['computedFor']>(new URL('api/session', base).href)).body.links.find((l) => l.from === 0 && l.to === 1)
+        ?.weight;
     await expect.poll(linkWeight, { timeout: 15_000 }).toBe(1);
     operator.ws.close();
     const restored = (await getJson<Catalogue>(new URL('api/catalogue', base).href)).body;
@@ -124,9 +126,14 @@ describe('prediction and soak API', () => {
     const catalogue = (await getJson<Catalogue>(new URL('api/catalogue', base).href)).body;
     const index = catalogue.patterns.findIndex((p) => p.kind === 'in-phase' && p.mode === 0 && p.stable);
     expect(index).toBeGreaterThanOrEqual(0);
-    const { status, body } = await getJson<{ continuation: { pattern: { index: number }; start: number; branch: { parameter: number }[]; limits: Record<string, { kind: string; parameter: number } | null> } }>(
-      new URL(`api/what-if?param=coupling&pattern=${index}&range=0.1:0.5&maxSteps=40`, base).href,
-    );
+    const { status, body } = await getJson<{
+      continuation: {
+        pattern: { index: number };
+        start: number;
+        branch: { parameter: number }[];
+        limits: Record<string, { kind: string; parameter: number } | null>;
+      };
+    }>(new URL(`api/what-if?param=coupling&pattern=${index}&range=0.1:0.5&maxSteps=40`, base).href);
     expect(status).toBe(200);
     const c = body.continuation;
     expect(c.pattern.index).toBe(index);
@@ -146,7 +153,10 @@ describe('prediction and soak API', () => {
     try {
       const finished = join(soaksDir, 'pair-finished');
       const { code } = await runPairSoak(work, finished);
-      const summary = JSON.parse(readFileSync(join(finished, 'summary.json'), 'utf8')) as { pass: boolean; verdicts: { id: string; pass: boolean }[] };
+      const summary = JSON.parse(readFileSync(join(finished, 'summary.json'), 'utf8')) as {
+        pass: boolean;
+        verdicts: { id: string; pass: boolean }[];
+      };
       // inside the Adler limit the pattern persists: the soak passes with exit code 0
       expect(code).toBe(0);
       expect(summary.pass).toBe(true);
@@ -179,9 +189,17 @@ describe('prediction and soak API', () => {
       // Not a soak: ignored.
       mkdirSync(join(soaksDir, 'notes'));
 
-      const { status: code200, body } = await getJson<{ soaks: { name: string; state: string; pass: boolean | null; nominalFrequency: { hz: number; assumed: boolean } | null; progress: { fraction: number; slowTime: number } | null; verdicts: { id: string; pass: boolean; action?: string }[]; report: { url: string } }[] }>(
-        new URL('api/soaks', base).href,
-      );
+      const { status: code200, body } = await getJson<{
+        soaks: {
+          name: string;
+          state: string;
+          pass: boolean | null;
+          nominalFrequency: { hz: number; assumed: boolean } | null;
+          progress: { fraction: number; slowTime: number } | null;
+          verdicts: { id: string; pass: boolean; action?: string }[];
+          report: { url: string };
+        }[];
+      }>(new URL('api/soaks', base).href);
       expect(code200).toBe(200);
       const byName = new Map(body.soaks.map((s) => [s.name, s]));
       expect([...byName.keys()].sort()).toEqual(['pair-finished', 'pair-killed', 'pair-running']);

@@ -24,7 +24,11 @@ describe('prediction worker refusals', () => {
 
   test('a bad range: 400, worded in query fields, the field kept as data', async () => {
     const error = await refusal({ scenario: builtInScenarioRaw('ring-one-way-5'), args: { continueIn: 'coupling', range: '1:0' } });
-    expect({ status: error.status, field: error.field, message: error.message }).toEqual({ status: 400, field: 'range', message: 'range: MIN must be below MAX (got 1:0)' });
+    expect({ status: error.status, field: error.field, message: error.message }).toEqual({
+      status: 400,
+      field: 'range',
+      message: 'range: MIN must be below MAX (got 1:0)',
+    });
   });
 
   test('a bad scenario is named as the live scenario, with the field it fails at', async () => {

@@ -3,7 +3,14 @@ import { Progress } from '../../server/progress.js';
 
 /** A stand-in for stderr that keeps what was written. */
 function stream(isTTY: boolean): NodeJS.WriteStream & { text: string } {
-  const s = { isTTY, text: '', write(chunk: string) { s.text += chunk; return true; } };
+  const s = {
+    isTTY,
+    text: '',
+    write(chunk: string) {
+      s.text += chunk;
+      return true;
+    },
+  };
   return s as unknown as NodeJS.WriteStream & { text: string };
 }
 

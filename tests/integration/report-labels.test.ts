@@ -13,7 +13,8 @@ import { runPairSoak } from '../support/pair-soak.js';
  * must show are taken from the soak's summary.json, not from the report code.
  */
 
-const PASS_WORDING = "PASS means this campaign's criteria were met under the simulated noise model. It does not mean compliance with any standard's mask. Qualify real hardware to the standards that apply, with accredited practice.";
+const PASS_WORDING =
+  "PASS means this campaign's criteria were met under the simulated noise model. It does not mean compliance with any standard's mask. Qualify real hardware to the standards that apply, with accredited practice.";
 
 interface Soak {
   html: string;
@@ -35,7 +36,11 @@ async function soak(name: string, nominalFrequencyHz?: number): Promise<Soak> {
   const out = join(dir, 'out');
   const run = await runPairSoak(work, out, { uncoupledReference: true, nominalFrequencyHz });
   expect(run.code).toBe(0);
-  return { html: reportHtml(loadReportData(out)), summary: JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8')), stdout: run.stdout };
+  return {
+    html: reportHtml(loadReportData(out)),
+    summary: JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8')),
+    stdout: run.stdout,
+  };
 }
 
 /** The markup of the key-number boxes. */
@@ -84,21 +89,28 @@ describe('the soak report labels its numbers', () => {
     expect(assumed.summary.pass).toBe(true);
     expect(assumed.summary.caution).toBe(PASS_WORDING);
     expect(JSON.parse(assumed.stdout)).toMatchObject({ pass: true, caution: PASS_WORDING });
-    expect(assumed.html).toContain(`<div class="status pass">PASS</div>\n<p class="caution" data-testid="pass-caution">${PASS_WORDING}</p>`);
+    expect(assumed.html).toContain(
+      `<div class="status pass">PASS</div>\n<p class="caution" data-testid="pass-caution">${PASS_WORDING}</p>`,
+    );
     const passCells = assumed.html.match(/<td class="ok">PASS[^]*?<\/td>/g) ?? [];
     expect(passCells).toHaveLength(1);
-    for (const cell of passCells) expect(cell).toContain("<span class=\"caution\">simulated criteria, not a standard's mask</span>");
+    for (const cell of passCells) expect(cell).toContain('<span class="caution">simulated criteria, not a standard\'s mask</span>');
     // and once in full above the verdict table
     const verdicts = assumed.html.slice(assumed.html.indexOf('<h2>Verdicts</h2>'), assumed.html.indexOf('<h2>Stability tables</h2>'));
     expect(verdicts).toContain(PASS_WORDING);
   });
 
   test('every stability result carries the stability caution: the key numbers, each stability plot and the tables', () => {
-    const plain = "These stability figures come from the simulated noise model, not from a measured part. It does not mean compliance with any standard's mask.";
+    const plain =
+      "These stability figures come from the simulated noise model, not from a measured part. It does not mean compliance with any standard's mask.";
     expect(keyNumbers(assumed.html).length).toBeGreaterThan(0);
-    expect(assumed.html).toMatch(new RegExp(`data-testid="key-numbers"[^]*?</div></div><p class="caution" data-testid="stability-caution">${escapeRegExp(plain)}`));
+    expect(assumed.html).toMatch(
+      new RegExp(`data-testid="key-numbers"[^]*?</div></div><p class="caution" data-testid="stability-caution">${escapeRegExp(plain)}`),
+    );
     const figures = assumed.html.split('<figure>').slice(1);
-    const stabilityFigures = figures.filter((f) => /Overlapping Allan deviation versus|Time deviation \(solid\)|Time error against|Time error with each/.test(f));
+    const stabilityFigures = figures.filter((f) =>
+      /Overlapping Allan deviation versus|Time deviation \(solid\)|Time error against|Time error with each/.test(f),
+    );
     expect(stabilityFigures).toHaveLength(4);
     for (const f of stabilityFigures) expect(f.slice(0, f.indexOf('</figure>'))).toContain(plain);
     const tables = assumed.html.slice(assumed.html.indexOf('<h2>Stability tables</h2>'), assumed.html.indexOf('<h2>Definitions</h2>'));
@@ -108,7 +120,9 @@ describe('the soak report labels its numbers', () => {
   test('"time error per day" appears only with its basis: not as a key number, and in the table with the record length, no aging, no temperature', () => {
     expect(keyNumbers(assumed.html)).not.toMatch(/per day/);
     const heading = /data-testid="per-day-heading">([^<]*)<\/th>/.exec(assumed.html)?.[1] ?? '';
-    expect(heading).toMatch(/^time error per day if this offset held \(extrapolated from the ([\d.]+) us at an assumed 10 MHz record; no aging, no temperature change; not a holdover figure\)$/);
+    expect(heading).toMatch(
+      /^time error per day if this offset held \(extrapolated from the ([\d.]+) us at an assumed 10 MHz record; no aging, no temperature change; not a holdover figure\)$/,
+    );
     // the record length shown is the stability record's span from the summary (in us)
     const shown = Number(/from the ([\d.]+) us/.exec(heading)![1]);
     expect(Math.abs(shown - assumed.summary.stability.span * 1e6)).toBeLessThan(0.05);
@@ -125,8 +139,12 @@ describe('the soak report labels its numbers', () => {
     expect(Math.abs(value / r.node[i] - 1)).toBeLessThan(1e-3);
     // the array output's ratio is a different number here: it is not the one shown as the coupling's benefit
     expect(Math.abs(r.ensemble[i] / r.node[i] - 1)).toBeGreaterThan(0.05);
-    expect(box).toContain(`The array output reaches ${Number(r.ensemble[i].toPrecision(4))} times and the uncoupled ensemble average ${Number(r.uncoupledEnsemble[i].toPrecision(4))} times; that much comes from plain averaging`);
-    expect(box).toMatch(/1\/sqrt\(N\) = 0\.7071 for N = 2 assumes independent noise in every part; a shared supply or a shared temperature correlates the noise/);
+    expect(box).toContain(
+      `The array output reaches ${Number(r.ensemble[i].toPrecision(4))} times and the uncoupled ensemble average ${Number(r.uncoupledEnsemble[i].toPrecision(4))} times; that much comes from plain averaging`,
+    );
+    expect(box).toMatch(
+      /1\/sqrt\(N\) = 0\.7071 for N = 2 assumes independent noise in every part; a shared supply or a shared temperature correlates the noise/,
+    );
   });
 });
 

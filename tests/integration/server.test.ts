@@ -170,7 +170,9 @@ describe('a client that never reads', () => {
       // a raw socket that completes the handshake and then never reads another byte
       const stalled = connect(Number(url.port), url.hostname);
       await new Promise<void>((resolve) => stalled.once('connect', () => resolve()));
-      stalled.write(`GET /ws HTTP/1.1\r\nHost: ${url.host}\r\nUpgrade: websocket\r\nConnection: Upgrade\r\nSec-WebSocket-Key: dGhlIHNhbXBsZSBub25jZQ==\r\nSec-WebSocket-Version: 13\r\n\r\n`);
+      stalled.write(
+        `GET /ws HTTP/1.1\r\nHost: ${url.host}\r\nUpgrade: websocket\r\nConnection: Upgrade\r\nSec-WebSocket-Key: dGhlIHNhbXBsZSBub25jZQ==\r\nSec-WebSocket-Version: 13\r\n\r\n`,
+      );
       await new Promise<void>((resolve) => stalled.once('data', () => resolve()));
       stalled.pause();
       const reader = await TestClient.connect(server.url.replace('http', 'ws') + 'ws');

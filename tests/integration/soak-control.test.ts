@@ -82,7 +82,9 @@ describe('starting, stopping and resuming soaks over HTTP', () => {
 
   test('refuses without the token (401), from another site (403), and names the bad field (400)', async () => {
     const good = { name: 'never', scenario: 'timing-board-8', campaign: 'timing-board-8-campaign', until: UNTIL };
-    const noToken = await answer(await fetch(url('api/soaks'), { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify(good) }));
+    const noToken = await answer(
+      await fetch(url('api/soaks'), { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify(good) }),
+    );
     expect(noToken.status).toBe(401);
     expect(noToken.error).toMatch(/operator token/);
     expect((await answer(await post('api/soaks', good, { Authorization: 'Bearer not-the-token' }))).status).toBe(401);
@@ -91,11 +93,15 @@ describe('starting, stopping and resuming soaks over HTTP', () => {
     expect(foreign.error).toMatch(/Origin http:\/\/elsewhere\.example is not allowed/);
     // DNS rebinding: a page of another name that resolves to this machine (fetch cannot set Host)
     const rebound = await new Promise<{ status: number; body: string }>((resolve, reject) => {
-      const request = httpRequest(url('api/soaks'), { method: 'POST', headers: { Host: 'rebound.example', 'Content-Type': 'application/json', Authorization: `Bearer ${TOKEN}` } }, (response) => {
-        let body = '';
-        response.on('data', (chunk) => (body += chunk));
-        response.on('end', () => resolve({ status: response.statusCode ?? 0, body }));
-      });
+      const request = httpRequest(
+        url('api/soaks'),
+        { method: 'POST', headers: { Host: 'rebound.example', 'Content-Type': 'application/json', Authorization: `Bearer ${TOKEN}` } },
+        (response) => {
+          let body = '';
+          response.on('data', (chunk) => (body += chunk));
+          response.on('end', () => resolve({ status: response.statusCode ?? 0, body }));
+        },
+      );
       request.on('error', reject);
       request.end(JSON.stringify(good));
     });
@@ -109,7 +115,10 @@ describe('starting, stopping and resuming soaks over HTTP', () => {
       [{ ...good, name: '../escape' }, /^name: must be 1 to \d+ letters/],
       [{ ...good, name: 7 }, /^name: must be a string \(got 7\)$/],
       [{ ...good, name: undefined }, /^name: is required$/],
-      [{ ...good, scenario: 'no-such-board' }, /^scenario: must be a built-in scenario, one of timing-board-8, .* \(got string "no-such-board"\)$/],
+      [
+        { ...good, scenario: 'no-such-board' },
+        /^scenario: must be a built-in scenario, one of timing-board-8, .* \(got string "no-such-board"\)$/,
+      ],
       [{ ...good, campaign: 'faults.json' }, /^campaign: must be a built-in campaign, one of timing-board-8-campaign/],
       [{ ...good, scenario: 'pair-adler' }, /^campaign: timing-board-8-campaign does not fit scenario pair-adler: .*node/],
       [{ ...good, pace: 0 }, /^pace: must be a positive number of slow time units per second/],
@@ -140,7 +149,9 @@ describe('starting, stopping and resuming soaks over HTTP', () => {
     // scenario left out: the live session's built-in one
     const straight = await answer(await post('api/soaks', { name: 'straight', campaign: 'timing-board-8-campaign', until: UNTIL }));
     expect(straight).toMatchObject({ status: 202, scenario: 'timing-board-8', untilSlow: UNTIL, until: 6.2e6, pace: null });
-    const paced = await answer(await post('api/soaks', { name: 'paced', scenario: 'timing-board-8', campaign: 'timing-board-8-campaign', until: UNTIL, pace: 3 }));
+    const paced = await answer(
+      await post('api/soaks', { name: 'paced', scenario: 'timing-board-8', campaign: 'timing-board-8-campaign', until: UNTIL, pace: 3 }),
+    );
     expect(paced.status).toBe(202);
     const again = await answer(await post('api/soaks', { name: 'straight', campaign: 'timing-board-8-campaign', until: 5 }));
     expect(again.status).toBe(409);
@@ -156,7 +167,14 @@ describe('starting, stopping and resuming soaks over HTTP', () => {
     await server.close();
     server = await open();
     const survived = await until('paced', (s) => s.state === 'running', 5_000);
-    expect(survived.launch).toMatchObject({ scenario: 'timing-board-8', campaign: 'timing-board-8-campaign', untilSlow: UNTIL, pace: 3, runs: 1, alive: true });
+    expect(survived.launch).toMatchObject({
+      scenario: 'timing-board-8',
+      campaign: 'timing-board-8-campaign',
+      untilSlow: UNTIL,
+      pace: 3,
+      runs: 1,
+      alive: true,
+    });
     expect((await answer(await post('api/soaks/paced/resume'))).status).toBe(409);
     expect((await answer(await post('api/soaks/paced/stop', undefined, { Authorization: '' }))).status).toBe(401);
 

@@ -53,7 +53,11 @@ describe('segmented log writer', () => {
     const dir = fresh();
     writeFileSync(join(dir, 'soak-000000.ndjson'), ''); // the writer never reuses a file
     const errors: Error[] = [];
-    const log = new SegmentedLog<TestRecord>({ segmentPath: segmentPathFor(dir, PREFIX), segmentBytes: 1e6, onError: (e) => errors.push(e) });
+    const log = new SegmentedLog<TestRecord>({
+      segmentPath: segmentPathFor(dir, PREFIX),
+      segmentBytes: 1e6,
+      onError: (e) => errors.push(e),
+    });
     await expect(log.append({ record: 'event' })).rejects.toThrow(/EEXIST/);
     expect(errors).toHaveLength(1);
     await expect(log.append({ record: 'event' })).rejects.toThrow(/EEXIST/);
@@ -63,7 +67,10 @@ describe('segmented log writer', () => {
     const dir = fresh();
     const log = new SessionLog(join(dir, 'live.ndjson'));
     const event = { seq: 1, tau: 0, kind: 'control' as const, message: 'paused', by: 'test' };
-    const seqs = await Promise.all([log.append(logHeader(loadBuiltInScenario('pair-adler'), {}, 'test')), log.append({ record: 'event', event })]);
+    const seqs = await Promise.all([
+      log.append(logHeader(loadBuiltInScenario('pair-adler'), {}, 'test')),
+      log.append({ record: 'event', event }),
+    ]);
     expect(seqs).toEqual([0, 1]);
     expect(log.durableSeq).toBe(1);
     await log.close();
@@ -140,7 +147,12 @@ describe('reading a segmented log back', () => {
     expect(next).toBe(kept.segment + 1);
     const after = readSegments(dir, PREFIX);
     expect(after.records.map((r) => r.record.seq)).toEqual(Array.from({ length: 42 }, (_, i) => i));
-    const log = new SegmentedLog<TestRecord>({ segmentPath: segmentPathFor(dir, PREFIX), segmentBytes: 1500, firstSeq: 42, firstSegment: next });
+    const log = new SegmentedLog<TestRecord>({
+      segmentPath: segmentPathFor(dir, PREFIX),
+      segmentBytes: 1500,
+      firstSeq: 42,
+      firstSegment: next,
+    });
     await Promise.all([log.append({ record: 'event' }), log.append({ record: 'event' })]);
     await log.close();
     const resumed = readSegments(dir, PREFIX);

@@ -17,36 +17,42 @@ const bin = join(root, 'bin/syncring.js');
 const dir = mkdtempSync(join(tmpdir(), 'syncring-resume-'));
 const scenario = join(dir, 'ring.json');
 const campaign = join(dir, 'campaign.json');
-writeFileSync(scenario, JSON.stringify({
-  name: 'ring of four for the resume test',
-  nodes: 4,
-  topology: 'ring-two-way',
-  epsilon: 0.01,
-  modes: [{ omega: 1, gain: 1, loss: 0 }],
-  coupling: { strength: 0.1, reactive: 0.05, dissipative: 1 },
-  detuning: [0.01, -0.005, 0.003, -0.008],
-  noise: { intensity: 1e-6, seed: 77 },
-  initial: { random: { seed: 5, amplitude: 1.5 } },
-  integrator: { stepsPerPeriod: 8 },
-}));
-writeFileSync(campaign, JSON.stringify({
-  name: 'mixed faults',
-  timeUnit: 'slow',
-  criteria: { relockWithin: 50 },
-  faults: [
-    { id: 'detune-2', start: 80, action: 'set-detuning', params: { node: 2, delta: 0.04 }, duration: 20 },
-    { id: 'open-1-2', start: 150, action: 'break-link', params: { from: 1, to: 2 }, duration: 15 },
-  ],
-  random: {
-    seed: 99,
-    from: 220,
-    actions: [
-      { action: 'set-detuning', rate: 0.01, duration: [5, 15], params: { node: 'any', delta: [-0.03, 0.03] } },
-      { action: 'kick-mode', rate: 0.01, params: { node: 'any', mode: 0, amount: [0.05, 0.3], phase: [0, 6.28] } },
-      { action: 'set-noise', rate: 0.005, duration: [5, 10], params: { intensity: [1e-6, 4e-6] } },
+writeFileSync(
+  scenario,
+  JSON.stringify({
+    name: 'ring of four for the resume test',
+    nodes: 4,
+    topology: 'ring-two-way',
+    epsilon: 0.01,
+    modes: [{ omega: 1, gain: 1, loss: 0 }],
+    coupling: { strength: 0.1, reactive: 0.05, dissipative: 1 },
+    detuning: [0.01, -0.005, 0.003, -0.008],
+    noise: { intensity: 1e-6, seed: 77 },
+    initial: { random: { seed: 5, amplitude: 1.5 } },
+    integrator: { stepsPerPeriod: 8 },
+  }),
+);
+writeFileSync(
+  campaign,
+  JSON.stringify({
+    name: 'mixed faults',
+    timeUnit: 'slow',
+    criteria: { relockWithin: 50 },
+    faults: [
+      { id: 'detune-2', start: 80, action: 'set-detuning', params: { node: 2, delta: 0.04 }, duration: 20 },
+      { id: 'open-1-2', start: 150, action: 'break-link', params: { from: 1, to: 2 }, duration: 15 },
     ],
-  },
-}));
+    random: {
+      seed: 99,
+      from: 220,
+      actions: [
+        { action: 'set-detuning', rate: 0.01, duration: [5, 15], params: { node: 'any', delta: [-0.03, 0.03] } },
+        { action: 'kick-mode', rate: 0.01, params: { node: 'any', mode: 0, amount: [0.05, 0.3], phase: [0, 6.28] } },
+        { action: 'set-noise', rate: 0.005, duration: [5, 10], params: { intensity: [1e-6, 4e-6] } },
+      ],
+    },
+  }),
+);
 const until = '50000';
 const common = ['--campaign', campaign, '--segment-bytes', '65536', '--checkpoint-every', '2000'];
 
@@ -77,7 +83,10 @@ describe('a soak killed with SIGKILL and resumed', () => {
 
     // the same soak, paced so that it is surely killed in the middle
     const killed = join(dir, 'killed');
-    const child = spawn('node', [bin, 'soak', scenario, ...common, '--until', until, '--out', killed, '--pace', '120'], { cwd: root, stdio: 'ignore' });
+    const child = spawn('node', [bin, 'soak', scenario, ...common, '--until', until, '--out', killed, '--pace', '120'], {
+      cwd: root,
+      stdio: 'ignore',
+    });
     const exited = new Promise<NodeJS.Signals | null>((resolve) => child.on('exit', (_code, signal) => resolve(signal)));
     for (let waited = 0; waited < 60_000; waited += 100) {
       await new Promise((r) => setTimeout(r, 100));

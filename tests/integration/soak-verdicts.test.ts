@@ -37,11 +37,14 @@ function setUp(ratio: number) {
   // the beyond case, so a slipping pair is back near psi = 0 when the detuning is restored
   const beat = (2 * Math.PI) / (Math.sqrt(1.6 * 1.6 - 1) * K);
   const campaign = join(dir, 'campaign.json');
-  writeFileSync(campaign, JSON.stringify({
-    name: `detune node 0 to ${ratio} of the locking limit`,
-    faults: [{ id: `dw-${ratio}K`, start, action: 'set-detuning', params: { node: 0, delta: ratio * kappaSigma }, duration: beat }],
-    stability: { uncoupledReference: false },
-  }));
+  writeFileSync(
+    campaign,
+    JSON.stringify({
+      name: `detune node 0 to ${ratio} of the locking limit`,
+      faults: [{ id: `dw-${ratio}K`, start, action: 'set-detuning', params: { node: 0, delta: ratio * kappaSigma }, duration: beat }],
+      stability: { uncoupledReference: false },
+    }),
+  );
   const until = start + beat + 13000;
   return { dir, scenario, campaign, until, out: join(dir, 'out') };
 }
@@ -55,7 +58,9 @@ async function runCase(ratio: number) {
 
 function report(dir: string): Promise<{ code: number; stdout: string }> {
   return new Promise((resolve) => {
-    execFile('node', [bin, 'report', dir], { cwd: root, timeout: 60_000 }, (error, stdout) => resolve({ code: error ? ((error as { code?: number }).code ?? -1) : 0, stdout }));
+    execFile('node', [bin, 'report', dir], { cwd: root, timeout: 60_000 }, (error, stdout) =>
+      resolve({ code: error ? ((error as { code?: number }).code ?? -1) : 0, stdout }),
+    );
   });
 }
 
@@ -92,7 +97,9 @@ describe('soak verdicts against the Adler locking limit', () => {
     expect(html).toContain('Neighbour phase differences');
     expect(html).toContain('dw-1.6K');
     expect(html).toContain('class="status fail">FAIL');
-    expect(html).toContain("Simulation does not replace qualification of real hardware. A PASS or a stability figure here holds under the simulated noise model only and does not mean compliance with any standard's mask. Qualify real hardware to the standards that apply, with accredited practice.");
+    expect(html).toContain(
+      "Simulation does not replace qualification of real hardware. A PASS or a stability figure here holds under the simulated noise model only and does not mean compliance with any standard's mask. Qualify real hardware to the standards that apply, with accredited practice.",
+    );
     // a failed soak has no PASS to qualify at its head
     expect(html).not.toContain('data-testid="pass-caution"');
   });
@@ -130,14 +137,26 @@ describe('soak verdicts against the Adler locking limit', () => {
     // two modes, the second (1500 ppm up) with the larger gain and started alone: it wins and locks
     const dir = mkdtempSync(join(tmpdir(), 'syncring-unwanted-'));
     const scenario = join(dir, 'pair.json');
-    writeFileSync(scenario, JSON.stringify({
-      ...adlerPairScenario(eps, kappaSigma),
-      modes: [{ omega: 1, gain: 1, loss: 0.5 }, { omega: 1.0015, gain: 1, loss: 0 }],
-      initial: { pattern: { q: 0, amplitude: 2, mode: 1 } },
-      nominalFrequencyHz: 10e6,
-    }));
+    writeFileSync(
+      scenario,
+      JSON.stringify({
+        ...adlerPairScenario(eps, kappaSigma),
+        modes: [
+          { omega: 1, gain: 1, loss: 0.5 },
+          { omega: 1.0015, gain: 1, loss: 0 },
+        ],
+        initial: { pattern: { q: 0, amplitude: 2, mode: 1 } },
+        nominalFrequencyHz: 10e6,
+      }),
+    );
     const campaign = join(dir, 'campaign.json');
-    writeFileSync(campaign, JSON.stringify({ faults: [{ id: 'nudge', start, action: 'kick-mode', params: { node: 0, mode: 1, amount: 0.05 } }], stability: { uncoupledReference: false } }));
+    writeFileSync(
+      campaign,
+      JSON.stringify({
+        faults: [{ id: 'nudge', start, action: 'kick-mode', params: { node: 0, mode: 1, amount: 0.05 } }],
+        stability: { uncoupledReference: false },
+      }),
+    );
     const out = join(dir, 'out');
     const result = await soak([scenario, '--campaign', campaign, '--until', String(start + 12000), '--out', out]);
     expect(result.code).toBe(1);
@@ -149,12 +168,17 @@ describe('soak verdicts against the Adler locking limit', () => {
     expect(summary.final.pattern).toMatchObject({ carryingMode: 1, wantedMode: false });
     const written = await report(out);
     const html = readFileSync(JSON.parse(written.stdout).report, 'utf8');
-    expect(html).toMatch(/Design defect: the soak ended with the ring locked \(in-phase\) on unwanted mode 1; the board's output then sits at that mode's frequency, about \+1500 ppm \(15 kHz at 10 MHz\)/);
+    expect(html).toMatch(
+      /Design defect: the soak ended with the ring locked \(in-phase\) on unwanted mode 1; the board's output then sits at that mode's frequency, about \+1500 ppm \(15 kHz at 10 MHz\)/,
+    );
   });
 
   test('a bad campaign is refused with exit code 2 naming the field', async () => {
     const c = setUp(0.5);
-    writeFileSync(c.campaign, JSON.stringify({ faults: [{ start: 1, action: 'set-detuning', params: { node: 5, delta: 0 }, duration: 1 }] }));
+    writeFileSync(
+      c.campaign,
+      JSON.stringify({ faults: [{ start: 1, action: 'set-detuning', params: { node: 5, delta: 0 }, duration: 1 }] }),
+    );
     const { code, stderr } = await soak([c.scenario, '--campaign', c.campaign, '--until', '100', '--out', c.out]);
     expect(code).toBe(2);
     expect(stderr).toContain(`${c.campaign}: faults[0].params.node: must be between 0 and 1 (got 5)`);

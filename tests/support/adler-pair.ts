@@ -7,7 +7,12 @@ export function adlerPairScenario(epsilon = 0.01, kappaSigma = 0.05): Record<str
   return {
     name: 'Adler pair',
     nodes: 2,
-    topology: { edges: [[0, 1, 1], [1, 0, 1]] },
+    topology: {
+      edges: [
+        [0, 1, 1],
+        [1, 0, 1],
+      ],
+    },
     epsilon,
     modes: [{ omega: 1, gain: 1, loss: 0 }],
     coupling: { strength: kappaSigma, reactive: 0, dissipative: 1 },

@@ -14,20 +14,30 @@ const bin = join(root, 'bin/syncring.js');
  * unless `nominalFrequencyHz` is passed; `uncoupledReference` adds the uncoupled twin (and with
  * it the single-part stability series).
  */
-export function runPairSoak(dir: string, out: string, options: { uncoupledReference?: boolean; nominalFrequencyHz?: number } = {}): Promise<{ code: number; stdout: string }> {
+export function runPairSoak(
+  dir: string,
+  out: string,
+  options: { uncoupledReference?: boolean; nominalFrequencyHz?: number } = {},
+): Promise<{ code: number; stdout: string }> {
   const scenario = join(dir, 'pair.json');
   const given = options.nominalFrequencyHz === undefined ? {} : { nominalFrequencyHz: options.nominalFrequencyHz };
   writeFileSync(scenario, JSON.stringify({ ...adlerPairScenario(), ...given }));
   const campaign = join(dir, 'campaign.json');
-  writeFileSync(campaign, JSON.stringify({
-    name: 'half the locking limit',
-    detector: { lockWindow: 5 },
-    faults: [{ id: 'half-limit', start: 2000, action: 'set-detuning', params: { node: 0, delta: 0.025 }, duration: 1500 }],
-    stability: { uncoupledReference: options.uncoupledReference ?? false },
-  }));
+  writeFileSync(
+    campaign,
+    JSON.stringify({
+      name: 'half the locking limit',
+      detector: { lockWindow: 5 },
+      faults: [{ id: 'half-limit', start: 2000, action: 'set-detuning', params: { node: 0, delta: 0.025 }, duration: 1500 }],
+      stability: { uncoupledReference: options.uncoupledReference ?? false },
+    }),
+  );
   return new Promise((resolve) => {
-    execFile('node', [bin, 'soak', scenario, '--campaign', campaign, '--until', '6000', '--out', out], { cwd: root, timeout: 60_000 }, (error, stdout) =>
-      resolve({ code: error ? ((error as { code?: number }).code ?? -1) : 0, stdout }),
+    execFile(
+      'node',
+      [bin, 'soak', scenario, '--campaign', campaign, '--until', '6000', '--out', out],
+      { cwd: root, timeout: 60_000 },
+      (error, stdout) => resolve({ code: error ? ((error as { code?: number }).code ?? -1) : 0, stdout }),
     );
   });
 }

@@ -5,12 +5,7 @@ import { Random } from '../../src/util/random.js';
  * Original-coordinate state at tau = 0 for given complex amplitudes a_kj (x = Re a,
  * x' = omega Re(i a) = -omega Im a), optionally jittered by a seeded relative perturbation.
  */
-export function stateFromAmplitudes(
-  amplitudes: { re: number; im: number }[][],
-  omega: number[],
-  jitter = 0,
-  seed = 1,
-): ModeState[][] {
+export function stateFromAmplitudes(amplitudes: { re: number; im: number }[][], omega: number[], jitter = 0, seed = 1): ModeState[][] {
   const random = new Random(seed);
   return amplitudes.map((modes) =>
     modes.map((a, j) => {

@@ -34,7 +34,11 @@ export class TestClient {
   }
 
   /** Resolves with the first message (already received or coming) that matches. */
-  next<T extends ServerMessage['type']>(type: T, match: (m: Extract<ServerMessage, { type: T }>) => boolean = () => true, timeoutMs = 15_000): Promise<Extract<ServerMessage, { type: T }>> {
+  next<T extends ServerMessage['type']>(
+    type: T,
+    match: (m: Extract<ServerMessage, { type: T }>) => boolean = () => true,
+    timeoutMs = 15_000,
+  ): Promise<Extract<ServerMessage, { type: T }>> {
     const test = (m: ServerMessage) => m.type === type && match(m as Extract<ServerMessage, { type: T }>);
     const seen = this.messages.find(test);
     if (seen) return Promise.resolve(seen as Extract<ServerMessage, { type: T }>);

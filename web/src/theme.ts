@@ -91,7 +91,20 @@ export const REPLAY_NOTE_GROUND = translucent(ON_SOLID, 0.2);
 export const POPOVER_SHADOW = translucent(INK, 0.25);
 export const TOAST_SHADOW = 'rgba(0, 0, 0, 0.3)';
 
-const NODE_COLOURS = ['#2457c5', '#e06c00', '#13896f', '#b2308a', '#8a6d00', '#6b46d6', '#0a8db5', '#5b7f1a', '#a0522d', '#d1407a', '#33658a', '#4f4f4f'];
+const NODE_COLOURS = [
+  '#2457c5',
+  '#e06c00',
+  '#13896f',
+  '#b2308a',
+  '#8a6d00',
+  '#6b46d6',
+  '#0a8db5',
+  '#5b7f1a',
+  '#a0522d',
+  '#d1407a',
+  '#33658a',
+  '#4f4f4f',
+];
 
 /** Colour of node k (also of the phase difference k -> k+1 and of node k's amplitude lines). */
 export function nodeColour(k: number): string {

@@ -32,5 +32,9 @@ export function ensureServerCompiled(): void {
 export function ensureDashboardBuilt(): void {
   const sources = Math.max(newest(join(ROOT, 'web')), newest(join(ROOT, 'src/protocol')));
   if (existsSync(BUILT_PAGE) && statSync(BUILT_PAGE).mtimeMs >= sources) return;
-  execFileSync('npx', ['vite', 'build', '--config', 'web/vite.config.ts', '--logLevel', 'warn'], { cwd: ROOT, stdio: 'inherit', timeout: 170_000 });
+  execFileSync('npx', ['vite', 'build', '--config', 'web/vite.config.ts', '--logLevel', 'warn'], {
+    cwd: ROOT,
+    stdio: 'inherit',
+    timeout: 170_000,
+  });
 }

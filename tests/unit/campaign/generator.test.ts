@@ -3,7 +3,16 @@ import { FaultGenerator, parseCampaign, type FaultPlan } from '../../../src/camp
 import { ModelParameters } from '../../../src/model/parameters.js';
 import { makeScenario } from '../../support/scenarios.js';
 
-const scenario = makeScenario({ nodes: 5, twoWay: true, epsilon: 0.01, modes: [{ omega: 1, gain: 1, loss: 0 }, { omega: 1.3, gain: 1, loss: 0.5 }], coupling: { strength: 0.1, reactive: 0, dissipative: 1 } });
+const scenario = makeScenario({
+  nodes: 5,
+  twoWay: true,
+  epsilon: 0.01,
+  modes: [
+    { omega: 1, gain: 1, loss: 0 },
+    { omega: 1.3, gain: 1, loss: 0.5 },
+  ],
+  coupling: { strength: 0.1, reactive: 0, dissipative: 1 },
+});
 const params = new ModelParameters(scenario);
 
 const campaign = parseCampaign(

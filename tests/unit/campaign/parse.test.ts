@@ -4,7 +4,13 @@ import { InputError } from '../../../src/util/input-error.js';
 import { builtInCampaignRaw, loadBuiltInScenario } from '../../../src/scenarios/index.js';
 import { makeScenario } from '../../support/scenarios.js';
 
-const ring = makeScenario({ nodes: 4, twoWay: true, epsilon: 0.01, modes: [{ omega: 1, gain: 1, loss: 0 }], coupling: { strength: 0.1, reactive: 0, dissipative: 1 } });
+const ring = makeScenario({
+  nodes: 4,
+  twoWay: true,
+  epsilon: 0.01,
+  modes: [{ omega: 1, gain: 1, loss: 0 }],
+  coupling: { strength: 0.1, reactive: 0, dissipative: 1 },
+});
 
 function errorOf(raw: unknown, scenario = ring): InputError {
   try {
@@ -16,7 +22,9 @@ function errorOf(raw: unknown, scenario = ring): InputError {
   throw new Error('expected the campaign to be refused');
 }
 
-const fault = (extra: Record<string, unknown>) => ({ faults: [{ start: 10, action: 'set-detuning', params: { node: 1, delta: 0.1 }, duration: 5, ...extra }] });
+const fault = (extra: Record<string, unknown>) => ({
+  faults: [{ start: 10, action: 'set-detuning', params: { node: 1, delta: 0.1 }, duration: 5, ...extra }],
+});
 
 describe('campaign format', () => {
   test('the shipped demo campaign validates against the demo scenario, times converted from slow time', () => {
@@ -49,13 +57,16 @@ describe('campaign format', () => {
   });
 
   test('faults are ordered by start, ties keep the file order', () => {
-    const c = parseCampaign({
-      faults: [
-        { id: 'b', start: 20, action: 'break-link', params: { from: 0, to: 1 }, duration: 1 },
-        { id: 'a', start: 10, action: 'kick-mode', params: { node: 0, mode: 0, amount: 0.1 } },
-        { id: 'c', start: 20, action: 'set-noise', params: { intensity: 1e-6 }, duration: 1 },
-      ],
-    }, ring);
+    const c = parseCampaign(
+      {
+        faults: [
+          { id: 'b', start: 20, action: 'break-link', params: { from: 0, to: 1 }, duration: 1 },
+          { id: 'a', start: 10, action: 'kick-mode', params: { node: 0, mode: 0, amount: 0.1 } },
+          { id: 'c', start: 20, action: 'set-noise', params: { intensity: 1e-6 }, duration: 1 },
+        ],
+      },
+      ring,
+    );
     expect(c.faults.map((f) => f.id)).toEqual(['a', 'b', 'c']);
     expect(c.faults[0].restore).toBe('none');
     expect(c.faults[0].duration).toBeNull();
@@ -74,13 +85,42 @@ describe('campaign format', () => {
     [fault({ params: { node: 1, delta: 0.1, action: 'x' } }), 'faults[0].params.action', /beside params/],
     [fault({ criteria: { mustPersist: 'yes' } }), 'faults[0].criteria.mustPersist', /true or false/],
     [fault({ criteria: { relockWithin: 0 } }), 'faults[0].criteria.relockWithin', /> 0/],
-    [{ faults: [{ start: 1, action: 'kick-mode', params: { node: 0, mode: 0, amount: 1 }, duration: 3 }] }, 'faults[0].duration', /instantaneous/],
+    [
+      { faults: [{ start: 1, action: 'kick-mode', params: { node: 0, mode: 0, amount: 1 }, duration: 3 }] },
+      'faults[0].duration',
+      /instantaneous/,
+    ],
     [{ timeUnit: 'hours', ...fault({}) }, 'timeUnit', /tau, slow, seconds/],
-    [{ faults: [{ ...fault({}).faults[0], id: 'x' }, { ...fault({}).faults[0], id: 'x' }] }, 'faults[1].id', /duplicates/],
-    [{ random: { seed: 1, actions: [{ action: 'set-detuning', rate: 1, duration: [1, 2], params: { node: [0, 4], delta: [0, 1] } }] } }, 'random.actions[0].params.node', /between 0 and 3/],
-    [{ random: { seed: 1, actions: [{ action: 'set-detuning', rate: 1, duration: [2, 1], params: { node: 'any', delta: 0 } }] } }, 'random.actions[0].duration', /below min/],
-    [{ random: { seed: 1, actions: [{ action: 'break-link', rate: 1, duration: 1, params: { link: [[0, 2]] } }] } }, 'random.actions[0].params', /no link from node 0 to node 2/],
-    [{ random: { seed: 1, actions: [{ action: 'set-detuning', rate: 1, duration: 1, params: { node: 'any' } }] } }, 'random.actions[0].params', /exactly one of delta or ppm/],
+    [
+      {
+        faults: [
+          { ...fault({}).faults[0], id: 'x' },
+          { ...fault({}).faults[0], id: 'x' },
+        ],
+      },
+      'faults[1].id',
+      /duplicates/,
+    ],
+    [
+      { random: { seed: 1, actions: [{ action: 'set-detuning', rate: 1, duration: [1, 2], params: { node: [0, 4], delta: [0, 1] } }] } },
+      'random.actions[0].params.node',
+      /between 0 and 3/,
+    ],
+    [
+      { random: { seed: 1, actions: [{ action: 'set-detuning', rate: 1, duration: [2, 1], params: { node: 'any', delta: 0 } }] } },
+      'random.actions[0].duration',
+      /below min/,
+    ],
+    [
+      { random: { seed: 1, actions: [{ action: 'break-link', rate: 1, duration: 1, params: { link: [[0, 2]] } }] } },
+      'random.actions[0].params',
+      /no link from node 0 to node 2/,
+    ],
+    [
+      { random: { seed: 1, actions: [{ action: 'set-detuning', rate: 1, duration: 1, params: { node: 'any' } }] } },
+      'random.actions[0].params',
+      /exactly one of delta or ppm/,
+    ],
     [{ random: { seed: -1, actions: [] } }, 'random.seed', /unsigned 32-bit/],
     [{ random: { seed: 1, actions: [] } }, 'random.actions', /at least one/],
   ])('refuses %j at %s', (raw, path, reason) => {

@@ -17,7 +17,11 @@ describe('stability analysis of a soak record', () => {
   test('a constant offset: frequency offset in ppb, time error in ns, and 1 ppm = 86.4 ms per day', () => {
     // phi = 2 pi f0 y t for a fractional offset y (definition of time error, ITU-T G.810)
     const y = [1e-6, 2e-9, -5e-9, 0];
-    const report = analyzeStability(samples(200, (i) => y.map((v) => 2 * Math.PI * f0 * v * i * tau0) as [number, number, number, number]), tau0, f0)!;
+    const report = analyzeStability(
+      samples(200, (i) => y.map((v) => 2 * Math.PI * f0 * v * i * tau0) as [number, number, number, number]),
+      tau0,
+      f0,
+    )!;
     const [ensemble, node, uncoupled, single] = report.series;
     expect(ensemble.frequencyOffsetPpb).toBeCloseTo(1000, 6);
     expect(ensemble.timeErrorPerDayUs).toBeCloseTo(86400, 3); // 1e-6 * 86400 s = 86.4 ms (arithmetic)
@@ -86,10 +90,23 @@ describe('stability analysis of a soak record', () => {
   });
 
   test('too few samples give no report; a stopped twin shortens only its own series', () => {
-    expect(analyzeStability(samples(10, () => [0, 0, 0, 0]), tau0, f0)).toBeNull();
-    const record = samples(100, (i) => [i * 1e-3, i * 2e-3, i < 50 ? i * 1e-3 : 0, i * 1e-3]).map((s, i) => (i >= 50 ? { ...s, uncoupledEnsemble: null, singlePart: null } : s));
+    expect(
+      analyzeStability(
+        samples(10, () => [0, 0, 0, 0]),
+        tau0,
+        f0,
+      ),
+    ).toBeNull();
+    const record = samples(100, (i) => [i * 1e-3, i * 2e-3, i < 50 ? i * 1e-3 : 0, i * 1e-3]).map((s, i) =>
+      i >= 50 ? { ...s, uncoupledEnsemble: null, singlePart: null } : s,
+    );
     const report = analyzeStability(record, tau0, f0)!;
-    expect(report.series.map((s) => [s.name, s.points])).toEqual([['ensemble', 100], ['node', 100], ['uncoupledEnsemble', 50], ['singlePart', 50]]);
+    expect(report.series.map((s) => [s.name, s.points])).toEqual([
+      ['ensemble', 100],
+      ['node', 100],
+      ['uncoupledEnsemble', 50],
+      ['singlePart', 50],
+    ]);
     expect(report.note).toMatch(/stopped after 50 samples/);
   });
 });

@@ -14,7 +14,14 @@ const base = { epsilon: 0.01, secondsPerTau: 1e-7 };
 /** The detector's tolerance (rad) and window (tau, five ticks). */
 const LOCK = { tolerance: 0.05, window: 5 };
 
-const criteria = { mustPersist: true, mustRelock: true, relockWithin: 30, maxPhaseExcursion: null, maxDivergence: null, predictionMustAgree: false };
+const criteria = {
+  mustPersist: true,
+  mustRelock: true,
+  relockWithin: 30,
+  maxPhaseExcursion: null,
+  maxDivergence: null,
+  predictionMustAgree: false,
+};
 const plan = (extra: Partial<FaultPlan> = {}): FaultPlan => ({
   id: 'f',
   source: 'schedule',
@@ -50,7 +57,14 @@ function view(tau: number, psi: number, d: Detector = {}, extra: Partial<TickVie
 const wrap = (x: number) => Math.atan2(Math.sin(x), Math.cos(x));
 
 /** Ticks tau = 11..end; restore at 20 as the runner does; finish at the window end (50) or at `end`. */
-function evaluate(p: FaultPlan, psi: (t: number) => number, detector: (t: number) => Detector = () => ({}), end = 50, extra: (t: number) => Partial<TickView> = () => ({}), before: Detector = {}): FaultVerdict {
+function evaluate(
+  p: FaultPlan,
+  psi: (t: number) => number,
+  detector: (t: number) => Detector = () => ({}),
+  end = 50,
+  extra: (t: number) => Partial<TickView> = () => ({}),
+  before: Detector = {},
+): FaultVerdict {
   const e = FaultEvaluation.begin(p, 10, { action: 'set-detuning', node: 0, delta: 0 }, view(9, psi(9), before), LOCK);
   for (let t = 11; t <= end; t++) {
     if (e.restoreDue(t - 1)) e.markRestored(t - 1);
@@ -68,7 +82,13 @@ describe('a smooth move is not a loss', () => {
     // psi relaxes from 0 to 0.4 with time constant 3 (it is within 0.05 of 0.4 from t = 10 + 3 ln 8 = 16.2 on)
     const psi = (t: number) => (t < 10 ? 0 : 0.4 * (1 - Math.exp(-(t - 10) / 3)));
     const continued = { mode: 0, phaseDifferences: [0.4, -0.4] };
-    const v = evaluate(permanent, psi, (t) => ({ status: t < 20 ? 'settling' : 'locked' }), 50, () => ({ prediction: { persists: true, tau: 10, message: null, continued } }));
+    const v = evaluate(
+      permanent,
+      psi,
+      (t) => ({ status: t < 20 ? 'settling' : 'locked' }),
+      50,
+      () => ({ prediction: { persists: true, tau: 10, message: null, continued } }),
+    );
     expect(v.persisted).toBe(true);
     expect(v.slipped).toBe(false);
     expect(v.became).toEqual([]);
@@ -86,7 +106,13 @@ describe('a smooth move is not a loss', () => {
 
   test('a settled state far from the predicted continued state is said so', () => {
     const continued = { mode: 0, phaseDifferences: [1.2, -1.2] };
-    const v = evaluate(permanent, (t) => (t < 12 ? 0 : 0.4), () => ({}), 50, () => ({ prediction: { persists: true, tau: 10, message: null, continued } }));
+    const v = evaluate(
+      permanent,
+      (t) => (t < 12 ? 0 : 0.4),
+      () => ({}),
+      50,
+      () => ({ prediction: { persists: true, tau: 10, message: null, continued } }),
+    );
     expect(v.fromContinued).toBeCloseTo(0.8, 12);
     expect(v.notes).toContain('settled 0.80 rad from the predicted continued state');
     expect(v.notes[0]).toBe('moved 0.40 rad, settled in 0.02 slow units');
@@ -112,15 +138,26 @@ describe('real losses are caught', () => {
   });
 
   test('a drifting (unlocked) ring fails and does not re-lock', () => {
-    const v = evaluate(plan(), (t) => (t < 10 ? 0 : 0.5 * (t - 10)), (t) => (t < 16 ? { status: 'settling' } : { label: 'unlocked', slips: Math.floor((t - 10) / 12) + 1 }));
+    const v = evaluate(
+      plan(),
+      (t) => (t < 10 ? 0 : 0.5 * (t - 10)),
+      (t) => (t < 16 ? { status: 'settling' } : { label: 'unlocked', slips: Math.floor((t - 10) / 12) + 1 }),
+    );
     expect(v.persisted).toBe(false);
     expect(v.recovered).toBe(false);
     expect(v.slips).toBeGreaterThanOrEqual(2);
-    expect(v.reasons).toEqual([expect.stringMatching(/did not persist: 4 cycle slips/), expect.stringMatching(/^did not re-lock into in-phase q=0 on mode 0 within 0.300 slow time units/)]);
+    expect(v.reasons).toEqual([
+      expect.stringMatching(/did not persist: 4 cycle slips/),
+      expect.stringMatching(/^did not re-lock into in-phase q=0 on mode 0 within 0.300 slow time units/),
+    ]);
   });
 
   test('a move into another pattern without a slip is a loss, named', () => {
-    const v = evaluate(permanent, (t) => (t < 12 ? 0 : Math.PI / 2), (t) => (t < 18 ? { status: 'settling' } : { label: 'rotating-wave q=1 on mode 0' }));
+    const v = evaluate(
+      permanent,
+      (t) => (t < 12 ? 0 : Math.PI / 2),
+      (t) => (t < 18 ? { status: 'settling' } : { label: 'rotating-wave q=1 on mode 0' }),
+    );
     expect(v.slipped).toBe(false);
     expect(v.persisted).toBe(false);
     expect(v.became).toEqual(['rotating-wave q=1 on mode 0']);
@@ -129,24 +166,41 @@ describe('real losses are caught', () => {
   });
 
   test('a change of carrying mode is a loss', () => {
-    const v = evaluate(permanent, () => 0, (t) => (t < 14 ? {} : t < 20 ? { label: 'unlocked', mode: 1 } : { label: 'in-phase q=0 on mode 1', mode: 1 }));
+    const v = evaluate(
+      permanent,
+      () => 0,
+      (t) => (t < 14 ? {} : t < 20 ? { label: 'unlocked', mode: 1 } : { label: 'in-phase q=0 on mode 1', mode: 1 }),
+    );
     expect(v.persisted).toBe(false);
     expect(v.reasons[0]).toMatch(/carrying mode changed/);
   });
 
   test('still settling when the window closes fails: persistence needs the state to settle', () => {
-    const v = evaluate(permanent, (t) => 0.02 * (t - 9), () => ({ status: 'settling' }));
+    const v = evaluate(
+      permanent,
+      (t) => 0.02 * (t - 9),
+      () => ({ status: 'settling' }),
+    );
     expect(v.complete).toBe(true);
     expect(v.settled).toBe(false);
     expect(v.persisted).toBe(false);
     expect(v.outcome).toBe('fail');
-    expect(v.reasons).toEqual([expect.stringMatching(/^the ring did not settle within the window \(still settling at the end; largest move 0.620 rad, no cycle slip\)/)]);
+    expect(v.reasons).toEqual([
+      expect.stringMatching(
+        /^the ring did not settle within the window \(still settling at the end; largest move 0.620 rad, no cycle slip\)/,
+      ),
+    ]);
   });
 });
 
 describe('INCOMPLETE: judging stopped before the outcome was decided', () => {
   test('the soak ends while the ring is still settling: incomplete, not failed', () => {
-    const v = evaluate(permanent, (t) => 0.02 * (t - 9), () => ({ status: 'settling' }), 25);
+    const v = evaluate(
+      permanent,
+      (t) => 0.02 * (t - 9),
+      () => ({ status: 'settling' }),
+      25,
+    );
     expect(v.complete).toBe(false);
     expect(v.outcome).toBe('incomplete');
     expect(v.pass).toBe(false);
@@ -155,14 +209,29 @@ describe('INCOMPLETE: judging stopped before the outcome was decided', () => {
   });
 
   test('the soak ends after a slip and before the re-lock was due: incomplete for the re-lock, but the slip already fails', () => {
-    const v = evaluate(plan({ criteria: { ...criteria, mustPersist: false } }), (t) => (t < 12 ? 0 : 4), (t) => (t < 12 ? {} : { label: 'unlocked', slips: 1 }), 25);
+    const v = evaluate(
+      plan({ criteria: { ...criteria, mustPersist: false } }),
+      (t) => (t < 12 ? 0 : 4),
+      (t) => (t < 12 ? {} : { label: 'unlocked', slips: 1 }),
+      25,
+    );
     expect(v.outcome).toBe('incomplete');
-    const strict = evaluate(plan(), (t) => (t < 12 ? 0 : 4), (t) => (t < 12 ? {} : { label: 'unlocked', slips: 1 }), 25);
+    const strict = evaluate(
+      plan(),
+      (t) => (t < 12 ? 0 : 4),
+      (t) => (t < 12 ? {} : { label: 'unlocked', slips: 1 }),
+      25,
+    );
     expect(strict.outcome).toBe('fail');
   });
 
   test('the soak ends after the ring settled but before the window closed: still incomplete (the fault may yet act)', () => {
-    const v = evaluate(permanent, (t) => (t < 12 ? 0 : 0.3), () => ({}), 30);
+    const v = evaluate(
+      permanent,
+      (t) => (t < 12 ? 0 : 0.3),
+      () => ({}),
+      30,
+    );
     expect(v.complete).toBe(false);
     expect(v.settled).toBe(true);
     expect(v.outcome).toBe('incomplete');
@@ -172,7 +241,12 @@ describe('INCOMPLETE: judging stopped before the outcome was decided', () => {
 
 test('less than a lock window after the fault nothing counts as settled yet, however still the ring looks', () => {
   // the detector says locked throughout and the phases never move; the fault was applied at 10
-  const early = evaluate(permanent, () => 0, () => ({}), 13);
+  const early = evaluate(
+    permanent,
+    () => 0,
+    () => ({}),
+    13,
+  );
   expect(early.settled).toBe(false);
   expect(early.persisted).toBe(false);
   expect(early.outcome).toBe('incomplete');
@@ -188,7 +262,8 @@ test('less than a lock window after the fault nothing counts as settled yet, how
 describe('each fault judged on its own effect', () => {
   const cut = (settledByThen: boolean) => {
     const e = FaultEvaluation.begin(permanent, 10, null, view(9, 0), LOCK);
-    for (let t = 11; t <= 30; t++) e.observe(view(t, t < 14 ? 0.1 * (t - 10) : 0.4, { status: settledByThen || t < 14 ? 'locked' : 'settling' }));
+    for (let t = 11; t <= 30; t++)
+      e.observe(view(t, t < 14 ? 0.1 * (t - 10) : 0.4, { status: settledByThen || t < 14 ? 'locked' : 'settling' }));
     return e.finish(false, base, undefined, { at: 31, by: 'later' });
   };
 
@@ -219,7 +294,14 @@ describe('other criteria', () => {
 
   test('a ring locked on an unwanted mode fails as a design defect even when the pattern persists', () => {
     const onMode1 = { label: 'in-phase q=0 on mode 1', mode: 1 };
-    const v = evaluate(permanent, () => 0, () => onMode1, 50, () => ({}), onMode1);
+    const v = evaluate(
+      permanent,
+      () => 0,
+      () => onMode1,
+      50,
+      () => ({}),
+      onMode1,
+    );
     expect(v.persisted).toBe(true);
     expect(v.outcome).toBe('fail');
     expect(v.reasons).toEqual([expect.stringMatching(/^the ring was locked on unwanted mode 1 before the fault: a design defect/)]);
@@ -227,19 +309,46 @@ describe('other criteria', () => {
 
   test('excursion and divergence limits', () => {
     const strict = plan({ criteria: { ...criteria, maxPhaseExcursion: 0.3, maxDivergence: 0.05 } });
-    const v = evaluate(strict, (t) => (t < 10 ? 0 : t < 20 ? 0.4 : 0), () => ({}), 50, (t) => ({ divergence: t === 15 ? 0.2 : 0.01 }));
+    const v = evaluate(
+      strict,
+      (t) => (t < 10 ? 0 : t < 20 ? 0.4 : 0),
+      () => ({}),
+      50,
+      (t) => ({ divergence: t === 15 ? 0.2 : 0.01 }),
+    );
     expect(v.divergence.max).toBe(0.2);
-    expect(v.reasons).toEqual(['phase excursion 0.400 rad exceeds 0.3 rad', 'full-vs-guide divergence grew by 0.190 (from 0.0100 to 0.200), more than 0.05']);
+    expect(v.reasons).toEqual([
+      'phase excursion 0.400 rad exceeds 0.3 rad',
+      'full-vs-guide divergence grew by 0.190 (from 0.0100 to 0.200), more than 0.05',
+    ]);
   });
 
   test('the prediction: a frame prediction made after the fault wins over the guide, and must agree when asked', () => {
     const asked = plan({ criteria: { ...criteria, predictionMustAgree: true } });
-    const first = evaluate(asked, () => 0.1, () => ({}), 50, (t) => ({ prediction: { persists: t < 15, tau: 10, message: 'lost at 50%', continued: null } }));
+    const first = evaluate(
+      asked,
+      () => 0.1,
+      () => ({}),
+      50,
+      (t) => ({ prediction: { persists: t < 15, tau: 10, message: 'lost at 50%', continued: null } }),
+    );
     expect(first.prediction).toEqual({ source: 'frame', persists: true, agreed: true, message: 'lost at 50%' });
-    const stale = evaluate(asked, () => 0.1, () => ({}), 50, () => ({ prediction: { persists: false, tau: 5, message: null, continued: null } }));
+    const stale = evaluate(
+      asked,
+      () => 0.1,
+      () => ({}),
+      50,
+      () => ({ prediction: { persists: false, tau: 5, message: null, continued: null } }),
+    );
     expect(stale.prediction.source).toBe('guide');
     expect(stale.prediction.agreed).toBe(true);
-    const disagree = evaluate(asked, () => 0.1, () => ({}), 50, () => ({ prediction: { persists: false, tau: 10, message: null, continued: null } }));
+    const disagree = evaluate(
+      asked,
+      () => 0.1,
+      () => ({}),
+      50,
+      () => ({ prediction: { persists: false, tau: 10, message: null, continued: null } }),
+    );
     expect(disagree.prediction.agreed).toBe(false);
     expect(disagree.outcome).toBe('fail');
     expect(disagree.reasons).toEqual(['the prediction (frame) said the pattern would not persist']);
@@ -273,7 +382,12 @@ test('a verdict row never contradicts itself, over random detector histories', (
       return { label, slips, status: label === 'unlocked' ? ('unlocked' as const) : statuses[Math.floor(random.uniform() * 2)] };
     });
     const end = 20 + Math.floor(random.uniform() * 35);
-    const v = evaluate(plan(), (t) => random.uniform() - 0.5, (t) => script[t - 10], end);
+    const v = evaluate(
+      plan(),
+      (t) => random.uniform() - 0.5,
+      (t) => script[t - 10],
+      end,
+    );
     if (v.persisted) {
       expect(v.became).toEqual([]);
       expect(v.slipped).toBe(false);

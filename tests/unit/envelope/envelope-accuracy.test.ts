@@ -46,7 +46,10 @@ describe('envelope mode against micro-stepping (omega_1 = 1.37, away from resona
   const runs = EPSILONS.map((eps) => runAgainstMicro(eps));
 
   test('the largest full-state error over tau in [0, 2/eps] falls like eps^2 (fitted slope 2 +/- 0.3)', () => {
-    const slope = logLogSlope(EPSILONS, runs.map((r) => r.worst));
+    const slope = logLogSlope(
+      EPSILONS,
+      runs.map((r) => r.worst),
+    );
     expect(slope).toBeGreaterThan(1.7);
     expect(slope).toBeLessThan(2.3);
     // and the error is small in absolute terms: a few eps^2 (first order would be a few eps)
@@ -61,7 +64,10 @@ describe('envelope mode against micro-stepping (omega_1 = 1.37, away from resona
   });
 
   test('the first- vs second-order reconstruction indicator scales like eps and its square bounds the error', () => {
-    const slope = logLogSlope(EPSILONS, runs.map((r) => r.largestIndicator));
+    const slope = logLogSlope(
+      EPSILONS,
+      runs.map((r) => r.largestIndicator),
+    );
     expect(slope).toBeGreaterThan(0.9);
     expect(slope).toBeLessThan(1.1);
     // indicator^2 estimates the neglected O(eps^2) terms: the real error is of that order

@@ -80,6 +80,8 @@ describe('validity is checked again after perturbations', () => {
     const events: string[] = [];
     const last = session.runUntil(5 / eps, (f) => f.events.forEach((e) => events.push(`${e.kind}: ${e.message}`)))!;
     expect(last.mode).toBe('envelope');
-    expect(events.some((e) => /^control: envelope mode \(second-order averaging, near-identity reconstruction\) from tau/.test(e))).toBe(true);
+    expect(events.some((e) => /^control: envelope mode \(second-order averaging, near-identity reconstruction\) from tau/.test(e))).toBe(
+      true,
+    );
   });
 });

@@ -7,10 +7,22 @@ import { stateFromAmplitudes } from '../../support/states.js';
 /** Invented test problems for the envelope: two-mode two-way rings away from (or near) resonance. */
 
 const START = [
-  [{ re: 1.2, im: 0.4 }, { re: 0.5, im: -0.2 }],
-  [{ re: -0.3, im: 1.5 }, { re: 0.2, im: 0.6 }],
-  [{ re: -1.1, im: -0.9 }, { re: -0.4, im: 0.1 }],
-  [{ re: 0.8, im: -1.3 }, { re: 0.3, im: 0.3 }],
+  [
+    { re: 1.2, im: 0.4 },
+    { re: 0.5, im: -0.2 },
+  ],
+  [
+    { re: -0.3, im: 1.5 },
+    { re: 0.2, im: 0.6 },
+  ],
+  [
+    { re: -1.1, im: -0.9 },
+    { re: -0.4, im: 0.1 },
+  ],
+  [
+    { re: 0.8, im: -1.3 },
+    { re: 0.3, im: 0.3 },
+  ],
 ];
 
 /** A 4-node two-way ring with two modes (omega_1 = 1.37 unless given) started from fixed amplitudes. */

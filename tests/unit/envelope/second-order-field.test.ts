@@ -25,7 +25,9 @@ function eightByEight(omega: Float64Array): TorusHarmonics {
 describe('torus sample points and harmonics', () => {
   test('tensor grids below 9 points per angle are refused with the reason', () => {
     const { params } = compiled(ringOfFour(1e-3));
-    expect(() => TorusHarmonics.tensor(params.omega, 8)).toThrow(/grid must be an integer >= 9 .*products of the field average exactly \(got 8\)/);
+    expect(() => TorusHarmonics.tensor(params.omega, 8)).toThrow(
+      /grid must be an integer >= 9 .*products of the field average exactly \(got 8\)/,
+    );
     expect(() => new SecondOrderField(params, 7)).toThrow(/>= 9/);
   });
 
@@ -47,7 +49,13 @@ describe('torus sample points and harmonics', () => {
 
   test('the reference model has the harmonic content the envelope assumes (degree <= 4, even only)', () => {
     expect(SecondOrderField.checkFieldContent(compiled(ringOfFour(1e-3)).params)).toBeNull();
-    const oneMode = makeScenario({ nodes: 3, twoWay: true, epsilon: 1e-3, modes: [{ omega: 1.2, gain: 1, loss: 0.3 }], coupling: { strength: 0.5, reactive: 0.4, dissipative: 0.3 } });
+    const oneMode = makeScenario({
+      nodes: 3,
+      twoWay: true,
+      epsilon: 1e-3,
+      modes: [{ omega: 1.2, gain: 1, loss: 0.3 }],
+      coupling: { strength: 0.5, reactive: 0.4, dissipative: 0.3 },
+    });
     expect(SecondOrderField.checkFieldContent(compiled(oneMode).params)).toBeNull();
   });
 });
@@ -84,7 +92,11 @@ describe('the second-order slow field', () => {
     expect(relativeGap(eleven, nine)).toBeLessThan(1e-12);
     const fbar = new Float64Array(size);
     new TorusAverage(params, 8).evaluate(y, fbar);
-    const driftGap = (a: Float64Array) => relativeGap(a.map((v, i) => v - fbar[i]), nine.map((v, i) => v - fbar[i]));
+    const driftGap = (a: Float64Array) =>
+      relativeGap(
+        a.map((v, i) => v - fbar[i]),
+        nine.map((v, i) => v - fbar[i]),
+      );
     expect(driftGap(parity)).toBeLessThan(1e-9);
     expect(driftGap(evaluate(eightByEight(params.omega)))).toBeGreaterThan(1e-3);
   });
@@ -104,8 +116,18 @@ describe('the second-order slow field', () => {
       envelope.correctionAt(y, tau - h, behind);
       const rate = ahead.map((v, i) => (v - behind[i]) / (2 * h));
       const f = new Float64Array(size);
-      raw.evaluate(Float64Array.from(params.omega, (w) => Math.cos(w * tau)), Float64Array.from(params.omega, (w) => Math.sin(w * tau)), y, f);
-      expect(relativeGap(rate, f.map((v, i) => v - fbar[i]))).toBeLessThan(1e-6);
+      raw.evaluate(
+        Float64Array.from(params.omega, (w) => Math.cos(w * tau)),
+        Float64Array.from(params.omega, (w) => Math.sin(w * tau)),
+        y,
+        f,
+      );
+      expect(
+        relativeGap(
+          rate,
+          f.map((v, i) => v - fbar[i]),
+        ),
+      ).toBeLessThan(1e-6);
     }
   });
 

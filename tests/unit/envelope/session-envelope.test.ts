@@ -5,7 +5,11 @@ import { ringOfFour } from './problems.js';
 describe('a session in envelope mode', () => {
   test('checkpoints and resumes bit for bit: noise, detuning walk, a queued perturbation and the envelope chunk included', () => {
     const eps = 1e-3;
-    const scenario = ringOfFour(eps, 1.37, { stepsPerPeriod: 16, macroPeriods: 5, noise: { intensity: 1e-6, detuningWalk: 1e-7, seed: 31 } });
+    const scenario = ringOfFour(eps, 1.37, {
+      stepsPerPeriod: 16,
+      macroPeriods: 5,
+      noise: { intensity: 1e-6, detuningWalk: 1e-7, seed: 31 },
+    });
     const options = { integrator: 'envelope' as const };
     const straight = new CoSimulation(scenario, options);
     straight.runUntil(1.5 / eps);
@@ -64,6 +68,8 @@ describe("'auto' picks the integrator", () => {
   test("'micro' is obeyed, and an unknown request is refused by name", () => {
     const session = new CoSimulation(ringOfFour(1e-6, 1.37, { stepsPerPeriod: 8, macroPeriods: 1592 }), { integrator: 'micro' });
     expect(session.step()!.mode).toBe('micro');
-    expect(() => new CoSimulation(ringOfFour(1e-3), { integrator: 'fast' as never })).toThrow(/integrator: must be one of micro, envelope, auto \(got "fast"\)/);
+    expect(() => new CoSimulation(ringOfFour(1e-3), { integrator: 'fast' as never })).toThrow(
+      /integrator: must be one of micro, envelope, auto \(got "fast"\)/,
+    );
   });
 });

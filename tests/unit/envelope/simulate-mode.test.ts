@@ -60,7 +60,10 @@ describe('syncring simulate --mode', () => {
   test('says when the noise is the averaged diffusion', () => {
     const result = simulate({ scenario: noisy, until: fiveTicks, mode: 'envelope' });
     expect(result.noiseModel).toBe('averaged-diffusion');
-    expect(result.integrator).toMatchObject({ noiseModel: 'averaged-diffusion', noiseNote: expect.stringMatching(/statistically, not pathwise, equivalent/) });
+    expect(result.integrator).toMatchObject({
+      noiseModel: 'averaged-diffusion',
+      noiseNote: expect.stringMatching(/statistically, not pathwise, equivalent/),
+    });
     expect(simulate({ scenario: noisy, until: fiveTicks, mode: 'micro' }).noiseModel).toBe('exact-increments');
   });
 
@@ -68,7 +71,9 @@ describe('syncring simulate --mode', () => {
     const result = simulate({ scenario: near, until: (2 * Math.PI * 1592) / 1, mode: 'envelope' });
     expect(result.mode).toBe('micro');
     expect((result.integrator as { reason: string }).reason).toMatch(/small divisor: harmonic \(1, -1\)/);
-    expect((result.events as { message: string }[]).some((e) => /envelope mode was requested but micro-stepping runs/.test(e.message))).toBe(true);
+    expect(
+      (result.events as { message: string }[]).some((e) => /envelope mode was requested but micro-stepping runs/.test(e.message)),
+    ).toBe(true);
   });
 
   test('the command line takes --mode and refuses a bad one by name', async () => {

@@ -101,9 +101,7 @@ describe('torus average of the rotating-frame field', () => {
   // For M = 1 the field holds only the harmonics 0, 2 and 4 of theta, so P = 4 aliases the fourth
   // onto the mean (P = 3 happens to be exact). This shows the comparison above can fail.
   test('a grid of 4 points aliases the fourth harmonic and does not match', () => {
-    const params = new ModelParameters(
-      makeScenario({ nodes: 2, twoWay: true, epsilon: 1e-3, modes: [{ omega: 1, gain: 1, loss: 0 }] }),
-    );
+    const params = new ModelParameters(makeScenario({ nodes: 2, twoWay: true, epsilon: 1e-3, modes: [{ omega: 1, gain: 1, loss: 0 }] }));
     const average = new TorusAverage(params, 4);
     const y = randomState(4, 5);
     const out = new Float64Array(4);

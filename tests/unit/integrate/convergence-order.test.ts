@@ -48,7 +48,10 @@ test('observed convergence order of the micro stepper is 4 +/- 0.3', () => {
     const y = run(steps);
     return Math.max(...y.map((v, i) => Math.abs(v - reference[i])));
   });
-  const order = logLogSlope(counts.map((s) => 1 / s), errors);
+  const order = logLogSlope(
+    counts.map((s) => 1 / s),
+    errors,
+  );
   expect(order).toBeGreaterThan(3.7);
   expect(order).toBeLessThan(4.3);
 });

@@ -62,16 +62,11 @@ describe('micro stepper (RK4 in the rotating frame)', () => {
 // ---------------------------------------------------------------------------------------------
 // The field kernel the micro stepper runs on, the fitted Adams method, and method selection.
 
-
 /**
  * f(y, theta) written straight from docs/model.md, 'Reference model' and 'The frame' (dense A,
  * original coordinates).
  */
-function fieldFromModel(
-  params: ModelParameters,
-  theta: number[],
-  y: Float64Array,
-): Float64Array {
+function fieldFromModel(params: ModelParameters, theta: number[], y: Float64Array): Float64Array {
   const n = params.nodes;
   const m = params.modes;
   const A = Array.from({ length: n }, () => new Array<number>(n).fill(0));
@@ -308,7 +303,9 @@ describe('micro stepper: fitted Adams method', () => {
     expect(() => new MicroStepper(params, start, 8, { method: 'fitted-adams' })).toThrow(/8 steps per period.*aliases/);
     const far = makeScenario({ nodes: 4, twoWay: true, epsilon: 1e-5, modes: [...MODES_3.slice(0, 1), { omega: 1.37, gain: 1, loss: 0 }] });
     const farParams = new ModelParameters(far);
-    expect(() => new MicroStepper(farParams, initialRotatingState(far, farParams), 16, { method: 'fitted-adams' })).toThrow(/too far apart/);
+    expect(() => new MicroStepper(farParams, initialRotatingState(far, farParams), 16, { method: 'fitted-adams' })).toThrow(
+      /too far apart/,
+    );
     const strong = makeScenario({ nodes: 4, twoWay: true, epsilon: 0.05, modes: MODES_3.slice(0, 1) });
     const strongParams = new ModelParameters(strong);
     expect(fittedAdamsProblem(strongParams, (2 * Math.PI) / 5)).toMatch(/eps = 0.05 is too large/);

@@ -2,7 +2,13 @@ import { describe, expect, test } from 'vitest';
 import { ModelParameters } from '../../../src/model/parameters.js';
 import { makeScenario } from '../../support/scenarios.js';
 
-const scenario = makeScenario({ nodes: 3, twoWay: true, epsilon: 1e-3, modes: [{ omega: 1, gain: 1, loss: 0.1 }], coupling: { strength: 0.3, reactive: 0.2, dissipative: 1 } });
+const scenario = makeScenario({
+  nodes: 3,
+  twoWay: true,
+  epsilon: 1e-3,
+  modes: [{ omega: 1, gain: 1, loss: 0.1 }],
+  coupling: { strength: 0.3, reactive: 0.2, dissipative: 1 },
+});
 
 describe('mutable parameter values', () => {
   test('survive JSON onto another parameter set, link weight sums included', () => {

@@ -84,7 +84,11 @@ describe('a locked ring that moves', () => {
   test('a move of pi from where it last settled is a cycle slip: unlocked, counted, the difference named', () => {
     const detector = lockedDetector(0);
     const path = Array.from({ length: 12 }, (_, i) => 0.3 * (i + 1)); // 0.3 .. 3.6 rad, wrapped by the push
-    const transitions = feed(detector, 5, path.map((v) => Math.atan2(Math.sin(v), Math.cos(v)))).filter((t) => t !== null);
+    const transitions = feed(
+      detector,
+      5,
+      path.map((v) => Math.atan2(Math.sin(v), Math.cos(v))),
+    ).filter((t) => t !== null);
     expect(transitions).toHaveLength(1);
     const t = transitions[0]!;
     expect(t.kind).toBe('unlock');
@@ -175,6 +179,10 @@ test('noise that spreads a locked ring beyond the tolerance, without drift, keep
   expect(transitions).toEqual([]);
   expect(detector.status).toBe('locked');
   // the same spread with a steady drift of 0.01 rad a tick moves it: settling
-  feed(detector, 220, Array.from({ length: 10 }, (_, i) => 0.3 + 0.01 * (i + 1) + (i % 2 === 0 ? 0.1 : -0.1)));
+  feed(
+    detector,
+    220,
+    Array.from({ length: 10 }, (_, i) => 0.3 + 0.01 * (i + 1) + (i % 2 === 0 ? 0.1 : -0.1)),
+  );
   expect(detector.status).toBe('settling');
 });

@@ -174,10 +174,7 @@ describe('graphAutomorphisms on other graphs', () => {
     // Edge {0, 1} with weight 2: only the automorphisms of D_6 mapping {0, 1} to itself survive,
     // the identity and k -> 1 - k (elementary).
     const heavy = twoWay(n).map((l) => (l.from + l.to === 1 ? { ...l, weight: 2 } : l));
-    expect(graphAutomorphisms(n, heavy).elements.map((p) => describeElement(p).text)).toEqual([
-      'identity',
-      'reflection k -> 1 - k',
-    ]);
+    expect(graphAutomorphisms(n, heavy).elements.map((p) => describeElement(p).text)).toEqual(['identity', 'reflection k -> 1 - k']);
     // A difference of 1e-12 is inside the default relative tolerance 1e-9: full D_6 again.
     const nearlyEqual = twoWay(n).map((l) => (l.from + l.to === 1 ? { ...l, weight: 1 + 1e-12 } : l));
     expect(graphAutomorphisms(n, nearlyEqual).elements.length).toBe(12);
@@ -208,7 +205,10 @@ describe('graphAutomorphisms on other graphs', () => {
         }
       }
       const links = [...weights].map(([k, weight]) => ({ from: Math.floor(k / n), to: k % n, weight }));
-      const expected = allPermutations(n).filter((p) => isAutomorphism(p, n, links)).map(key).sort();
+      const expected = allPermutations(n)
+        .filter((p) => isAutomorphism(p, n, links))
+        .map(key)
+        .sort();
       const { elements } = graphAutomorphisms(n, links);
       expect(key(elements[0])).toBe(key(Array.from({ length: n }, (_, k) => k)));
       expect(elements.map(key).sort()).toEqual(expected);
@@ -222,7 +222,9 @@ describe('graphAutomorphisms on other graphs', () => {
     expect(() => graphAutomorphisms(0, [])).toThrow(/nodes must be a positive integer \(got 0\)/);
     expect(() => graphAutomorphisms(4, [{ from: 0, to: 4, weight: 1 }])).toThrow(/links\[0\]\.to = 4 is not a node index in 0\.\.3/);
     expect(() => graphAutomorphisms(4, [{ from: 0, to: 1, weight: NaN }])).toThrow(/links\[0\]\.weight = NaN/);
-    expect(() => graphAutomorphisms(4, [...links, { from: 3, to: 0, weight: 1 }])).toThrow(/links\[8\] repeats links\[\d\] \(both carry node 3 into node 0\)/);
+    expect(() => graphAutomorphisms(4, [...links, { from: 3, to: 0, weight: 1 }])).toThrow(
+      /links\[8\] repeats links\[\d\] \(both carry node 3 into node 0\)/,
+    );
     expect(() => graphAutomorphisms(4, links, { limit: 0 })).toThrow(/options\.limit/);
     expect(() => graphAutomorphisms(4, links, { tolerance: -1 })).toThrow(/options\.tolerance/);
   });
@@ -234,7 +236,11 @@ describe('describeElement', () => {
     // k -> k + 3 mod 8
     expect(describeElement(Int32Array.from([3, 4, 5, 6, 7, 0, 1, 2]))).toEqual({ kind: 'rotation', shift: 3, text: 'rotation by 3' });
     // k -> 5 - k mod 8
-    expect(describeElement(Int32Array.from([5, 4, 3, 2, 1, 0, 7, 6]))).toEqual({ kind: 'reflection', axis: 5, text: 'reflection k -> 5 - k' });
+    expect(describeElement(Int32Array.from([5, 4, 3, 2, 1, 0, 7, 6]))).toEqual({
+      kind: 'reflection',
+      axis: 5,
+      text: 'reflection k -> 5 - k',
+    });
     // k -> -k mod 5
     expect(describeElement(Int32Array.from([0, 4, 3, 2, 1])).text).toBe('reflection k -> -k');
     // N = 2: the swap is k -> k + 1, named as a rotation first.

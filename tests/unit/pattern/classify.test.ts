@@ -117,12 +117,25 @@ describe('classifySnapshot', () => {
     // 1, 1, 2 repeated: moduli differ, and E_0 = |A_0|^2 / mean|a|^2 = (4/3)^2 / 2 = 8/9, so no
     // pair q, N - q holds 95% of the energy.
     expect(classifySnapshot([1, 1, 2, 1, 1, 2], [0, 0, 0, 0, 0, 0])).toEqual(
-      expect.objectContaining({ kind: 'cluster', clusters: [[0, 1, 3, 4], [2, 5]] }),
+      expect.objectContaining({
+        kind: 'cluster',
+        clusters: [
+          [0, 1, 3, 4],
+          [2, 5],
+        ],
+      }),
     );
     // 1, i, -1 repeated on N = 6: equal moduli but phases 0, 90, 180 degrees; E_0 = |i/3|^2 = 1/9
     // and the rest sits on q = 2, 4, so E_2 + E_4 = 8/9 < 0.95.
     expect(classifySnapshot([1, 0, -1, 1, 0, -1], [0, 1, 0, 0, 1, 0])).toEqual(
-      expect.objectContaining({ kind: 'cluster', clusters: [[0, 3], [1, 4], [2, 5]] }),
+      expect.objectContaining({
+        kind: 'cluster',
+        clusters: [
+          [0, 3],
+          [1, 4],
+          [2, 5],
+        ],
+      }),
     );
   });
 
@@ -140,7 +153,8 @@ describe('classifySnapshot', () => {
     // Precondition checked here rather than assumed: every pair differs by more than 5% of the mean modulus.
     let mean = 0;
     for (let k = 0; k < n; k++) mean += Math.hypot(re[k], im[k]) / n;
-    for (let j = 0; j < n; j++) for (let k = j + 1; k < n; k++) expect(Math.hypot(re[j] - re[k], im[j] - im[k])).toBeGreaterThan(0.05 * mean);
+    for (let j = 0; j < n; j++)
+      for (let k = j + 1; k < n; k++) expect(Math.hypot(re[j] - re[k], im[j] - im[k])).toBeGreaterThan(0.05 * mean);
     const result = classifySnapshot(re, im);
     expect(result.kind).toBe('cluster');
     expect(result.clusters).toEqual(Array.from({ length: n }, (_, k) => [k]));
@@ -154,7 +168,16 @@ describe('classifySnapshot', () => {
       [rotatingWave(7, 3), { kind: 'rotating-wave', q: 3 }],
       [rotatingWave(12, 5), { kind: 'rotating-wave', q: 5 }],
       [standingWave(8, 2, 0.3, [1, 1]), { kind: 'standing-wave', q: 2 }],
-      [snapshot(6, (k) => (k % 2 === 0 ? [1, 0] : [0, 0.5])), { kind: 'cluster', clusters: [[0, 2, 4], [1, 3, 5]] }],
+      [
+        snapshot(6, (k) => (k % 2 === 0 ? [1, 0] : [0, 0.5])),
+        {
+          kind: 'cluster',
+          clusters: [
+            [0, 2, 4],
+            [1, 3, 5],
+          ],
+        },
+      ],
     ];
     for (const [clean, expected] of cases) {
       for (let trial = 0; trial < 5; trial++) {

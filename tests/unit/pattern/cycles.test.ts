@@ -9,7 +9,8 @@ function choose(n: number, k: number): number {
   return c;
 }
 
-const complete = (n: number): [number, number][] => Array.from({ length: n }, (_, a) => Array.from({ length: n - a - 1 }, (_, i): [number, number] => [a, a + i + 1])).flat();
+const complete = (n: number): [number, number][] =>
+  Array.from({ length: n }, (_, a) => Array.from({ length: n - a - 1 }, (_, i): [number, number] => [a, a + i + 1])).flat();
 
 /**
  * Independent count of the simple cycles of each length: every closed walk that repeats no node,
@@ -46,7 +47,10 @@ describe('simple cycles of an undirected graph', () => {
         let expected = choose(n, length);
         for (let f = 2; f < length; f++) expected *= f;
         expected /= 2;
-        expect(listing.cycles.filter((c) => c.length === length), `K_${n}, L = ${length}`).toHaveLength(expected);
+        expect(
+          listing.cycles.filter((c) => c.length === length),
+          `K_${n}, L = ${length}`,
+        ).toHaveLength(expected);
       }
       expect(new Set(listing.cycles.map((c) => cycleKey(c).key)).size).toBe(listing.cycles.length);
     }
@@ -60,16 +64,29 @@ describe('simple cycles of an undirected graph', () => {
   });
 
   test('a ring has one cycle, listed from node 0 towards node 1; a tree has none', () => {
-    const ring = simpleCycles(undirectedGraph(9, Array.from({ length: 9 }, (_, k): [number, number] => [k, (k + 1) % 9])));
+    const ring = simpleCycles(
+      undirectedGraph(
+        9,
+        Array.from({ length: 9 }, (_, k): [number, number] => [k, (k + 1) % 9]),
+      ),
+    );
     expect(ring.cycles.map((c) => Array.from(c))).toEqual([[0, 1, 2, 3, 4, 5, 6, 7, 8]]);
-    const tree = simpleCycles(undirectedGraph(6, [[0, 1], [1, 2], [1, 3], [3, 4], [3, 5]]));
+    const tree = simpleCycles(
+      undirectedGraph(6, [
+        [0, 1],
+        [1, 2],
+        [1, 3],
+        [3, 4],
+        [3, 5],
+      ]),
+    );
     expect(tree.cycles).toHaveLength(0);
     expect(tree.stoppedBy).toBe('all found');
   });
 
   test('seeded random graphs: the counts per length match an independent depth-first count, and every listed sequence is a cycle', () => {
     let seed = 7;
-    const uniform = (): number => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
+    const uniform = (): number => (seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648;
     for (let trial = 0; trial < 6; trial++) {
       const nodes = 6 + trial;
       const edges: [number, number][] = [];

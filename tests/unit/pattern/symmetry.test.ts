@@ -27,7 +27,9 @@ function snapshot(n: number, shape: (k: number) => [number, number], c: [number,
   }
   return { re, im };
 }
-const wave = (n: number, q: number) => (k: number): [number, number] => [Math.cos((2 * Math.PI * q * k) / n), Math.sin((2 * Math.PI * q * k) / n)];
+const wave =
+  (n: number, q: number) =>
+  (k: number): [number, number] => [Math.cos((2 * Math.PI * q * k) / n), Math.sin((2 * Math.PI * q * k) / n)];
 
 /** |a - b| on the circle. */
 const angleGap = (a: number, b: number): number => Math.abs(wrapAngle(a - b));
@@ -109,7 +111,12 @@ describe('patternSymmetry of standing waves and clusters', () => {
     const n = 6;
     const { re, im } = snapshot(n, (k) => (k % 2 === 0 ? [1, 0] : [0, 0.5]));
     const found = patternSymmetry(re, im, dihedral(n));
-    expect(found.map((s) => key(s.element)).sort()).toEqual([0, 2, 4].flatMap((m) => [rotation(n, m), reflection(n, m)]).map(key).sort());
+    expect(found.map((s) => key(s.element)).sort()).toEqual(
+      [0, 2, 4]
+        .flatMap((m) => [rotation(n, m), reflection(n, m)])
+        .map(key)
+        .sort(),
+    );
     for (const s of found) expect(Math.abs(s.phase)).toBeLessThan(1e-12);
   });
 
@@ -148,7 +155,9 @@ describe('tolerance and input checks', () => {
     const { re, im } = snapshot(4, wave(4, 1));
     expect(() => patternSymmetry(re, im.subarray(0, 3), dihedral(4))).toThrow(/re has 4 entries but im has 3/);
     expect(() => patternSymmetry(re, im, [Int32Array.from([0, 1, 2])])).toThrow(/group\[0\] has 3 entries but the snapshot has 4 nodes/);
-    expect(() => patternSymmetry(re, im, [rotation(4, 0), Int32Array.from([0, 1, 1, 3])])).toThrow(/group\[1\]: node 1 is the image of two nodes/);
+    expect(() => patternSymmetry(re, im, [rotation(4, 0), Int32Array.from([0, 1, 1, 3])])).toThrow(
+      /group\[1\]: node 1 is the image of two nodes/,
+    );
     expect(() => patternSymmetry([0, 0], [0, 0], [rotation(2, 0)])).toThrow(/every amplitude is zero/);
     expect(() => patternSymmetry([1, NaN], [0, 0], [rotation(2, 0)])).toThrow(/re\[1\] = NaN is not a finite number/);
     expect(() => patternSymmetry(re, im, dihedral(4), 0)).toThrow(/tolerance must be a finite number > 0/);

@@ -12,10 +12,22 @@ test('largest full-vs-guide gap over tau in [0, 2/eps] scales like eps (slope 1 
   const epsilons = [4e-3, 2e-3, 1e-3, 5e-4];
   const omega = [1, 1.37];
   const amplitudes = [
-    [{ re: 1.2, im: 0.4 }, { re: 0.5, im: -0.2 }],
-    [{ re: -0.3, im: 1.5 }, { re: 0.2, im: 0.6 }],
-    [{ re: -1.1, im: -0.9 }, { re: -0.4, im: 0.1 }],
-    [{ re: 0.8, im: -1.3 }, { re: 0.3, im: 0.3 }],
+    [
+      { re: 1.2, im: 0.4 },
+      { re: 0.5, im: -0.2 },
+    ],
+    [
+      { re: -0.3, im: 1.5 },
+      { re: 0.2, im: 0.6 },
+    ],
+    [
+      { re: -1.1, im: -0.9 },
+      { re: -0.4, im: 0.1 },
+    ],
+    [
+      { re: 0.8, im: -1.3 },
+      { re: 0.3, im: 0.3 },
+    ],
   ];
   const gaps = epsilons.map((epsilon) => {
     const session = new CoSimulation(

@@ -20,7 +20,17 @@ function node(mode0: number, mode1: number) {
         { omega: 1, gain: 1, loss: 0 },
         { omega: 1.37, gain: 1, loss: 0 },
       ],
-      initial: { state: stateFromAmplitudes([[{ re: mode0, im: 0 }, { re: 0, im: mode1 }]], [1, 1.37]) },
+      initial: {
+        state: stateFromAmplitudes(
+          [
+            [
+              { re: mode0, im: 0 },
+              { re: 0, im: mode1 },
+            ],
+          ],
+          [1, 1.37],
+        ),
+      },
       stepsPerPeriod: 32,
     }),
   );
@@ -34,7 +44,10 @@ describe('two-mode competition with equal gains', () => {
     const last = node(a0, a1).runUntil(30 / 0.01)!;
     // The guide's loser decays like e^{-g tau eps / 2}; the full system keeps an O(eps) ripple
     // of the near-identity transformation on the losing mode (averaging theorem).
-    for (const [system, floor] of [[last.full, 3 * 0.01], [last.guide, 1e-3]] as const) {
+    for (const [system, floor] of [
+      [last.full, 3 * 0.01],
+      [last.guide, 1e-3],
+    ] as const) {
       expect(system.dominantMode).toBe(winner);
       expect(Math.abs(system.amplitude[0][winner] - 2)).toBeLessThan(0.05);
       expect(system.amplitude[0][1 - winner]).toBeLessThan(floor);

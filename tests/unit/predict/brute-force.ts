@@ -45,7 +45,7 @@ export interface FoundState {
 export function referenceField(net: OneModeNetwork, a: Amplitudes, out: Amplitudes): Amplitudes {
   const { nodes, weight, detuning, gain, loss, omega, kappa, sigma, rho } = net;
   const cRe = kappa * sigma;
-  const cIm = -kappa * rho / omega;
+  const cIm = (-kappa * rho) / omega;
   for (let k = 0; k < nodes; k++) {
     let sRe = 0;
     let sIm = 0;
@@ -129,7 +129,11 @@ const norm = (v: ArrayLike<number>): number => Math.sqrt(Array.from(v).reduce((s
  * Newton for G(a, Omega) = 0 with node `fixed`'s phase held (Im a_fixed = 0 after turning the
  * guess so that a_fixed is real): unknowns Re a (N), Im a except at `fixed` (N - 1), Omega.
  */
-export function newtonLocked(net: OneModeNetwork, guess: Amplitudes, maxIterations = 40): { a: Amplitudes; rate: number; residual: number } {
+export function newtonLocked(
+  net: OneModeNetwork,
+  guess: Amplitudes,
+  maxIterations = 40,
+): { a: Amplitudes; rate: number; residual: number } {
   const n = net.nodes;
   let fixed = 0;
   for (let k = 1; k < n; k++) if (guess.re[k] ** 2 + guess.im[k] ** 2 > guess.re[fixed] ** 2 + guess.im[fixed] ** 2) fixed = k;
@@ -245,7 +249,10 @@ export interface BruteForceResult {
  * [1, 2]); integrated with RK4 step `step`, Newton tried every `checkEvery` time units, at most
  * `maxTime`. A state is stable when its margin is below -`marginFloor`.
  */
-export function bruteForceStableStates(net: OneModeNetwork, options: { starts: number; seed: number; step?: number; checkEvery?: number; maxTime?: number; marginFloor?: number }): BruteForceResult {
+export function bruteForceStableStates(
+  net: OneModeNetwork,
+  options: { starts: number; seed: number; step?: number; checkEvery?: number; maxTime?: number; marginFloor?: number },
+): BruteForceResult {
   const n = net.nodes;
   const step = options.step ?? 0.1;
   const checkEvery = options.checkEvery ?? 20;

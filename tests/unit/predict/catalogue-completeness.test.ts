@@ -124,8 +124,21 @@ const BRUTE_FORCE_STARTS = 48;
 const SAME = 1e-5;
 
 function networkOf(spec: Invented): OneModeNetwork {
-  const weight = spec.links.reduce((w, l) => ((w[l.to][l.from] = l.weight), w), Array.from({ length: spec.nodes }, () => new Array<number>(spec.nodes).fill(0)));
-  return { nodes: spec.nodes, weight, detuning: spec.detuning, gain: 1, loss: 0, omega: 1, kappa: spec.coupling.strength, sigma: spec.coupling.dissipative, rho: spec.coupling.reactive };
+  const weight = spec.links.reduce(
+    (w, l) => ((w[l.to][l.from] = l.weight), w),
+    Array.from({ length: spec.nodes }, () => new Array<number>(spec.nodes).fill(0)),
+  );
+  return {
+    nodes: spec.nodes,
+    weight,
+    detuning: spec.detuning,
+    gain: 1,
+    loss: 0,
+    omega: 1,
+    kappa: spec.coupling.strength,
+    sigma: spec.coupling.dissipative,
+    rho: spec.coupling.reactive,
+  };
 }
 
 /** The network renumbered by `perm` (node k becomes perm[k]), its links listed in a shuffled order. */
@@ -150,13 +163,23 @@ function randomPermutation(n: number, random: () => number): number[] {
 }
 
 function catalogueOf(spec: Invented): PatternCatalogue {
-  const scenario = makeScenario({ nodes: spec.nodes, links: spec.links, epsilon: 1e-6, modes: [{ omega: 1, gain: 1, loss: 0 }], coupling: spec.coupling, detuning: spec.detuning });
+  const scenario = makeScenario({
+    nodes: spec.nodes,
+    links: spec.links,
+    epsilon: 1e-6,
+    modes: [{ omega: 1, gain: 1, loss: 0 }],
+    coupling: spec.coupling,
+    detuning: spec.detuning,
+  });
   return patternCatalogue(new GuideModel(scenario));
 }
 
 /** Mode 0 amplitudes of a catalogue entry: a = u - i v. */
 function amplitudesOf(p: CataloguePattern, nodes: number): Amplitudes {
-  return { re: Float64Array.from({ length: nodes }, (_, k) => p.state[2 * k]), im: Float64Array.from({ length: nodes }, (_, k) => -p.state[2 * k + 1]) };
+  return {
+    re: Float64Array.from({ length: nodes }, (_, k) => p.state[2 * k]),
+    im: Float64Array.from({ length: nodes }, (_, k) => -p.state[2 * k + 1]),
+  };
 }
 
 /** Splits the symmetries into rotations and reflections of the network's ring (see the header). */
@@ -174,7 +197,8 @@ function rotationsAndReflections(symmetries: Int32Array[], ring: number[]): { ro
 }
 
 /** a equals a rotation of b up to a common phase. */
-const isCopy = (a: Amplitudes, b: Amplitudes, rotations: Int32Array[]): boolean => rotations.some((g) => phaseAlignedDistance(a, moved(b, g)) < SAME);
+const isCopy = (a: Amplitudes, b: Amplitudes, rotations: Int32Array[]): boolean =>
+  rotations.some((g) => phaseAlignedDistance(a, moved(b, g)) < SAME);
 
 describe('the catalogue holds every stable state a brute-force search finds, under every numbering', () => {
   for (const spec of NETWORKS) {
@@ -210,10 +234,15 @@ describe('the catalogue holds every stable state a brute-force search finds, und
         // every brute-force state is listed (up to a rotation and a phase) ...
         for (const [i, s] of brute.stable.entries()) {
           const here = moved(s.a, perm);
-          expect(states.some((a) => isCopy(here, a, rotations)), `${where}: brute-force state ${i} (margin ${s.margin.toExponential(2)}) is missing`).toBe(true);
+          expect(
+            states.some((a) => isCopy(here, a, rotations)),
+            `${where}: brute-force state ${i} (margin ${s.margin.toExponential(2)}) is missing`,
+          ).toBe(true);
         }
         // ... once: no two stable entries are copies of each other
-        for (let i = 0; i < states.length; i++) for (let j = 0; j < i; j++) expect(isCopy(states[i], states[j], rotations), `${where}: entries ${i} and ${j} are copies`).toBe(false);
+        for (let i = 0; i < states.length; i++)
+          for (let j = 0; j < i; j++)
+            expect(isCopy(states[i], states[j], rotations), `${where}: entries ${i} and ${j} are copies`).toBe(false);
 
         // mirror links: a pair are reflections of each other, 'self' is a copy of its own reflection
         for (const p of catalogue.patterns) {
@@ -222,29 +251,47 @@ describe('the catalogue holds every stable state a brute-force search finds, und
           if (reflections.length === 0) {
             expect(p.mirror.relation, where).toBe('none');
           } else if (p.mirror.relation === 'self') {
-            expect(images.some((m) => isCopy(m, a, rotations)), where).toBe(true);
+            expect(
+              images.some((m) => isCopy(m, a, rotations)),
+              where,
+            ).toBe(true);
           } else {
             expect(p.mirror.relation, where).toBe('pair');
             const partner = catalogue.patterns[p.mirror.partner!];
             expect(partner.mirror.partner, where).toBe(catalogue.patterns.indexOf(p));
-            expect(images.some((m) => isCopy(m, amplitudesOf(partner, spec.nodes), rotations)), where).toBe(true);
-            expect(images.some((m) => isCopy(m, a, rotations)), `${where}: a mirror pair must not be one pattern`).toBe(false);
+            expect(
+              images.some((m) => isCopy(m, amplitudesOf(partner, spec.nodes), rotations)),
+              where,
+            ).toBe(true);
+            expect(
+              images.some((m) => isCopy(m, a, rotations)),
+              `${where}: a mirror pair must not be one pattern`,
+            ).toBe(false);
           }
         }
 
         // the same set under every numbering: the stable entries carried back to the first numbering
         const inverse = new Int32Array(spec.nodes);
         perm.forEach((image, k) => (inverse[image] = k));
-        const back = { stable: states.map((a) => moved(a, inverse)), all: catalogue.patterns.map((p) => moved(amplitudesOf(p, spec.nodes), inverse)) };
+        const back = {
+          stable: states.map((a) => moved(a, inverse)),
+          all: catalogue.patterns.map((p) => moved(amplitudesOf(p, spec.nodes), inverse)),
+        };
         if (!reference) reference = back;
         else {
           const first = reference;
           expect(back.stable.length, where).toBe(first.stable.length);
-          for (const a of back.stable) expect(first.stable.some((r) => isCopy(a, r, firstRotations)), where).toBe(true);
+          for (const a of back.stable)
+            expect(
+              first.stable.some((r) => isCopy(a, r, firstRotations)),
+              where,
+            ).toBe(true);
           // and the whole list, unstable entries too, is the first numbering's list moved by one
           // symmetry of the network, to rounding
           expect(back.all.length, where).toBe(first.all.length);
-          const sameList = firstSymmetries.some((g) => back.all.every((a) => first.all.some((r) => phaseAlignedDistance(a, moved(r, g)) < 1e-9)));
+          const sameList = firstSymmetries.some((g) =>
+            back.all.every((a) => first.all.some((r) => phaseAlignedDistance(a, moved(r, g)) < 1e-9)),
+          );
           expect(sameList, `${where}: the full list differs`).toBe(true);
         }
       }
@@ -257,13 +304,22 @@ describe('renumbering a detuned ring never drops its stable twisted waves', () =
     // Its twisted waves have small basins (about 1 and 3 in 100 random starts, so random starts
     // alone miss them): the cycle seeds must find them whatever the numbering. Expected set:
     // q = 0, 1, 4 (Wiley, Strogatz, Girvan 2006), kept by the small detuning (common practice).
-    const spec: Invented = { name: 'detuned 5-ring', nodes: 5, links: ringLinks(5, true), detuning: [0.0012, -0.0016, 0.0004, 0.0014, -0.001], coupling: DISSIPATIVE, ring: range(5) };
+    const spec: Invented = {
+      name: 'detuned 5-ring',
+      nodes: 5,
+      links: ringLinks(5, true),
+      detuning: [0.0012, -0.0016, 0.0004, 0.0014, -0.001],
+      coupling: DISSIPATIVE,
+      ring: range(5),
+    };
     const random = seededUniform(2026);
     for (let trial = 0; trial < 20; trial++) {
       const perm = randomPermutation(5, random);
       const variant = renumbered(spec, perm, random);
       const net = networkOf(variant);
-      const stable = catalogueOf(variant).patterns.filter((p) => p.stable === true).map((p) => amplitudesOf(p, 5));
+      const stable = catalogueOf(variant)
+        .patterns.filter((p) => p.stable === true)
+        .map((p) => amplitudesOf(p, 5));
       expect(stable, `numbering ${perm.join(' ')}`).toHaveLength(3);
       // winding of the phase round the ring (in ring order): one state each of 0, +1 and -1 turns
       const windings = stable.map((a) => {
@@ -286,7 +342,14 @@ describe('renumbering a detuned ring never drops its stable twisted waves', () =
 describe('mirror-image rotating waves are listed apart and linked', () => {
   test('two-way 7-ring: every wave q = 0..6 is its own entry, q and 7 - q linked as mirror images, q = 0 its own mirror image', () => {
     // the wave a_k = e^{2 pi i q k / N} reflected (k -> -k) is e^{-2 pi i q k / N}, the wave N - q (elementary)
-    const catalogue = catalogueOf({ name: '7-ring', nodes: 7, links: ringLinks(7, true), detuning: new Array(7).fill(0), coupling: DISSIPATIVE, ring: range(7) });
+    const catalogue = catalogueOf({
+      name: '7-ring',
+      nodes: 7,
+      links: ringLinks(7, true),
+      detuning: new Array(7).fill(0),
+      coupling: DISSIPATIVE,
+      ring: range(7),
+    });
     const waves = catalogue.patterns.filter((p) => p.kind === 'in-phase' || p.kind === 'rotating-wave');
     expect(waves.map((p) => p.q).sort((a, b) => a! - b!)).toEqual(range(7));
     for (const p of waves) {
@@ -305,7 +368,14 @@ describe('mirror-image rotating waves are listed apart and linked', () => {
   });
 
   test('a one-way ring has no reflection: every wave q = 0..4 listed, none linked', () => {
-    const catalogue = catalogueOf({ name: '5-ring', nodes: 5, links: ringLinks(5, false), detuning: new Array(5).fill(0), coupling: DISSIPATIVE, ring: range(5) });
+    const catalogue = catalogueOf({
+      name: '5-ring',
+      nodes: 5,
+      links: ringLinks(5, false),
+      detuning: new Array(5).fill(0),
+      coupling: DISSIPATIVE,
+      ring: range(5),
+    });
     const waves = catalogue.patterns.filter((p) => p.kind === 'in-phase' || p.kind === 'rotating-wave');
     expect(waves.map((p) => p.q).sort((a, b) => a! - b!)).toEqual(range(5));
     for (const p of catalogue.patterns) expect(p.mirror).toEqual({ relation: 'none', partner: null });
@@ -316,7 +386,17 @@ describe('mirror-image rotating waves are listed apart and linked', () => {
 describe('the base list depends on nothing but the parameters', () => {
   const spec = NETWORKS[0];
   const model = (initial: Parameters<typeof makeScenario>[0]['initial']) =>
-    new GuideModel(makeScenario({ nodes: spec.nodes, links: spec.links, epsilon: 1e-6, modes: [{ omega: 1, gain: 1, loss: 0 }], coupling: spec.coupling, detuning: spec.detuning, initial }));
+    new GuideModel(
+      makeScenario({
+        nodes: spec.nodes,
+        links: spec.links,
+        epsilon: 1e-6,
+        modes: [{ omega: 1, gain: 1, loss: 0 }],
+        coupling: spec.coupling,
+        detuning: spec.detuning,
+        initial,
+      }),
+    );
 
   test("the scenario's initial state is never read: two starts, the same catalogue", () => {
     const a = patternCatalogue(model({ random: { seed: 3, amplitude: 1 } }));

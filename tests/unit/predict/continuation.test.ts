@@ -12,7 +12,11 @@ import { ringModel } from './rings.js';
  * continuation, with the catalogue's own eigenvalues on either side of the reported point.
  */
 const wave = (strength: number): CataloguePattern =>
-  patternCatalogue(ringModel({ nodes: 5, twoWay: false, strength, epsilon: 1e-6 }), { types: ['rotating-wave'], maxFixDimension: 1, randomSeeds: 0 }).patterns.find((p) => p.candidate.q === 1)!;
+  patternCatalogue(ringModel({ nodes: 5, twoWay: false, strength, epsilon: 1e-6 }), {
+    types: ['rotating-wave'],
+    maxFixDimension: 1,
+    randomSeeds: 0,
+  }).patterns.find((p) => p.candidate.q === 1)!;
 
 describe('continuation test functions', () => {
   const start = wave(0.05);

@@ -79,9 +79,12 @@ describe('live prediction after a perturbation', () => {
     expect(final.full.pattern).toMatchObject({ locked: true, kind: 'anti-phase' });
   });
 
-  test('a detuning 5% inside the pair\'s locking range persists, 5% outside is lost at 1/1.05 of the change', () => {
+  test("a detuning 5% inside the pair's locking range persists, 5% outside is lost at 1/1.05 of the change", () => {
     // Adler 1946: the range is |Delta_0 - Delta_1| <= kappa sigma / omega = 0.05 here
-    for (const [ratio, verdict] of [[0.95, 'persists'], [1.05, 'lost']] as const) {
+    for (const [ratio, verdict] of [
+      [0.95, 'persists'],
+      [1.05, 'lost'],
+    ] as const) {
       const session = new CoSimulation(ring(2, true, 0, 1));
       settle(session, 40);
       session.submit({ action: 'set-detuning', node: 0, delta: ratio * 0.05 }, 'test');
@@ -121,7 +124,7 @@ describe('live prediction after a perturbation', () => {
     expect(prediction.pattern).toMatchObject({ kind: 'rotating-wave', q: 1 });
   });
 
-  test('a checkpoint keeps the prediction: the restored run\'s frames equal the uninterrupted ones', () => {
+  test("a checkpoint keeps the prediction: the restored run's frames equal the uninterrupted ones", () => {
     const scenario = ring(5, false, 1, 1);
     const straight = new CoSimulation(scenario);
     settle(straight, 30);

@@ -44,7 +44,10 @@ describe('locking range of a detuned pair', () => {
   const branch = pairBranch();
 
   test('the continued limit in Delta_0 is a fold at |Delta_0 - Delta_1| = kappa sigma / omega within 2% (Adler 1946), at sin psi = 1', () => {
-    for (const [limit, sign] of [[branch.limits.increasing!, 1], [branch.limits.decreasing!, -1]] as const) {
+    for (const [limit, sign] of [
+      [branch.limits.increasing!, 1],
+      [branch.limits.decreasing!, -1],
+    ] as const) {
       expect(limit.kind).toBe('fold');
       // Adler 1946: |dw| = K, i.e. |Delta_0 - 0| omega = kappa sigma
       expect(Math.abs(limit.parameter - sign * coupling)).toBeLessThan(0.02 * coupling);

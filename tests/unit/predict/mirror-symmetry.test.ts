@@ -12,7 +12,13 @@ import type { Link } from '../../../src/scenario/types.js';
  * cycle's direction and the two reflections reverse it.
  */
 
-const cyclesOf = (nodes: number, links: Link[]) => simpleCycles(undirectedGraph(nodes, links.map((l): [number, number] => [l.from, l.to])));
+const cyclesOf = (nodes: number, links: Link[]) =>
+  simpleCycles(
+    undirectedGraph(
+      nodes,
+      links.map((l): [number, number] => [l.from, l.to]),
+    ),
+  );
 
 describe('orientation sign and mirror relation', () => {
   test('two-way rings N = 3..9: rotations +1, reflections -1, so half the group makes copies', () => {
@@ -24,7 +30,12 @@ describe('orientation sign and mirror relation', () => {
         const kind = describeElement(g).kind;
         expect(orientationSign(g, listing.cycles), `N = ${n}, ${describeElement(g).text}`).toBe(kind === 'reflection' ? -1 : 1);
       }
-      const relation = mirrorRelation(group, false, listing, listing.cycles.map(() => true));
+      const relation = mirrorRelation(
+        group,
+        false,
+        listing,
+        listing.cycles.map(() => true),
+      );
       expect(relation.keeping).toHaveLength(n);
       expect(describeElement(relation.reversing!).kind).toBe('reflection');
     }
@@ -36,8 +47,23 @@ describe('orientation sign and mirror relation', () => {
     expect(group).toHaveLength(4);
     const listing = cyclesOf(6, links);
     expect(listing.cycles.map((c) => c.length).sort()).toEqual([4, 4, 6]);
-    const signs = new Map(group.map((g) => [describeElement(g).text, orientationSign(g, listing.cycles.filter((c) => c.length === 6))]));
-    expect(signs).toEqual(new Map([['identity', 1], ['rotation by 3', 1], ['reflection k -> -k', -1], ['reflection k -> 3 - k', -1]]));
+    const signs = new Map(
+      group.map((g) => [
+        describeElement(g).text,
+        orientationSign(
+          g,
+          listing.cycles.filter((c) => c.length === 6),
+        ),
+      ]),
+    );
+    expect(signs).toEqual(
+      new Map([
+        ['identity', 1],
+        ['rotation by 3', 1],
+        ['reflection k -> -k', -1],
+        ['reflection k -> 3 - k', -1],
+      ]),
+    );
   });
 
   test('a one-way ring has no reflection; a chain without the intact ring has no direction at all', () => {

@@ -7,7 +7,8 @@ import { thrown } from '../../support/thrown.js';
 
 const ring = loadBuiltInScenario('ring-one-way-5');
 
-const refusal = (args: Parameters<typeof predictScenario>[2], names: ArgumentNames) => thrown(() => predictScenario(ring, 'ring.json', args, names), InputError);
+const refusal = (args: Parameters<typeof predictScenario>[2], names: ArgumentNames) =>
+  thrown(() => predictScenario(ring, 'ring.json', args, names), InputError);
 
 // predict words its errors in the names of whoever called it; no message is reworded afterwards.
 // The expected texts are the command line's (tests/unit/predict/predict-command.test.ts) and the
@@ -24,7 +25,11 @@ describe('predict names its arguments as its caller does', () => {
 
   test('a bad range keeps its field as data', () => {
     const query = refusal({ continueIn: 'coupling', range: '1:0' }, QUERY_NAMES);
-    expect({ path: query.path, reason: query.reason, message: query.message }).toEqual({ path: 'range', reason: 'MIN must be below MAX (got 1:0)', message: 'range: MIN must be below MAX (got 1:0)' });
+    expect({ path: query.path, reason: query.reason, message: query.message }).toEqual({
+      path: 'range',
+      reason: 'MIN must be below MAX (got 1:0)',
+      message: 'range: MIN must be below MAX (got 1:0)',
+    });
     expect(refusal({ continueIn: 'coupling', range: '1:0' }, FLAG_NAMES).message).toBe('--range: MIN must be below MAX (got 1:0)');
   });
 

@@ -23,14 +23,28 @@ describe('syncring predict', () => {
     expect(result.nodes).toBe(5);
     expect(result.group.order).toBe(5);
     for (const p of result.patterns) {
-      for (const field of ['kind', 'symmetry', 'stable', 'margin', 'eigenvalues', 'phaseDifferences', 'amplitudes', 'timeConstant', 'frequencyShiftPpm', 'mirror']) expect(p).toHaveProperty(field);
+      for (const field of [
+        'kind',
+        'symmetry',
+        'stable',
+        'margin',
+        'eigenvalues',
+        'phaseDifferences',
+        'amplitudes',
+        'timeConstant',
+        'frequencyShiftPpm',
+        'mirror',
+      ])
+        expect(p).toHaveProperty(field);
       // a one-way ring has no reflection, so no entry has a mirror image of its own
       expect(p.mirror).toEqual({ relation: 'none', partner: null });
       expect(p.phaseDifferences).toHaveLength(5);
       expect(p.amplitudes).toHaveLength(5);
       expect(Number.isFinite(p.margin)).toBe(true);
     }
-    const waves = result.patterns.filter((p: { candidate: { type: string } }) => p.candidate.type !== 'standing-wave' && p.candidate.type !== 'cluster');
+    const waves = result.patterns.filter(
+      (p: { candidate: { type: string } }) => p.candidate.type !== 'standing-wave' && p.candidate.type !== 'cluster',
+    );
     expect(waves.map((p: { q: number }) => p.q).sort()).toEqual([0, 1, 2, 3, 4]);
     for (const p of waves) {
       // Wiley, Strogatz, Girvan 2006 / Gray 2006 circulant eigenvalues

@@ -2,7 +2,15 @@ import { GuideModel } from '../../../src/predict/guide-model.js';
 import { makeScenario } from '../../support/scenarios.js';
 
 /** Guide model of a ring of identical van der Pol nodes (g = 1, d = 0, omega = 1) for the predict tests. */
-export function ringModel(options: { nodes: number; twoWay: boolean; strength: number; dissipative?: number; reactive?: number; epsilon?: number; detuning?: number[] }): GuideModel {
+export function ringModel(options: {
+  nodes: number;
+  twoWay: boolean;
+  strength: number;
+  dissipative?: number;
+  reactive?: number;
+  epsilon?: number;
+  detuning?: number[];
+}): GuideModel {
   return new GuideModel(
     makeScenario({
       nodes: options.nodes,

@@ -34,7 +34,8 @@ function axialClasses(table: GroupTable, nodes: number, q: number): IsotropyClas
   return isotropyClasses(table, nodes, { within }).filter((c) => c.fixDimension === 1);
 }
 
-const elementsOf = (table: GroupTable, c: IsotropyClass) => c.subgroup.elements.map((e, i) => ({ d: describeElement(table.elements[e]), phase: c.subgroup.phases[i] }));
+const elementsOf = (table: GroupTable, c: IsotropyClass) =>
+  c.subgroup.elements.map((e, i) => ({ d: describeElement(table.elements[e]), phase: c.subgroup.phases[i] }));
 
 describe('isotropy classes on D_N rings match the equivariant Hopf classification', () => {
   for (const nodes of [5, 6, 7, 8, 9, 10, 12]) {
@@ -87,7 +88,11 @@ describe('isotropy classes on D_N rings match the equivariant Hopf classificatio
         }
         if (n % 2 === 1) {
           // Z_2(kappa) and Z~_2(kappa): one with the reflection at phase 0, one at phase pi
-          const reflectionPhases = standing.map((c) => elementsOf(table, c).filter((e) => e.d.kind === 'reflection').map((e) => Math.round(Math.cos(e.phase))));
+          const reflectionPhases = standing.map((c) =>
+            elementsOf(table, c)
+              .filter((e) => e.d.kind === 'reflection')
+              .map((e) => Math.round(Math.cos(e.phase))),
+          );
           expect(reflectionPhases.map((p) => p.every((x) => x === 1)).sort()).toEqual([false, true]);
         }
       }
@@ -111,7 +116,11 @@ describe('isotropy classes on D_N rings match the equivariant Hopf classificatio
     // wave isotropy subgroups coincide: in C^8 one fixed-point subspace holds both standing waves,
     // so the catalogue labels those classes by the first wave number, q = 1 (elementary).
     const table = groupTable(graphAutomorphisms(8, ringLinks('ring-two-way', 8)).elements);
-    const keys = (q: number) => axialClasses(table, 8, q).filter((c) => c.conjugates > 2).map((c) => c.subgroup.elements.join(',')).sort();
+    const keys = (q: number) =>
+      axialClasses(table, 8, q)
+        .filter((c) => c.conjugates > 2)
+        .map((c) => c.subgroup.elements.join(','))
+        .sort();
     expect(keys(3)).toEqual(keys(1));
     const catalogue = patternCatalogue(ringModel({ nodes: 8, twoWay: true, strength: 0.05 }));
     const types = catalogue.patterns.filter((p) => p.candidate.exact).map((p) => `${p.candidate.type}${p.candidate.q ?? ''}`);
@@ -133,12 +142,22 @@ describe('group orders the pattern tests do not cover', () => {
 
   test('detuning breaks the symmetry: one detuned node leaves the reflection through it (order 2), equal detuning keeps D_N', () => {
     for (const nodes of [5, 6, 7, 8]) {
-      const detuned = new GuideModel(makeScenario({ nodes, twoWay: true, epsilon: 1e-3, modes: [{ omega: 1, gain: 1, loss: 0 }], detuning: [0.1, ...new Array(nodes - 1).fill(0)] }));
+      const detuned = new GuideModel(
+        makeScenario({
+          nodes,
+          twoWay: true,
+          epsilon: 1e-3,
+          modes: [{ omega: 1, gain: 1, loss: 0 }],
+          detuning: [0.1, ...new Array(nodes - 1).fill(0)],
+        }),
+      );
       const group = dynamicalSymmetries(detuned);
       // elementary: the automorphisms of the cycle fixing node 0 are the identity and k -> -k
       expect(group.graphOrder).toBe(2 * nodes);
       expect(group.elements.map((g) => describeElement(g).text)).toEqual(['identity', 'reflection k -> -k']);
-      const common = new GuideModel(makeScenario({ nodes, twoWay: true, epsilon: 1e-3, modes: [{ omega: 1, gain: 1, loss: 0 }], detuning: new Array(nodes).fill(0.1) }));
+      const common = new GuideModel(
+        makeScenario({ nodes, twoWay: true, epsilon: 1e-3, modes: [{ omega: 1, gain: 1, loss: 0 }], detuning: new Array(nodes).fill(0.1) }),
+      );
       expect(dynamicalSymmetries(common).elements).toHaveLength(2 * nodes);
     }
   });

@@ -26,7 +26,11 @@ import { ringModel, TWO_PI } from './rings.js';
 const STIFF = 0.002;
 const EPS = 0.005;
 
-function rotatingWaves(nodes: number, twoWay: boolean, extra: { reactive?: number; strength?: number; epsilon?: number } = {}): Map<number, CataloguePattern> {
+function rotatingWaves(
+  nodes: number,
+  twoWay: boolean,
+  extra: { reactive?: number; strength?: number; epsilon?: number } = {},
+): Map<number, CataloguePattern> {
   const model = ringModel({ nodes, twoWay, strength: extra.strength ?? STIFF, reactive: extra.reactive, epsilon: extra.epsilon ?? EPS });
   const catalogue = patternCatalogue(model, { types: ['in-phase', 'anti-phase', 'rotating-wave'], maxFixDimension: 1, randomSeeds: 0 });
   const byQ = new Map<number, CataloguePattern>();
@@ -185,9 +189,13 @@ describe('how reactive and strong coupling shift the stable set', () => {
 
   test('N = 7, q = 1 on a two-way ring: the continuation in kappa finds where it turns unstable, and the catalogue agrees on both sides', () => {
     const model = ringModel({ nodes: 7, twoWay: true, strength: 0.05 });
-    const start = patternCatalogue(model, { types: ['rotating-wave'], maxFixDimension: 1, randomSeeds: 0 }).patterns.find((p) => p.candidate.q === 1)!;
+    const start = patternCatalogue(model, { types: ['rotating-wave'], maxFixDimension: 1, randomSeeds: 0 }).patterns.find(
+      (p) => p.candidate.q === 1,
+    )!;
     expect(start.stable).toBe(true);
-    const branch = continueBranch(model, Float64Array.from(start.state), parseContinuationParameter('coupling', model.params), { directions: ['increasing'] });
+    const branch = continueBranch(model, Float64Array.from(start.state), parseContinuationParameter('coupling', model.params), {
+      directions: ['increasing'],
+    });
     const limit = branch.limits.increasing!;
     // a real eigenvalue crossing with the pattern still there (no turning point): symmetry breaking
     expect(limit.kind).toBe('branch-point');

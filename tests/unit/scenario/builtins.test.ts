@@ -1,10 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import { parseScenario, scenarioToJSON } from '../../../src/scenario/index.js';
-import {
-  builtInScenarioNames,
-  builtInScenarioRaw,
-  loadBuiltInScenario,
-} from '../../../src/scenarios/index.js';
+import { builtInScenarioNames, builtInScenarioRaw, loadBuiltInScenario } from '../../../src/scenarios/index.js';
 
 describe('built-in scenarios', () => {
   test('the three scenarios are listed, demo first', () => {
@@ -65,8 +61,14 @@ describe('built-in scenarios', () => {
       coupling: { strength: 0.1, reactive: -0.3, dissipative: 1 },
       initial: {
         state: [
-          [{ x: 1, xdot: 0 }, { x: 0.1, xdot: -0.2 }],
-          [{ x: -1, xdot: 0.5 }, { x: 0, xdot: 0 }],
+          [
+            { x: 1, xdot: 0 },
+            { x: 0.1, xdot: -0.2 },
+          ],
+          [
+            { x: -1, xdot: 0.5 },
+            { x: 0, xdot: 0 },
+          ],
         ],
       },
       integrator: { stepsPerPeriod: 32, macroPeriods: 7, averagingGrid: 12 },

@@ -78,7 +78,7 @@ describe('engineering-unit fields are mapped to the dimensionless model', () => 
     expect(s.modes[1]!.omega).toBeCloseTo(1.0001 * 1.0015, 15);
   });
 
-  test('quality uses the mode\'s own omega', () => {
+  test("quality uses the mode's own omega", () => {
     const s = parseScenario(
       minimal({
         epsilon: 1e-5,
@@ -117,7 +117,12 @@ describe('an assumed nominal frequency', () => {
 describe('purity', () => {
   test('the raw input is not modified and shares nothing with the result', () => {
     const raw = minimal({
-      topology: { edges: [[0, 1, 1], [1, 2, 1]] },
+      topology: {
+        edges: [
+          [0, 1, 1],
+          [1, 2, 1],
+        ],
+      },
       detuning: [0.1, 0, 0, 0],
       initial: { state: [0, 1, 2, 3].map(() => [{ x: 1, xdot: 0 }]) },
     });
@@ -160,7 +165,13 @@ describe('default micro step follows eps and the method that applies', () => {
     });
     expect(parseScenario(far).integrator.stepsPerPeriod).toBe(8);
     // the demo's spurious mode 1500 ppm away is close enough for the fitted method
-    const near = minimal({ epsilon: 1e-5, modes: [{ omega: 1, gain: 1, loss: 0 }, { omega: 1.0015, gain: 1, loss: 0 }] });
+    const near = minimal({
+      epsilon: 1e-5,
+      modes: [
+        { omega: 1, gain: 1, loss: 0 },
+        { omega: 1.0015, gain: 1, loss: 0 },
+      ],
+    });
     expect(parseScenario(near).integrator.stepsPerPeriod).toBe(5);
   });
 });

@@ -32,7 +32,15 @@ type Case = [label: string, breakIt: (s: Record<string, any>) => unknown, path: 
 // gets an error naming what and where); each was written by hand from the rule it enforces.
 const cases: Case[] = [
   ['root is not an object', () => [1, 2], '', 'must be an object (got an array)'],
-  ['nodes missing', (s) => { delete s.nodes; return s; }, 'nodes', 'is required'],
+  [
+    'nodes missing',
+    (s) => {
+      delete s.nodes;
+      return s;
+    },
+    'nodes',
+    'is required',
+  ],
   ['nodes not a number', (s) => ({ ...s, nodes: '3' }), 'nodes', 'must be a number (got string "3")'],
   ['nodes not an integer', (s) => ({ ...s, nodes: 2.5 }), 'nodes', 'must be an integer (got 2.5)'],
   ['nodes too many', (s) => ({ ...s, nodes: 5000 }), 'nodes', 'must be between 1 and 4096 (got 5000)'],
@@ -49,7 +57,15 @@ const cases: Case[] = [
   ],
   [
     'edge target out of range',
-    (s) => ({ ...s, topology: { edges: [[0, 1, 1], [1, 5, 1]] } }),
+    (s) => ({
+      ...s,
+      topology: {
+        edges: [
+          [0, 1, 1],
+          [1, 5, 1],
+        ],
+      },
+    }),
     'topology.edges[1][1]',
     'node index 5 is out of range (nodes = 3, so 0 to 2)',
   ],
@@ -61,19 +77,44 @@ const cases: Case[] = [
   ],
   [
     'self-loop',
-    (s) => ({ ...s, topology: { edges: [[0, 1, 1], [2, 2, 1]] } }),
+    (s) => ({
+      ...s,
+      topology: {
+        edges: [
+          [0, 1, 1],
+          [2, 2, 1],
+        ],
+      },
+    }),
     'topology.edges[1]',
     'is a self-loop on node 2; an edge must join two different nodes',
   ],
   [
     'duplicate edge',
-    (s) => ({ ...s, topology: { edges: [[0, 1, 1], [1, 2, 1], [0, 1, 0.5]] } }),
+    (s) => ({
+      ...s,
+      topology: {
+        edges: [
+          [0, 1, 1],
+          [1, 2, 1],
+          [0, 1, 0.5],
+        ],
+      },
+    }),
     'topology.edges[2]',
     'duplicates topology.edges[0] (both carry node 0 into node 1)',
   ],
   [
     'negative weight',
-    (s) => ({ ...s, topology: { edges: [[0, 1, 1], [1, 2, -0.5]] } }),
+    (s) => ({
+      ...s,
+      topology: {
+        edges: [
+          [0, 1, 1],
+          [1, 2, -0.5],
+        ],
+      },
+    }),
     'topology.edges[1][2]',
     'weight must be >= 0 (got -0.5); use 0 for a broken link',
   ],
@@ -84,40 +125,65 @@ const cases: Case[] = [
     'must be [from, to, weight] with 3 entries (got 2)',
   ],
   ['no modes', (s) => ({ ...s, modes: [] }), 'modes', 'must have 1 or 2 entries (got 0)'],
+  ['three modes', (s) => ({ ...s, modes: [...s.modes, { omega: 2, gain: 1, loss: 0 }] }), 'modes', 'must have 1 or 2 entries (got 3)'],
   [
-    'three modes',
-    (s) => ({ ...s, modes: [...s.modes, { omega: 2, gain: 1, loss: 0 }] }),
-    'modes',
-    'must have 1 or 2 entries (got 3)',
+    'omega negative',
+    (s) => {
+      s.modes[1].omega = -1;
+      return s;
+    },
+    'modes[1].omega',
+    'must be > 0 (got -1)',
   ],
-  ['omega negative', (s) => { s.modes[1].omega = -1; return s; }, 'modes[1].omega', 'must be > 0 (got -1)'],
-  ['omega missing', (s) => { delete s.modes[0].omega; return s; }, 'modes[0].omega', 'is required (or give offsetPpm)'],
+  [
+    'omega missing',
+    (s) => {
+      delete s.modes[0].omega;
+      return s;
+    },
+    'modes[0].omega',
+    'is required (or give offsetPpm)',
+  ],
   [
     'omega and offsetPpm together',
-    (s) => { s.modes[1].offsetPpm = 1500; return s; },
+    (s) => {
+      s.modes[1].offsetPpm = 1500;
+      return s;
+    },
     'modes[1]',
     'give either omega or offsetPpm, not both',
   ],
   [
     'loss and quality together',
-    (s) => { s.modes[0].quality = 1e5; return s; },
+    (s) => {
+      s.modes[0].quality = 1e5;
+      return s;
+    },
     'modes[0]',
     'give either loss or quality, not both',
   ],
   [
     'quality when epsilon is 0',
-    (s) => { s.epsilon = 0; delete s.modes[0].loss; s.modes[0].quality = 1e5; return s; },
+    (s) => {
+      s.epsilon = 0;
+      delete s.modes[0].loss;
+      s.modes[0].quality = 1e5;
+      return s;
+    },
     'modes[0].quality',
     'cannot be used when epsilon is 0 (loss = omega / (epsilon * quality)); give loss instead',
   ],
-  ['gain missing', (s) => { delete s.modes[1].gain; return s; }, 'modes[1].gain', 'is required'],
-  ['coupling strength missing', (s) => ({ ...s, coupling: { dissipative: 1 } }), 'coupling.strength', 'is required'],
   [
-    'detuning of the wrong length',
-    (s) => ({ ...s, detuning: [0, 0] }),
-    'detuning',
-    'must have 3 entries, one per node (got 2)',
+    'gain missing',
+    (s) => {
+      delete s.modes[1].gain;
+      return s;
+    },
+    'modes[1].gain',
+    'is required',
   ],
+  ['coupling strength missing', (s) => ({ ...s, coupling: { dissipative: 1 } }), 'coupling.strength', 'is required'],
+  ['detuning of the wrong length', (s) => ({ ...s, detuning: [0, 0] }), 'detuning', 'must have 3 entries, one per node (got 2)'],
   ['detuning entry null', (s) => ({ ...s, detuning: [0, 0.1, null] }), 'detuning[2]', 'must be a number (got null)'],
   [
     'detuning and detuningPpm together',
@@ -143,12 +209,7 @@ const cases: Case[] = [
     'noise.seed',
     'must be an unsigned 32-bit integer, 0 to 4294967295 (got 4294967296)',
   ],
-  [
-    'noise intensity negative',
-    (s) => ({ ...s, noise: { intensity: -1e-9, seed: 1 } }),
-    'noise.intensity',
-    'must be >= 0 (got -1e-9)',
-  ],
+  ['noise intensity negative', (s) => ({ ...s, noise: { intensity: -1e-9, seed: 1 } }), 'noise.intensity', 'must be >= 0 (got -1e-9)'],
   [
     'two initial kinds',
     (s) => ({ ...s, initial: { random: { seed: 1, amplitude: 1 }, pattern: { q: 0, amplitude: 1 } } }),
@@ -158,7 +219,17 @@ const cases: Case[] = [
   ['no initial kind', (s) => ({ ...s, initial: {} }), 'initial', 'must have exactly one of state, random, pattern (got none)'],
   [
     'initial state with too few nodes',
-    (s) => ({ ...s, initial: { state: [[{ x: 1, xdot: 0 }, { x: 0, xdot: 0 }]] } }),
+    (s) => ({
+      ...s,
+      initial: {
+        state: [
+          [
+            { x: 1, xdot: 0 },
+            { x: 0, xdot: 0 },
+          ],
+        ],
+      },
+    }),
     'initial.state',
     'must have 3 entries, one per node (got 1)',
   ],
@@ -170,7 +241,19 @@ const cases: Case[] = [
   ],
   [
     'initial state xdot not a number',
-    (s) => ({ ...s, initial: { state: [stateRow(), stateRow(), [{ x: 0, xdot: '0' }, { x: 0, xdot: 0 }]] } }),
+    (s) => ({
+      ...s,
+      initial: {
+        state: [
+          stateRow(),
+          stateRow(),
+          [
+            { x: 0, xdot: '0' },
+            { x: 0, xdot: 0 },
+          ],
+        ],
+      },
+    }),
     'initial.state[2][0].xdot',
     'must be a number (got string "0")',
   ],
@@ -212,7 +295,12 @@ const cases: Case[] = [
   ],
   [
     'quality so small that the loss overflows',
-    (s) => { s.epsilon = 1e-5; delete s.modes[0].loss; s.modes[0].quality = 1e-320; return s; },
+    (s) => {
+      s.epsilon = 1e-5;
+      delete s.modes[0].loss;
+      s.modes[0].quality = 1e-320;
+      return s;
+    },
     'modes[0].quality',
     'gives a non-finite loss (Infinity); the value is too extreme',
   ],
@@ -276,7 +364,19 @@ describe('unknown fields are errors that name the field', () => {
   });
 
   test('inside an initial state cell', () => {
-    const err = errorOf({ ...valid(), initial: { state: [stateRow(), stateRow(), [{ x: 0, xdot: 0, v: 1 }, { x: 0, xdot: 0 }]] } });
+    const err = errorOf({
+      ...valid(),
+      initial: {
+        state: [
+          stateRow(),
+          stateRow(),
+          [
+            { x: 0, xdot: 0, v: 1 },
+            { x: 0, xdot: 0 },
+          ],
+        ],
+      },
+    });
     expect(err.path).toBe('initial.state[2][0].v');
   });
 

@@ -62,7 +62,13 @@ describe('ring expansion into links', () => {
   test('edge lists keep their order and [from, to, weight] meaning', () => {
     const s = parseScenario({
       nodes: 3,
-      topology: { edges: [[2, 0, 0.5], [0, 1, 0], [1, 2, 2]] },
+      topology: {
+        edges: [
+          [2, 0, 0.5],
+          [0, 1, 0],
+          [1, 2, 2],
+        ],
+      },
       epsilon: 0,
       modes: [{ omega: 1, gain: 1, loss: 0 }],
       coupling: { strength: 0.1 },

@@ -23,7 +23,11 @@ function recorder(headersSent = false) {
 describe('HttpError', () => {
   test('bad input becomes a 400 carrying the input error message and its path as the field', () => {
     const error = HttpError.fromInput(new InputError('range', 'MIN must be below MAX (got 1:0)'));
-    expect({ status: error.status, field: error.field, message: error.message }).toEqual({ status: 400, field: 'range', message: 'range: MIN must be below MAX (got 1:0)' });
+    expect({ status: error.status, field: error.field, message: error.message }).toEqual({
+      status: 400,
+      field: 'range',
+      message: 'range: MIN must be below MAX (got 1:0)',
+    });
     expect(HttpError.fromInput(new InputError('', 'nothing here'), 404).field).toBeUndefined();
     expect(HttpError.fromInput(new InputError('', 'nothing here'), 404).status).toBe(404);
   });
@@ -31,7 +35,11 @@ describe('HttpError', () => {
   test('toData() and fromData() carry status, message and field across a worker boundary', () => {
     const copy = HttpError.fromData(structuredClone(new HttpError(409, 'until: taken', 'until').toData()));
     expect(copy).toBeInstanceOf(HttpError);
-    expect({ status: copy.status, message: copy.message, field: copy.field }).toEqual({ status: 409, message: 'until: taken', field: 'until' });
+    expect({ status: copy.status, message: copy.message, field: copy.field }).toEqual({
+      status: 409,
+      message: 'until: taken',
+      field: 'until',
+    });
   });
 
   test('the JSON answer: the HttpError status and { error: message }; anything else is a 500 with its message', () => {

@@ -48,7 +48,8 @@ function run(scenario: Scenario, faults: unknown[], untilSlow: number, criteria:
   return { session, frames, events, verdicts };
 }
 
-const kinds = (events: SessionEvent[], after: number) => events.filter((e) => e.tau > after && e.kind !== 'perturbation').map((e) => e.kind);
+const kinds = (events: SessionEvent[], after: number) =>
+  events.filter((e) => e.tau > after && e.kind !== 'perturbation').map((e) => e.kind);
 
 describe('a smooth move to the continued state is not a loss of lock', () => {
   // a detuned six-node two-way ring with some reactive coupling; one direction of one link breaks
@@ -65,7 +66,12 @@ describe('a smooth move to the continued state is not a loss of lock', () => {
     macroPeriods: 2,
   });
   const breakAt = 150;
-  const result = run(scenario, [{ id: 'half-open-2-3', start: breakAt, action: 'break-link', params: { from: 2, to: 3 }, restore: 'none' }], 500, { relockWithin: 300 });
+  const result = run(
+    scenario,
+    [{ id: 'half-open-2-3', start: breakAt, action: 'break-link', params: { from: 2, to: 3 }, restore: 'none' }],
+    500,
+    { relockWithin: 300 },
+  );
   const applied = breakAt / scenario.epsilon;
 
   test('the timeline logs no unlock and no pattern change, though the phases move well beyond the lock tolerance', () => {
@@ -87,7 +93,10 @@ describe('a smooth move to the continued state is not a loss of lock', () => {
     const distance = Math.max(...last.full.phaseDifferences.map((d, k) => Math.abs(wrapAngle(d - predicted[k]))));
     expect(distance).toBeLessThan(0.05);
     // closed form: at a relative equilibrium a'_k = i W a_k for one W; check it at the guide's final state
-    const a = last.guide.amplitude.map((m, k) => ({ re: m[0] * Math.cos(last.guide.phase[k][0]), im: m[0] * Math.sin(last.guide.phase[k][0]) }));
+    const a = last.guide.amplitude.map((m, k) => ({
+      re: m[0] * Math.cos(last.guide.phase[k][0]),
+      im: m[0] * Math.sin(last.guide.phase[k][0]),
+    }));
     const links = ringLinks(n, true).filter((l) => !(l.from === 2 && l.to === 3));
     const { strength: kappa, reactive: rho, dissipative: sigma } = scenario.coupling;
     const rates = a.map((ak, k) => {
@@ -128,7 +137,13 @@ describe('real losses are still caught, live and in the verdict alike (Adler pai
   const kappaSigma = 0.05;
   const pair = () => parseScenario(adlerPairScenario(eps, kappaSigma), 'adler pair');
   // Delta_0 = ratio * kappa sigma (omega = 1): dw = ratio * K
-  const step = (ratio: number) => ({ id: `step-${ratio}`, start: 100, action: 'set-detuning', params: { node: 0, delta: ratio * kappaSigma }, restore: 'none' });
+  const step = (ratio: number) => ({
+    id: `step-${ratio}`,
+    start: 100,
+    action: 'set-detuning',
+    params: { node: 0, delta: ratio * kappaSigma },
+    restore: 'none',
+  });
 
   test('a step to 0.8 K moves psi by asin(0.8) = 0.93 rad and persists: no unlock', () => {
     const r = run(pair(), [step(0.8)], 400, { relockWithin: 250 });
@@ -192,7 +207,9 @@ test('a move into another pattern without a slip is a pattern change, live and i
   ];
   const r = run(scenario, faults, 500, { relockWithin: 400 });
   expect(kinds(r.events, 0)).toEqual(['lock', 'pattern-change']);
-  expect(r.events.find((e) => e.kind === 'pattern-change')!.message).toMatch(/from rotating-wave q=1 on mode 0 to in-phase q=0 on mode 0 without a cycle slip/);
+  expect(r.events.find((e) => e.kind === 'pattern-change')!.message).toMatch(
+    /from rotating-wave q=1 on mode 0 to in-phase q=0 on mode 0 without a cycle slip/,
+  );
   const v = r.verdicts[0];
   expect(v.slipped).toBe(false);
   expect(v.persisted).toBe(false);

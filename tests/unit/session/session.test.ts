@@ -112,7 +112,9 @@ describe('co-simulation session', () => {
     const frame = session.step()!;
     expect(frame.status).toBe('halted');
     expect(frame.events.some((e) => e.kind === 'blow-up' && /non-finite|runaway/.test(e.message))).toBe(true);
-    const numbers = [frame.full.amplitude, frame.full.phase, frame.full.phaseDifferences, frame.guide.amplitude, frame.divergence.max].flat(3);
+    const numbers = [frame.full.amplitude, frame.full.phase, frame.full.phaseDifferences, frame.guide.amplitude, frame.divergence.max].flat(
+      3,
+    );
     expect(numbers.length).toBeGreaterThan(10);
     expect(numbers.every((n) => typeof n === 'number' && Number.isFinite(n))).toBe(true);
     expect(session.tau).toBe(tau);
@@ -226,7 +228,9 @@ describe('checkpoints', () => {
 
   test('a checkpoint of another scenario is refused', () => {
     const saved = new CoSimulation(ring()).checkpoint();
-    expect(() => CoSimulation.fromCheckpoint(ring({ nodes: 5, initial: { random: { seed: 1, amplitude: 1 } } }), saved)).toThrow(/does not belong/);
+    expect(() => CoSimulation.fromCheckpoint(ring({ nodes: 5, initial: { random: { seed: 1, amplitude: 1 } } }), saved)).toThrow(
+      /does not belong/,
+    );
   });
 });
 

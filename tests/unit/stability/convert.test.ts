@@ -16,7 +16,10 @@ describe('frequencyToPhase / phaseToFrequency', () => {
   it('turns 1 ppm into 86.4 ms a day and 1 ppb into 86.4 us a day', () => {
     // Arithmetic: 1e-6 x 86400 s = 86.4e-3 s. (86.4 microseconds a day, sometimes quoted for
     // 1 ppm, belongs to 1 ppb: 1e-9 x 86400 s.)
-    for (const [offset, perDay] of [[1e-6, 86.4e-3], [1e-9, 86.4e-6]]) {
+    for (const [offset, perDay] of [
+      [1e-6, 86.4e-3],
+      [1e-9, 86.4e-6],
+    ]) {
       const x = frequencyToPhase(new Float64Array(86400).fill(offset), 1);
       // Compensated summation keeps 86400 additions within a few ulps of the exact product.
       expect(Math.abs(x[86400] / perDay - 1)).toBeLessThan(1e-15);

@@ -4,15 +4,7 @@
  * them are published, are listed in docs/model.md, 'Reference values'.
  */
 import { describe, expect, it } from 'vitest';
-import {
-  adev,
-  hdev,
-  hdevNonOverlapping,
-  mdev,
-  oadev,
-  summarize,
-  tdev,
-} from '../../../src/stability/index.js';
+import { adev, hdev, hdevNonOverlapping, mdev, oadev, summarize, tdev } from '../../../src/stability/index.js';
 
 /** NIST SP 1065 generator: n_0 = 1234567890, n_{i+1} = 16807 n_i mod (2^31 - 1), value n_i / (2^31 - 1). */
 function nistSeries(count: number): Float64Array {
@@ -30,8 +22,7 @@ const y = nistSeries(1000);
 const asFrequency = { input: 'frequency' } as const;
 /** Rounds to the 7 significant digits the table prints. */
 const sevenDigits = (v: number): number => Number(v.toPrecision(7));
-const relativeError = (value: number, reference: number): number =>
-  Math.abs(value - reference) / Math.abs(reference);
+const relativeError = (value: number, reference: number): number => Math.abs(value - reference) / Math.abs(reference);
 
 describe('NIST SP 1065 1000-point set, fractional frequency, tau0 = 1', () => {
   it('has the published mean, standard deviation, max and min', () => {

@@ -5,16 +5,7 @@
  * while writing the test; the seeds used here are fixed so the run is reproducible.
  */
 import { describe, expect, it } from 'vitest';
-import {
-  adev,
-  averagingFactors,
-  hdev,
-  mdev,
-  oadev,
-  powerLawFit,
-  powerLawSlope,
-  tdev,
-} from '../../../src/stability/index.js';
+import { adev, averagingFactors, hdev, mdev, oadev, powerLawFit, powerLawSlope, tdev } from '../../../src/stability/index.js';
 
 /** Standard normal samples: Box-Muller on a 32-bit xorshift (Marsaglia 2003). */
 function gaussianSamples(count: number, seed: number, scale = 1): Float64Array {

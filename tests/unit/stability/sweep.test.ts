@@ -58,7 +58,13 @@ describe('stabilitySweep', () => {
   it('defaults to octaves up to N/3 and agrees with the single-m functions for every metric', () => {
     // Common practice: a sweep is the single statistics evaluated on a ladder.
     const single: Record<StabilityMetric, typeof adev> = {
-      adev, oadev, mdev, tdev, hdev, hdevNonOverlapping, mtie,
+      adev,
+      oadev,
+      mdev,
+      tdev,
+      hdev,
+      hdevNonOverlapping,
+      mtie,
     };
     const tau0 = 0.1;
     const sweep = stabilitySweep(y, tau0, { metrics: METRIC_NAMES, input: 'frequency' });
@@ -86,9 +92,7 @@ describe('stabilitySweep', () => {
     expect(() => stabilitySweep(y, 1, { metrics: ['oadev', 'mdev'], mValues: [1, 400] })).toThrow(
       /stabilitySweep \(mdev\): averaging factor m = 400 needs at least 1200 phase points/,
     );
-    expect(() => stabilitySweep(y, 1, { metrics: ['adev'], mValues: [1, 2.5] })).toThrow(
-      /options\.mValues\[1\].*integer >= 1, got 2\.5/,
-    );
+    expect(() => stabilitySweep(y, 1, { metrics: ['adev'], mValues: [1, 2.5] })).toThrow(/options\.mValues\[1\].*integer >= 1, got 2\.5/);
   });
 
   it('names an unknown metric and lists the known ones', () => {
@@ -96,9 +100,9 @@ describe('stabilitySweep', () => {
       /options\.metrics\[1\] is "totdev"; known metrics: adev, oadev/,
     );
     expect(() => stabilitySweep(y, 1, { metrics: [] })).toThrow(/options\.metrics must be a non-empty list/);
-    expect(() =>
-      stabilitySweep(y, 1, { metrics: ['adev'], spacing: 'third' as 'octave' }),
-    ).toThrow(/options\.spacing must be "octave" or "decade", got "third"/);
+    expect(() => stabilitySweep(y, 1, { metrics: ['adev'], spacing: 'third' as 'octave' })).toThrow(
+      /options\.spacing must be "octave" or "decade", got "third"/,
+    );
   });
 
   it('refuses a series too short for any sweep', () => {

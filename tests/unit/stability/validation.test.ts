@@ -36,7 +36,9 @@ describe('input validation', () => {
 
   it('says how many points an averaging factor needs', () => {
     // Minimum lengths from the definitions: ADEV 2m + 1, MDEV 3m, HDEV 3m + 1, MTIE m + 1 points.
-    expect(() => adev(x, 1, 25)).toThrow('adev: averaging factor m = 25 needs at least 51 phase points (50 frequency samples); the series gives 50');
+    expect(() => adev(x, 1, 25)).toThrow(
+      'adev: averaging factor m = 25 needs at least 51 phase points (50 frequency samples); the series gives 50',
+    );
     expect(adev(x, 1, 24).n).toBe(1);
     expect(() => mdev(x, 1, 17)).toThrow(/mdev: averaging factor m = 17 needs at least 51 phase points/);
     expect(mdev(x, 1, 16).n).toBe(3);
@@ -49,9 +51,7 @@ describe('input validation', () => {
   });
 
   it('names an unknown input kind', () => {
-    expect(() => adev(x, 1, 1, { input: 'phaze' as 'phase' })).toThrow(
-      'adev: options.input must be "phase" or "frequency", got "phaze"',
-    );
+    expect(() => adev(x, 1, 1, { input: 'phaze' as 'phase' })).toThrow('adev: options.input must be "phase" or "frequency", got "phaze"');
   });
 
   it('checks the conversions, the summary and the log-log fit', () => {

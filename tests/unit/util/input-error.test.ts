@@ -38,7 +38,9 @@ describe('InputError', () => {
     expect(nested.requestId).toBe(9);
 
     expect(new InputError('[2].x', 'is required').under('state').path).toBe('state[2].x');
-    expect(new InputError('', 'unknown parameter "speed"').under('--continue speed').message).toBe('--continue speed: unknown parameter "speed"');
+    expect(new InputError('', 'unknown parameter "speed"').under('--continue speed').message).toBe(
+      '--continue speed: unknown parameter "speed"',
+    );
   });
 
   test('toData() and fromData() carry every field across a thread boundary (a structured clone)', () => {
@@ -58,7 +60,10 @@ describe('InputError', () => {
     expect(() => failInput('speed', 'is required')).toThrow(new InputError('speed', 'is required'));
     const { numberField } = fieldChecks();
     const caught = thrown(() => numberField({ weight: 'heavy' }, 'faults[0].params', 'weight', (n) => n), InputError);
-    expect({ path: caught.path, reason: caught.reason }).toEqual({ path: 'faults[0].params.weight', reason: 'must be a number (got string "heavy")' });
+    expect({ path: caught.path, reason: caught.reason }).toEqual({
+      path: 'faults[0].params.weight',
+      reason: 'must be a number (got string "heavy")',
+    });
 
     const own = fieldChecks((path, reason) => {
       throw new RangeError(`${path} / ${reason}`);

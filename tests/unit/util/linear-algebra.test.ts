@@ -39,7 +39,14 @@ describe('bordered matrix', () => {
 
   test('solveLinear solves a bordered 3 x 3 system', () => {
     // [[2, 0, 1], [0, 3, 1], [1, 1, 0]] x = [3, 4, 2] has x = (1, 1, 1)
-    const system = borderedMatrix(new Matrix([[2, 0], [0, 3]]), [[1, 1]], [[1, 1]]);
+    const system = borderedMatrix(
+      new Matrix([
+        [2, 0],
+        [0, 3],
+      ]),
+      [[1, 1]],
+      [[1, 1]],
+    );
     const x = solveLinear(system, [3, 4, 2]);
     expect(Array.from(x).map((v) => Number(v.toFixed(12)))).toEqual([1, 1, 1]);
   });

@@ -184,7 +184,9 @@ export class SyncringApp extends LitElement {
       onState: (s) => (this.connection = s),
     });
     this.addEventListener('sr-command', (e) => this.command((e as CustomEvent<CommandDetail>).detail));
-    this.addEventListener('sr-notice', (e) => this.toast((e as CustomEvent<NoticeDetail>).detail.kind, (e as CustomEvent<NoticeDetail>).detail.text));
+    this.addEventListener('sr-notice', (e) =>
+      this.toast((e as CustomEvent<NoticeDetail>).detail.kind, (e as CustomEvent<NoticeDetail>).detail.text),
+    );
     this.addEventListener('sr-retry', () => this.client.retryNow());
     this.addEventListener('sr-open-log', (e) => void this.openLog((e as CustomEvent<File>).detail));
     this.addEventListener('sr-scrub', (e) => this.showReplayAt((e as CustomEvent<number>).detail));
@@ -277,7 +279,9 @@ export class SyncringApp extends LitElement {
   private async loadScenarios(): Promise<void> {
     try {
       const list = await getJson<ScenarioChoice[]>('/api/scenarios');
-      this.scenarios = Array.isArray(list) ? list.filter((c) => typeof c?.name === 'string').map((c) => ({ name: c.name, title: c.title ?? c.name })) : [];
+      this.scenarios = Array.isArray(list)
+        ? list.filter((c) => typeof c?.name === 'string').map((c) => ({ name: c.name, title: c.title ?? c.name }))
+        : [];
     } catch (error) {
       console.warn('syncring: could not list the built-in scenarios', error);
     }
@@ -288,7 +292,9 @@ export class SyncringApp extends LitElement {
       const replay = ReplayLog.fromText(await file.text(), file.name);
       this.replay = replay;
       this.showReplayAt(replay.frames.length - 1);
-      const problems = replay.problems.length ? ` (${replay.problems.length} problem${replay.problems.length > 1 ? 's' : ''} in the file, intact records used)` : '';
+      const problems = replay.problems.length
+        ? ` (${replay.problems.length} problem${replay.problems.length > 1 ? 's' : ''} in the file, intact records used)`
+        : '';
       this.toast('info', `Replaying ${file.name}: ${replay.frames.length} samples, ${replay.events.length} events${problems}.`);
     } catch (error) {
       this.toast('error', error instanceof ReplayError ? error.message : `Could not open ${file.name}: ${(error as Error).message}`);
@@ -314,13 +320,24 @@ export class SyncringApp extends LitElement {
     const canEdit = this.canEdit;
     const reason = this.readOnlyReason;
     return html`
-      <sr-status-header .store=${store} .role=${this.role} .connection=${this.connection} .viewers=${this.viewers} ?replaying=${this.replay !== null}></sr-status-header>
+      <sr-status-header
+        .store=${store}
+        .role=${this.role}
+        .connection=${this.connection}
+        .viewers=${this.viewers}
+        ?replaying=${this.replay !== null}
+      ></sr-status-header>
       ${this.replay ? nothing : html`<sr-connection-banner .state=${this.connection}></sr-connection-banner>`}
       ${this.replay ? html`<sr-replay-bar .replay=${this.replay} .index=${this.replayIndex}></sr-replay-bar>` : nothing}
       <nav class="views" role="tablist" aria-label="views">
         ${VIEWS.map((v) => html`<button role="tab" data-view=${v.id} aria-selected=${String(this.view === v.id)} @click=${() => this.show(v.id)}>${v.label}</button>`)}
       </nav>
-      <sr-prediction-view class="view" .store=${this.live} ?active=${this.view === 'prediction'} ?hidden=${this.view !== 'prediction'}></sr-prediction-view>
+      <sr-prediction-view
+        class="view"
+        .store=${this.live}
+        ?active=${this.view === 'prediction'}
+        ?hidden=${this.view !== 'prediction'}
+      ></sr-prediction-view>
       <sr-soak-panel class="view" ?active=${this.view === 'soaks'} ?hidden=${this.view !== 'soaks'}></sr-soak-panel>
       <main class=${this.replay ? 'replaying' : ''} ?hidden=${this.view !== 'live'}>
         <div class="column">
@@ -333,7 +350,14 @@ export class SyncringApp extends LitElement {
           <sr-lock-chart .store=${store}></sr-lock-chart>
         </div>
         <div class="column side">
-          <sr-control-panel .store=${store} .scenarios=${this.scenarios} ?canEdit=${canEdit} ?replaying=${this.replay !== null} .readOnlyReason=${reason} .lastCommand=${this.lastCommand}></sr-control-panel>
+          <sr-control-panel
+            .store=${store}
+            .scenarios=${this.scenarios}
+            ?canEdit=${canEdit}
+            ?replaying=${this.replay !== null}
+            .readOnlyReason=${reason}
+            .lastCommand=${this.lastCommand}
+          ></sr-control-panel>
           <sr-event-timeline .store=${store}></sr-event-timeline>
         </div>
       </main>

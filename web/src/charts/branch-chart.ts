@@ -125,32 +125,32 @@ export class BranchChart extends LitElement {
     legendKeyStyles,
     columnStyles,
     css`
-    .legend {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 4px 14px;
-      font-size: 14px;
-      color: ${unsafeCSS(SOFT_INK)};
-      margin: 2px 0 4px;
-    }
-    .frame {
-      position: relative;
-      flex: 1 1 0;
-      min-height: var(--chart-height, 360px);
-    }
-    .empty {
-      position: absolute;
-      inset: 0;
-      display: flex;
-      align-items: center;
-      justify-content: center;
-      color: ${unsafeCSS(MUTED)};
-      font-size: 17px;
-      text-align: center;
-      padding: 0 40px;
-      pointer-events: none;
-    }
-  `,
+      .legend {
+        display: flex;
+        flex-wrap: wrap;
+        gap: 4px 14px;
+        font-size: 14px;
+        color: ${unsafeCSS(SOFT_INK)};
+        margin: 2px 0 4px;
+      }
+      .frame {
+        position: relative;
+        flex: 1 1 0;
+        min-height: var(--chart-height, 360px);
+      }
+      .empty {
+        position: absolute;
+        inset: 0;
+        display: flex;
+        align-items: center;
+        justify-content: center;
+        color: ${unsafeCSS(MUTED)};
+        font-size: 17px;
+        text-align: center;
+        padding: 0 40px;
+        pointer-events: none;
+      }
+    `,
   ];
 
   declare continuation: Continuation | null;
@@ -171,7 +171,11 @@ export class BranchChart extends LitElement {
     this.inPpm = false;
     this.symbol = '';
     this.epsilon = 0;
-    this.charts = new ChartController(this, () => this.configure(), (chart) => this.fill(chart));
+    this.charts = new ChartController(
+      this,
+      () => this.configure(),
+      (chart) => this.fill(chart),
+    );
   }
 
   protected override updated(changed: PropertyValues): void {
@@ -185,14 +189,16 @@ export class BranchChart extends LitElement {
     const n = c?.branch[0]?.phaseDifferences.length ?? 0;
     return html`
       <div class="legend">
-        ${c
-          ? html`<span class="key"><span class="swatch"></span>stable</span>
-              <span class="key"><span class="swatch dashed"></span>unstable</span>
-              <span class="key"><span class="swatch dotted"></span>marginal</span>
-              <span class="key" style="color:${INK}"><span class="swatch"></span>live value</span>
-              <span class="key" style="color:${FAULT}"><span class="swatch dashed"></span>limit (pattern lost)</span>
-              ${Array.from({ length: n }, (_, k) => html`<span class="key" style="color:${nodeColour(k)}"><span class="swatch"></span>${this.quantity === 'phase' ? `${k}→${(k + 1) % n}` : `node ${k}`}</span>`)}`
-          : nothing}
+        ${
+          c
+            ? html`<span class="key"><span class="swatch"></span>stable</span>
+                <span class="key"><span class="swatch dashed"></span>unstable</span>
+                <span class="key"><span class="swatch dotted"></span>marginal</span>
+                <span class="key" style="color:${INK}"><span class="swatch"></span>live value</span>
+                <span class="key" style="color:${FAULT}"><span class="swatch dashed"></span>limit (pattern lost)</span>
+                ${Array.from({ length: n }, (_, k) => html`<span class="key" style="color:${nodeColour(k)}"><span class="swatch"></span>${this.quantity === 'phase' ? `${k}→${(k + 1) % n}` : `node ${k}`}</span>`)}`
+            : nothing
+        }
       </div>
       <div class="frame">
         <canvas role="img" aria-label="branch diagram"></canvas>
@@ -260,13 +266,17 @@ export class BranchChart extends LitElement {
       type: logX ? 'logarithmic' : 'linear',
       min: xr.min,
       max: xr.max,
-      afterBuildTicks: logX ? (scale: { ticks: { value: number }[]; min: number; max: number }) => void (scale.ticks = oneTwoFiveTicks(scale.min, scale.max)) : undefined,
+      afterBuildTicks: logX
+        ? (scale: { ticks: { value: number }[]; min: number; max: number }) => void (scale.ticks = oneTwoFiveTicks(scale.min, scale.max))
+        : undefined,
     });
     (scales.x as { title: { text: string } }).title.text = inPpm ? `${c.name} — in ppm` : logX ? `${c.name} (log scale)` : c.name;
     Object.assign(scales.y!, {
       min: yr.min,
       max: yr.max,
-      afterBuildTicks: phase ? (scale: { ticks: { value: number }[]; min: number; max: number }) => void (scale.ticks = halfTurnTicks(scale.min, scale.max)) : undefined,
+      afterBuildTicks: phase
+        ? (scale: { ticks: { value: number }[]; min: number; max: number }) => void (scale.ticks = halfTurnTicks(scale.min, scale.max))
+        : undefined,
       ticks: { ...axis('').ticks, callback: (v: number | string) => (phase ? piLabel(Number(v)) : formatNumber(Number(v), 3)) },
     });
     (scales.y as { title: { text: string } }).title.text = phase ? 'phase difference' : `amplitude |a| (mode ${c.pattern.mode})`;
@@ -292,7 +302,13 @@ export class BranchChart extends LitElement {
       if (!limit) continue;
       if (isLossLimit(limit)) {
         lossCount++;
-        lines.push({ x: value(limit), label: `${LIMIT_NAMES[limit.kind]} ${this.symbol} = ${formatNumber(value(limit), 4)}${unit}`, colour: FAULT, dash: [8, 5], row: 1 });
+        lines.push({
+          x: value(limit),
+          label: `${LIMIT_NAMES[limit.kind]} ${this.symbol} = ${formatNumber(value(limit), 4)}${unit}`,
+          colour: FAULT,
+          dash: [8, 5],
+          row: 1,
+        });
         for (const s of series) {
           const p = end === 'first' ? s[0] : s[s.length - 1];
           if (p) dots.push({ x: p.x, y: p.y, colour: FAULT });

@@ -68,7 +68,13 @@ export class PhaseChart extends StreamingChart {
 
 function datasetsFor(n: number): ChartDataset<'line', { x: number; y: number }[]>[] {
   const full = Array.from({ length: n }, (_, k) => ({ label: `full ${k}`, data: [], borderColor: nodeColour(k), borderWidth: 2.5 }));
-  const guide = Array.from({ length: n }, (_, k) => ({ label: `guide ${k}`, data: [], borderColor: nodeColour(k), borderWidth: 1.8, borderDash: [7, 5] }));
+  const guide = Array.from({ length: n }, (_, k) => ({
+    label: `guide ${k}`,
+    data: [],
+    borderColor: nodeColour(k),
+    borderWidth: 1.8,
+    borderDash: [7, 5],
+  }));
   return [...full, ...guide];
 }
 

@@ -74,12 +74,20 @@ export abstract class StreamingChart extends LitElement {
   constructor() {
     super();
     this.store = null;
-    this.charts = new ChartController(this, () => this.configure(), (chart) => this.store && this.refresh(chart, this.store, { frame: true, reset: true, session: true, events: true }));
-    this.feed = new StoreController(this, () => this.store, (change, store) => {
-      if (change.reset || change.session) this.requestUpdate();
-      const chart = this.charts.chart;
-      if (chart) this.refresh(chart, store, change);
-    });
+    this.charts = new ChartController(
+      this,
+      () => this.configure(),
+      (chart) => this.store && this.refresh(chart, this.store, { frame: true, reset: true, session: true, events: true }),
+    );
+    this.feed = new StoreController(
+      this,
+      () => this.store,
+      (change, store) => {
+        if (change.reset || change.session) this.requestUpdate();
+        const chart = this.charts.chart;
+        if (chart) this.refresh(chart, store, change);
+      },
+    );
   }
 
   abstract get heading(): readonly HeadingPart[];

@@ -43,7 +43,10 @@ export class ConnectionClient {
   private nextId = 1;
   private state: ConnectionState = { phase: 'stopped', attempt: 0, retryAt: null, lastClose: null };
 
-  constructor(private readonly url: string, private readonly handlers: ConnectionHandlers) {}
+  constructor(
+    private readonly url: string,
+    private readonly handlers: ConnectionHandlers,
+  ) {}
 
   get current(): ConnectionState {
     return this.state;
@@ -132,7 +135,8 @@ export function parseServerMessage(data: unknown): ServerMessage | null {
   }
   try {
     const message = JSON.parse(data) as { type?: unknown };
-    if (message && typeof message === 'object' && typeof message.type === 'string' && SERVER_TYPES.has(message.type)) return message as ServerMessage;
+    if (message && typeof message === 'object' && typeof message.type === 'string' && SERVER_TYPES.has(message.type))
+      return message as ServerMessage;
     console.warn('syncring: ignoring a message of unknown type', message?.type);
   } catch (error) {
     console.warn('syncring: ignoring a message that is not JSON', (error as Error).message);

@@ -46,11 +46,19 @@ export function formatSimulatedSeconds(seconds: number, scales: Pick<RunScales, 
  * seconds: the formula of timeConstantOf in src/predict/describe.ts, which needs a whole guide
  * model; the dashboard only has the session's scales.
  */
-export function marginTimeConstant(margin: number, scales: TimeScales): { slow: number; tau: number; periods: number; seconds: number } | null {
+export function marginTimeConstant(
+  margin: number,
+  scales: TimeScales,
+): { slow: number; tau: number; periods: number; seconds: number } | null {
   if (!(Math.abs(margin) > 0) || !(scales.epsilon > 0)) return null;
   const slow = 1 / Math.abs(margin);
   const tau = slow / scales.epsilon;
-  return { slow, tau, periods: (tau * scales.omega0) / (2 * Math.PI), seconds: tauToSeconds(tau, scales.nominalFrequencyHz, scales.omega0) };
+  return {
+    slow,
+    tau,
+    periods: (tau * scales.omega0) / (2 * Math.PI),
+    seconds: tauToSeconds(tau, scales.nominalFrequencyHz, scales.omega0),
+  };
 }
 
 /** Delta_k -> ppm, or null when eps = 0 has no ppm reading. */

@@ -41,7 +41,12 @@ export class FrameStore {
   }
 
   /** Replace everything at once (hello, replay position). */
-  reset(session: SessionInfo | null, history: readonly HistoryPoint[], events: readonly SessionEvent[], latest: WireFrame | null = null): void {
+  reset(
+    session: SessionInfo | null,
+    history: readonly HistoryPoint[],
+    events: readonly SessionEvent[],
+    latest: WireFrame | null = null,
+  ): void {
     this.session = session;
     this.history.load(history);
     this.events = events.slice(-MAX_EVENTS);
@@ -78,7 +83,12 @@ export class FrameStore {
 
   private mark(change: StoreChange): void {
     const p = this.pending;
-    this.pending = { frame: p.frame || change.frame, reset: p.reset || change.reset, session: p.session || change.session, events: p.events || change.events };
+    this.pending = {
+      frame: p.frame || change.frame,
+      reset: p.reset || change.reset,
+      session: p.session || change.session,
+      events: p.events || change.events,
+    };
     if (this.scheduled) return;
     this.scheduled = true;
     requestAnimationFrame(() => this.flush());

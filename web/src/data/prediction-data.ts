@@ -16,7 +16,14 @@ export type { Continuation };
 /** Changes whenever anything a prediction depends on changes in the live run. */
 export function predictionKey(session: SessionInfo | null): string {
   if (!session) return '';
-  return [session.scenarioName, session.detuning.join(','), session.links.map((l) => l.weight).join(','), session.coupling.strength, session.coupling.reactive, session.coupling.dissipative].join('|');
+  return [
+    session.scenarioName,
+    session.detuning.join(','),
+    session.links.map((l) => l.weight).join(','),
+    session.coupling.strength,
+    session.coupling.reactive,
+    session.coupling.dissipative,
+  ].join('|');
 }
 
 /** Angle between two phase differences, in (-pi, pi]. */
@@ -49,7 +56,8 @@ export function livePatternIndex(patterns: readonly CatalogueEntry[], frame: Wir
   const onMode = patterns.filter((e) => e.mode === p.mode).map((e) => ({ e, distance: phaseDistance(e.phaseDifferences, observed) }));
   onMode.sort((a, b) => a.distance - b.distance);
   if (onMode.length > 0 && onMode[0].distance <= SAME_PATTERN_RAD) return { index: onMode[0].e.index, near: true };
-  const sameQ = (q: number | undefined) => (q === undefined && p.q === undefined) || (q !== undefined && p.q !== undefined && (q === p.q || q === (n - p.q) % n));
+  const sameQ = (q: number | undefined) =>
+    (q === undefined && p.q === undefined) || (q !== undefined && p.q !== undefined && (q === p.q || q === (n - p.q) % n));
   const kin = onMode.find(({ e }) => e.kind === p.kind && sameQ(e.q));
   return kin ? { index: kin.e.index, near: false } : null;
 }
@@ -68,14 +76,26 @@ export interface WhatIfParameter {
 /** Every parameter of the live network a continuation can follow. */
 export function whatIfParameters(session: SessionInfo): WhatIfParameter[] {
   const out: WhatIfParameter[] = [];
-  for (let k = 0; k < session.nodes; k++) out.push({ id: `detuning:${k}`, label: `detuning of node ${k}`, ppm: session.epsilon > 0, symbol: `Δ${subscript(k)}` });
+  for (let k = 0; k < session.nodes; k++)
+    out.push({ id: `detuning:${k}`, label: `detuning of node ${k}`, ppm: session.epsilon > 0, symbol: `Δ${subscript(k)}` });
   out.push({ id: 'coupling', label: 'coupling strength κ', ppm: false, symbol: 'κ' });
   out.push({ id: 'reactive', label: 'reactive coupling ρ', ppm: false, symbol: 'ρ' });
   out.push({ id: 'dissipative', label: 'dissipative coupling σ', ppm: false, symbol: 'σ' });
   const has = (a: number, b: number) => session.links.some((l) => l.from === a && l.to === b);
   for (const l of session.links) {
-    out.push({ id: `link:${l.from}-${l.to}`, label: `weight of link ${l.from} → ${l.to}`, ppm: false, symbol: `w${subscript(l.from)}${subscript(l.to)}` });
-    if (l.from < l.to && has(l.to, l.from)) out.push({ id: `edge:${l.from}-${l.to}`, label: `both links ${l.from} ↔ ${l.to}`, ppm: false, symbol: `w${subscript(l.from)}${subscript(l.to)}` });
+    out.push({
+      id: `link:${l.from}-${l.to}`,
+      label: `weight of link ${l.from} → ${l.to}`,
+      ppm: false,
+      symbol: `w${subscript(l.from)}${subscript(l.to)}`,
+    });
+    if (l.from < l.to && has(l.to, l.from))
+      out.push({
+        id: `edge:${l.from}-${l.to}`,
+        label: `both links ${l.from} ↔ ${l.to}`,
+        ppm: false,
+        symbol: `w${subscript(l.from)}${subscript(l.to)}`,
+      });
   }
   return out;
 }

@@ -56,7 +56,14 @@ export class StoreController implements ReactiveController {
       return;
     }
     const w = this.waiting;
-    this.waiting = w ? { frame: w.frame || change.frame, reset: w.reset || change.reset, session: w.session || change.session, events: w.events || change.events } : change;
+    this.waiting = w
+      ? {
+          frame: w.frame || change.frame,
+          reset: w.reset || change.reset,
+          session: w.session || change.session,
+          events: w.events || change.events,
+        }
+      : change;
     if (this.timer !== null) return;
     const wait = Math.max(0, this.lastDelivered + this.minIntervalMs - performance.now());
     this.timer = setTimeout(() => {

@@ -3,7 +3,25 @@ import type { SessionInfo } from '../../../src/protocol/messages.js';
 import type { CatalogueEntry, CatalogueResponse } from '../data/prediction-data.js';
 import { formatHz, formatNumber, formatSeconds, frequencyBasis, runScalesOf } from '../data/engineering.js';
 import { secondsHeading } from './seconds-heading.js';
-import { CAUTION, CHIP, DEFECT_ROW, FAULT, INK, LIVE_ROW, LOCKED, MUTED, ON_SOLID, ROW_HOVER, SELECTED_ROW, SOFT_BORDER, SOFT_INK, UNWANTED, columnStyles, panelStyles, tableStyles } from '../theme.js';
+import {
+  CAUTION,
+  CHIP,
+  DEFECT_ROW,
+  FAULT,
+  INK,
+  LIVE_ROW,
+  LOCKED,
+  MUTED,
+  ON_SOLID,
+  ROW_HOVER,
+  SELECTED_ROW,
+  SOFT_BORDER,
+  SOFT_INK,
+  UNWANTED,
+  columnStyles,
+  panelStyles,
+  tableStyles,
+} from '../theme.js';
 import { modeName, spreadText } from './pattern-text.js';
 
 const KIND_WORDS: Record<string, string> = {
@@ -186,18 +204,27 @@ export class CataloguePanel extends LitElement {
     const scales = this.session ? runScalesOf(this.session) : null;
     return html`
       <p class="facts" data-testid="catalogue-facts">
-        <b>${c.patterns.length}</b> locked patterns, <b style="color:${LOCKED}">${stable} stable</b>${defects
-          ? html` (<b style="color:${UNWANTED}">${defects} of them on an unwanted mode</b>: a board that locks there puts out that mode's frequency, a design defect)`
-          : nothing} ·
-        symmetry group of order ${c.group.order}${c.group.graphOrder !== c.group.order ? html` (the graph alone has ${c.group.graphOrder}; the detuning breaks the rest)` : nothing}
+        <b>${c.patterns.length}</b> locked patterns, <b style="color:${LOCKED}">${stable} stable</b>${
+          defects
+            ? html` (<b style="color:${UNWANTED}">${defects} of them on an unwanted mode</b>: a board that locks there puts out that mode's
+                frequency, a design defect)`
+            : nothing
+        }
+        · symmetry group of order
+        ${c.group.order}${c.group.graphOrder !== c.group.order ? html` (the graph alone has ${c.group.graphOrder}; the detuning breaks the rest)` : nothing}
         ${c.mirrors ? html` · <span title=${c.mirrors.reason}>${c.mirrors.reversing ? 'mirror images listed as pairs' : 'no mirror symmetry'}</span>` : nothing}
         ${broken ? html` · ${broken} broken link${broken > 1 ? 's' : ''}` : nothing}
         <br />
-        ${live
-          ? html`The live run is in <b>#${live.index}</b>${live.near ? '' : ' (nearest of its kind)'}.`
-          : html`<span class="muted">The live run is not locked to any listed pattern.</span>`}
+        ${
+          live
+            ? html`The live run is in <b>#${live.index}</b>${live.near ? '' : ' (nearest of its kind)'}.`
+            : html`<span class="muted">The live run is not locked to any listed pattern.</span>`
+        }
         ${c.initial.settled && c.initial.pattern !== null ? html` The scenario's start settles into #${c.initial.pattern}.` : nothing}
-        <span class="muted">Computed in ${formatNumber(c.wallSeconds, 2)} s${c.fromCache ? ' (cached)' : ''}; output frequencies against the wanted mode's nominal frequency${scales ? `, in Hz ${frequencyBasis(scales)}` : ''}.</span>
+        <span class="muted"
+          >Computed in ${formatNumber(c.wallSeconds, 2)} s${c.fromCache ? ' (cached)' : ''}; output frequencies against the wanted mode's
+          nominal frequency${scales ? `, in Hz ${frequencyBasis(scales)}` : ''}.</span
+        >
         ${this.loading ? html` <span class="stale">Updating for the new parameters…</span>` : this.stale ? html` <span class="stale">The live parameters changed.</span>` : nothing}
         ${c.numbering && !c.numbering.independent ? html`<br /><span class="stale" data-testid="numbering-warning">This list may depend on how the nodes are numbered: ${c.numbering.reason}.</span>` : nothing}
       </p>
@@ -209,10 +236,23 @@ export class CataloguePanel extends LitElement {
               <th>pattern</th>
               <th>symmetry</th>
               <th>stability</th>
-              <th class="r" title="largest real part of the eigenvalues with the symmetry zeros removed, per slow time unit ε·τ">margin /slow</th>
-              <th class="r" title="1 / |margin|: how fast a disturbance dies out (stable) or grows (unstable)" data-testid="catalogue-seconds">${secondsHeading('time constant', scales?.nominalFrequencyAssumed === true)}</th>
+              <th class="r" title="largest real part of the eigenvalues with the symmetry zeros removed, per slow time unit ε·τ">
+                margin /slow
+              </th>
+              <th
+                class="r"
+                title="1 / |margin|: how fast a disturbance dies out (stable) or grows (unstable)"
+                data-testid="catalogue-seconds"
+              >
+                ${secondsHeading('time constant', scales?.nominalFrequencyAssumed === true)}
+              </th>
               <th class="r" title="mean over the nodes of the carrying mode's |a|, and its smallest and largest value">amplitude |a|</th>
-              <th class="r" title="frequency of the locked output against the wanted mode's nominal frequency; below it, the carrying mode's own collective shift from its own nominal frequency">output frequency</th>
+              <th
+                class="r"
+                title="frequency of the locked output against the wanted mode's nominal frequency; below it, the carrying mode's own collective shift from its own nominal frequency"
+              >
+                output frequency
+              </th>
             </tr>
           </thead>
           <tbody>
@@ -220,7 +260,13 @@ export class CataloguePanel extends LitElement {
           </tbody>
         </table>
       </div>
-      ${c.warnings.length ? html`<ul class="warnings">${c.warnings.map((w) => html`<li>${w}</li>`)}</ul>` : nothing}
+      ${
+        c.warnings.length
+          ? html`<ul class="warnings">
+              ${c.warnings.map((w) => html`<li>${w}</li>`)}
+            </ul>`
+          : nothing
+      }
     `;
   }
 
@@ -233,20 +279,38 @@ export class CataloguePanel extends LitElement {
     const output = p.outputOffsetPpm ?? shift;
     const hz = this.session?.nominalFrequencyHz ?? 0;
     return html`
-      <tr class=${classes} data-index=${p.index} data-kind=${p.kind} data-stability=${p.stability} ?data-live=${isLive} @click=${() => this.choose(p.index)}>
+      <tr
+        class=${classes}
+        data-index=${p.index}
+        data-kind=${p.kind}
+        data-stability=${p.stability}
+        ?data-live=${isLive}
+        @click=${() => this.choose(p.index)}
+      >
         <td class="num">${p.index}</td>
         <td>
-          <span class="kind">${KIND_WORDS[p.kind] ?? p.kind}${p.q !== undefined ? ` q = ${p.q}` : ''}</span>${isLive ? html`<span class="badge live">LIVE</span>` : nothing}
-          <span class="small">${modeName(p.mode)}${p.clusters ? ` · ${p.clusters.length} clusters` : ''}${seedNote(p)}${p.spread !== undefined && p.spread !== null && p.kind === 'in-phase' ? ` · spread ${spreadText(p.spread)}` : ''}</span>
-          ${p.mirror?.relation === 'pair' && p.mirror.partner !== null
-            ? html`<a class="small mirror" href="#prediction" data-mirror=${p.mirror.partner} @click=${(e: Event) => {
-                e.preventDefault();
-                e.stopPropagation();
-                this.choose(p.mirror.partner!);
-              }}>mirror image of #${p.mirror.partner}${p.q !== undefined ? ` (q = ${p.q} ↔ ${(c.nodes - p.q) % c.nodes})` : ''}</a>`
-            : p.mirror?.relation === 'self'
-              ? html`<span class="small">its own mirror image</span>`
-              : nothing}
+          <span class="kind">${KIND_WORDS[p.kind] ?? p.kind}${p.q !== undefined ? ` q = ${p.q}` : ''}</span
+          >${isLive ? html`<span class="badge live">LIVE</span>` : nothing}
+          <span class="small"
+            >${modeName(p.mode)}${p.clusters ? ` · ${p.clusters.length} clusters` : ''}${seedNote(p)}${p.spread !== undefined && p.spread !== null && p.kind === 'in-phase' ? ` · spread ${spreadText(p.spread)}` : ''}</span
+          >
+          ${
+            p.mirror?.relation === 'pair' && p.mirror.partner !== null
+              ? html`<a
+                  class="small mirror"
+                  href="#prediction"
+                  data-mirror=${p.mirror.partner}
+                  @click=${(e: Event) => {
+                    e.preventDefault();
+                    e.stopPropagation();
+                    this.choose(p.mirror.partner!);
+                  }}
+                  >mirror image of #${p.mirror.partner}${p.q !== undefined ? ` (q = ${p.q} ↔ ${(c.nodes - p.q) % c.nodes})` : ''}</a
+                >`
+              : p.mirror?.relation === 'self'
+                ? html`<span class="small">its own mirror image</span>`
+                : nothing
+          }
         </td>
         <td>
           ${p.symmetry.slice(0, SYMMETRY_SHOWN).map((s) => html`<span class="chip">${s.element}</span>`)}
@@ -259,17 +323,29 @@ export class CataloguePanel extends LitElement {
         </td>
         <td class="r" title=${`marginal band ± ${formatNumber(p.marginTolerance, 2)} per slow unit`}>${formatNumber(p.margin, 3)}</td>
         <td class="r">
-          ${p.timeConstant
-            ? html`${formatSeconds(p.timeConstant.seconds)}${p.stability === 'unstable' ? ' growth' : ''}<span class="small">${formatNumber(p.timeConstant.slowTime, 3)} slow · ${formatNumber(p.timeConstant.periods, 2)} periods</span>`
-            : '—'}
+          ${
+            p.timeConstant
+              ? html`${formatSeconds(p.timeConstant.seconds)}${p.stability === 'unstable' ? ' growth' : ''}<span class="small"
+                    >${formatNumber(p.timeConstant.slowTime, 3)} slow · ${formatNumber(p.timeConstant.periods, 2)} periods</span
+                  >`
+              : '—'
+          }
         </td>
-        <td class="r">${formatNumber(p.meanAmplitude[p.mode], 3)}<span class="small">${formatNumber(Math.min(...amplitudes), 3)} … ${formatNumber(Math.max(...amplitudes), 3)}</span></td>
         <td class="r">
-          ${output === null || output === undefined
-            ? '—'
-            : html`${formatSignedPpm(output)}<span class="small">${hz > 0 ? formatSignedHz(output * 1e-6 * hz) : ''}</span>${!wanted && shift !== null && shift !== undefined
-                  ? html`<span class="small">own mode ${formatSignedPpm(shift)}</span>`
-                  : nothing}`}
+          ${formatNumber(p.meanAmplitude[p.mode], 3)}<span class="small"
+            >${formatNumber(Math.min(...amplitudes), 3)} … ${formatNumber(Math.max(...amplitudes), 3)}</span
+          >
+        </td>
+        <td class="r">
+          ${
+            output === null || output === undefined
+              ? '—'
+              : html`${formatSignedPpm(output)}<span class="small">${hz > 0 ? formatSignedHz(output * 1e-6 * hz) : ''}</span>${
+                    !wanted && shift !== null && shift !== undefined
+                      ? html`<span class="small">own mode ${formatSignedPpm(shift)}</span>`
+                      : nothing
+                  }`
+          }
         </td>
       </tr>
     `;
@@ -290,7 +366,9 @@ function seedNote(p: CatalogueEntry): string {
   if (seed.type === 'cycle-wave') return ` · grew from a twisted wave q = ${seed.q} along the cycle ${seed.cycle?.join('→') ?? ''}`;
   if (seed.exact) return '';
   const sameShape = seed.type === p.kind && (seed.q ?? null) === (p.q ?? null);
-  return sameShape ? ' · symmetry approximate' : ` · grew from ${KIND_WORDS[seed.type] ?? seed.type}${seed.q !== undefined ? ` q = ${seed.q}` : ''}`;
+  return sameShape
+    ? ' · symmetry approximate'
+    : ` · grew from ${KIND_WORDS[seed.type] ?? seed.type}${seed.q !== undefined ? ` q = ${seed.q}` : ''}`;
 }
 
 function isWanted(p: CatalogueEntry): boolean {

@@ -58,7 +58,9 @@ export class ConnectionBanner extends LitElement {
     const s = this.state;
     if (!s || s.phase === 'open' || s.phase === 'stopped') return nothing;
     if (s.phase === 'connecting') {
-      return html`<div class="banner connecting" role="status" data-testid="banner">Connecting to the simulation server…${s.attempt ? html` <span class="why">(attempt ${s.attempt + 1})</span>` : ''}</div>`;
+      return html`<div class="banner connecting" role="status" data-testid="banner">
+        Connecting to the simulation server…${s.attempt ? html` <span class="why">(attempt ${s.attempt + 1})</span>` : ''}
+      </div>`;
     }
     const seconds = s.retryAt ? Math.max(0, Math.ceil((s.retryAt - this.now) / 1000)) : 0;
     return html`<div class="banner" role="alert" data-testid="banner">

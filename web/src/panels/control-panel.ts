@@ -9,7 +9,6 @@ import type { ScenarioChoice } from '../../../src/protocol/catalogue-lists.js';
 import { lockIcon } from './icons.js';
 import './detuning-editor.js';
 
-
 /** Pace presets in slow-time units per wall second. */
 const SPEEDS: Speed[] = [0.1, 0.3, 1, 3, 10, 30, 'max'];
 
@@ -101,7 +100,11 @@ export class ControlPanel extends LitElement {
     this.lastCommand = '';
     this.drafts = {};
     this.detuningNode = 0;
-    new StoreController(this, () => this.store, (change) => (change.session || change.reset) && this.requestUpdate());
+    new StoreController(
+      this,
+      () => this.store,
+      (change) => (change.session || change.reset) && this.requestUpdate(),
+    );
   }
 
   private draft(key: string, fallback: number | string): string {
@@ -135,13 +138,15 @@ export class ControlPanel extends LitElement {
 
   override render() {
     const s = this.store?.session;
-    if (!s) return html`<h2>Controls</h2><p class="muted">Waiting for the session…</p>`;
+    if (!s)
+      return html`<h2>Controls</h2>
+        <p class="muted">Waiting for the session…</p>`;
     const off = !this.canEdit;
     return html`
       <h2>Controls</h2>
       ${off ? html`<div class="readonly" data-testid="controls-readonly">${lockIcon} ${this.readOnlyReason || 'View only'}</div>` : nothing}
-      ${this.renderRun(s, off)} ${this.renderCoupling(s, off)} ${this.renderNoise(s, off)} ${this.renderLinks(s, off)} ${this.renderDetuning(s, off)}
-      ${this.renderKick(s, off)} ${this.renderScenario(s, off)}
+      ${this.renderRun(s, off)} ${this.renderCoupling(s, off)} ${this.renderNoise(s, off)} ${this.renderLinks(s, off)}
+      ${this.renderDetuning(s, off)} ${this.renderKick(s, off)} ${this.renderScenario(s, off)}
       <div class="last" data-testid="last-command">${this.lastCommand}</div>
     `;
   }
@@ -160,21 +165,32 @@ export class ControlPanel extends LitElement {
       <fieldset>
         <legend>Run</legend>
         <div class="row">
-          <button data-action=${paused ? 'resume' : 'pause'} class="primary" ?disabled=${off || s.status === 'halted'} @click=${() => this.send(paused ? 'resume' : 'pause')}>
+          <button
+            data-action=${paused ? 'resume' : 'pause'}
+            class="primary"
+            ?disabled=${off || s.status === 'halted'}
+            @click=${() => this.send(paused ? 'resume' : 'pause')}
+          >
             ${paused ? '▶ Resume' : '❚❚ Pause'}
           </button>
           <button data-action="reset" ?disabled=${off} @click=${() => this.send('reset')}>↺ Reset</button>
           <label
             >speed
-            <select data-action="set-speed" ?disabled=${off} @change=${(e: Event) => {
-              const v = (e.target as HTMLSelectElement).value;
-              this.send('set-speed', { speed: v === 'max' ? 'max' : Number(v) });
-            }}>
+            <select
+              data-action="set-speed"
+              ?disabled=${off}
+              @change=${(e: Event) => {
+                const v = (e.target as HTMLSelectElement).value;
+                this.send('set-speed', { speed: v === 'max' ? 'max' : Number(v) });
+              }}
+            >
               ${SPEEDS.map((v) => html`<option value=${String(v)} ?selected=${String(v) === String(s.speed)}>${v === 'max' ? 'max' : `${v} slow/s`}</option>`)}
               ${SPEEDS.some((v) => String(v) === String(s.speed)) ? nothing : html`<option selected value=${String(s.speed)}>${formatNumber(s.speed as number)} slow/s</option>`}
             </select></label
           >
-          <span class="unit">${pace !== null ? `≈ ${formatSimulatedSeconds(pace, scales)} simulated per second` : s.speed === 'max' ? 'as fast as the server can' : ''}</span>
+          <span class="unit"
+            >${pace !== null ? `≈ ${formatSimulatedSeconds(pace, scales)} simulated per second` : s.speed === 'max' ? 'as fast as the server can' : ''}</span
+          >
         </div>
       </fieldset>
     `;
@@ -187,13 +203,31 @@ export class ControlPanel extends LitElement {
       <fieldset>
         <legend>Coupling</legend>
         <div class="row">
-          <label>κ <input type="number" step="0.01" .value=${this.draft('k', s.coupling.strength)} ?disabled=${off} @input=${this.edit('k')} /></label>
-          <label>ρ <input type="number" step="0.1" .value=${this.draft('rho', s.coupling.reactive)} ?disabled=${off} @input=${this.edit('rho')} /></label>
-          <label>σ <input type="number" step="0.1" .value=${this.draft('sigma', s.coupling.dissipative)} ?disabled=${off} @input=${this.edit('sigma')} /></label>
-          <button data-action="set-coupling" ?disabled=${off} @click=${() => {
-            const fields = this.changed(keys);
-            if (Object.keys(fields).length) this.send('set-coupling', fields, Object.values(keys));
-          }}>Apply</button>
+          <label
+            >κ <input type="number" step="0.01" .value=${this.draft('k', s.coupling.strength)} ?disabled=${off} @input=${this.edit('k')}
+          /></label>
+          <label
+            >ρ <input type="number" step="0.1" .value=${this.draft('rho', s.coupling.reactive)} ?disabled=${off} @input=${this.edit('rho')}
+          /></label>
+          <label
+            >σ
+            <input
+              type="number"
+              step="0.1"
+              .value=${this.draft('sigma', s.coupling.dissipative)}
+              ?disabled=${off}
+              @input=${this.edit('sigma')}
+          /></label>
+          <button
+            data-action="set-coupling"
+            ?disabled=${off}
+            @click=${() => {
+              const fields = this.changed(keys);
+              if (Object.keys(fields).length) this.send('set-coupling', fields, Object.values(keys));
+            }}
+          >
+            Apply
+          </button>
         </div>
         <div class="unit">ε·κ = ${formatNumber(rateAsPpm(kappa, s.epsilon), 3)} ppm (coupling rate as a relative frequency)</div>
       </fieldset>
@@ -206,12 +240,30 @@ export class ControlPanel extends LitElement {
       <fieldset>
         <legend>Noise</legend>
         <div class="row">
-          <label>q <input type="number" step="any" min="0" .value=${this.draft('q', s.noise.intensity)} ?disabled=${off} @input=${this.edit('q')} /></label>
-          <label>Δ walk <input type="number" step="any" min="0" .value=${this.draft('walk', s.noise.detuningWalk)} ?disabled=${off} @input=${this.edit('walk')} /></label>
-          <button data-action="set-noise" ?disabled=${off} @click=${() => {
-            const fields = this.changed(keys);
-            if (Object.keys(fields).length) this.send('set-noise', fields, Object.values(keys));
-          }}>Apply</button>
+          <label
+            >q
+            <input type="number" step="any" min="0" .value=${this.draft('q', s.noise.intensity)} ?disabled=${off} @input=${this.edit('q')}
+          /></label>
+          <label
+            >Δ walk
+            <input
+              type="number"
+              step="any"
+              min="0"
+              .value=${this.draft('walk', s.noise.detuningWalk)}
+              ?disabled=${off}
+              @input=${this.edit('walk')}
+          /></label>
+          <button
+            data-action="set-noise"
+            ?disabled=${off}
+            @click=${() => {
+              const fields = this.changed(keys);
+              if (Object.keys(fields).length) this.send('set-noise', fields, Object.values(keys));
+            }}
+          >
+            Apply
+          </button>
         </div>
         <div class="unit">seed ${s.noise.seed}; q per unit τ on each x″, Δ walk per unit τ</div>
       </fieldset>
@@ -227,20 +279,43 @@ export class ControlPanel extends LitElement {
       <fieldset>
         <legend>Link</legend>
         <div class="row">
-          <select ?disabled=${off} @change=${(e: Event) => {
-            const { weight: _stale, ...rest } = this.drafts;
-            this.drafts = { ...rest, link: (e.target as HTMLSelectElement).value };
-          }}>
+          <select
+            ?disabled=${off}
+            @change=${(e: Event) => {
+              const { weight: _stale, ...rest } = this.drafts;
+              this.drafts = { ...rest, link: (e.target as HTMLSelectElement).value };
+            }}
+          >
             ${s.links.map((l, i) => html`<option value=${i} ?selected=${i === index}>${l.from} → ${l.to}${l.weight === 0 ? ' ✕' : ''}</option>`)}
           </select>
-          <label>weight <input type="number" step="0.1" min="0" .value=${this.draft('weight', link.weight)} ?disabled=${off} @input=${this.edit('weight')} /></label>
-          <button data-action="set-link-weight" ?disabled=${off} @click=${() => this.send('set-link-weight', { from: link.from, to: link.to, weight }, ['weight'])}>Set</button>
-          <button data-action=${link.weight > 0 ? 'break-link' : 'restore-link'} ?disabled=${off}
-            @click=${() => this.send(link.weight > 0 ? 'break-link' : 'restore-link', { from: link.from, to: link.to })}>
+          <label
+            >weight
+            <input
+              type="number"
+              step="0.1"
+              min="0"
+              .value=${this.draft('weight', link.weight)}
+              ?disabled=${off}
+              @input=${this.edit('weight')}
+          /></label>
+          <button
+            data-action="set-link-weight"
+            ?disabled=${off}
+            @click=${() => this.send('set-link-weight', { from: link.from, to: link.to, weight }, ['weight'])}
+          >
+            Set
+          </button>
+          <button
+            data-action=${link.weight > 0 ? 'break-link' : 'restore-link'}
+            ?disabled=${off}
+            @click=${() => this.send(link.weight > 0 ? 'break-link' : 'restore-link', { from: link.from, to: link.to })}
+          >
             ${link.weight > 0 ? 'Break' : 'Restore'}
           </button>
         </div>
-        <div class="unit">${formatNumber((100 * weight) / (link.nominal || 1), 3)} % of nominal (${formatNumber(link.nominal)}); a broken link has weight 0</div>
+        <div class="unit">
+          ${formatNumber((100 * weight) / (link.nominal || 1), 3)} % of nominal (${formatNumber(link.nominal)}); a broken link has weight 0
+        </div>
       </fieldset>
     `;
   }
@@ -251,10 +326,12 @@ export class ControlPanel extends LitElement {
       <fieldset>
         <legend>Detuning</legend>
         <div class="row">
-          <label>node
+          <label
+            >node
             <select ?disabled=${off} @change=${(e: Event) => (this.detuningNode = Number((e.target as HTMLSelectElement).value))}>
               ${Array.from({ length: s.nodes }, (_, i) => html`<option value=${i} ?selected=${i === k}>${i}</option>`)}
-            </select></label>
+            </select></label
+          >
           <sr-detuning-editor inline .node=${k} .delta=${s.detuning[k] ?? 0} .epsilon=${s.epsilon} ?disabled=${off}></sr-detuning-editor>
         </div>
       </fieldset>
@@ -268,16 +345,42 @@ export class ControlPanel extends LitElement {
       <fieldset>
         <legend>Kick a mode</legend>
         <div class="row">
-          <label>node <select ?disabled=${off} @change=${this.edit('kickNode')}>
-            ${Array.from({ length: s.nodes }, (_, i) => html`<option value=${i} ?selected=${i === node}>${i}</option>`)}
-          </select></label>
-          <label>mode <select ?disabled=${off} @change=${this.edit('kickMode')}>
-            ${Array.from({ length: s.modes }, (_, j) => html`<option value=${j} ?selected=${j === mode}>${j === 0 ? '0 (wanted)' : `${j} (unwanted)`}</option>`)}
-          </select></label>
-          <label>|Δa| <input type="number" step="0.1" .value=${this.draft('kickAmount', 0.5)} ?disabled=${off} @input=${this.edit('kickAmount')} /></label>
-          <label>phase <input type="number" step="0.1" .value=${this.draft('kickPhase', 0)} ?disabled=${off} @input=${this.edit('kickPhase')} /><span class="unit">rad</span></label>
-          <button data-action="kick-mode" ?disabled=${off} @click=${() =>
-            this.send('kick-mode', { node, mode, amount: Number(this.draft('kickAmount', 0.5)), phase: Number(this.draft('kickPhase', 0)) })}>Kick</button>
+          <label
+            >node
+            <select ?disabled=${off} @change=${this.edit('kickNode')}>
+              ${Array.from({ length: s.nodes }, (_, i) => html`<option value=${i} ?selected=${i === node}>${i}</option>`)}
+            </select></label
+          >
+          <label
+            >mode
+            <select ?disabled=${off} @change=${this.edit('kickMode')}>
+              ${Array.from({ length: s.modes }, (_, j) => html`<option value=${j} ?selected=${j === mode}>${j === 0 ? '0 (wanted)' : `${j} (unwanted)`}</option>`)}
+            </select></label
+          >
+          <label
+            >|Δa|
+            <input type="number" step="0.1" .value=${this.draft('kickAmount', 0.5)} ?disabled=${off} @input=${this.edit('kickAmount')}
+          /></label>
+          <label
+            >phase
+            <input type="number" step="0.1" .value=${this.draft('kickPhase', 0)} ?disabled=${off} @input=${this.edit('kickPhase')} /><span
+              class="unit"
+              >rad</span
+            ></label
+          >
+          <button
+            data-action="kick-mode"
+            ?disabled=${off}
+            @click=${() =>
+              this.send('kick-mode', {
+                node,
+                mode,
+                amount: Number(this.draft('kickAmount', 0.5)),
+                phase: Number(this.draft('kickPhase', 0)),
+              })}
+          >
+            Kick
+          </button>
         </div>
       </fieldset>
     `;
@@ -293,7 +396,9 @@ export class ControlPanel extends LitElement {
           <select ?disabled=${off || this.scenarios.length === 0} @change=${this.edit('scenario')}>
             ${this.scenarios.map((c) => html`<option value=${c.name} ?selected=${c.name === chosen}>${c.title}</option>`)}
           </select>
-          <button data-action="load-scenario" ?disabled=${off || !chosen} @click=${() => this.send('load-scenario', { name: chosen })}>Load</button>
+          <button data-action="load-scenario" ?disabled=${off || !chosen} @click=${() => this.send('load-scenario', { name: chosen })}>
+            Load
+          </button>
           <span class="unit">now: ${s.scenarioName}</span>
         </div>
       </fieldset>

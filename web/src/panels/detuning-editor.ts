@@ -124,11 +124,25 @@ export class DetuningEditor extends LitElement {
         <label for="ppm">offset (ppm)</label>
         <span></span>
         <label for="delta">Δ (model)</label>
-        <input id="ppm" type="number" step="0.01" .value=${this.ppmText} ?disabled=${this.disabled || !canPpm} @input=${this.onPpm}
-          @keydown=${(e: KeyboardEvent) => e.key === 'Enter' && this.apply()} />
+        <input
+          id="ppm"
+          type="number"
+          step="0.01"
+          .value=${this.ppmText}
+          ?disabled=${this.disabled || !canPpm}
+          @input=${this.onPpm}
+          @keydown=${(e: KeyboardEvent) => e.key === 'Enter' && this.apply()}
+        />
         <span class="eq">⇄</span>
-        <input id="delta" type="number" step="0.01" .value=${this.deltaText} ?disabled=${this.disabled} @input=${this.onDelta}
-          @keydown=${(e: KeyboardEvent) => e.key === 'Enter' && this.apply()} />
+        <input
+          id="delta"
+          type="number"
+          step="0.01"
+          .value=${this.deltaText}
+          ?disabled=${this.disabled}
+          @input=${this.onDelta}
+          @keydown=${(e: KeyboardEvent) => e.key === 'Enter' && this.apply()}
+        />
       </div>
       <div class="eq">Δ = ppm·10⁻⁶ / ε, ε = ${formatNumber(this.epsilon)}</div>
       <div class="actions">

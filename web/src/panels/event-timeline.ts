@@ -76,7 +76,11 @@ export class EventTimeline extends LitElement {
   constructor() {
     super();
     this.store = null;
-    new StoreController(this, () => this.store, (change) => (change.events || change.reset || change.session) && this.requestUpdate());
+    new StoreController(
+      this,
+      () => this.store,
+      (change) => (change.events || change.reset || change.session) && this.requestUpdate(),
+    );
   }
 
   override render() {
@@ -89,16 +93,22 @@ export class EventTimeline extends LitElement {
       <div class="scroll">
         <table data-testid="timeline">
           <thead>
-            <tr><th>τ</th><th data-testid="timeline-seconds">${secondsHeading('time', scales?.nominalFrequencyAssumed === true)}</th><th>who</th><th>what</th></tr>
+            <tr>
+              <th>τ</th>
+              <th data-testid="timeline-seconds">${secondsHeading('time', scales?.nominalFrequencyAssumed === true)}</th>
+              <th>who</th>
+              <th>what</th>
+            </tr>
           </thead>
           <tbody>
             ${[...events].reverse().map(
-              (e) => html`<tr data-kind=${e.kind}>
-                <td class="num">${formatNumber(e.tau, 4)}</td>
-                <td class="num">${seconds(e)}</td>
-                <td class="who">${e.by}</td>
-                <td><span class="kind" style="background:${KIND_COLOUR[e.kind] ?? MUTED}">${e.kind}</span>${e.message}</td>
-              </tr>`,
+              (e) =>
+                html`<tr data-kind=${e.kind}>
+                  <td class="num">${formatNumber(e.tau, 4)}</td>
+                  <td class="num">${seconds(e)}</td>
+                  <td class="who">${e.by}</td>
+                  <td><span class="kind" style="background:${KIND_COLOUR[e.kind] ?? MUTED}">${e.kind}</span>${e.message}</td>
+                </tr>`,
             )}
           </tbody>
         </table>

@@ -1,7 +1,16 @@
 import { LitElement, css, unsafeCSS, html, nothing } from 'lit';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
-import { formatHz, formatNumber, formatSeconds, formatSimulatedSeconds, frequencyBasis, marginTimeConstant, runScalesOf, type RunScales } from '../data/engineering.js';
+import {
+  formatHz,
+  formatNumber,
+  formatSeconds,
+  formatSimulatedSeconds,
+  frequencyBasis,
+  marginTimeConstant,
+  runScalesOf,
+  type RunScales,
+} from '../data/engineering.js';
 import type { WireFrame } from '../../../src/protocol/messages.js';
 import type { LivePrediction } from '../../../src/predict/live.js';
 import { tauToSeconds } from '../../../src/scenario/units.js';
@@ -105,13 +114,20 @@ export class PatternPanel extends LitElement {
   constructor() {
     super();
     this.store = null;
-    new StoreController(this, () => this.store, () => this.requestUpdate(), 250);
+    new StoreController(
+      this,
+      () => this.store,
+      () => this.requestUpdate(),
+      250,
+    );
   }
 
   override render() {
     const session = this.store?.session;
     const frame = this.store?.latest;
-    if (!session || !frame) return html`<h2>Pattern</h2><p class="muted">No frame yet.</p>`;
+    if (!session || !frame)
+      return html`<h2>Pattern</h2>
+        <p class="muted">No frame yet.</p>`;
     const p = frame.full.pattern;
     const g = frame.guide.pattern;
     const scales = runScalesOf(session);
@@ -134,18 +150,30 @@ export class PatternPanel extends LitElement {
           <span class="sub">${patternLabel(p, { short: true })}</span>
         </div>
         <div class="line" data-testid="lock-state">
-          ${status === 'locked' && p.lockedSince !== null
-            ? html`locked since τ = ${formatNumber(p.lockedSince, 4)} (${seconds(p.lockedSince)})${p.settledSince !== undefined && p.settledSince !== null && p.settledSince > p.lockedSince ? html`, settled again at τ = ${formatNumber(p.settledSince, 4)}` : nothing}`
-            : status === 'settling'
-              ? html`<b style="color:${CAUTION}">settling</b> for ${slowUnits(frame.tau - (p.settlingSince ?? frame.tau))} slow units: moved ${formatNumber(p.move, 2)} rad so far, no cycle slip (a slip is a move of π)`
-              : html`not locked (shape ${p.shape})`}
-          · phase wander ${formatNumber(p.excursion, 2)} rad${p.slips ? html` · ${p.slips} cycle slip${p.slips === 1 ? '' : 's'} so far` : nothing}
+          ${
+            status === 'locked' && p.lockedSince !== null
+              ? html`locked since τ = ${formatNumber(p.lockedSince, 4)}
+                (${seconds(p.lockedSince)})${p.settledSince !== undefined && p.settledSince !== null && p.settledSince > p.lockedSince ? html`, settled again at τ = ${formatNumber(p.settledSince, 4)}` : nothing}`
+              : status === 'settling'
+                ? html`<b style="color:${CAUTION}">settling</b> for ${slowUnits(frame.tau - (p.settlingSince ?? frame.tau))} slow units:
+                    moved ${formatNumber(p.move, 2)} rad so far, no cycle slip (a slip is a move of π)`
+                : html`not locked (shape ${p.shape})`
+          }
+          · phase wander ${formatNumber(p.excursion, 2)}
+          rad${p.slips ? html` · ${p.slips} cycle slip${p.slips === 1 ? '' : 's'} so far` : nothing}
         </div>
-        ${p.spread !== undefined
-          ? html`<div class="line" data-testid="array-output" title="spread: largest phase distance of a node from the array's mean phase; combining loss: 20 log10(|mean a| / mean |a|), the summed output against N parts in phase">
-              array output: phase spread ${spreadText(p.spread)} · combining loss ${p.combiningLossDb === null ? '—' : `${formatNumber(p.combiningLossDb, 2)} dB`}
-            </div>`
-          : nothing}
+        ${
+          p.spread !== undefined
+            ? html`<div
+                class="line"
+                data-testid="array-output"
+                title="spread: largest phase distance of a node from the array's mean phase; combining loss: 20 log10(|mean a| / mean |a|), the summed output against N parts in phase"
+              >
+                array output: phase spread ${spreadText(p.spread)} · combining loss
+                ${p.combiningLossDb === null ? '—' : `${formatNumber(p.combiningLossDb, 2)} dB`}
+              </div>`
+            : nothing
+        }
         ${unwanted ? html`<div class="line defect" data-testid="unwanted-mode">${unwantedModeText(p.mode, modeOffset(p.mode, session.omega, scales.nominalFrequencyHz), (hz) => `${formatHz(hz)} ${frequencyBasis(scales)}`)}</div>` : nothing}
       </section>
       <section data-testid="pattern-symmetry">
@@ -163,31 +191,44 @@ export class PatternPanel extends LitElement {
           <dd>${patternLabel(g)}</dd>
           <dt>margin</dt>
           <dd>
-            ${margin === null
-              ? html`<span class="muted">${g.locked ? 'not computed' : 'needs a locked guide'}</span>`
-              : html`${formatNumber(margin, 3)} per slow unit <span class=${margin < 0 ? 'stable' : 'unstable'}>${margin < 0 ? 'stable' : 'unstable'}</span>`}
+            ${
+              margin === null
+                ? html`<span class="muted">${g.locked ? 'not computed' : 'needs a locked guide'}</span>`
+                : html`${formatNumber(margin, 3)} per slow unit
+                    <span class=${margin < 0 ? 'stable' : 'unstable'}>${margin < 0 ? 'stable' : 'unstable'}</span>`
+            }
           </dd>
-          ${constant
-            ? html`<dt>time constant</dt>
-                <dd>${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈ ${formatSeconds(constant.seconds)} ${frequencyBasis(scales)}</dd>`
-            : nothing}
+          ${
+            constant
+              ? html`<dt>time constant</dt>
+                  <dd>
+                    ${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈
+                    ${formatSeconds(constant.seconds)} ${frequencyBasis(scales)}
+                  </dd>`
+              : nothing
+          }
           <dt>full − guide</dt>
-          <dd title="largest |a_full − a_guide| over nodes and modes; 'aligned' removes the common phase that noise makes drift, leaving the part that is a different pattern">
-            max |Δa| = ${formatNumber(frame.divergence.max, 3)} (${formatNumber(100 * frame.divergence.relative, 2)} %)${aligned !== undefined ? html` · aligned ${formatNumber(aligned, 3)}` : nothing}
+          <dd
+            title="largest |a_full − a_guide| over nodes and modes; 'aligned' removes the common phase that noise makes drift, leaving the part that is a different pattern"
+          >
+            max |Δa| = ${formatNumber(frame.divergence.max, 3)} (${formatNumber(100 * frame.divergence.relative, 2)}
+            %)${aligned !== undefined ? html` · aligned ${formatNumber(aligned, 3)}` : nothing}
           </dd>
           ${prediction ? this.renderPrediction(prediction, scales, session.omega) : nothing}
           <dt>integrator</dt>
           <dd>${integratorText(frame)}</dd>
         </dl>
       </section>
-      ${warnings.length
-        ? html`<section data-testid="pattern-warnings">
-            <h3>Warnings</h3>
-            <ul class="warnings">
-              ${warnings.map((w) => html`<li class=${w.fault ? 'fault' : ''}>${w.text}</li>`)}
-            </ul>
-          </section>`
-        : nothing}
+      ${
+        warnings.length
+          ? html`<section data-testid="pattern-warnings">
+              <h3>Warnings</h3>
+              <ul class="warnings">
+                ${warnings.map((w) => html`<li class=${w.fault ? 'fault' : ''}>${w.text}</li>`)}
+              </ul>
+            </section>`
+          : nothing
+      }
     `;
   }
 
@@ -197,10 +238,12 @@ export class PatternPanel extends LitElement {
     return html`<dt>after last change</dt>
       <dd data-testid="prediction">
         <span class=${verdictClass}>${p.verdict}</span> (at τ = ${formatNumber(p.tau, 4)}): ${p.message}
-        ${next
-          ? html`<br /><span class="muted">${destinationText(next, scales)}</span>
-              ${next.locked && next.mode !== 0 ? html`<br /><span class="defect">${unwantedModeText(next.mode, modeOffset(next.mode, omega, scales.nominalFrequencyHz), (hz) => `${formatHz(hz)} ${frequencyBasis(scales)}`)}</span>` : nothing}`
-          : nothing}
+        ${
+          next
+            ? html`<br /><span class="muted">${destinationText(next, scales)}</span>
+                ${next.locked && next.mode !== 0 ? html`<br /><span class="defect">${unwantedModeText(next.mode, modeOffset(next.mode, omega, scales.nominalFrequencyHz), (hz) => `${formatHz(hz)} ${frequencyBasis(scales)}`)}</span>` : nothing}`
+            : nothing
+        }
       </dd>`;
   }
 
@@ -215,8 +258,13 @@ export class PatternPanel extends LitElement {
       out.push({ text: blowUp ? blowUp.message : 'the run halted (blow-up); the last good state is kept', fault: true });
     }
     for (const w of session.warnings) out.push({ text: w, fault: false });
-    if (events.some((e) => e.kind === 'guide-failure')) out.push({ text: 'the guiding system failed; its prediction is stale', fault: true });
-    if (frame.full.dominantMode !== 0) out.push({ text: `${modeName(frame.full.dominantMode)} carries most of the energy: the output is at that mode's frequency`, fault: true });
+    if (events.some((e) => e.kind === 'guide-failure'))
+      out.push({ text: 'the guiding system failed; its prediction is stale', fault: true });
+    if (frame.full.dominantMode !== 0)
+      out.push({
+        text: `${modeName(frame.full.dominantMode)} carries most of the energy: the output is at that mode's frequency`,
+        fault: true,
+      });
     return out;
   }
 }
@@ -225,7 +273,10 @@ export class PatternPanel extends LitElement {
 function integratorText(frame: WireFrame): string {
   const f = frame as { mode?: string; noiseModel?: string };
   if (f.mode === 'envelope') {
-    const noise = f.noiseModel === 'averaged-diffusion' ? '; noise as averaged diffusion: statistically, not pathwise, equivalent to the micro steps' : '';
+    const noise =
+      f.noiseModel === 'averaged-diffusion'
+        ? '; noise as averaged diffusion: statistically, not pathwise, equivalent to the micro steps'
+        : '';
     return `second-order envelope (macro steps)${noise}`;
   }
   return f.mode === 'micro' ? 'micro steps resolving the carrier' : '—';

@@ -12,7 +12,9 @@ export function patternLabel(p: PatternReport, options: { short?: boolean } = {}
   const q = p.q !== undefined ? `q = ${p.q}` : '';
   const clusters = p.kind === 'cluster' && p.clusters ? `${p.clusters.length} clusters` : '';
   const settling = p.status === 'settling' ? 'settling' : '';
-  const parts = [options.short ? '' : p.locked ? p.kind : `unlocked (shape ${p.shape})`, q, clusters, modeName(p.mode), settling].filter(Boolean);
+  const parts = [options.short ? '' : p.locked ? p.kind : `unlocked (shape ${p.shape})`, q, clusters, modeName(p.mode), settling].filter(
+    Boolean,
+  );
   return parts.join(' · ');
 }
 
@@ -59,7 +61,13 @@ export function destinationText(next: PredictedPattern, scales: RunScales | null
   const constant = next.margin !== null && scales ? marginTimeConstant(next.margin, scales) : null;
   const transit = next.transit ?? null;
   const head = `→ ${next.kind}${next.q !== undefined ? ` q = ${next.q}` : ''} on ${modeName(next.mode)}`;
-  const tc = constant ? `, time constant ${formatSimulatedSeconds(constant.seconds, scales!)} (${formatNumber(constant.slow, 3)} slow units)` : '';
-  const arrival = !next.locked ? '' : transit ? `; the look-ahead gets there in ≈ ${scales ? formatSimulatedSeconds(transit.seconds, scales) : ''} (${formatNumber(transit.slowTime, 3)} slow units)` : '; transit time not predicted';
+  const tc = constant
+    ? `, time constant ${formatSimulatedSeconds(constant.seconds, scales!)} (${formatNumber(constant.slow, 3)} slow units)`
+    : '';
+  const arrival = !next.locked
+    ? ''
+    : transit
+      ? `; the look-ahead gets there in ≈ ${scales ? formatSimulatedSeconds(transit.seconds, scales) : ''} (${formatNumber(transit.slowTime, 3)} slow units)`
+      : '; transit time not predicted';
   return `${head}${tc}${arrival}`;
 }

@@ -83,10 +83,15 @@ export class PredictionView extends LitElement {
     this.error = '';
     this.selected = -1;
     // Twice a second is enough for the live row and the prediction text; parameters are checked each time.
-    new StoreController(this, () => this.store, () => {
-      this.requestUpdate();
-      this.scheduleFetch();
-    }, 500);
+    new StoreController(
+      this,
+      () => this.store,
+      () => {
+        this.requestUpdate();
+        this.scheduleFetch();
+      },
+      500,
+    );
     this.addEventListener('sr-select-pattern', (e) => (this.selected = (e as CustomEvent<number>).detail));
   }
 
@@ -137,7 +142,12 @@ export class PredictionView extends LitElement {
         <sr-live-prediction .prediction=${prediction} .scales=${session ? runScalesOf(session) : null}></sr-live-prediction>
       </div>
       <div class="column">
-        <sr-what-if-panel .session=${session} .catalogue=${this.catalogue} .livePattern=${live?.index ?? -1} .selected=${this.selected}></sr-what-if-panel>
+        <sr-what-if-panel
+          .session=${session}
+          .catalogue=${this.catalogue}
+          .livePattern=${live?.index ?? -1}
+          .selected=${this.selected}
+        ></sr-what-if-panel>
       </div>
     `;
   }
@@ -179,7 +189,9 @@ export class LivePredictionCard extends LitElement {
 
   override render() {
     const p = this.prediction;
-    if (!p) return html`<h2>Live prediction</h2><p class="muted">No change yet: after each fault the guiding system predicts whether the live pattern persists.</p>`;
+    if (!p)
+      return html`<h2>Live prediction</h2>
+        <p class="muted">No change yet: after each fault the guiding system predicts whether the live pattern persists.</p>`;
     const next = p.pattern;
     return html`
       <h2>Live prediction after the last change</h2>

@@ -49,7 +49,12 @@ export function labelPosition(node: NodeLayout, radius: number): Point & { ancho
   return { x: CENTRE.x + d * c, y: CENTRE.y + d * Math.sin(node.angle), anchor: side ? (c > 0 ? 'start' : 'end') : 'middle' };
 }
 
-export function linkLayout(links: readonly LinkState[], nodes: readonly NodeLayout[], radius: number, strokeWidth: (l: LinkState) => number): LinkLayout[] {
+export function linkLayout(
+  links: readonly LinkState[],
+  nodes: readonly NodeLayout[],
+  radius: number,
+  strokeWidth: (l: LinkState) => number,
+): LinkLayout[] {
   const pairs = new Set(links.map((l) => `${l.from}>${l.to}`));
   return links
     .filter((l) => l.from !== l.to && nodes[l.from] && nodes[l.to])

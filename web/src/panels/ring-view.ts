@@ -4,7 +4,17 @@ import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { formatNumber, formatSigned } from '../data/engineering.js';
 import { CAUTION, FAULT, INK, LINK_LINE, LOCKED, MUTED, NODE_RIM, SURFACE, UNWANTED, BRAND, nodeColour, panelStyles } from '../theme.js';
-import { CENTRE, VIEW_HEIGHT, VIEW_WIDTH, labelPosition, linkLayout, nodeLayout, nodeRadius, type LinkLayout, type NodeLayout } from './ring-geometry.js';
+import {
+  CENTRE,
+  VIEW_HEIGHT,
+  VIEW_WIDTH,
+  labelPosition,
+  linkLayout,
+  nodeLayout,
+  nodeRadius,
+  type LinkLayout,
+  type NodeLayout,
+} from './ring-geometry.js';
 import { commandEvent, noticeEvent } from './commands.js';
 import { patternLabel } from './pattern-text.js';
 import { lockIcon } from './icons.js';
@@ -106,7 +116,9 @@ export class RingView extends LitElement {
 
   private onLink(link: LinkState): void {
     if (!this.canEdit) {
-      this.dispatchEvent(noticeEvent('info', `Link ${link.from} → ${link.to} not changed: ${this.readOnlyReason || 'this page is view-only'}.`));
+      this.dispatchEvent(
+        noticeEvent('info', `Link ${link.from} → ${link.to} not changed: ${this.readOnlyReason || 'this page is view-only'}.`),
+      );
       return;
     }
     this.dispatchEvent(commandEvent(link.weight > 0 ? 'break-link' : 'restore-link', { from: link.from, to: link.to }));
@@ -123,7 +135,9 @@ export class RingView extends LitElement {
   override render() {
     const session = this.store?.session ?? null;
     const frame = this.store?.latest ?? null;
-    if (!session) return html`<h2>Ring</h2><p class="muted">Waiting for the session…</p>`;
+    if (!session)
+      return html`<h2>Ring</h2>
+        <p class="muted">Waiting for the session…</p>`;
     const n = session.nodes;
     const nodes = nodeLayout(n);
     const radius = nodeRadius(n);
@@ -132,22 +146,39 @@ export class RingView extends LitElement {
     const links = linkLayout(session.links, nodes, radius, width);
     const broken = session.links.filter((l) => l.weight === 0).length;
     return html`
-      <h2>Ring · ${n} resonators · ${session.links.length} links${broken ? html` · <span style="color:${FAULT}">${broken} broken</span>` : ''}</h2>
+      <h2>
+        Ring · ${n} resonators · ${session.links.length} links${broken ? html` · <span style="color:${FAULT}">${broken} broken</span>` : ''}
+      </h2>
       <div class="stage">
-        <svg viewBox="0 0 ${VIEW_WIDTH} ${VIEW_HEIGHT}" class="ring ${this.canEdit ? '' : 'readonly'}" role="img" aria-label="ring of ${n} resonators">
-          ${links.map((l) => this.renderLink(l, width(l.link)))}
-          ${nodes.map((p, k) => this.renderNode(p, k, radius, session, frame))}
+        <svg
+          viewBox="0 0 ${VIEW_WIDTH} ${VIEW_HEIGHT}"
+          class="ring ${this.canEdit ? '' : 'readonly'}"
+          role="img"
+          aria-label="ring of ${n} resonators"
+        >
+          ${links.map((l) => this.renderLink(l, width(l.link)))} ${nodes.map((p, k) => this.renderNode(p, k, radius, session, frame))}
           ${this.renderCentre(frame)}
         </svg>
         ${this.editing !== null && this.editing < n ? this.renderEditor(nodes[this.editing], session) : nothing}
       </div>
       <div class="note">
-        <span class="key"><svg width="18" height="18" viewBox="-9 -9 18 18"><circle r="8" fill=${nodeColour(0)} opacity="0.85"></circle><line x2="8" stroke=${INK} stroke-width="2.5"></line></svg>fill = |a| of wanted mode, hand = its phase</span>
-        <span class="key"><svg width="14" height="14" viewBox="-7 -7 14 14"><path d="M 6 0 L -5 -5 L -5 5 Z" fill="none" stroke=${INK} stroke-width="1.5"></path></svg>guide phase</span>
+        <span class="key"
+          ><svg width="18" height="18" viewBox="-9 -9 18 18">
+            <circle r="8" fill=${nodeColour(0)} opacity="0.85"></circle>
+            <line x2="8" stroke=${INK} stroke-width="2.5"></line></svg
+          >fill = |a| of wanted mode, hand = its phase</span
+        >
+        <span class="key"
+          ><svg width="14" height="14" viewBox="-7 -7 14 14">
+            <path d="M 6 0 L -5 -5 L -5 5 Z" fill="none" stroke=${INK} stroke-width="1.5"></path></svg
+          >guide phase</span
+        >
         ${session.modes > 1 ? html`<span class="key" style="color:${UNWANTED}">◌ unwanted mode dominates</span>` : ''}
-        ${this.canEdit
-          ? html`<span>Click a link to break/restore it, a node to set its detuning.</span>`
-          : html`<span class="lock" data-testid="ring-readonly">${lockIcon} ${this.readOnlyReason || 'View only'}</span>`}
+        ${
+          this.canEdit
+            ? html`<span>Click a link to break/restore it, a node to set its detuning.</span>`
+            : html`<span class="lock" data-testid="ring-readonly">${lockIcon} ${this.readOnlyReason || 'View only'}</span>`
+        }
       </div>
     `;
   }
@@ -166,15 +197,17 @@ export class RingView extends LitElement {
         <path class="link-line" d=${path} fill="none" stroke=${colour} stroke-width=${isBroken ? 4 : width}
               stroke-dasharray=${isBroken ? '9 7' : 'none'} stroke-linecap="round"></path>
         <polygon class="link-arrow" points=${arrow} fill=${isBroken ? SURFACE : colour} stroke=${colour} stroke-width=${isBroken ? 2 : 0}></polygon>
-        ${isBroken
-          ? svg`<g transform="translate(${middle.x.toFixed(1)} ${middle.y.toFixed(1)})">
+        ${
+          isBroken
+            ? svg`<g transform="translate(${middle.x.toFixed(1)} ${middle.y.toFixed(1)})">
               <circle r="17" fill=${SURFACE} stroke=${FAULT} stroke-width="3"></circle>
               <path d="M ${-s} ${-s} L ${s} ${s} M ${-s} ${s} L ${s} ${-s}" stroke=${FAULT} stroke-width="5" stroke-linecap="round"></path>
             </g>`
-          : link.weight !== link.nominal
-            ? svg`<text x=${middle.x} y=${middle.y} font-size="14" text-anchor="middle" dominant-baseline="central" fill=${INK}
+            : link.weight !== link.nominal
+              ? svg`<text x=${middle.x} y=${middle.y} font-size="14" text-anchor="middle" dominant-baseline="central" fill=${INK}
                    stroke=${SURFACE} stroke-width="4" paint-order="stroke">×${formatNumber(link.weight / (link.nominal || 1), 2)}</text>`
-            : nothing}
+              : nothing
+        }
         <path class="link-hit" d=${path}></path>
       </g>`;
   }
@@ -199,16 +232,20 @@ export class RingView extends LitElement {
         ${unwanted ? svg`<circle r=${r + 9} fill="none" stroke=${UNWANTED} stroke-width="5" stroke-dasharray="6 4"></circle>` : nothing}
         <circle class="rim" r=${r} fill=${SURFACE} stroke=${NODE_RIM} stroke-width="1.5"></circle>
         <circle r=${fill.toFixed(2)} fill=${nodeColour(k)} opacity="0.88"></circle>
-        ${session.modes > 1 && a1 > 0.01 * reference
-          ? svg`<circle r=${second.toFixed(2)} fill="none" stroke=${UNWANTED} stroke-width="3"></circle>`
-          : nothing}
+        ${
+          session.modes > 1 && a1 > 0.01 * reference
+            ? svg`<circle r=${second.toFixed(2)} fill="none" stroke=${UNWANTED} stroke-width="3"></circle>`
+            : nothing
+        }
         ${tri ? svg`<polygon points=${tri} fill=${SURFACE} stroke=${INK} stroke-width="2"></polygon>` : nothing}
         ${hand ? svg`<line x1="0" y1="0" x2=${hand.x.toFixed(2)} y2=${hand.y.toFixed(2)} stroke=${INK} stroke-width="4.5" stroke-linecap="round"></line>` : nothing}
         <circle r="4.5" fill=${INK}></circle>
-        ${unwanted
-          ? svg`<text x=${(-Math.cos(p.angle) * (r + 24)).toFixed(1)} y=${(-Math.sin(p.angle) * (r + 24)).toFixed(1)} text-anchor="middle"
+        ${
+          unwanted
+            ? svg`<text x=${(-Math.cos(p.angle) * (r + 24)).toFixed(1)} y=${(-Math.sin(p.angle) * (r + 24)).toFixed(1)} text-anchor="middle"
                   dominant-baseline="central" font-size="15" font-weight="800" fill=${UNWANTED} stroke=${SURFACE} stroke-width="4" paint-order="stroke">MODE ${frame?.full.amplitude[k]?.indexOf(Math.max(...(frame?.full.amplitude[k] ?? [0]))) ?? 1}</text>`
-          : nothing}
+            : nothing
+        }
       </g>
       <g class="node-label" transform="translate(${label.x.toFixed(1)} ${label.y.toFixed(1)})">
         <text text-anchor=${label.anchor} y="-4" font-size="22" font-weight="700" fill=${nodeColour(k)}>${k}</text>
@@ -224,7 +261,13 @@ export class RingView extends LitElement {
     const unwanted = p.locked && p.mode !== 0;
     const colour = halted ? FAULT : unwanted ? UNWANTED : p.status === 'settling' ? CAUTION : p.locked ? LOCKED : CAUTION;
     const headline = halted ? 'HALTED' : p.locked ? p.kind.toUpperCase() : 'UNLOCKED';
-    const sub = halted ? 'blow-up: state kept' : unwanted ? `on unwanted mode ${p.mode}: design defect` : p.locked ? patternLabel(p, { short: true }) : `seeking · shape ${p.shape}`;
+    const sub = halted
+      ? 'blow-up: state kept'
+      : unwanted
+        ? `on unwanted mode ${p.mode}: design defect`
+        : p.locked
+          ? patternLabel(p, { short: true })
+          : `seeking · shape ${p.shape}`;
     const r = p.q !== undefined ? p.orderParameters[p.q] : Math.max(0, ...p.orderParameters);
     return svg`
       <g data-testid="ring-centre">
@@ -270,7 +313,9 @@ function guideMarker(phase: number, r: number): string {
   const tip = { x: ux * (r - 9), y: uy * (r - 9) };
   const back = { x: ux * (r + 6), y: uy * (r + 6) };
   const side = 7;
-  return [tip, { x: back.x - uy * side, y: back.y + ux * side }, { x: back.x + uy * side, y: back.y - ux * side }].map((q) => `${q.x.toFixed(1)},${q.y.toFixed(1)}`).join(' ');
+  return [tip, { x: back.x - uy * side, y: back.y + ux * side }, { x: back.x + uy * side, y: back.y - ux * side }]
+    .map((q) => `${q.x.toFixed(1)},${q.y.toFixed(1)}`)
+    .join(' ');
 }
 
 customElements.define('sr-ring-view', RingView);

@@ -6,7 +6,25 @@ import { apiUrl, tokenFrom } from '../data/page-address.js';
 import { formatNumber, formatSeconds } from '../data/engineering.js';
 import { secondsHeading } from './seconds-heading.js';
 import { PASS_CAUTION, PASS_CAUTION_SHORT } from '../../../src/campaign/cautions.js';
-import { BRAND, CAUTION, CHIP, CHOSEN_ITEM, FAULT, GRID, INK, INSET_SURFACE, LOCKED, MUTED, ON_SOLID, PROGRESS_TRACK, SOFT_BORDER, SOFT_INK, SURFACE, panelStyles, tableStyles } from '../theme.js';
+import {
+  BRAND,
+  CAUTION,
+  CHIP,
+  CHOSEN_ITEM,
+  FAULT,
+  GRID,
+  INK,
+  INSET_SURFACE,
+  LOCKED,
+  MUTED,
+  ON_SOLID,
+  PROGRESS_TRACK,
+  SOFT_BORDER,
+  SOFT_INK,
+  SURFACE,
+  panelStyles,
+  tableStyles,
+} from '../theme.js';
 import './soak-start-form.js';
 
 /** How often the list is read again while the tab is shown (status.json is rewritten about once a second). */
@@ -253,7 +271,11 @@ export class SoakPanel extends LitElement {
   /** The operator token from the page address; viewers have none and see no controls. */
   private readonly token = tokenFrom(location.search);
   /** Reads the list every POLL_MS while the tab is shown; a start, stop or resume asks for it at once. */
-  private readonly poller = new PollingController(this, { read: (signal) => this.readList(signal), active: () => this.active, everyMs: POLL_MS });
+  private readonly poller = new PollingController(this, {
+    read: (signal) => this.readList(signal),
+    active: () => this.active,
+    everyMs: POLL_MS,
+  });
   /** A soak just started here, chosen before the list has it. */
   private awaited: string | null = null;
 
@@ -272,7 +294,8 @@ export class SoakPanel extends LitElement {
       this.error = '';
       const names = this.listing.soaks.map((s) => s.name);
       if (this.awaited !== null && names.includes(this.awaited)) this.awaited = null;
-      if (!names.includes(this.chosen) && this.chosen !== this.awaited) this.chosen = (this.listing.soaks.find((s) => s.state === 'running') ?? this.listing.soaks[0])?.name ?? '';
+      if (!names.includes(this.chosen) && this.chosen !== this.awaited)
+        this.chosen = (this.listing.soaks.find((s) => s.state === 'running') ?? this.listing.soaks[0])?.name ?? '';
     } catch (error) {
       if (signal.aborted) return;
       this.error = `Could not list the soaks: ${(error as Error).message}`;
@@ -289,14 +312,24 @@ export class SoakPanel extends LitElement {
         ${this.error ? html`<p class="no">${this.error}</p>` : nothing}
         ${l ? html`<div class="line small" data-testid="soaks-dir">folder ${l.dir}</div>` : html`<p class="muted">Reading the soaks folder…</p>`}
         <div class="list" data-testid="soak-list">${l?.soaks.map((s) => this.renderItem(s))}</div>
-        ${l && l.soaks.length === 0
-          ? html`<p class="empty">
-              No soaks yet. Start one ${this.token ? 'with the form above or ' : ''}with<br /><code>npx syncring soak SCENARIO --campaign CAMPAIGN --until TAU --out ${l.dir}/NAME</code><br />and it shows up
-              here while it runs.
-            </p>`
-          : nothing}
+        ${
+          l && l.soaks.length === 0
+            ? html`<p class="empty">
+                No soaks yet. Start one ${this.token ? 'with the form above or ' : ''}with<br /><code
+                  >npx syncring soak SCENARIO --campaign CAMPAIGN --until TAU --out ${l.dir}/NAME</code
+                ><br />and it shows up here while it runs.
+              </p>`
+            : nothing
+        }
       </div>
-      <div class="card">${chosen ? this.renderDetail(chosen) : html`<h2>Soak</h2><p class="muted">Choose a soak on the left.</p>`}</div>
+      <div class="card">
+        ${
+          chosen
+            ? this.renderDetail(chosen)
+            : html`<h2>Soak</h2>
+                <p class="muted">Choose a soak on the left.</p>`
+        }
+      </div>
     `;
   }
 
@@ -308,7 +341,8 @@ export class SoakPanel extends LitElement {
         <div class="name"><span>${s.name}</span><span class="badge" style="background:${v.colour}">${v.text}</span></div>
         <div class="bar"><span style="width:${(100 * fraction).toFixed(1)}%;background:${v.colour}"></span></div>
         <div class="line">
-          ${formatNumber(100 * fraction, 3)} % · ${s.faults ? `${s.faults.judged} judged, ${s.faults.failed} failed${s.faults.incomplete ? `, ${s.faults.incomplete} incomplete` : ''}` : `${s.verdictsTotal} verdicts`}
+          ${formatNumber(100 * fraction, 3)} % ·
+          ${s.faults ? `${s.faults.judged} judged, ${s.faults.failed} failed${s.faults.incomplete ? `, ${s.faults.incomplete} incomplete` : ''}` : `${s.verdictsTotal} verdicts`}
           ${s.state === 'running' && s.progress ? html` · ETA ${s.progress.eta}` : nothing}
         </div>
         ${s.pass === true ? html`<span class="caution short" title=${PASS_CAUTION}>PASS: ${PASS_CAUTION_SHORT}</span>` : nothing}
@@ -331,28 +365,50 @@ export class SoakPanel extends LitElement {
         ${this.renderControl(s)}
         ${s.pass === true ? html`<span class="caution" data-testid="soak-pass-caution">${PASS_CAUTION}</span>` : nothing}
       </div>
-      ${this.action && this.action.soak === s.name && !this.action.busy
-        ? html`<p class="action ${this.action.failed ? 'no' : 'small'}" data-testid="soak-action-result" role="status">${this.action.text}</p>`
-        : nothing}
+      ${
+        this.action && this.action.soak === s.name && !this.action.busy
+          ? html`<p class="action ${this.action.failed ? 'no' : 'small'}" data-testid="soak-action-result" role="status">
+              ${this.action.text}
+            </p>`
+          : nothing
+      }
       ${s.scenario || s.campaign ? html`<div class="line">${s.scenario ?? ''}${s.campaign ? html` · campaign: ${s.campaign}` : nothing}</div>` : nothing}
-      <div class="bar big" data-testid="soak-progress"><span style="width:${(100 * fraction).toFixed(1)}%;background:${v.colour};opacity:0.8"></span><b>${formatNumber(100 * fraction, 3)} %</b></div>
+      <div class="bar big" data-testid="soak-progress">
+        <span style="width:${(100 * fraction).toFixed(1)}%;background:${v.colour};opacity:0.8"></span
+        ><b>${formatNumber(100 * fraction, 3)} %</b>
+      </div>
       <div class="facts">
-        ${p
-          ? html`<span>slow time <b>${formatNumber(p.slowTime, 4)}</b> / ${formatNumber(p.slowUntil, 4)}</span>
-              <span>ETA <b>${s.state === 'running' ? p.eta : '—'}</b></span>
-              <span>wall <b>${formatSeconds(p.wallSeconds)}</b></span>`
-          : nothing}
-        <span>faults <b>${s.faults?.judged ?? s.verdictsTotal}</b> judged${s.faults ? ` of ${s.faults.started} started` : ''}, <b class=${failed > 0 ? 'no' : 'yes'}>${s.faults?.failed ?? failed}</b> failed${incomplete
-            ? html`, <b style="color:${MUTED}" title="judging stopped before the outcome was decided; does not fail the soak unless --fail-incomplete">${incomplete}</b> incomplete`
-            : nothing}</span>
+        ${
+          p
+            ? html`<span>slow time <b>${formatNumber(p.slowTime, 4)}</b> / ${formatNumber(p.slowUntil, 4)}</span>
+                <span>ETA <b>${s.state === 'running' ? p.eta : '—'}</b></span>
+                <span>wall <b>${formatSeconds(p.wallSeconds)}</b></span>`
+            : nothing
+        }
+        <span
+          >faults <b>${s.faults?.judged ?? s.verdictsTotal}</b> judged${s.faults ? ` of ${s.faults.started} started` : ''},
+          <b class=${failed > 0 ? 'no' : 'yes'}>${s.faults?.failed ?? failed}</b> failed${
+            incomplete
+              ? html`,
+                  <b
+                    style="color:${MUTED}"
+                    title="judging stopped before the outcome was decided; does not fail the soak unless --fail-incomplete"
+                    >${incomplete}</b
+                  >
+                  incomplete`
+              : nothing
+          }</span
+        >
         ${s.exitCode !== null ? html`<span>exit code <b>${s.exitCode}</b></span>` : nothing}
       </div>
-      ${s.state === 'interrupted'
-        ? html`<p class="line" style="color:${CAUTION};font-weight:700">
-            The soak process is gone before the end:
-            ${s.launch && this.token ? 'Resume continues it from its last checkpoint.' : s.launch ? 'the operator can resume it here.' : html`continue it with <code>syncring soak … --out ${s.name} --resume</code>.`}
-          </p>`
-        : nothing}
+      ${
+        s.state === 'interrupted'
+          ? html`<p class="line" style="color:${CAUTION};font-weight:700">
+              The soak process is gone before the end:
+              ${s.launch && this.token ? 'Resume continues it from its last checkpoint.' : s.launch ? 'the operator can resume it here.' : html`continue it with <code>syncring soak … --out ${s.name} --resume</code>.`}
+            </p>`
+          : nothing
+      }
       ${s.problems.length ? html`<p class="line no">${s.problems.join('; ')}</p>` : nothing}
       ${s.verdicts.length ? this.renderVerdicts(s) : html`<p class="muted">No fault judged yet.</p>`}
     `;
@@ -363,10 +419,19 @@ export class SoakPanel extends LitElement {
     if (!this.token || !s.launch) return nothing;
     const busy = this.action?.busy === true;
     if (s.state === 'running' || s.state === 'starting') {
-      return html`<button class="act stop" data-action="stop-soak" ?disabled=${busy} @click=${() => void this.control(s.name, 'stop')}>${busy ? 'Stopping…' : 'Stop'}</button>`;
+      return html`<button class="act stop" data-action="stop-soak" ?disabled=${busy} @click=${() => void this.control(s.name, 'stop')}>
+        ${busy ? 'Stopping…' : 'Stop'}
+      </button>`;
     }
     if (s.state === 'interrupted') {
-      return html`<button class="act primary" data-action="resume-soak" ?disabled=${busy} @click=${() => void this.control(s.name, 'resume')}>${busy ? 'Resuming…' : 'Resume'}</button>`;
+      return html`<button
+        class="act primary"
+        data-action="resume-soak"
+        ?disabled=${busy}
+        @click=${() => void this.control(s.name, 'resume')}
+      >
+        ${busy ? 'Resuming…' : 'Resume'}
+      </button>`;
     }
     return nothing;
   }
@@ -376,10 +441,16 @@ export class SoakPanel extends LitElement {
     this.action = { soak: name, text: '', failed: false, busy: true };
     try {
       const answer = await postJson(`/api/soaks/${encodeURIComponent(name)}/${verb}`, this.token);
-      const text = verb === 'stop' ? `Stopped (${String(answer.signal)}); ${String(answer.note ?? '')}.` : `Resumed as pid ${String(answer.pid)}.`;
+      const text =
+        verb === 'stop' ? `Stopped (${String(answer.signal)}); ${String(answer.note ?? '')}.` : `Resumed as pid ${String(answer.pid)}.`;
       this.action = { soak: name, text, failed: false, busy: false };
     } catch (error) {
-      this.action = { soak: name, text: `${verb === 'stop' ? 'Stop' : 'Resume'} refused: ${(error as Error).message}`, failed: true, busy: false };
+      this.action = {
+        soak: name,
+        text: `${verb === 'stop' ? 'Stop' : 'Resume'} refused: ${(error as Error).message}`,
+        failed: true,
+        busy: false,
+      };
     }
     this.poller.readNow();
   }
@@ -394,7 +465,8 @@ export class SoakPanel extends LitElement {
 
   private renderVerdicts(s: SoakListing) {
     const eps = s.epsilon ?? 0;
-    const slow = (tau: number | null | undefined) => (tau === null || tau === undefined ? '—' : eps > 0 ? formatNumber(tau * eps, 4) : formatNumber(tau, 4));
+    const slow = (tau: number | null | undefined) =>
+      tau === null || tau === undefined ? '—' : eps > 0 ? formatNumber(tau * eps, 4) : formatNumber(tau, 4);
     // A running soak's newest verdicts matter most; a finished one reads best in order.
     const newestFirst = s.state === 'running';
     const shown = newestFirst ? s.verdicts.slice().reverse() : s.verdicts;
@@ -418,7 +490,9 @@ export class SoakPanel extends LitElement {
         </tbody>
       </table>
       ${s.pass !== true && shown.some((r) => r.pass) ? html`<p class="caution" data-testid="verdicts-pass-caution">${PASS_CAUTION}</p>` : nothing}
-      <p class="small">${newestFirst ? 'Newest first.' : 'In the order the faults were applied.'}${s.verdictsTotal > s.verdicts.length ? ` ${s.verdictsTotal - s.verdicts.length} older verdicts are in the report.` : ''}</p>
+      <p class="small">
+        ${newestFirst ? 'Newest first.' : 'In the order the faults were applied.'}${s.verdictsTotal > s.verdicts.length ? ` ${s.verdictsTotal - s.verdicts.length} older verdicts are in the report.` : ''}
+      </p>
     `;
   }
 
@@ -426,7 +500,8 @@ export class SoakPanel extends LitElement {
   private relockText(r: Partial<VerdictRow>) {
     if (r.persisted === undefined) return '—';
     if (r.persisted || (r.recovered && !r.timeToRelock)) return html`<span class="small">never lost</span>`;
-    if (r.timeToRelock) return html`${formatSeconds(r.timeToRelock.seconds)}<span class="small"> ${formatNumber(r.timeToRelock.slow, 3)} slow</span>`;
+    if (r.timeToRelock)
+      return html`${formatSeconds(r.timeToRelock.seconds)}<span class="small"> ${formatNumber(r.timeToRelock.slow, 3)} slow</span>`;
     return html`<span class="no">${r.complete === false ? 'not yet' : 'never'}</span>`;
   }
 
@@ -434,14 +509,25 @@ export class SoakPanel extends LitElement {
     // status.json of an older soak may carry only id and pass.
     const detailed = r.action !== undefined;
     const outcome = outcomeOf(r);
-    const yesNo = (value: boolean | null | undefined, yes = 'yes', no = 'no') => (value === null || value === undefined ? '—' : html`<span class=${value ? 'yes' : 'no'}>${value ? yes : no}</span>`);
-    const persisted = !detailed ? '—' : r.persisted ? yesNo(true) : outcome === 'incomplete' ? html`<span class="open">not yet</span>` : yesNo(false, 'yes', r.slipped ? 'no (slip)' : 'no');
+    const yesNo = (value: boolean | null | undefined, yes = 'yes', no = 'no') =>
+      value === null || value === undefined ? '—' : html`<span class=${value ? 'yes' : 'no'}>${value ? yes : no}</span>`;
+    const persisted = !detailed
+      ? '—'
+      : r.persisted
+        ? yesNo(true)
+        : outcome === 'incomplete'
+          ? html`<span class="open">not yet</span>`
+          : yesNo(false, 'yes', r.slipped ? 'no (slip)' : 'no');
     const badge = BADGES[outcome];
     return html`
       <tr data-fault=${r.id} data-pass=${String(r.pass)} data-outcome=${outcome}>
-        <td><b>${r.id}</b>${detailed ? html`<span class="small"> ${r.action}${r.source === 'random' ? ' (random)' : ''}</span>` : nothing}</td>
+        <td>
+          <b>${r.id}</b>${detailed ? html`<span class="small"> ${r.action}${r.source === 'random' ? ' (random)' : ''}</span>` : nothing}
+        </td>
         <td class="r">${detailed ? slow(r.appliedAt) : '—'}</td>
-        <td>${detailed ? html`${r.before} → ${r.final === r.before ? 'the same' : r.final}${!r.persisted && r.became && r.became.length ? html`<span class="small"> via ${r.became.join(', ')}</span>` : nothing}` : '—'}</td>
+        <td>
+          ${detailed ? html`${r.before} → ${r.final === r.before ? 'the same' : r.final}${!r.persisted && r.became && r.became.length ? html`<span class="small"> via ${r.became.join(', ')}</span>` : nothing}` : '—'}
+        </td>
         <td>${persisted}</td>
         <td class="r">${this.relockText(r)}</td>
         <td class="r">${detailed ? `${formatNumber(r.maxPhaseExcursion, 3)} rad` : '—'}</td>

@@ -149,7 +149,10 @@ export class SoakStartForm extends LitElement {
 
   private async load(): Promise<void> {
     try {
-      const [scenarios, campaigns] = await Promise.all([getJson<ScenarioChoice[]>('/api/scenarios'), getJson<CampaignChoice[]>('/api/campaigns')]);
+      const [scenarios, campaigns] = await Promise.all([
+        getJson<ScenarioChoice[]>('/api/scenarios'),
+        getJson<CampaignChoice[]>('/api/campaigns'),
+      ]);
       this.scenarios = scenarios;
       this.campaigns = campaigns;
       this.campaign ||= campaigns[0]?.name ?? '';
@@ -186,7 +189,8 @@ export class SoakStartForm extends LitElement {
       const rate = pace && pace > 0 ? Math.min(pace, measured.rate) : measured.rate;
       return `≈ ${formatSeconds(until / rate)} of wall time at ${formatNumber(rate, 2)} slow units/s (${pace && pace < measured.rate ? 'the pace' : `measured on ${measured.from}`})`;
     }
-    if (pace && pace > 0) return `at least ${formatSeconds(until / pace)} of wall time at the pace; no earlier soak of this scenario to measure the rate on`;
+    if (pace && pace > 0)
+      return `at least ${formatSeconds(until / pace)} of wall time at the pace; no earlier soak of this scenario to measure the rate on`;
     return 'no earlier soak of this scenario yet to tell the wall time from';
   }
 
@@ -194,7 +198,12 @@ export class SoakStartForm extends LitElement {
     event.preventDefault();
     this.busy = true;
     this.error = '';
-    const body: Record<string, unknown> = { name: this.name.trim(), scenario: this.scenario, campaign: this.campaign, until: this.until.trim() === '' ? null : Number(this.until) };
+    const body: Record<string, unknown> = {
+      name: this.name.trim(),
+      scenario: this.scenario,
+      campaign: this.campaign,
+      until: this.until.trim() === '' ? null : Number(this.until),
+    };
     if (this.pace.trim() !== '') body.pace = Number(this.pace);
     try {
       await postJson('/api/soaks', this.token, body);
@@ -226,28 +235,64 @@ export class SoakStartForm extends LitElement {
           }}
         />
         <label for="campaign">campaign</label>
-        <select id="campaign" data-testid="soak-start-campaign" title=${title ?? ''} @change=${(e: Event) => this.chooseCampaign((e.target as HTMLSelectElement).value)}>
+        <select
+          id="campaign"
+          data-testid="soak-start-campaign"
+          title=${title ?? ''}
+          @change=${(e: Event) => this.chooseCampaign((e.target as HTMLSelectElement).value)}
+        >
           ${this.campaigns.map((c) => html`<option value=${c.name} ?selected=${c.name === this.campaign}>${c.title}</option>`)}
         </select>
         <label for="scenario">scenario</label>
-        <select id="scenario" data-testid="soak-start-scenario" @change=${(e: Event) => (this.scenario = (e.target as HTMLSelectElement).value)}>
+        <select
+          id="scenario"
+          data-testid="soak-start-scenario"
+          @change=${(e: Event) => (this.scenario = (e.target as HTMLSelectElement).value)}
+        >
           ${this.scenarios.map(
-            (s) => html`<option value=${s.name} ?selected=${s.name === this.scenario} ?disabled=${!this.fits(s.name)}>${s.title}${this.fits(s.name) ? '' : ' (the campaign does not fit)'}</option>`,
+            (s) =>
+              html`<option value=${s.name} ?selected=${s.name === this.scenario} ?disabled=${!this.fits(s.name)}>
+                ${s.title}${this.fits(s.name) ? '' : ' (the campaign does not fit)'}
+              </option>`,
           )}
         </select>
         <label for="until">length</label>
         <span class="with-unit"
-          ><input id="until" type="number" min="0" step="any" data-testid="soak-start-until" .value=${this.until} @input=${(e: Event) => (this.until = (e.target as HTMLInputElement).value)} /> slow
-          time units</span
+          ><input
+            id="until"
+            type="number"
+            min="0"
+            step="any"
+            data-testid="soak-start-until"
+            .value=${this.until}
+            @input=${(e: Event) => (this.until = (e.target as HTMLInputElement).value)}
+          />
+          slow time units</span
         >
         <span class="hint" data-testid="soak-start-hint">${this.wallHint()}</span>
         <label for="pace">pace</label>
         <span class="with-unit"
-          ><input id="pace" type="number" min="0" step="any" placeholder="max" data-testid="soak-start-pace" .value=${this.pace} @input=${(e: Event) => (this.pace = (e.target as HTMLInputElement).value)} /> slow
-          units per second (empty: as fast as it goes)</span
+          ><input
+            id="pace"
+            type="number"
+            min="0"
+            step="any"
+            placeholder="max"
+            data-testid="soak-start-pace"
+            .value=${this.pace}
+            @input=${(e: Event) => (this.pace = (e.target as HTMLInputElement).value)}
+          />
+          slow units per second (empty: as fast as it goes)</span
         >
         <div class="actions">
-          <button class="primary" type="submit" data-action="start-soak" ?disabled=${this.busy || !this.name.trim() || !this.scenario || !this.campaign}>${this.busy ? 'Starting…' : 'Start'}</button>
+          <button
+            class="primary"
+            type="submit"
+            data-action="start-soak"
+            ?disabled=${this.busy || !this.name.trim() || !this.scenario || !this.campaign}
+          >
+            ${this.busy ? 'Starting…' : 'Start'}
+          </button>
           ${this.error ? html`<span class="error" data-testid="soak-start-error" role="alert">${this.error}</span>` : nothing}
         </div>
       </form>

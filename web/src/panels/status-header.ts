@@ -4,7 +4,21 @@ import type { ConnectionState } from '../data/connection.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { formatHz, formatNumber, formatSimulatedSeconds, runScalesOf } from '../data/engineering.js';
-import { BRAND, CAUTION, FAULT, HEADER_BADGE, HEADER_HOVER, HEADER_OUTLINE, INK, LOCKED, LOGO_NODES, LOGO_RING, ON_SOLID, UNWANTED, stripStyles } from '../theme.js';
+import {
+  BRAND,
+  CAUTION,
+  FAULT,
+  HEADER_BADGE,
+  HEADER_HOVER,
+  HEADER_OUTLINE,
+  INK,
+  LOCKED,
+  LOGO_NODES,
+  LOGO_RING,
+  ON_SOLID,
+  UNWANTED,
+  stripStyles,
+} from '../theme.js';
 import { ASSUMED_FREQUENCY_NOTE } from '../../../src/scenario/units.js';
 
 /**
@@ -115,7 +129,12 @@ export class StatusHeader extends LitElement {
     this.replaying = false;
     this.connection = null;
     this.viewers = 0;
-    new StoreController(this, () => this.store, () => this.requestUpdate(), 100);
+    new StoreController(
+      this,
+      () => this.store,
+      () => this.requestUpdate(),
+      100,
+    );
   }
 
   private onFile(event: Event): void {
@@ -148,38 +167,49 @@ export class StatusHeader extends LitElement {
         </svg>
         syncring
       </div>
-      ${s
-        ? html`<div class="scenario" data-testid="scenario">
-            ${s.scenarioName}
-            <small title=${s.nominalFrequencyAssumed ? ASSUMED_FREQUENCY_NOTE : ''}
-              >${s.nodes} nodes · ${s.modes} mode${s.modes > 1 ? 's' : ''} · ε = ${formatNumber(s.epsilon)} · f₀ = ${formatHz(s.nominalFrequencyHz)}${s.nominalFrequencyAssumed
-                ? ' assumed (not in the scenario)'
-                : ''}</small
-            >
-          </div>`
-        : nothing}
+      ${
+        s
+          ? html`<div class="scenario" data-testid="scenario">
+              ${s.scenarioName}
+              <small title=${s.nominalFrequencyAssumed ? ASSUMED_FREQUENCY_NOTE : ''}
+                >${s.nodes} nodes · ${s.modes} mode${s.modes > 1 ? 's' : ''} · ε = ${formatNumber(s.epsilon)} · f₀ =
+                ${formatHz(s.nominalFrequencyHz)}${s.nominalFrequencyAssumed ? ' assumed (not in the scenario)' : ''}</small
+              >
+            </div>`
+          : nothing
+      }
       ${badge}
       ${status && !this.replaying ? html`<span class="pill" data-testid="run-status"><span class="dot" style="background:${statusColour}"></span>${status}</span>` : nothing}
       <div class="clock">
-        ${f
-          ? html`<span>τ <b data-testid="tau">${formatNumber(f.tau, 6)}</b></span>
-              <span>ε·τ <b>${formatNumber(f.slowTime, 4)}</b></span>
-              <span data-testid="clock-seconds">t <b>${s ? formatSimulatedSeconds(f.seconds, runScalesOf(s)) : '—'}</b></span>
-              <span>${this.replaying ? 'sample' : 'frame'} <b data-testid="frame-count">${this.store?.frameCount ?? 0}</b></span>`
-          : nothing}
+        ${
+          f
+            ? html`<span>τ <b data-testid="tau">${formatNumber(f.tau, 6)}</b></span>
+                <span>ε·τ <b>${formatNumber(f.slowTime, 4)}</b></span>
+                <span data-testid="clock-seconds">t <b>${s ? formatSimulatedSeconds(f.seconds, runScalesOf(s)) : '—'}</b></span>
+                <span>${this.replaying ? 'sample' : 'frame'} <b data-testid="frame-count">${this.store?.frameCount ?? 0}</b></span>`
+            : nothing
+        }
       </div>
       <div class="spacer"></div>
-      ${this.replaying
-        ? nothing
-        : html`<span class="pill" title="connection to the live run"
-              ><span class="dot" style="background:${live ? LOCKED : FAULT}"></span><span data-testid="connection">${live ? 'live' : 'offline'}</span></span
-            >
-            <span class="pill" title="browsers connected to this run" data-testid="viewers">
-              <svg width="20" height="14" viewBox="0 0 20 14" aria-hidden="true"><path d="M1 7 Q10 -3 19 7 Q10 17 1 7 Z" fill="none" stroke=${ON_SOLID} stroke-width="1.8"></path><circle cx="10" cy="7" r="3" fill=${ON_SOLID}></circle></svg>
-              ${this.viewers} watching
-            </span>`}
+      ${
+        this.replaying
+          ? nothing
+          : html`<span class="pill" title="connection to the live run"
+                ><span class="dot" style="background:${live ? LOCKED : FAULT}"></span
+                ><span data-testid="connection">${live ? 'live' : 'offline'}</span></span
+              >
+              <span class="pill" title="browsers connected to this run" data-testid="viewers">
+                <svg width="20" height="14" viewBox="0 0 20 14" aria-hidden="true">
+                  <path d="M1 7 Q10 -3 19 7 Q10 17 1 7 Z" fill="none" stroke=${ON_SOLID} stroke-width="1.8"></path>
+                  <circle cx="10" cy="7" r="3" fill=${ON_SOLID}></circle>
+                </svg>
+                ${this.viewers} watching
+              </span>`
+      }
       ${this.replaying ? nothing : html`<a href="./api/log" download="syncring-session.ndjson" data-testid="save-log" title="download the live run's session log (NDJSON)">⤓ Save log</a>`}
-      <label class="open" data-testid="open-log">⤒ Open log…<input type="file" accept=".ndjson,.jsonl,.log,.json,application/x-ndjson,text/plain" @change=${this.onFile} /></label>
+      <label class="open" data-testid="open-log"
+        >⤒ Open log…<input type="file" accept=".ndjson,.jsonl,.log,.json,application/x-ndjson,text/plain" @change=${this.onFile}
+      /></label>
     </div>`;
   }
 }

@@ -69,9 +69,10 @@ export class ToastStack extends LitElement {
 
   override render() {
     return this.toasts.map(
-      (t) => html`<div class="toast ${t.kind}" role=${t.kind === 'error' ? 'alert' : 'status'} data-testid="toast-${t.kind}">
-        <span class="text">${t.text}</span><button aria-label="dismiss" @click=${() => this.dismiss(t.id)}>×</button>
-      </div>`,
+      (t) =>
+        html`<div class="toast ${t.kind}" role=${t.kind === 'error' ? 'alert' : 'status'} data-testid="toast-${t.kind}">
+          <span class="text">${t.text}</span><button aria-label="dismiss" @click=${() => this.dismiss(t.id)}>×</button>
+        </div>`,
     );
   }
 }

@@ -246,7 +246,9 @@ export class WhatIfPanel extends LitElement {
 
   override render() {
     const s = this.session;
-    if (!s) return html`<h2>What-if</h2><p class="muted">Waiting for the session…</p>`;
+    if (!s)
+      return html`<h2>What-if</h2>
+        <p class="muted">Waiting for the session…</p>`;
     const params = whatIfParameters(s);
     const p = this.parameter;
     const patterns = this.catalogue?.patterns ?? [];
@@ -266,25 +268,51 @@ export class WhatIfPanel extends LitElement {
         <label
           >pattern
           <select data-testid="what-if-pattern" @change=${(e: Event) => this.pickPattern(Number((e.target as HTMLSelectElement).value))}>
-            <option value="-1" ?selected=${chosen === null}>${this.livePattern >= 0 ? `live (#${this.livePattern})` : 'the one the start settles into'}</option>
+            <option value="-1" ?selected=${chosen === null}>
+              ${this.livePattern >= 0 ? `live (#${this.livePattern})` : 'the one the start settles into'}
+            </option>
             ${patterns.map(
-              (e) => html`<option value=${e.index} ?selected=${this.selected === e.index}>#${e.index} ${e.kind}${e.q !== undefined ? ` q=${e.q}` : ''} · mode ${e.mode} · ${e.stability}</option>`,
+              (e) =>
+                html`<option value=${e.index} ?selected=${this.selected === e.index}>
+                  #${e.index} ${e.kind}${e.q !== undefined ? ` q=${e.q}` : ''} · mode ${e.mode} · ${e.stability}
+                </option>`,
             )}
           </select></label
         >
       </div>
       <div class="row">
-        <label>from <input type="number" step="any" data-testid="what-if-from" .value=${this.from} @input=${(e: Event) => (this.from = (e.target as HTMLInputElement).value)} /></label>
-        <label>to <input type="number" step="any" data-testid="what-if-to" .value=${this.to} @input=${(e: Event) => (this.to = (e.target as HTMLInputElement).value)} /></label>
+        <label
+          >from
+          <input
+            type="number"
+            step="any"
+            data-testid="what-if-from"
+            .value=${this.from}
+            @input=${(e: Event) => (this.from = (e.target as HTMLInputElement).value)}
+        /></label>
+        <label
+          >to
+          <input
+            type="number"
+            step="any"
+            data-testid="what-if-to"
+            .value=${this.to}
+            @input=${(e: Event) => (this.to = (e.target as HTMLInputElement).value)}
+        /></label>
         <span class="muted">${p?.ppm ? 'ppm' : 'model units'} · live ${p ? this.valueText(p, liveValue(s, p.id)) : '—'}</span>
         <label
           >y
-          <select data-testid="what-if-quantity" @change=${(e: Event) => (this.quantity = (e.target as HTMLSelectElement).value as BranchQuantity)}>
+          <select
+            data-testid="what-if-quantity"
+            @change=${(e: Event) => (this.quantity = (e.target as HTMLSelectElement).value as BranchQuantity)}
+          >
             <option value="phase" ?selected=${this.quantity === 'phase'}>phase differences</option>
             <option value="amplitude" ?selected=${this.quantity === 'amplitude'}>amplitudes</option>
           </select></label
         >
-        <button class="primary" data-action="run-what-if" ?disabled=${!p} @click=${() => void this.run()}>${this.running ? '↻ Running…' : '▶ Run what-if'}</button>
+        <button class="primary" data-action="run-what-if" ?disabled=${!p} @click=${() => void this.run()}>
+          ${this.running ? '↻ Running…' : '▶ Run what-if'}
+        </button>
       </div>
       ${this.running ? html`<div class="busy" data-testid="what-if-busy">Continuing ${p?.label ?? ''}… ${formatNumber(this.elapsed, 2)} s (the live run keeps going)</div>` : nothing}
       ${this.error ? html`<div class="error" data-testid="what-if-error">${this.error}</div>` : nothing}
@@ -317,24 +345,33 @@ export class WhatIfPanel extends LitElement {
     const side = (limit: BranchLimit | null, name: string) =>
       html`<dt>${name}</dt>
         <dd data-testid=${`limit-${name}`}>
-          ${limit
-            ? html`<span class=${isLossLimit(limit) ? 'lost' : ''}>${LIMIT_WORDS[limit.kind]}</span> at ${p.symbol} = ${formatNumber(limit.parameter, 4)}${p.ppm && limit.ppm !== null
-                  ? html` = <b>${formatNumber(limit.ppm, 4)} ppm</b>`
-                  : nothing}
-                (${formatSignedNumber(p.ppm && limit.distancePpm !== null ? limit.distancePpm : limit.distance)}${unit} from the live value)`
-            : html`<span class="muted">not continued this way</span>`}
+          ${
+            limit
+              ? html`<span class=${isLossLimit(limit) ? 'lost' : ''}>${LIMIT_WORDS[limit.kind]}</span> at ${p.symbol} =
+                  ${formatNumber(limit.parameter, 4)}${
+                    p.ppm && limit.ppm !== null ? html` = <b>${formatNumber(limit.ppm, 4)} ppm</b>` : nothing
+                  }
+                  (${formatSignedNumber(p.ppm && limit.distancePpm !== null ? limit.distancePpm : limit.distance)}${unit} from the live
+                  value)`
+              : html`<span class="muted">not continued this way</span>`
+          }
         </dd>`;
     return html`
       <div class="headline" data-testid="what-if-headline">
-        <span class=${startStable ? 'holds' : 'lost'}>#${c.pattern.index} ${c.pattern.kind}${c.pattern.q !== null ? ` q = ${c.pattern.q}` : ''}</span>
+        <span class=${startStable ? 'holds' : 'lost'}
+          >#${c.pattern.index} ${c.pattern.kind}${c.pattern.q !== null ? ` q = ${c.pattern.q}` : ''}</span
+        >
         ${startStable ? 'holds' : 'exists (unstable)'} for ${p.symbol} from
-        <span class=${isLossLimit(lower) ? 'lost' : ''}>${isLossLimit(lower) ? '' : '≤ '}${at(lower, first && branchX(first, p.ppm))}</span> to
+        <span class=${isLossLimit(lower) ? 'lost' : ''}>${isLossLimit(lower) ? '' : '≤ '}${at(lower, first && branchX(first, p.ppm))}</span>
+        to
         <span class=${isLossLimit(upper) ? 'lost' : ''}>${isLossLimit(upper) ? '' : '≥ '}${at(upper, last && branchX(last, p.ppm))}</span>
       </div>
       <dl class="limits">
         ${side(lower, 'lower')} ${side(upper, 'upper')}
         <dt>branch</dt>
-        <dd class="muted">${c.name} · ${c.branch.length} points · ${c.steps} steps · ${formatNumber(r.wallSeconds, 2)} s${r.fromCache ? ' (cached)' : ''}</dd>
+        <dd class="muted">
+          ${c.name} · ${c.branch.length} points · ${c.steps} steps · ${formatNumber(r.wallSeconds, 2)} s${r.fromCache ? ' (cached)' : ''}
+        </dd>
       </dl>
     `;
   }

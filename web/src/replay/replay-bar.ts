@@ -120,13 +120,33 @@ export class ReplayBar extends LitElement {
       <span title=${r.createdAt ?? ''}>${r.fileName}</span>
       <button data-action="replay-play" @click=${this.toggle}>${this.playing ? '❚❚ Pause' : '▶ Play'}</button>
       <div class="track">
-        <div class="ticks">${r.events.filter((e) => e.kind === 'perturbation').map((e) => html`<span class="tick" style="left:${(100 * (e.tau - t0)) / span}%"></span>`)}</div>
-        <input type="range" min="0" max=${last} .value=${String(this.index)} aria-label="replay position" data-testid="scrubber"
-          @input=${(e: Event) => { this.stop(); this.scrub(Number((e.target as HTMLInputElement).value)); }} />
+        <div class="ticks">
+          ${r.events.filter((e) => e.kind === 'perturbation').map((e) => html`<span class="tick" style="left:${(100 * (e.tau - t0)) / span}%"></span>`)}
+        </div>
+        <input
+          type="range"
+          min="0"
+          max=${last}
+          .value=${String(this.index)}
+          aria-label="replay position"
+          data-testid="scrubber"
+          @input=${(e: Event) => {
+            this.stop();
+            this.scrub(Number((e.target as HTMLInputElement).value));
+          }}
+        />
       </div>
-      <span class="pos">sample ${this.index + 1} / ${last + 1} · τ = ${formatNumber(frame.tau, 5)} · ${formatSimulatedSeconds(frame.seconds, r.scenario.units)}</span>
+      <span class="pos"
+        >sample ${this.index + 1} / ${last + 1} · τ = ${formatNumber(frame.tau, 5)} ·
+        ${formatSimulatedSeconds(frame.seconds, r.scenario.units)}</span
+      >
       ${r.problems.length ? html`<span class="problems" title=${r.problems.map((p) => `line ${p.line}: ${p.reason}`).join('\n')}>${r.problems.length} log problem(s)</span>` : nothing}
-      <button data-action="back-to-live" @click=${() => this.dispatchEvent(new CustomEvent('sr-leave-replay', { bubbles: true, composed: true }))}>⟲ Back to live</button>
+      <button
+        data-action="back-to-live"
+        @click=${() => this.dispatchEvent(new CustomEvent('sr-leave-replay', { bubbles: true, composed: true }))}
+      >
+        ⟲ Back to live
+      </button>
     </div>`;
   }
 }

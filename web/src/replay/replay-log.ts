@@ -28,7 +28,14 @@ export class ReplayLog {
   readonly problems: LogProblem[];
   readonly createdAt: string | null;
 
-  private constructor(readonly fileName: string, scenario: Scenario, frames: WireFrame[], events: SessionEvent[], problems: LogProblem[], createdAt: string | null) {
+  private constructor(
+    readonly fileName: string,
+    scenario: Scenario,
+    frames: WireFrame[],
+    events: SessionEvent[],
+    problems: LogProblem[],
+    createdAt: string | null,
+  ) {
     this.scenario = scenario;
     this.frames = frames;
     this.points = frames.map(historyPointOf);
@@ -97,7 +104,10 @@ export class ReplayLog {
       integrator: { mode: frame.mode ?? 'micro', reason: 'as recorded in the log', ...s.integrator },
       status: frame.status === 'halted' ? 'halted' : 'paused',
       speed: 1,
-      warnings: nearResonances(s.modes.map((m) => m.omega), s.epsilon).map((w) => w.message),
+      warnings: nearResonances(
+        s.modes.map((m) => m.omega),
+        s.epsilon,
+      ).map((w) => w.message),
       logFile: this.fileName,
     };
     for (const event of this.events) {
