@@ -100,9 +100,12 @@ export function predictScenario(
         ? ASSUMED_FREQUENCY_NOTE
         : `seconds at the scenario's nominal frequency, ${scenario.units.nominalFrequencyHz} Hz`,
       mirror:
-        'rotations and phase shifts make copies of a pattern (one entry; candidate.conjugates counts them); a reflection makes its mirror image (a rotating wave q becomes N - q), an entry of its own linked through mirror.partner, or mirror.relation "self" when the image is a copy',
+        'rotations and phase shifts make copies of a pattern (one entry; candidate.conjugates counts them); ' +
+        'a reflection makes its mirror image (a rotating wave q becomes N - q), an entry of its own linked through mirror.partner, ' +
+        'or mirror.relation "self" when the image is a copy',
       marginal:
-        'a pattern is marginal when |margin| <= marginTolerance = eps rateScale K / omega_min + 1e-8 max(1, rateScale), K the coupling rate: the first-order guiding system cannot resolve its sign',
+        'a pattern is marginal when |margin| <= marginTolerance = eps rateScale K / omega_min + 1e-8 max(1, rateScale), ' +
+        'K the coupling rate: the first-order guiding system cannot resolve its sign',
     },
     patterns: catalogue.patterns.map((p, index) => ({ index, ...p })),
     initial: {

@@ -229,7 +229,7 @@ class JsonFileCache {
     try {
       value = JSON.parse(await readFile(path, 'utf8'));
     } catch (error) {
-      throw new Error(`not readable as JSON (${(error as Error).message})`);
+      throw new Error(`not readable as JSON (${(error as Error).message})`, { cause: error });
     }
     if (value === null || typeof value !== 'object' || Array.isArray(value)) throw new Error('not a JSON object');
     this.parsed.set(path, { mtimeMs: info.mtimeMs, size: info.size, value: value as Record<string, unknown> });

@@ -68,6 +68,11 @@ ${body}
 `;
 }
 
+/** The verdict table's row and cell colours: one line of the style sheet. */
+const VERDICT_COLOURS =
+  'tr.fail td { background: #fdf0ee; } tr.open td { background: #f2f3f5; } ' +
+  'td.ok { color: #2b8a3e; font-weight: 600; } td.bad { color: #c0392b; font-weight: 600; } td.open { color: #5a6572; font-weight: 600; }';
+
 const CSS = `
 body { margin: 0; background: #f4f6f8; color: #1b1f23; font: 14px/1.45 system-ui, -apple-system, "Segoe UI", sans-serif; }
 main { max-width: 1000px; margin: 0 auto; padding: 24px 28px 40px; background: #fff; }
@@ -92,7 +97,7 @@ svg { max-width: 100%; height: auto; }
 table { border-collapse: collapse; width: 100%; font-size: 12.5px; margin: 8px 0 16px; }
 th, td { border: 1px solid #d8dde3; padding: 4px 6px; text-align: left; vertical-align: top; }
 th { background: #eef1f4; } td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
-tr.fail td { background: #fdf0ee; } tr.open td { background: #f2f3f5; } td.ok { color: #2b8a3e; font-weight: 600; } td.bad { color: #c0392b; font-weight: 600; } td.open { color: #5a6572; font-weight: 600; }
+${VERDICT_COLOURS}
 .reasons { color: #8a2a1e; font-size: 12px; }
 .small { font-size: 11.5px; color: #4a5561; }
 dl dt { font-weight: 600; margin-top: 8px; } dl dd { margin: 2px 0 0 18px; }
@@ -155,9 +160,12 @@ function couplingBenefit(
 function couplingBenefitText(d: ReportData, b: NonNullable<ReturnType<typeof couplingBenefit>>): string {
   const n = nodesOf(d);
   return (
-    `At tau = ${seconds(b.tau)}${assumed(d)} one node inside the coupled array has ${fmt(b.node)} times the ADEV of a single free-running part: what the coupling does for one part. ` +
-    `The array output reaches ${fmt(b.ensemble)} times and the uncoupled ensemble average ${fmt(b.uncoupledEnsemble)} times; that much comes from plain averaging, with or without coupling. ` +
-    `1/sqrt(N) = ${fmt(1 / Math.sqrt(n))} for N = ${n} assumes independent noise in every part; a shared supply or a shared temperature correlates the noise and leaves less to gain.`
+    `At tau = ${seconds(b.tau)}${assumed(d)} one node inside the coupled array has ${fmt(b.node)} times the ADEV of a single free-running part: ` +
+    'what the coupling does for one part. ' +
+    `The array output reaches ${fmt(b.ensemble)} times and the uncoupled ensemble average ${fmt(b.uncoupledEnsemble)} times; ` +
+    'that much comes from plain averaging, with or without coupling. ' +
+    `1/sqrt(N) = ${fmt(1 / Math.sqrt(n))} for N = ${n} assumes independent noise in every part; ` +
+    'a shared supply or a shared temperature correlates the noise and leaves less to gain.'
   );
 }
 
@@ -219,7 +227,12 @@ function stabilityPlots(d: ReportData): string {
   return [
     figure(
       adevPlot,
-      `Overlapping ADEV of the array output (mean phase of the coupled nodes), one node inside the array, the uncoupled ensemble average of the same parts, and a single free-running part (same noise, coupling 0). Dashed lines: reference slopes of the power-law noise types through the single part's first point. Samples every ${seconds(st.tau0)}${assumed(d)}; octave-spaced tau up to a third of the record. The record includes the faults: a detuning step or a kick raises the deviations at the tau it spans, so the curves show noise and faults together.${ratioNote}`,
+      'Overlapping ADEV of the array output (mean phase of the coupled nodes), one node inside the array, ' +
+        'the uncoupled ensemble average of the same parts, and a single free-running part (same noise, coupling 0). ' +
+        "Dashed lines: reference slopes of the power-law noise types through the single part's first point. " +
+        `Samples every ${seconds(st.tau0)}${assumed(d)}; octave-spaced tau up to a third of the record. ` +
+        'The record includes the faults: a detuning step or a kick raises the deviations at the tau it spans, ' +
+        `so the curves show noise and faults together.${ratioNote}`,
       true,
     ),
     figure(
@@ -301,11 +314,15 @@ function timePlots(d: ReportData, unit: ReturnType<typeof unitText>): string {
   return [
     figure(
       phasePlot,
-      `Phase of node k+1 minus node k of the full system, wrapped to (-pi, pi]. Shaded: each fault from its application to its restore (instantaneous kicks as thin bars), labelled with its id (yellow: passed, red: failed). ${capitalize(unit.note)}.${nodes > shown ? ` The first ${shown} of ${nodes} differences are drawn.` : ''}`,
+      'Phase of node k+1 minus node k of the full system, wrapped to (-pi, pi]. ' +
+        'Shaded: each fault from its application to its restore (instantaneous kicks as thin bars), ' +
+        `labelled with its id (yellow: passed, red: failed). ${capitalize(unit.note)}.` +
+        (nodes > shown ? ` The first ${shown} of ${nodes} differences are drawn.` : ''),
     ),
     figure(
       tePlot,
-      `Time error x(t) = (phi(t) - phi(start)) / (2 pi f0) of each series, in ns, from the start of the stability record (the first lock unless the campaign says otherwise). Its slope is the frequency offset: 1 ppb is 1 ns per second.`,
+      'Time error x(t) = (phi(t) - phi(start)) / (2 pi f0) of each series, in ns, from the start of the stability record ' +
+        '(the first lock unless the campaign says otherwise). Its slope is the frequency offset: 1 ppb is 1 ns per second.',
       true,
     ),
     figure(
@@ -334,8 +351,16 @@ function verdictTable(d: ReportData, unit: ReturnType<typeof unitText>): string 
   if (d.verdicts.length === 0) return '<p>No fault has been judged yet.</p>';
   const rows = d.verdicts.map((v) => verdictRow(v, d, unit)).join('');
   const anyPass = d.verdicts.some((v) => outcomeOf(v) === 'pass');
-  return `<p>Times in ${esc(unit.name)}. A row is red when the fault failed its criteria (the reasons are under it) and grey when it is INCOMPLETE: judging stopped before its outcome was decided.</p>${anyPass ? caution(PASS_CAUTION, 'pass-caution') : ''}
-<table><thead><tr><th>fault (pattern before)</th><th>what</th><th class="num">applied</th><th class="num">restored</th><th>persisted</th><th>became</th><th>re-lock${esc(assumedAside(d))}</th><th class="num">largest phase excursion (rad)</th><th class="num">full vs guide divergence</th><th>prediction</th><th>verdict</th></tr></thead><tbody>${rows}</tbody></table>`;
+  const intro =
+    `<p>Times in ${esc(unit.name)}. A row is red when the fault failed its criteria (the reasons are under it) ` +
+    'and grey when it is INCOMPLETE: judging stopped before its outcome was decided.</p>';
+  const headings = [
+    '<th>fault (pattern before)</th><th>what</th><th class="num">applied</th><th class="num">restored</th>',
+    `<th>persisted</th><th>became</th><th>re-lock${esc(assumedAside(d))}</th><th class="num">largest phase excursion (rad)</th>`,
+    '<th class="num">full vs guide divergence</th><th>prediction</th><th>verdict</th>',
+  ].join('');
+  const table = `<table><thead><tr>${headings}</tr></thead><tbody>${rows}</tbody></table>`;
+  return `${intro}${anyPass ? caution(PASS_CAUTION, 'pass-caution') : ''}\n${table}`;
 }
 
 /** Verdicts in logs written before INCOMPLETE existed carry only `pass`. */
@@ -354,10 +379,9 @@ function verdictRow(v: FaultVerdict, d: ReportData, unit: ReturnType<typeof unit
         : v.complete
           ? 'no'
           : 'not yet';
-  const prediction =
-    v.prediction.persists === null
-      ? 'none'
-      : `${v.prediction.source === 'frame' ? 'live prediction' : 'guide'}: ${v.prediction.persists ? 'persists' : 'lost'}, ${v.prediction.agreed === null ? 'not yet judged' : v.prediction.agreed ? 'agreed' : 'disagreed'}`;
+  const predictor = v.prediction.source === 'frame' ? 'live prediction' : 'guide';
+  const judged = v.prediction.agreed === null ? 'not yet judged' : v.prediction.agreed ? 'agreed' : 'disagreed';
+  const prediction = v.prediction.persists === null ? 'none' : `${predictor}: ${v.prediction.persists ? 'persists' : 'lost'}, ${judged}`;
   const persisted = v.persisted ? 'yes' : v.slipped ? 'no (slip)' : v.became.length > 0 ? 'no' : v.settled === false ? 'not settled' : 'no';
   const rowClass = outcome === 'fail' ? 'fail' : outcome === 'incomplete' ? 'open' : '';
   const remarks = [
@@ -365,24 +389,34 @@ function verdictRow(v: FaultVerdict, d: ReportData, unit: ReturnType<typeof unit
     ...(v.notes ?? []).map((n) => `<span class="small">${esc(n)}</span>`),
   ];
   const under = remarks.length > 0 ? `<tr class="${rowClass}"><td></td><td colspan="10">${remarks.join('<br>')}</td></tr>` : '';
+  const verdictClass = outcome === 'pass' ? 'ok' : outcome === 'fail' ? 'bad' : 'open';
+  const passCaution = outcome === 'pass' ? `<span class="caution">${esc(PASS_CAUTION_SHORT)}</span>` : '';
   return (
     `<tr class="${rowClass}"><td><b>${esc(v.id)}</b> <span class="small">(${v.source})</span><br><span class="small">${esc(v.before)}</span></td><td>${esc(what)}</td>` +
     `<td class="num">${fmt(unit.of(v.appliedAt))}</td><td class="num">${v.restoredAt === null ? '-' : fmt(unit.of(v.restoredAt))}</td>` +
     `<td class="${v.persisted ? 'ok' : outcome === 'incomplete' ? 'open' : 'bad'}">${persisted}</td>` +
     `<td>${esc(v.became.join(', ') || '-')}</td><td>${esc(relock)}</td><td class="num">${fmt(v.maxPhaseExcursion)}</td>` +
     `<td class="num">${fmt(v.divergence.before)} &rarr; ${fmt(v.divergence.max)}</td><td>${esc(prediction)}</td>` +
-    `<td class="${outcome === 'pass' ? 'ok' : outcome === 'fail' ? 'bad' : 'open'}">${outcome.toUpperCase()}${outcome === 'pass' ? `<span class="caution">${esc(PASS_CAUTION_SHORT)}</span>` : ''}</td></tr>${under}`
+    `<td class="${verdictClass}">${outcome.toUpperCase()}${passCaution}</td></tr>${under}`
   );
 }
 
 function stabilityTables(d: ReportData): string {
   const st = d.stability;
   if (!st) return '<p>Not enough samples yet.</p>';
+  const num = (text: string | number): string => `<td class="num">${text}</td>`;
   const summaryRows = st.series
-    .map(
-      (s) =>
-        `<tr><td>${esc(SERIES_LABELS[s.name])}</td><td class="num">${s.points}</td><td class="num">${fmt(s.frequencyOffsetPpb)}</td><td class="num">${seconds(s.timeErrorPerDayUs * 1e-6)}</td><td class="num">${fmt(s.finalTimeErrorNs)}</td><td class="num">${fmt(s.maxTimeErrorNs)}</td><td class="num">${s.oadevSlope === null ? '-' : fmt(s.oadevSlope)}</td></tr>`,
-    )
+    .map((s) => {
+      const figures = [
+        num(s.points),
+        num(fmt(s.frequencyOffsetPpb)),
+        num(seconds(s.timeErrorPerDayUs * 1e-6)),
+        num(fmt(s.finalTimeErrorNs)),
+        num(fmt(s.maxTimeErrorNs)),
+        num(s.oadevSlope === null ? '-' : fmt(s.oadevSlope)),
+      ];
+      return `<tr><td>${esc(SERIES_LABELS[s.name])}</td>${figures.join('')}</tr>`;
+    })
     .join('');
   const first = st.series[0];
   const header = st.series.map((s) => `<th class="num">${esc(SERIES_SHORT[s.name])}</th>`).join('');
@@ -400,9 +434,17 @@ function stabilityTables(d: ReportData): string {
     })
     .join('');
   const aside = esc(assumedAside(d));
-  return `<table><thead><tr><th>series</th><th class="num">samples</th><th class="num">frequency offset (ppb)</th><th class="num" data-testid="per-day-heading">time error per day if this offset held (${esc(perDayBasis(d, st))})</th><th class="num">final time error (ns${aside})</th><th class="num">largest |time error| (ns${aside})</th><th class="num">ADEV slope</th></tr></thead><tbody>${summaryRows}</tbody></table>
-<h3>Overlapping Allan deviation</h3>
-<table><thead><tr><th class="num">tau${aside}</th><th class="num">m</th>${header}${ratioHeader}</tr></thead><tbody>${rows}</tbody></table>${caution(STABILITY_CAUTION, 'stability-caution')}`;
+  const summaryHeadings = [
+    '<th>series</th><th class="num">samples</th><th class="num">frequency offset (ppb)</th>',
+    `<th class="num" data-testid="per-day-heading">time error per day if this offset held (${esc(perDayBasis(d, st))})</th>`,
+    `<th class="num">final time error (ns${aside})</th><th class="num">largest |time error| (ns${aside})</th><th class="num">ADEV slope</th>`,
+  ].join('');
+  const sweepHeadings = `<th class="num">tau${aside}</th><th class="num">m</th>${header}${ratioHeader}`;
+  return [
+    `<table><thead><tr>${summaryHeadings}</tr></thead><tbody>${summaryRows}</tbody></table>`,
+    '<h3>Overlapping Allan deviation</h3>',
+    `<table><thead><tr>${sweepHeadings}</tr></thead><tbody>${rows}</tbody></table>${caution(STABILITY_CAUTION, 'stability-caution')}`,
+  ].join('\n');
 }
 
 /**
@@ -419,29 +461,92 @@ function notes(d: ReportData): string {
   const resumes = (d.summary?.resumes as unknown[] | undefined) ?? [];
   if (resumes.length > 0)
     list.push(
-      `<li>The soak was resumed ${resumes.length} time${resumes.length === 1 ? '' : 's'} from its log; the replayed records matched the ones written before the interruption (${esc(JSON.stringify(d.summary?.resumeCheck ?? {}))}).</li>`,
+      `<li>The soak was resumed ${resumes.length} time${resumes.length === 1 ? '' : 's'} from its log; ` +
+        `the replayed records matched the ones written before the interruption (${esc(JSON.stringify(d.summary?.resumeCheck ?? {}))}).</li>`,
     );
   return list.length > 0 ? `<section><h2>Notes</h2><ul>${list.join('')}</ul></section>` : '';
 }
 
 function definitions(d: ReportData): string {
-  return `<section><h2>Definitions</h2><dl>
-<dt>Phase and time error</dt><dd>phi_k is the unwrapped phase of node k's wanted mode against the nominal carrier (the rotating frame turns at omega_0). The array output is the mean phase of the coupled nodes; the single part is node 0 of an uncoupled twin of the ring (coupling 0, the same parts, the same noise); the uncoupled ensemble average is the mean phase of that twin's nodes. Time error x = (phi - phi_start) / (2 pi f0) with f0 = ${fmtHz(d.nominalFrequencyHz)}${d.nominalFrequencyAssumed ? ' (assumed: the scenario gives no nominalFrequencyHz)' : ''}.</dd>
-<dt>Frequency offset</dt><dd>(x_last - x_first) / T over the record, in ppb (parts in 10^9); 1 ppb builds up 86.4 us of time error per day, 1 ppm 86.4 ms.</dd>
-<dt>ADEV, overlapping ADEV</dt><dd>Square root of the two-sample (Allan) variance of the fractional frequency at averaging time tau = m tau0, from second differences of x (IEEE Std 1139; NIST SP 1065); overlapping uses every start point.</dd>
-<dt>MDEV, TDEV</dt><dd>Modified Allan deviation (averages phase over tau before differencing, separates white from flicker PM); TDEV = (tau / sqrt 3) MDEV, in seconds (ITU-T G.810).</dd>
-<dt>MTIE</dt><dd>Largest peak-to-peak time error in any window of length tau (ITU-T G.810); it includes the frequency offset.</dd>
-<dt>Locked, settling, slip</dt><dd>The ring is locked when it is frequency-locked: the phase differences of its coupled pairs stay bounded, with no cycle slip. A cycle slip is a move of a coupled pair's phase difference by pi or more from where it last settled (past the unstable equilibrium of the coupling). Settled: over one lock window every difference stayed within the lock tolerance of its newest value. Settling: still locked, but moving, or deformed for a moment (an amplitude kick). The live timeline and these verdicts use the same lock detector.</dd>
-<dt>Persisted</dt><dd>The locked pattern held through the fault: no cycle slip, the carrying mode did not change, no other pattern was committed (a new pattern counts once it has held over a lock window; a state on the live prediction's continuation of the pattern stays the same pattern whatever its snapshot shape), and the ring settled in it by the end of the judged span. A move to the continued state, by any amount, is not a loss: the row says how far it moved and how long it took to settle.</dd>
-<dt>Judged span, INCOMPLETE</dt><dd>Each fault is judged from its application to the end of its window, or until the next fault is applied, whichever comes first ("judged until the next fault"); what follows is judged against the later fault, and a restore that falls into its span is listed there. PASS: every criterion held. FAIL: one did not. INCOMPLETE: nothing failed, but judging stopped before the outcome was decided (the soak ended or the next fault came while the ring was still settling, or a re-lock was still due); it does not fail the soak unless <code>--fail-incomplete</code> is given.</dd>
-<dt>Became, re-lock</dt><dd>Became: the patterns the lock detector committed instead of the pre-fault one, in order ("unlocked" after a slip). Re-lock: after a loss, the first tick at or after the restore (or the fault, when nothing is restored) at which the detector had the pre-fault pattern locked again; its lock needs one converged lock window, so the time includes that delay.</dd>
-<dt>Unwanted mode</dt><dd>A ring locked on an unwanted mode fails every fault's verdict: the board's output then sits at that mode's frequency, a design defect however stable the lock.</dd>
-<dt>Divergence</dt><dd>Largest |a_full - a_guide| over nodes and modes relative to the mean amplitude, just before the fault and at most during its window. Under noise the full system's common phase wanders away from the noiseless guide over the whole soak, so a criterion judges the growth during the window, not the level.</dd>
-<dt>Prediction</dt><dd>The live prediction carried by the frames (continuation of the guiding system's locked state to the new parameters) when one was made for the fault, otherwise what the guiding system itself did; "agreed" compares it with whether the full system's pattern persisted.</dd>
-</dl></section>`;
+  const assumedNote = d.nominalFrequencyAssumed ? ' (assumed: the scenario gives no nominalFrequencyHz)' : '';
+  const entries: [term: string, definition: string][] = [
+    [
+      'Phase and time error',
+      "phi_k is the unwrapped phase of node k's wanted mode against the nominal carrier (the rotating frame turns at omega_0). " +
+        'The array output is the mean phase of the coupled nodes; ' +
+        'the single part is node 0 of an uncoupled twin of the ring (coupling 0, the same parts, the same noise); ' +
+        "the uncoupled ensemble average is the mean phase of that twin's nodes. " +
+        `Time error x = (phi - phi_start) / (2 pi f0) with f0 = ${fmtHz(d.nominalFrequencyHz)}${assumedNote}.`,
+    ],
+    [
+      'Frequency offset',
+      '(x_last - x_first) / T over the record, in ppb (parts in 10^9); 1 ppb builds up 86.4 us of time error per day, 1 ppm 86.4 ms.',
+    ],
+    [
+      'ADEV, overlapping ADEV',
+      'Square root of the two-sample (Allan) variance of the fractional frequency at averaging time tau = m tau0, ' +
+        'from second differences of x (IEEE Std 1139; NIST SP 1065); overlapping uses every start point.',
+    ],
+    [
+      'MDEV, TDEV',
+      'Modified Allan deviation (averages phase over tau before differencing, separates white from flicker PM); ' +
+        'TDEV = (tau / sqrt 3) MDEV, in seconds (ITU-T G.810).',
+    ],
+    ['MTIE', 'Largest peak-to-peak time error in any window of length tau (ITU-T G.810); it includes the frequency offset.'],
+    [
+      'Locked, settling, slip',
+      'The ring is locked when it is frequency-locked: the phase differences of its coupled pairs stay bounded, with no cycle slip. ' +
+        "A cycle slip is a move of a coupled pair's phase difference by pi or more from where it last settled " +
+        '(past the unstable equilibrium of the coupling). ' +
+        'Settled: over one lock window every difference stayed within the lock tolerance of its newest value. ' +
+        'Settling: still locked, but moving, or deformed for a moment (an amplitude kick). ' +
+        'The live timeline and these verdicts use the same lock detector.',
+    ],
+    [
+      'Persisted',
+      'The locked pattern held through the fault: no cycle slip, the carrying mode did not change, no other pattern was committed ' +
+        "(a new pattern counts once it has held over a lock window; a state on the live prediction's continuation of the pattern " +
+        'stays the same pattern whatever its snapshot shape), and the ring settled in it by the end of the judged span. ' +
+        'A move to the continued state, by any amount, is not a loss: the row says how far it moved and how long it took to settle.',
+    ],
+    [
+      'Judged span, INCOMPLETE',
+      'Each fault is judged from its application to the end of its window, or until the next fault is applied, ' +
+        'whichever comes first ("judged until the next fault"); what follows is judged against the later fault, ' +
+        'and a restore that falls into its span is listed there. PASS: every criterion held. FAIL: one did not. ' +
+        'INCOMPLETE: nothing failed, but judging stopped before the outcome was decided ' +
+        '(the soak ended or the next fault came while the ring was still settling, or a re-lock was still due); ' +
+        'it does not fail the soak unless <code>--fail-incomplete</code> is given.',
+    ],
+    [
+      'Became, re-lock',
+      'Became: the patterns the lock detector committed instead of the pre-fault one, in order ("unlocked" after a slip). ' +
+        'Re-lock: after a loss, the first tick at or after the restore (or the fault, when nothing is restored) ' +
+        'at which the detector had the pre-fault pattern locked again; ' +
+        'its lock needs one converged lock window, so the time includes that delay.',
+    ],
+    [
+      'Unwanted mode',
+      "A ring locked on an unwanted mode fails every fault's verdict: " +
+        "the board's output then sits at that mode's frequency, a design defect however stable the lock.",
+    ],
+    [
+      'Divergence',
+      'Largest |a_full - a_guide| over nodes and modes relative to the mean amplitude, just before the fault and at most during its window. ' +
+        "Under noise the full system's common phase wanders away from the noiseless guide over the whole soak, " +
+        'so a criterion judges the growth during the window, not the level.',
+    ],
+    [
+      'Prediction',
+      "The live prediction carried by the frames (continuation of the guiding system's locked state to the new parameters) " +
+        'when one was made for the fault, otherwise what the guiding system itself did; ' +
+        '"agreed" compares it with whether the full system\'s pattern persisted.',
+    ],
+  ];
+  const items = entries.map(([term, definition]) => `<dt>${term}</dt><dd>${definition}</dd>`);
+  return `<section><h2>Definitions</h2><dl>\n${items.join('\n')}\n</dl></section>`;
 }
 
-/** A plot with its caption; a stability plot also carries the stability caution beside it. */
 /** A ring that ended locked on an unwanted mode: a design defect, said at the top. */
 function unwantedModeNote(d: ReportData): string {
   const pattern = (d.summary?.final as { pattern?: { locked?: boolean; carryingMode?: number; kind?: string } } | null | undefined)
@@ -453,9 +558,13 @@ function unwantedModeNote(d: ReportData): string {
     ppm === null
       ? ''
       : `, about ${ppm >= 0 ? '+' : ''}${fmt(ppm)} ppm (${fmtHz(Math.abs(ppm) * 1e-6 * d.nominalFrequencyHz)} ${basis(d)}) from the wanted frequency`;
-  return `<p class="defect" data-testid="unwanted-mode">Design defect: the soak ended with the ring locked (${esc(pattern.kind ?? '')}) on unwanted mode ${pattern.carryingMode}; the board's output then sits at that mode's frequency${esc(where)}.</p>`;
+  return (
+    `<p class="defect" data-testid="unwanted-mode">Design defect: the soak ended with the ring locked (${esc(pattern.kind ?? '')}) ` +
+    `on unwanted mode ${pattern.carryingMode}; the board's output then sits at that mode's frequency${esc(where)}.</p>`
+  );
 }
 
+/** A plot with its caption; a stability plot also carries the stability caution beside it. */
 function figure(svg: string, caption: string, stability = false): string {
   return `<figure>${svg}<figcaption>${esc(caption)}</figcaption>${stability ? caution(STABILITY_CAUTION, 'stability-caution') : ''}</figure>`;
 }
@@ -504,7 +613,12 @@ function perturbationText(v: FaultVerdict, eps: number): string {
     case 'set-detuning':
       return `detuning of node ${p.node} set to Delta ${fmt(p.delta)} (${fmt(p.delta * eps * 1e6)} ppm)`;
     case 'set-noise':
-      return `noise set to ${[p.intensity !== undefined ? `intensity ${fmt(p.intensity)}` : '', p.detuningWalk !== undefined ? `detuning walk ${fmt(p.detuningWalk)}` : ''].filter(Boolean).join(', ')}`;
+      return `noise set to ${[
+        p.intensity !== undefined ? `intensity ${fmt(p.intensity)}` : '',
+        p.detuningWalk !== undefined ? `detuning walk ${fmt(p.detuningWalk)}` : '',
+      ]
+        .filter(Boolean)
+        .join(', ')}`;
     case 'set-coupling':
       return `coupling set to ${(['strength', 'reactive', 'dissipative'] as const)
         .filter((k) => p[k] !== undefined)

@@ -116,7 +116,8 @@ export function linePlot(o: PlotOptions): string {
   }
   if (unlabelled > 0) {
     parts.push(
-      `<text x="${MARGIN.left}" y="${MARGIN.top + plotH + 48}" font-size="10" fill="#5a3a00">${unlabelled} more shaded intervals without a label (too close together; see the verdict table)</text>`,
+      `<text x="${MARGIN.left}" y="${MARGIN.top + plotH + 48}" font-size="10" fill="#5a3a00">` +
+        `${unlabelled} more shaded intervals without a label (too close together; see the verdict table)</text>`,
     );
   }
 
@@ -198,7 +199,8 @@ function seriesPath(s: PlotSeries, px: (v: number) => number, py: (v: number) =>
     previous = y;
     if (s.markers) dots.push(`<circle cx="${f(px(x))}" cy="${f(py(y))}" r="2.6" fill="${s.color}"/>`);
   }
-  return `<path d="${d}" fill="none" stroke="${s.color}" stroke-width="${s.width ?? 1.6}" stroke-linejoin="round"${s.dash ? ` stroke-dasharray="${s.dash}"` : ''}/>${dots.join('')}`;
+  const dash = s.dash ? ` stroke-dasharray="${s.dash}"` : '';
+  return `<path d="${d}" fill="none" stroke="${s.color}" stroke-width="${s.width ?? 1.6}" stroke-linejoin="round"${dash}/>${dots.join('')}`;
 }
 
 /** Put a guide's label near its last point inside the plot. */

@@ -156,7 +156,9 @@ export class SoakLauncher {
       signal,
       state: 'interrupted',
       resumable: true,
-      note: 'the soak runner does not catch SIGTERM, so it ended at once, as after a kill: its log is crash-safe, and a resume continues from its last checkpoint and rewrites the records after it',
+      note:
+        'the soak runner does not catch SIGTERM, so it ended at once, as after a kill: its log is crash-safe, ' +
+        'and a resume continues from its last checkpoint and rewrites the records after it',
     };
   }
 

@@ -197,7 +197,8 @@ class SoakRunner {
     const sameEngine = point.header.soak.engine === undefined || point.header.soak.engine === engine;
     if (!sameEngine) {
       this.notes.push(
-        `resumed under other engine code (${engine}, started with ${point.header.soak.engine}): the part after tau ${cp.tau.toPrecision(8)} is not bit-identical to an uninterrupted run`,
+        `resumed under other engine code (${engine}, started with ${point.header.soak.engine}): ` +
+          `the part after tau ${cp.tau.toPrecision(8)} is not bit-identical to an uninterrupted run`,
       );
       this.say(`soak: warning: the engine code changed since this soak started; it continues, but not bit for bit`);
     }
@@ -212,7 +213,9 @@ class SoakRunner {
       sameEngine,
     });
     this.say(
-      `soak: resuming ${this.options.out} from tau ${cp.tau.toPrecision(8)} (tick ${cp.tick}); ${point.discarded.size} later records will be written again${point.tornTailBytes ? `, a torn last line of ${point.tornTailBytes} bytes dropped` : ''}`,
+      `soak: resuming ${this.options.out} from tau ${cp.tau.toPrecision(8)} (tick ${cp.tick}); ` +
+        `${point.discarded.size} later records will be written again` +
+        (point.tornTailBytes ? `, a torn last line of ${point.tornTailBytes} bytes dropped` : ''),
     );
   }
 

@@ -20,4 +20,7 @@ export const STABILITY_CAUTION = `These stability figures come from the simulate
 export const PASS_CAUTION_SHORT = "simulated criteria, not a standard's mask";
 
 /** The page-wide caution (header, footer, start-up), covering both kinds of result. */
-export const SIMULATION_CAUTION = `Simulation does not replace qualification of real hardware. A PASS or a stability figure here holds under the simulated noise model only and does not mean compliance with any standard's mask. ${QUALIFY}`;
+export const SIMULATION_CAUTION =
+  'Simulation does not replace qualification of real hardware. ' +
+  "A PASS or a stability figure here holds under the simulated noise model only and does not mean compliance with any standard's mask. " +
+  QUALIFY;

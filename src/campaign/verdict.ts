@@ -298,7 +298,8 @@ export class FaultEvaluation {
     const notes: string[] = [];
     if (cutShort)
       notes.push(
-        `judged until the next fault (${cutShort.by}) at tau ${cutShort.at.toPrecision(6)} (slow ${(cutShort.at * base.epsilon).toPrecision(4)}), settled: ${settled ? 'yes' : 'no'}`,
+        `judged until the next fault (${cutShort.by}) at tau ${cutShort.at.toPrecision(6)} ` +
+          `(slow ${(cutShort.at * base.epsilon).toPrecision(4)}), settled: ${settled ? 'yes' : 'no'}`,
       );
     if (settled && !wasLost)
       notes.push(

@@ -287,7 +287,7 @@ export class EnvelopeSystem implements FullIntegrator {
     } else {
       startRate.set(endRate);
     }
-    let span = 0;
+    let span: number;
     for (let attempt = 0; ; attempt++) {
       span = Math.min(solver.step > 0 ? solver.step : FIRST_CHUNK, this.chunkLimit());
       trial.set(startSlow);

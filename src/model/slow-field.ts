@@ -242,7 +242,7 @@ export class SlowField {
     plain: boolean,
   ): void {
     const p = this.params;
-    const { signal, signalRate, motion, fromA, fromB, linkA, linkB } = this;
+    const { signal, signalRate, fromA, fromB, linkA, linkB } = this;
     const weight = p.linkWeight;
     const detuning = p.detuning;
     const kr = p.strength * p.reactive;

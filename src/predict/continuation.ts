@@ -47,9 +47,15 @@ import { deltaToPpm } from '../scenario/units.js';
 
 // Step lengths are arclengths in the scaled unknowns (y, Omega_c, mu), mu the parameter in units
 // of its natural scale (parameterScale), so they mean the same for every parameter.
-/** Default accepted steps per direction: bounds the work (a dense Jacobian, and with monitoring an eigenvalue problem, per step); a longer branch ends in a 'max-steps' limit that says so. */
+/**
+ * Default accepted steps per direction: bounds the work (a dense Jacobian, and with monitoring an
+ * eigenvalue problem, per step); a longer branch ends in a 'max-steps' limit that says so.
+ */
 const MAX_STEPS = 200;
-/** Default first step: small against the scaled unknowns (amplitudes near 2, mu of order one across a locking range), so the first corrector starts close; the step grows from there. */
+/**
+ * Default first step: small against the scaled unknowns (amplitudes near 2, mu of order one
+ * across a locking range), so the first corrector starts close; the step grows from there.
+ */
 const INITIAL_STEP = 0.02;
 /** Default largest step: a predictor that strays far from the branch risks a corrector that lands on another one (the turn check catches that only afterwards). */
 const MAX_STEP = 0.5;
@@ -71,7 +77,11 @@ const LOCATE_BISECTIONS = 30;
 const LOCATE_RESOLUTION = 1e-9;
 /** An event this close to a range end or bound (in units of the parameter's scale) counts as on it: the rounding of lambda_0 + scale mu. */
 const BOUND_SLACK = 1e-9;
-/** A crossing eigenvalue with |Im| above this share of the rate scale is a complex pair (Hopf), below it a real eigenvalue (branch point): it keeps rounding in the imaginary part of a real eigenvalue from reading as a Hopf point. */
+/**
+ * A crossing eigenvalue with |Im| above this share of the rate scale is a complex pair (Hopf),
+ * below it a real eigenvalue (branch point): it keeps rounding in the imaginary part of a real
+ * eigenvalue from reading as a Hopf point.
+ */
 const HOPF_IMAGINARY = 1e-6;
 
 export interface ContinuationOptions {

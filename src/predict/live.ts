@@ -97,7 +97,10 @@ const MOVE_WORTH_SAYING = 0.005;
 
 // The continuation from the previous parameters (h = 0) to the new ones (h = 1), in h itself
 // (the homotopy's scale is 1).
-/** Accepted steps at most: the prediction runs inside the session's tick after a perturbation, so its work is bounded; a branch that needs more counts as lost there ('max-steps'). */
+/**
+ * Accepted steps at most: the prediction runs inside the session's tick after a perturbation, so
+ * its work is bounded; a branch that needs more counts as lost there ('max-steps').
+ */
 const HOMOTOPY_MAX_STEPS = 80;
 /** First step: a quarter of the way, so a change that disturbs nothing reaches h = 1 in a few steps; the continuation cuts the step where its corrector fails. */
 const HOMOTOPY_INITIAL_STEP = 0.25;

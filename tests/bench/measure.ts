@@ -42,7 +42,7 @@ export function measureThroughput<T>(
     let periods = 0;
     const cpu = process.cpuUsage();
     const start = performance.now();
-    let elapsed = 0;
+    let elapsed: number;
     do {
       periods += chunk;
       advanceTo(integrator, periods);

@@ -348,7 +348,8 @@ function benchScipy() {
   }
   const last = tried.at(-1)!;
   notes.push(
-    `SciPy DOP853 did not reach the micro stepper's accuracy at rtol ${last.tolerance} (error ${last.relativeError.toExponential(2)} against ${last.microError.toExponential(2)}); its ratio is shown at that tolerance`,
+    `SciPy DOP853 did not reach the micro stepper's accuracy at rtol ${last.tolerance} ` +
+      `(error ${last.relativeError.toExponential(2)} against ${last.microError.toExponential(2)}); its ratio is shown at that tolerance`,
   );
   return {
     version: scipyVersion(),
@@ -650,7 +651,8 @@ if (json) {
   const widths = [0, 1, 2].map((c) => Math.max(...rows.map((r) => r[c].length)));
   console.log('');
   console.log(
-    `syncring benchmark (sections: ${[...sections].join(', ')}): N = 8 two-way ring, modes ${Array.from(params.omega).join(' and ')}, eps = ${params.epsilon}, macro tick ${macroPeriods} periods`,
+    `syncring benchmark (sections: ${[...sections].join(', ')}): N = 8 two-way ring, ` +
+      `modes ${Array.from(params.omega).join(' and ')}, eps = ${params.epsilon}, macro tick ${macroPeriods} periods`,
   );
   console.log(
     `node ${process.version}, ${result.machine.cpus} CPUs, load average ${result.machine.loadAverage.join(' ')} (best of several trials is shown)`,

@@ -27,7 +27,8 @@ async function expectBuiltDashboard(url: string): Promise<void> {
   const page = await (await fetch(url)).text();
   if (/src\/main\.ts/.test(page)) {
     throw new Error(
-      `the server at ${url} serves the dashboard sources (web/index.html loading ./src/main.ts) instead of the build in dist/web; its static root must be dist/web also when it runs from the TypeScript sources`,
+      `the server at ${url} serves the dashboard sources (web/index.html loading ./src/main.ts) instead of the build in dist/web; ` +
+        'its static root must be dist/web also when it runs from the TypeScript sources',
     );
   }
   expect(page).toMatch(/<syncring-app>/);

@@ -109,7 +109,8 @@ describe.runIf(available)('labels in the dashboard', () => {
     await expect.poll(() => textOf(page, '[data-testid=soak-verdict]')).toBe('PASS');
     const caution = page.locator('[data-testid=soak-pass-caution]');
     expect(await textOf(page, '[data-testid=soak-pass-caution]')).toBe(
-      "PASS means this campaign's criteria were met under the simulated noise model. It does not mean compliance with any standard's mask. Qualify real hardware to the standards that apply, with accredited practice.",
+      "PASS means this campaign's criteria were met under the simulated noise model. " +
+        "It does not mean compliance with any standard's mask. Qualify real hardware to the standards that apply, with accredited practice.",
     );
     // beside it: on the badge's row, to its right
     const badge = (await page.locator('[data-testid=soak-verdict]').boundingBox())!;

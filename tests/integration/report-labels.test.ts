@@ -14,7 +14,8 @@ import { runPairSoak } from '../support/pair-soak.js';
  */
 
 const PASS_WORDING =
-  "PASS means this campaign's criteria were met under the simulated noise model. It does not mean compliance with any standard's mask. Qualify real hardware to the standards that apply, with accredited practice.";
+  "PASS means this campaign's criteria were met under the simulated noise model. " +
+  "It does not mean compliance with any standard's mask. Qualify real hardware to the standards that apply, with accredited practice.";
 
 interface Soak {
   html: string;
@@ -140,7 +141,8 @@ describe('the soak report labels its numbers', () => {
     // the array output's ratio is a different number here: it is not the one shown as the coupling's benefit
     expect(Math.abs(r.ensemble[i] / r.node[i] - 1)).toBeGreaterThan(0.05);
     expect(box).toContain(
-      `The array output reaches ${Number(r.ensemble[i].toPrecision(4))} times and the uncoupled ensemble average ${Number(r.uncoupledEnsemble[i].toPrecision(4))} times; that much comes from plain averaging`,
+      `The array output reaches ${Number(r.ensemble[i].toPrecision(4))} times ` +
+        `and the uncoupled ensemble average ${Number(r.uncoupledEnsemble[i].toPrecision(4))} times; that much comes from plain averaging`,
     );
     expect(box).toMatch(
       /1\/sqrt\(N\) = 0\.7071 for N = 2 assumes independent noise in every part; a shared supply or a shared temperature correlates the noise/,

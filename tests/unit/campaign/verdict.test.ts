@@ -384,7 +384,7 @@ test('a verdict row never contradicts itself, over random detector histories', (
     const end = 20 + Math.floor(random.uniform() * 35);
     const v = evaluate(
       plan(),
-      (t) => random.uniform() - 0.5,
+      () => random.uniform() - 0.5,
       (t) => script[t - 10],
       end,
     );

@@ -18,7 +18,11 @@ const complete = (n: number): [number, number][] =>
  */
 function cycleCounts(nodes: number, edges: [number, number][]): Map<number, number> {
   const adjacent = Array.from({ length: nodes }, () => new Set<number>());
-  for (const [a, b] of edges) if (a !== b) (adjacent[a].add(b), adjacent[b].add(a));
+  for (const [a, b] of edges) {
+    if (a === b) continue;
+    adjacent[a].add(b);
+    adjacent[b].add(a);
+  }
   const walks = new Map<number, number>();
   const path: number[] = [];
   const walk = (k: number): void => {

@@ -39,7 +39,7 @@ test('the array output of a detuned in-phase lock: its spread and combining loss
   const p = patternCatalogue(model, { types: ['in-phase'], maxFixDimension: 1, randomSeeds: 0 }).patterns.find((x) => x.mode === 0)!;
   // the combining ratio is the q = 0 order parameter R_0 = |mean a| / mean |a| (same definition)
   const r0 = (() => {
-    const a = p.amplitudes.map((row, k) => row[0]);
+    const a = p.amplitudes.map((row) => row[0]);
     let re = 0;
     let im = 0;
     for (let k = 0; k < a.length; k++) {

@@ -2,8 +2,14 @@ import { describe, expect, test } from 'vitest';
 import { parseScenario } from '../../../src/scenario/index.js';
 import { InputError } from '../../../src/util/input-error.js';
 
+/** A scenario as raw JSON, open to the cases below: any field may be broken, dropped or added, also in a mode. */
+interface RawScenario {
+  modes: Record<string, unknown>[];
+  [field: string]: unknown;
+}
+
 /** A small valid scenario; each case below breaks exactly one thing in a fresh copy. */
-function valid(): Record<string, any> {
+function valid(): RawScenario {
   return {
     nodes: 3,
     topology: 'ring-one-way',
@@ -26,7 +32,7 @@ function errorOf(raw: unknown, source?: string): InputError {
   throw new Error('expected parseScenario to throw');
 }
 
-type Case = [label: string, breakIt: (s: Record<string, any>) => unknown, path: string, reason: string];
+type Case = [label: string, breakIt: (s: RawScenario) => unknown, path: string, reason: string];
 
 // The expected messages are the contract of this module (DEVELOPERS.md, 'Conventions': bad input
 // gets an error naming what and where); each was written by hand from the rule it enforces.

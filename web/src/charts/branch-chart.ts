@@ -94,6 +94,8 @@ export const branchMarkers: Plugin<'line', BranchMarkerOptions> = {
 };
 
 declare module 'chart.js' {
+  // TType stays unused: every declaration of chart.js's PluginOptionsByType must name the same type parameters
+  // eslint-disable-next-line @typescript-eslint/no-unused-vars
   interface PluginOptionsByType<TType extends import('chart.js').ChartType> {
     branchMarkers?: Partial<BranchMarkerOptions>;
   }
@@ -187,6 +189,10 @@ export class BranchChart extends LitElement {
   override render() {
     const c = this.continuation;
     const n = c?.branch[0]?.phaseDifferences.length ?? 0;
+    const nodeKey = (k: number) =>
+      html`<span class="key" style="color:${nodeColour(k)}"
+        ><span class="swatch"></span>${this.quantity === 'phase' ? `${k}→${(k + 1) % n}` : `node ${k}`}</span
+      >`;
     return html`
       <div class="legend">
         ${
@@ -196,7 +202,7 @@ export class BranchChart extends LitElement {
                 <span class="key"><span class="swatch dotted"></span>marginal</span>
                 <span class="key" style="color:${INK}"><span class="swatch"></span>live value</span>
                 <span class="key" style="color:${FAULT}"><span class="swatch dashed"></span>limit (pattern lost)</span>
-                ${Array.from({ length: n }, (_, k) => html`<span class="key" style="color:${nodeColour(k)}"><span class="swatch"></span>${this.quantity === 'phase' ? `${k}→${(k + 1) % n}` : `node ${k}`}</span>`)}`
+                ${Array.from({ length: n }, (_, k) => nodeKey(k))}`
             : nothing
         }
       </div>

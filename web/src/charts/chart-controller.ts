@@ -100,6 +100,8 @@ export const eventMarkers: Plugin<'line', EventMarkerOptions> = {
 Chart.register(eventMarkers);
 
 declare module 'chart.js' {
+  // TType stays unused: every declaration of chart.js's PluginOptionsByType must name the same type parameters
+  // eslint-disable-next-line @typescript-eslint/no-unused-vars
   interface PluginOptionsByType<TType extends import('chart.js').ChartType> {
     eventMarkers?: Partial<EventMarkerOptions>;
   }

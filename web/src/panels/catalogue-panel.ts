@@ -32,6 +32,10 @@ const KIND_WORDS: Record<string, string> = {
   cluster: 'cluster state',
 };
 const SYMMETRY_SHOWN = 2;
+/** The tooltip of the output frequency column. */
+const OUTPUT_FREQUENCY_TITLE =
+  "frequency of the locked output against the wanted mode's nominal frequency; " +
+  "below it, the carrying mode's own collective shift from its own nominal frequency";
 
 /**
  * The catalogue of locked patterns the ring can hold under the live parameters: kind and wave
@@ -202,6 +206,12 @@ export class CataloguePanel extends LitElement {
     const live = this.live;
     const broken = c.computedFor.links.filter((l) => l.weight === 0).length;
     const scales = this.session ? runScalesOf(this.session) : null;
+    const numberingWarning =
+      c.numbering && !c.numbering.independent
+        ? html`<br /><span class="stale" data-testid="numbering-warning"
+              >This list may depend on how the nodes are numbered: ${c.numbering.reason}.</span
+            >`
+        : nothing;
     return html`
       <p class="facts" data-testid="catalogue-facts">
         <b>${c.patterns.length}</b> locked patterns, <b style="color:${LOCKED}">${stable} stable</b>${
@@ -226,7 +236,7 @@ export class CataloguePanel extends LitElement {
           nominal frequency${scales ? `, in Hz ${frequencyBasis(scales)}` : ''}.</span
         >
         ${this.loading ? html` <span class="stale">Updating for the new parameters…</span>` : this.stale ? html` <span class="stale">The live parameters changed.</span>` : nothing}
-        ${c.numbering && !c.numbering.independent ? html`<br /><span class="stale" data-testid="numbering-warning">This list may depend on how the nodes are numbered: ${c.numbering.reason}.</span>` : nothing}
+        ${numberingWarning}
       </p>
       <div class="scroll">
         <table data-testid="catalogue">
@@ -247,12 +257,7 @@ export class CataloguePanel extends LitElement {
                 ${secondsHeading('time constant', scales?.nominalFrequencyAssumed === true)}
               </th>
               <th class="r" title="mean over the nodes of the carrying mode's |a|, and its smallest and largest value">amplitude |a|</th>
-              <th
-                class="r"
-                title="frequency of the locked output against the wanted mode's nominal frequency; below it, the carrying mode's own collective shift from its own nominal frequency"
-              >
-                output frequency
-              </th>
+              <th class="r" title=${OUTPUT_FREQUENCY_TITLE}>output frequency</th>
             </tr>
           </thead>
           <tbody>
@@ -278,6 +283,8 @@ export class CataloguePanel extends LitElement {
     const shift = p.frequencyShiftPpm[p.mode];
     const output = p.outputOffsetPpm ?? shift;
     const hz = this.session?.nominalFrequencyHz ?? 0;
+    const clusters = p.clusters ? ` · ${p.clusters.length} clusters` : '';
+    const spread = p.spread !== undefined && p.spread !== null && p.kind === 'in-phase' ? ` · spread ${spreadText(p.spread)}` : '';
     return html`
       <tr
         class=${classes}
@@ -291,9 +298,7 @@ export class CataloguePanel extends LitElement {
         <td>
           <span class="kind">${KIND_WORDS[p.kind] ?? p.kind}${p.q !== undefined ? ` q = ${p.q}` : ''}</span
           >${isLive ? html`<span class="badge live">LIVE</span>` : nothing}
-          <span class="small"
-            >${modeName(p.mode)}${p.clusters ? ` · ${p.clusters.length} clusters` : ''}${seedNote(p)}${p.spread !== undefined && p.spread !== null && p.kind === 'in-phase' ? ` · spread ${spreadText(p.spread)}` : ''}</span
-          >
+          <span class="small">${modeName(p.mode)}${clusters}${seedNote(p)}${spread}</span>
           ${
             p.mirror?.relation === 'pair' && p.mirror.partner !== null
               ? html`<a

@@ -18,6 +18,10 @@ import { CAUTION, CHIP, DIVIDER, FAULT, INK, LOCKED, MUTED, SOFT_BORDER, SOFT_IN
 import { destinationText, modeName, modeOffset, patternLabel, spreadText, symmetryPhase, unwantedModeText } from './pattern-text.js';
 
 const MAX_ELEMENTS_SHOWN = 8;
+/** The tooltip of the array output line. */
+const ARRAY_OUTPUT_TITLE =
+  "spread: largest phase distance of a node from the array's mean phase; " +
+  'combining loss: 20 log10(|mean a| / mean |a|), the summed output against N parts in phase';
 
 /**
  * The read-out of what the ring is doing: the full system's pattern and its symmetry, the
@@ -142,6 +146,10 @@ export class PatternPanel extends LitElement {
     const aligned = (frame.divergence as { aligned?: number }).aligned;
     const prediction = (frame as { prediction?: LivePrediction | null }).prediction ?? null;
     const slowUnits = (tau: number) => formatNumber(tau * scales.epsilon, 3);
+    const settledAgain = (lockedSince: number) =>
+      p.settledSince !== undefined && p.settledSince !== null && p.settledSince > lockedSince
+        ? html`, settled again at τ = ${formatNumber(p.settledSince, 4)}`
+        : nothing;
     return html`
       <h2>Pattern</h2>
       <section data-testid="pattern-full">
@@ -152,8 +160,7 @@ export class PatternPanel extends LitElement {
         <div class="line" data-testid="lock-state">
           ${
             status === 'locked' && p.lockedSince !== null
-              ? html`locked since τ = ${formatNumber(p.lockedSince, 4)}
-                (${seconds(p.lockedSince)})${p.settledSince !== undefined && p.settledSince !== null && p.settledSince > p.lockedSince ? html`, settled again at τ = ${formatNumber(p.settledSince, 4)}` : nothing}`
+              ? html`locked since τ = ${formatNumber(p.lockedSince, 4)} (${seconds(p.lockedSince)})${settledAgain(p.lockedSince)}`
               : status === 'settling'
                 ? html`<b style="color:${CAUTION}">settling</b> for ${slowUnits(frame.tau - (p.settlingSince ?? frame.tau))} slow units:
                     moved ${formatNumber(p.move, 2)} rad so far, no cycle slip (a slip is a move of π)`
@@ -164,17 +171,12 @@ export class PatternPanel extends LitElement {
         </div>
         ${
           p.spread !== undefined
-            ? html`<div
-                class="line"
-                data-testid="array-output"
-                title="spread: largest phase distance of a node from the array's mean phase; combining loss: 20 log10(|mean a| / mean |a|), the summed output against N parts in phase"
-              >
-                array output: phase spread ${spreadText(p.spread)} · combining loss
-                ${p.combiningLossDb === null ? '—' : `${formatNumber(p.combiningLossDb, 2)} dB`}
+            ? html`<div class="line" data-testid="array-output" title=${ARRAY_OUTPUT_TITLE}>
+                ${arrayOutputText(p.spread, p.combiningLossDb)}
               </div>`
             : nothing
         }
-        ${unwanted ? html`<div class="line defect" data-testid="unwanted-mode">${unwantedModeText(p.mode, modeOffset(p.mode, session.omega, scales.nominalFrequencyHz), (hz) => `${formatHz(hz)} ${frequencyBasis(scales)}`)}</div>` : nothing}
+        ${unwanted ? html`<div class="line defect" data-testid="unwanted-mode">${unwantedModeLine(p.mode, session.omega, scales)}</div>` : nothing}
       </section>
       <section data-testid="pattern-symmetry">
         <h3>Symmetry: ${p.symmetry.length} element${p.symmetry.length === 1 ? '' : 's'} γ with γ·a = e<sup>iφ</sup>a</h3>
@@ -201,10 +203,7 @@ export class PatternPanel extends LitElement {
           ${
             constant
               ? html`<dt>time constant</dt>
-                  <dd>
-                    ${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods ≈
-                    ${formatSeconds(constant.seconds)} ${frequencyBasis(scales)}
-                  </dd>`
+                  <dd>${timeConstantText(constant, scales)}</dd>`
               : nothing
           }
           <dt>full − guide</dt>
@@ -241,7 +240,7 @@ export class PatternPanel extends LitElement {
         ${
           next
             ? html`<br /><span class="muted">${destinationText(next, scales)}</span>
-                ${next.locked && next.mode !== 0 ? html`<br /><span class="defect">${unwantedModeText(next.mode, modeOffset(next.mode, omega, scales.nominalFrequencyHz), (hz) => `${formatHz(hz)} ${frequencyBasis(scales)}`)}</span>` : nothing}`
+                ${next.locked && next.mode !== 0 ? html`<br /><span class="defect">${unwantedModeLine(next.mode, omega, scales)}</span>` : nothing}`
             : nothing
         }
       </dd>`;
@@ -267,6 +266,23 @@ export class PatternPanel extends LitElement {
       });
     return out;
   }
+}
+
+/** The array output's spread and combining loss, one string (not text across template lines, which would read with a line break). */
+function arrayOutputText(spread: number | null, combiningLossDb: number | null | undefined): string {
+  const loss = combiningLossDb === null ? '—' : `${formatNumber(combiningLossDb, 2)} dB`;
+  return `array output: phase spread ${spreadText(spread)} · combining loss ${loss}`;
+}
+
+/** The guide's time constant in slow units, periods and seconds, one string (as arrayOutputText). */
+function timeConstantText(constant: NonNullable<ReturnType<typeof marginTimeConstant>>, scales: RunScales): string {
+  const periods = `${formatNumber(constant.slow, 3)} slow units = ${formatNumber(constant.periods, 3)} periods`;
+  return `${periods} ≈ ${formatSeconds(constant.seconds)} ${frequencyBasis(scales)}`;
+}
+
+/** The design-defect words for a pattern on an unwanted mode, its offset in Hz on the run's frequency basis. */
+function unwantedModeLine(mode: number, omega: readonly number[], scales: RunScales): string {
+  return unwantedModeText(mode, modeOffset(mode, omega, scales.nominalFrequencyHz), (hz) => `${formatHz(hz)} ${frequencyBasis(scales)}`);
 }
 
 /** Which integrator made the full system's numbers, and what that means for the noise. */

@@ -30,7 +30,11 @@ export function modeOffset(mode: number, omega: readonly number[], nominalFreque
  */
 export function unwantedModeText(mode: number, offset: { ppm: number; hz: number }, hzText: (hz: number) => string): string {
   const sign = offset.ppm >= 0 ? '+' : '−';
-  return `design defect: unwanted mode ${mode} carries the pattern, so the output sits ${sign}${Math.abs(offset.ppm).toPrecision(4)} ppm (${sign}${hzText(Math.abs(offset.hz))}) from the wanted frequency`;
+  const ppm = Math.abs(offset.ppm).toPrecision(4);
+  return (
+    `design defect: unwanted mode ${mode} carries the pattern, ` +
+    `so the output sits ${sign}${ppm} ppm (${sign}${hzText(Math.abs(offset.hz))}) from the wanted frequency`
+  );
 }
 
 /** "±0.31 rad (±18°)" for a phase spread. */

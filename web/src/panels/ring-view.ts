@@ -226,9 +226,12 @@ export class RingView extends LitElement {
     const ppm = session.detuningPpm[k];
     const hand = phase === undefined ? null : { x: (r + 3) * Math.cos(-phase), y: (r + 3) * Math.sin(-phase) };
     const tri = guidePhase === undefined ? null : guideMarker(guidePhase, r);
+    const amplitudes = `|a₀| = ${formatNumber(a0)}${session.modes > 1 ? `, |a₁| = ${formatNumber(a1)}` : ''}`;
+    const title = `node ${k}: ${amplitudes}, detuning ${formatSigned(ppm)} ppm${this.canEdit ? ' — click to edit' : ''}`;
+    const carryingMode = frame?.full.amplitude[k]?.indexOf(Math.max(...(frame?.full.amplitude[k] ?? [0]))) ?? 1;
     return svg`
       <g class="node" data-node=${k} transform="translate(${p.x.toFixed(1)} ${p.y.toFixed(1)})" @click=${() => this.onNode(k)}>
-        <title>node ${k}: |a₀| = ${formatNumber(a0)}${session.modes > 1 ? `, |a₁| = ${formatNumber(a1)}` : ''}, detuning ${formatSigned(ppm)} ppm${this.canEdit ? ' — click to edit' : ''}</title>
+        <title>${title}</title>
         ${unwanted ? svg`<circle r=${r + 9} fill="none" stroke=${UNWANTED} stroke-width="5" stroke-dasharray="6 4"></circle>` : nothing}
         <circle class="rim" r=${r} fill=${SURFACE} stroke=${NODE_RIM} stroke-width="1.5"></circle>
         <circle r=${fill.toFixed(2)} fill=${nodeColour(k)} opacity="0.88"></circle>
@@ -243,7 +246,7 @@ export class RingView extends LitElement {
         ${
           unwanted
             ? svg`<text x=${(-Math.cos(p.angle) * (r + 24)).toFixed(1)} y=${(-Math.sin(p.angle) * (r + 24)).toFixed(1)} text-anchor="middle"
-                  dominant-baseline="central" font-size="15" font-weight="800" fill=${UNWANTED} stroke=${SURFACE} stroke-width="4" paint-order="stroke">MODE ${frame?.full.amplitude[k]?.indexOf(Math.max(...(frame?.full.amplitude[k] ?? [0]))) ?? 1}</text>`
+                  dominant-baseline="central" font-size="15" font-weight="800" fill=${UNWANTED} stroke=${SURFACE} stroke-width="4" paint-order="stroke">MODE ${carryingMode}</text>`
             : nothing
         }
       </g>

@@ -305,11 +305,17 @@ export class SoakPanel extends LitElement {
   override render() {
     const l = this.listing;
     const chosen = l?.soaks.find((s) => s.name === this.chosen) ?? null;
+    const startForm = this.token
+      ? html`<sr-soak-start-form
+          .token=${this.token}
+          .soaks=${l?.soaks ?? []}
+          @sr-soak-started=${(e: CustomEvent<string>) => this.started(e.detail)}
+        ></sr-soak-start-form>`
+      : nothing;
     return html`
       <div class="card">
         <h2>Soaks ${l ? html`· ${l.soaks.length}` : nothing}</h2>
-        ${this.token ? html`<sr-soak-start-form .token=${this.token} .soaks=${l?.soaks ?? []} @sr-soak-started=${(e: CustomEvent<string>) => this.started(e.detail)}></sr-soak-start-form>` : nothing}
-        ${this.error ? html`<p class="no">${this.error}</p>` : nothing}
+        ${startForm} ${this.error ? html`<p class="no">${this.error}</p>` : nothing}
         ${l ? html`<div class="line small" data-testid="soaks-dir">folder ${l.dir}</div>` : html`<p class="muted">Reading the soaks folder…</p>`}
         <div class="list" data-testid="soak-list">${l?.soaks.map((s) => this.renderItem(s))}</div>
         ${
@@ -356,6 +362,12 @@ export class SoakPanel extends LitElement {
     const fraction = p?.fraction ?? (s.state === 'finished' ? 1 : 0);
     const failed = s.verdicts.filter((r) => outcomeOf(r) === 'fail').length;
     const incomplete = s.faults?.incomplete ?? s.verdicts.filter((r) => outcomeOf(r) === 'incomplete').length;
+    const howToContinue =
+      s.launch && this.token
+        ? 'Resume continues it from its last checkpoint.'
+        : s.launch
+          ? 'the operator can resume it here.'
+          : html`continue it with <code>syncring soak … --out ${s.name} --resume</code>.`;
     return html`
       <div class="head">
         <h3 data-testid="soak-name">${s.name}</h3>
@@ -403,10 +415,7 @@ export class SoakPanel extends LitElement {
       </div>
       ${
         s.state === 'interrupted'
-          ? html`<p class="line" style="color:${CAUTION};font-weight:700">
-              The soak process is gone before the end:
-              ${s.launch && this.token ? 'Resume continues it from its last checkpoint.' : s.launch ? 'the operator can resume it here.' : html`continue it with <code>syncring soak … --out ${s.name} --resume</code>.`}
-            </p>`
+          ? html`<p class="line" style="color:${CAUTION};font-weight:700">The soak process is gone before the end: ${howToContinue}</p>`
           : nothing
       }
       ${s.problems.length ? html`<p class="line no">${s.problems.join('; ')}</p>` : nothing}
@@ -470,6 +479,8 @@ export class SoakPanel extends LitElement {
     // A running soak's newest verdicts matter most; a finished one reads best in order.
     const newestFirst = s.state === 'running';
     const shown = newestFirst ? s.verdicts.slice().reverse() : s.verdicts;
+    const older = s.verdictsTotal - s.verdicts.length;
+    const olderNote = older > 0 ? ` ${older} older verdicts are in the report.` : '';
     return html`
       <table data-testid="verdicts">
         <thead>
@@ -490,9 +501,7 @@ export class SoakPanel extends LitElement {
         </tbody>
       </table>
       ${s.pass !== true && shown.some((r) => r.pass) ? html`<p class="caution" data-testid="verdicts-pass-caution">${PASS_CAUTION}</p>` : nothing}
-      <p class="small">
-        ${newestFirst ? 'Newest first.' : 'In the order the faults were applied.'}${s.verdictsTotal > s.verdicts.length ? ` ${s.verdictsTotal - s.verdicts.length} older verdicts are in the report.` : ''}
-      </p>
+      <p class="small">${newestFirst ? 'Newest first.' : 'In the order the faults were applied.'}${olderNote}</p>
     `;
   }
 
@@ -519,15 +528,15 @@ export class SoakPanel extends LitElement {
           ? html`<span class="open">not yet</span>`
           : yesNo(false, 'yes', r.slipped ? 'no (slip)' : 'no');
     const badge = BADGES[outcome];
+    const via = !r.persisted && r.became && r.became.length ? html`<span class="small"> via ${r.became.join(', ')}</span>` : nothing;
+    const patternChange = detailed ? html`${r.before} → ${r.final === r.before ? 'the same' : r.final}${via}` : '—';
     return html`
       <tr data-fault=${r.id} data-pass=${String(r.pass)} data-outcome=${outcome}>
         <td>
           <b>${r.id}</b>${detailed ? html`<span class="small"> ${r.action}${r.source === 'random' ? ' (random)' : ''}</span>` : nothing}
         </td>
         <td class="r">${detailed ? slow(r.appliedAt) : '—'}</td>
-        <td>
-          ${detailed ? html`${r.before} → ${r.final === r.before ? 'the same' : r.final}${!r.persisted && r.became && r.became.length ? html`<span class="small"> via ${r.became.join(', ')}</span>` : nothing}` : '—'}
-        </td>
+        <td>${patternChange}</td>
         <td>${persisted}</td>
         <td class="r">${this.relockText(r)}</td>
         <td class="r">${detailed ? `${formatNumber(r.maxPhaseExcursion, 3)} rad` : '—'}</td>

@@ -187,7 +187,8 @@ export class SoakStartForm extends LitElement {
     const measured = choice ? measuredRate(this.soaks, choice) : null;
     if (measured) {
       const rate = pace && pace > 0 ? Math.min(pace, measured.rate) : measured.rate;
-      return `≈ ${formatSeconds(until / rate)} of wall time at ${formatNumber(rate, 2)} slow units/s (${pace && pace < measured.rate ? 'the pace' : `measured on ${measured.from}`})`;
+      const limit = pace && pace < measured.rate ? 'the pace' : `measured on ${measured.from}`;
+      return `≈ ${formatSeconds(until / rate)} of wall time at ${formatNumber(rate, 2)} slow units/s (${limit})`;
     }
     if (pace && pace > 0)
       return `at least ${formatSeconds(until / pace)} of wall time at the pace; no earlier soak of this scenario to measure the rate on`;

@@ -1,5 +1,5 @@
 import { LitElement, css, html, nothing, unsafeCSS } from 'lit';
-import type { Role } from '../../../src/protocol/messages.js';
+import type { Role, SessionInfo } from '../../../src/protocol/messages.js';
 import type { ConnectionState } from '../data/connection.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
@@ -157,6 +157,15 @@ export class StatusHeader extends LitElement {
           : nothing;
     const status = f?.status === 'halted' ? 'halted' : (s?.status ?? '');
     const statusColour = status === 'running' ? LOCKED : status === 'halted' ? FAULT : CAUTION;
+    const saveLog = this.replaying
+      ? nothing
+      : html`<a
+          href="./api/log"
+          download="syncring-session.ndjson"
+          data-testid="save-log"
+          title="download the live run's session log (NDJSON)"
+          >⤓ Save log</a
+        >`;
     return html`<div class="bar">
       <div class="brand">
         <svg width="30" height="30" viewBox="0 0 32 32" aria-hidden="true">
@@ -171,10 +180,7 @@ export class StatusHeader extends LitElement {
         s
           ? html`<div class="scenario" data-testid="scenario">
               ${s.scenarioName}
-              <small title=${s.nominalFrequencyAssumed ? ASSUMED_FREQUENCY_NOTE : ''}
-                >${s.nodes} nodes · ${s.modes} mode${s.modes > 1 ? 's' : ''} · ε = ${formatNumber(s.epsilon)} · f₀ =
-                ${formatHz(s.nominalFrequencyHz)}${s.nominalFrequencyAssumed ? ' assumed (not in the scenario)' : ''}</small
-              >
+              <small title=${s.nominalFrequencyAssumed ? ASSUMED_FREQUENCY_NOTE : ''}>${scenarioFacts(s)}</small>
             </div>`
           : nothing
       }
@@ -206,12 +212,21 @@ export class StatusHeader extends LitElement {
                 ${this.viewers} watching
               </span>`
       }
-      ${this.replaying ? nothing : html`<a href="./api/log" download="syncring-session.ndjson" data-testid="save-log" title="download the live run's session log (NDJSON)">⤓ Save log</a>`}
+      ${saveLog}
       <label class="open" data-testid="open-log"
         >⤒ Open log…<input type="file" accept=".ndjson,.jsonl,.log,.json,application/x-ndjson,text/plain" @change=${this.onFile}
       /></label>
     </div>`;
   }
+}
+
+/**
+ * The scenario's size and frequency basis, one string: text written across lines of the template
+ * would read with a line break inside it.
+ */
+function scenarioFacts(s: SessionInfo): string {
+  const frequency = `f₀ = ${formatHz(s.nominalFrequencyHz)}${s.nominalFrequencyAssumed ? ' assumed (not in the scenario)' : ''}`;
+  return `${s.nodes} nodes · ${s.modes} mode${s.modes > 1 ? 's' : ''} · ε = ${formatNumber(s.epsilon)} · ${frequency}`;
 }
 
 customElements.define('sr-status-header', StatusHeader);

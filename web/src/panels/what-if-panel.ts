@@ -255,6 +255,7 @@ export class WhatIfPanel extends LitElement {
     const chosen = this.patternIndex;
     const r = this.result;
     const resultParam = r ? params.find((q) => q.id === r.continuation.parameter) : undefined;
+    const busyText = `Continuing ${p?.label ?? ''}… ${formatNumber(this.elapsed, 2)} s (the live run keeps going)`;
     return html`
       <h2>What-if · follow one pattern as one parameter moves</h2>
       <div class="note">Computed on a copy of the guiding system with the live parameters; the live run is not touched.</div>
@@ -314,7 +315,7 @@ export class WhatIfPanel extends LitElement {
           ${this.running ? '↻ Running…' : '▶ Run what-if'}
         </button>
       </div>
-      ${this.running ? html`<div class="busy" data-testid="what-if-busy">Continuing ${p?.label ?? ''}… ${formatNumber(this.elapsed, 2)} s (the live run keeps going)</div>` : nothing}
+      ${this.running ? html`<div class="busy" data-testid="what-if-busy">${busyText}</div>` : nothing}
       ${this.error ? html`<div class="error" data-testid="what-if-error">${this.error}</div>` : nothing}
       ${r && resultParam ? this.renderResult(r, resultParam) : nothing}
       <sr-branch-chart
@@ -342,17 +343,18 @@ export class WhatIfPanel extends LitElement {
     const first = c.branch[0];
     const last = c.branch[c.branch.length - 1];
     const startStable = c.branch[c.startIndex]?.stable;
+    // the words of a limit as strings, not text across template lines (which would read with line breaks)
+    const where = (limit: BranchLimit) => ` at ${p.symbol} = ${formatNumber(limit.parameter, 4)}`;
+    const inPpm = (limit: BranchLimit) => (p.ppm && limit.ppm !== null ? html` = <b>${formatNumber(limit.ppm, 4)} ppm</b>` : nothing);
+    const distance = (limit: BranchLimit) =>
+      `(${formatSignedNumber(p.ppm && limit.distancePpm !== null ? limit.distancePpm : limit.distance)}${unit} from the live value)`;
     const side = (limit: BranchLimit | null, name: string) =>
       html`<dt>${name}</dt>
         <dd data-testid=${`limit-${name}`}>
           ${
             limit
-              ? html`<span class=${isLossLimit(limit) ? 'lost' : ''}>${LIMIT_WORDS[limit.kind]}</span> at ${p.symbol} =
-                  ${formatNumber(limit.parameter, 4)}${
-                    p.ppm && limit.ppm !== null ? html` = <b>${formatNumber(limit.ppm, 4)} ppm</b>` : nothing
-                  }
-                  (${formatSignedNumber(p.ppm && limit.distancePpm !== null ? limit.distancePpm : limit.distance)}${unit} from the live
-                  value)`
+              ? html`<span class=${isLossLimit(limit) ? 'lost' : ''}>${LIMIT_WORDS[limit.kind]}</span>${where(limit)}${inPpm(limit)}
+                  ${distance(limit)}`
               : html`<span class="muted">not continued this way</span>`
           }
         </dd>`;

@@ -115,6 +115,10 @@ export class ReplayBar extends LitElement {
     const frame = r.frames[Math.min(this.index, last)];
     const t0 = r.frames[0].tau;
     const span = r.frames[last].tau - t0 || 1;
+    const problemList = r.problems.map((p) => `line ${p.line}: ${p.reason}`).join('\n');
+    const problems = r.problems.length
+      ? html`<span class="problems" title=${problemList}>${r.problems.length} log problem(s)</span>`
+      : nothing;
     return html`<div class="bar" data-testid="replay-bar">
       <span class="title">REPLAY</span>
       <span title=${r.createdAt ?? ''}>${r.fileName}</span>
@@ -140,7 +144,7 @@ export class ReplayBar extends LitElement {
         >sample ${this.index + 1} / ${last + 1} · τ = ${formatNumber(frame.tau, 5)} ·
         ${formatSimulatedSeconds(frame.seconds, r.scenario.units)}</span
       >
-      ${r.problems.length ? html`<span class="problems" title=${r.problems.map((p) => `line ${p.line}: ${p.reason}`).join('\n')}>${r.problems.length} log problem(s)</span>` : nothing}
+      ${problems}
       <button
         data-action="back-to-live"
         @click=${() => this.dispatchEvent(new CustomEvent('sr-leave-replay', { bubbles: true, composed: true }))}
