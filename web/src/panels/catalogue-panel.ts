@@ -346,10 +346,10 @@ export class CataloguePanel extends LitElement {
             output === null || output === undefined
               ? '—'
               : html`${formatSignedPpm(output)}<span class="small">${hz > 0 ? formatSignedHz(output * 1e-6 * hz) : ''}</span>${
-                    !wanted && shift !== null && shift !== undefined
-                      ? html`<span class="small">own mode ${formatSignedPpm(shift)}</span>`
-                      : nothing
-                  }`
+                  !wanted && shift !== null && shift !== undefined
+                    ? html`<span class="small">own mode ${formatSignedPpm(shift)}</span>`
+                    : nothing
+                }`
           }
         </td>
       </tr>
