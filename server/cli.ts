@@ -6,6 +6,7 @@ const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson] [--mode micro|envelope|auto]
   syncring predict SCENARIO.json [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
                 PARAM: detuning:K | coupling | reactive | dissipative | link:A-B | edge:A-B
+  syncring noise SCENARIO.json [--pattern INDEX] [--bandwidth HZ] [--part-noise h0=VALUE,h-1=VALUE,...]
   syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max] [--soaks DIR]
   syncring soak SCENARIO.json --campaign CAMPAIGN.json --until TAU --out DIR [--resume] [--pace SLOW_UNITS_PER_SECOND]
                 [--segment-bytes BYTES] [--checkpoint-every TAU] [--fail-incomplete]
@@ -92,6 +93,21 @@ export async function main(argv: string[]): Promise<number> {
           pattern: numberFlag(parsed, 'pattern'),
           range: text('range'),
           maxSteps: numberFlag(parsed, 'max-steps'),
+        });
+        process.stdout.write(`${JSON.stringify(result)}\n`);
+        return 0;
+      }
+      case 'noise': {
+        const valued = ['pattern', 'bandwidth', 'part-noise'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, valued);
+        if (parsed.positional.length !== 1) throw callError('noise needs exactly one SCENARIO');
+        const { noise } = await import('./commands/noise.js');
+        const result = noise({
+          scenario: parsed.positional[0],
+          pattern: numberFlag(parsed, 'pattern'),
+          bandwidth: numberFlag(parsed, 'bandwidth'),
+          partNoise: parsed.flags.get('part-noise') as string | undefined,
         });
         process.stdout.write(`${JSON.stringify(result)}\n`);
         return 0;

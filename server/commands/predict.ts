@@ -1,16 +1,16 @@
-import { initialRotatingState } from '../../src/model/initial.js';
 import { nearResonances } from '../../src/guide/resonance.js';
 import { GuideModel } from '../../src/predict/guide-model.js';
-import { CATALOGUE_SIZE_LIMIT, patternCatalogue, type CataloguePattern } from '../../src/predict/catalogue.js';
+import { CATALOGUE_SIZE_LIMIT } from '../../src/predict/catalogue.js';
 import { continueBranch, type Branch } from '../../src/predict/continuation.js';
 import { CONTINUATION_SYNTAX } from '../../src/predict/continuation-parameter.js';
-import { lookAhead } from '../../src/predict/look-ahead.js';
+import { catalogueWithStart } from '../../src/predict/start-pattern.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { ASSUMED_FREQUENCY_NOTE } from '../../src/scenario/units.js';
 import type { ContinuationOutput, PredictOutput } from '../../src/protocol/predict-output.js';
 import { InputError } from '../../src/util/input-error.js';
 import { loadScenario } from '../scenario-file.js';
 import { UsageError, callError } from '../usage-error.js';
+import { choosePattern } from './pattern-choice.js';
 import { FLAG_NAMES, continuationArgument, type ArgumentNames } from './predict-arguments.js';
 
 export interface PredictArgs {
@@ -78,12 +78,7 @@ export function predictScenario(
     throw new UsageError(`${names.maxSteps} must be a positive integer (got ${args.maxSteps})`);
 
   const started = Date.now();
-  const initial = initialRotatingState(scenario, model.params);
-  const destination = lookAhead(model, initial);
-  // The start's destination is an extra seed: it can add an entry but not change the others, and
-  // the catalogue says which entry (copies alike, mirror images apart) it landed in.
-  const catalogue = patternCatalogue(model, destination.settled ? { seeds: [destination.state] } : {});
-  const settledIndex = destination.settled ? (catalogue.seedPatterns[0] ?? -1) : -1;
+  const { catalogue, destination, settledIndex } = catalogueWithStart(model, scenario);
 
   const result: PredictOutput = {
     scenario: scenario.name,
@@ -123,7 +118,7 @@ export function predictScenario(
   };
 
   if (parameter) {
-    const chosen = choosePattern(catalogue.patterns, args.pattern, settledIndex, names);
+    const chosen = choosePattern(catalogue.patterns, args.pattern, settledIndex, names.pattern, 'continue');
     let branch: Branch;
     try {
       branch = continueBranch(model, Float64Array.from(catalogue.patterns[chosen].state), parameter, {
@@ -148,29 +143,6 @@ export function predictScenario(
   }
   result.wallSeconds = (Date.now() - started) / 1000;
   return result;
-}
-
-function choosePattern(
-  patterns: readonly CataloguePattern[],
-  requested: number | undefined,
-  settled: number,
-  names: ArgumentNames,
-): number {
-  if (patterns.length === 0) throw new UsageError('the catalogue holds no locked pattern to continue');
-  if (requested !== undefined) {
-    if (!Number.isInteger(requested) || requested < 0 || requested >= patterns.length) {
-      throw new UsageError(`${names.pattern} must be an index 0..${patterns.length - 1} into "patterns" (got ${requested})`);
-    }
-    return requested;
-  }
-  if (settled >= 0) return settled;
-  let best = -1;
-  patterns.forEach((p, i) => {
-    if (p.stable === true && (best < 0 || p.margin < patterns[best].margin)) best = i;
-  });
-  if (best < 0)
-    throw new UsageError(`no stable pattern to continue and the initial state does not settle; choose one with ${names.pattern} INDEX`);
-  return best;
 }
 
 function summariseBranch(branch: Branch): Omit<ContinuationOutput, 'parameter' | 'syntax' | 'pattern'> {

@@ -94,7 +94,7 @@ export function candidateName(
     case 'class':
       return table ? classifyClass(table, origin.cls, nodes, ring) : { type: 'cluster' };
     case 'shape': {
-      if (!origin.cycle) return { type: 'in-phase', q: 0 };
+      if (!origin.cycle) return origin.q === 0 ? { type: 'in-phase', q: 0 } : { type: 'anti-phase', ...(nodes === 2 ? { q: 1 } : {}) };
       const cycle = fromSmallest(Array.from(origin.cycle, (c) => renumbering.order[c]));
       const step = ringStep(cycle, nodes);
       if (step === 0) return { type: 'cycle-wave', q: origin.q, cycle };

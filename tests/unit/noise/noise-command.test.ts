@@ -1,0 +1,99 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterEach, describe, expect, test, vi } from 'vitest';
+import { main } from '../../../server/cli.js';
+import type { NoiseOutput } from '../../../src/protocol/noise-output.js';
+import { adlerPairScenario } from '../../support/adler-pair.js';
+
+/** Runs the CLI with stdout and stderr captured. */
+async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  let out = '';
+  let err = '';
+  vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => ((out += String(chunk)), true));
+  vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => ((err += String(chunk)), true));
+  const code = await main(argv);
+  vi.restoreAllMocks();
+  return { code, out, err };
+}
+
+afterEach(() => vi.restoreAllMocks());
+
+function scenarioFile(changes: Record<string, unknown>): string {
+  const path = join(mkdtempSync(join(tmpdir(), 'syncring-noise-')), 'scenario.json');
+  writeFileSync(path, JSON.stringify({ ...adlerPairScenario(1e-5, 0.01), nominalFrequencyHz: 10e6, ...changes }));
+  return path;
+}
+
+const at = (table: { tau: number[] }, row: number[], tau: number): number => {
+  const i = table.tau.findIndex((t) => Math.abs(Math.log10(t / tau)) < 1e-9);
+  expect(i, `tau ${tau} in the table`).toBeGreaterThanOrEqual(0);
+  return row[i];
+};
+
+describe('syncring noise', () => {
+  test('the demo board: one JSON object, taus from the carrier period to 1e5 s, the array 10 log10 N dB below a part', async () => {
+    const { code, out } = await run(['noise', 'timing-board-8']);
+    expect(code).toBe(0);
+    const result = JSON.parse(out) as NoiseOutput;
+    expect(result.pattern.kind).toBe('in-phase');
+    expect(result.adev.tau[0]).toBeCloseTo(1 / result.carrierHz, 12);
+    expect(result.adev.tau.at(-1)).toBeGreaterThanOrEqual(1e5);
+    expect(result.phaseNoise.nodes).toHaveLength(8);
+    expect(result.adev.nodes).toHaveLength(8);
+    expect(result.offsetsHz).toHaveLength(result.phaseNoise.array.length);
+    // the model's white noise on 8 parts of nearly equal noise: the array mean is 1/8 of one part's S_phi
+    expect(result.phaseNoise.uncoupled[0] - result.phaseNoise.array[0]).toBeCloseTo(10 * Math.log10(8), 1);
+    expect(result.lockingBandwidthHz).toBeGreaterThan(0);
+    expect(result.caution).toMatch(/not from a measured part/);
+    for (const row of [result.adev.array, result.mdev.array, result.tdev.array, ...result.adev.nodes])
+      expect(row.every((v) => v > 0 && Number.isFinite(v))).toBe(true);
+  });
+
+  test('one part alone (the uncoupled reference) meets SP 1065 for white, flicker and random-walk FM to 1 %', async () => {
+    // SP 1065 (Riley 2008), power-law table: sigma_y^2 = h0 / (2 tau), 2 ln 2 h-1, (2 pi^2 / 3) h-2 tau
+    const quiet = scenarioFile({ noise: { intensity: 0, seed: 1 } });
+    const cases = [
+      { spec: 'h0=2e-22', expected: (tau: number) => Math.sqrt(2e-22 / (2 * tau)) },
+      { spec: 'h-1=3e-24', expected: () => Math.sqrt(2 * Math.LN2 * 3e-24) },
+      { spec: 'h-2=1e-27', expected: (tau: number) => Math.sqrt(((2 * Math.PI ** 2) / 3) * 1e-27 * tau) },
+    ];
+    for (const c of cases) {
+      const { code, out, err } = await run(['noise', quiet, '--part-noise', c.spec]);
+      expect(code, err).toBe(0);
+      const result = JSON.parse(out) as NoiseOutput;
+      for (const tau of [1, 10, 100, 1e3, 1e4, 1e5]) {
+        expect(at(result.adev, result.adev.uncoupled, tau) / c.expected(tau), `${c.spec} at tau ${tau}`).toBeCloseTo(1, 2);
+      }
+    }
+  });
+
+  test('bad arguments exit 2 with the flag named; the run needs some noise and a stable pattern', async () => {
+    const quiet = scenarioFile({ noise: { intensity: 0, seed: 1 } });
+    const cases: [string[], RegExp][] = [
+      [['noise', quiet], /no noise .* --part-noise/],
+      [['noise', quiet, '--part-noise', 'h3=1'], /--part-noise: expected NAME=VALUE .* \(got "h3=1"\)/],
+      [['noise', quiet, '--part-noise', 'h0=-1'], /--part-noise: h0 must be a finite number >= 0/],
+      [['noise', quiet, '--part-noise', 'h0=1e-22,h0=2e-22'], /h0 is given twice/],
+      [['noise', 'timing-board-8', '--pattern', '999'], /--pattern must be an index 0\.\.\d+/],
+      [['noise', 'timing-board-8', '--bandwidth', '-5'], /--bandwidth must be a positive number of Hz/],
+      [['noise', 'timing-board-8', '--tau', '1'], /unknown option --tau/],
+      [['noise'], /noise needs exactly one SCENARIO/],
+    ];
+    for (const [argv, message] of cases) {
+      const { code, err } = await run(argv);
+      expect(code, argv.join(' ')).toBe(2);
+      expect(err).toMatch(message);
+    }
+  });
+
+  test('an unstable pattern is refused: it has no stationary noise', async () => {
+    const predicted = await run(['predict', 'ring-one-way-5']);
+    const patterns = JSON.parse(predicted.out).patterns as { stable: boolean | null }[];
+    const unstable = patterns.findIndex((p) => p.stable === false);
+    expect(unstable).toBeGreaterThanOrEqual(0);
+    const { code, err } = await run(['noise', 'ring-one-way-5', '--pattern', String(unstable), '--part-noise', 'h0=1e-22']);
+    expect(code).toBe(2);
+    expect(err).toMatch(new RegExp(`pattern ${unstable} .* is unstable`));
+  });
+});
