@@ -99,9 +99,11 @@ export function noiseOfScenario(scenario: Scenario, source: string, args: Omit<N
         'linear analysis of the guiding system at the locked state, the common phase kept (it is what drifts); valid while the pattern stays locked and the noise is small',
       phaseNoise: 'L(f) = S_phi(f) / 2 in dBc/Hz of each node, of the array output (the mean phase of the nodes) and of one part alone',
       deviations:
-        'ADEV and MDEV from S_y(f) by the NIST SP 1065 integral relations up to bandwidthHz (default f0 / 2, a record taken once per carrier period); TDEV = tau MDEV / sqrt 3 in seconds',
+        'ADEV and MDEV from S_y(f) by the NIST SP 1065 integral relations up to bandwidthHz ' +
+        '(default f0 / 2, a record taken once per carrier period); TDEV = tau MDEV / sqrt 3 in seconds',
       validity:
-        'offsets above averagedModelLimitHz (f0 / 100), and deviations at tau below about 1 / averagedModelLimitHz, rest on the averaged model beyond its range: the resonator selectivity it leaves out shapes real noise there',
+        'offsets above averagedModelLimitHz (f0 / 100), and deviations at tau below about 1 / averagedModelLimitHz, ' +
+        'rest on the averaged model beyond its range: the resonator selectivity it leaves out shapes real noise there',
       modelNoise:
         "the model's white noise q enters as white FM with amplitude noise beside it; its detuning random walk as random-walk FM; --part-noise adds each part's h2 h1 h0 h-1 h-2",
       seconds: scenario.units.nominalFrequencyAssumed
