@@ -24,8 +24,18 @@ export interface NoiseArgs {
   partNoise?: string;
 }
 
-/** The flags as the command line names them (errors quote them). */
-const FLAGS = { pattern: '--pattern', bandwidth: '--bandwidth', partNoise: '--part-noise' };
+/** How a caller names the arguments, so that errors quote them as the user typed them. */
+export interface NoiseArgumentNames {
+  pattern: string;
+  bandwidth: string;
+  partNoise: string;
+}
+
+/** The command line's flags. */
+export const NOISE_FLAGS: NoiseArgumentNames = { pattern: '--pattern', bandwidth: '--bandwidth', partNoise: '--part-noise' };
+
+/** The query fields of GET /api/noise. */
+export const NOISE_QUERY_NAMES: NoiseArgumentNames = { pattern: 'pattern', bandwidth: 'bandwidth', partNoise: 'partNoise' };
 
 /**
  * `syncring noise`: phase noise and ADEV, MDEV, TDEV of one locked pattern at every time scale,
@@ -37,11 +47,16 @@ export function noise(args: NoiseArgs): NoiseOutput {
   return noiseOfScenario(scenario, args.scenario, args);
 }
 
-export function noiseOfScenario(scenario: Scenario, source: string, args: Omit<NoiseArgs, 'scenario'>): NoiseOutput {
+export function noiseOfScenario(
+  scenario: Scenario,
+  source: string,
+  args: Omit<NoiseArgs, 'scenario'>,
+  names: NoiseArgumentNames = NOISE_FLAGS,
+): NoiseOutput {
   const started = Date.now();
   if (args.bandwidth !== undefined && !(Number.isFinite(args.bandwidth) && args.bandwidth > 0))
-    throw new UsageError(`${FLAGS.bandwidth} must be a positive number of Hz (got ${args.bandwidth})`);
-  const parts = args.partNoise !== undefined ? parsePowerLawNoise(args.partNoise, FLAGS.partNoise) : null;
+    throw new UsageError(`${names.bandwidth} must be a positive number of Hz (got ${args.bandwidth})`);
+  const parts = args.partNoise !== undefined ? parsePowerLawNoise(args.partNoise, names.partNoise) : null;
   const model = new GuideModel(scenario);
   if (model.size > CATALOGUE_SIZE_LIMIT) {
     throw new InputError(
@@ -56,16 +71,16 @@ export function noiseOfScenario(scenario: Scenario, source: string, args: Omit<N
   const partsAreQuiet = !parts || Object.values(parts).every((h) => h === 0);
   if (!(intensity > 0) && !(detuningWalk > 0) && partsAreQuiet) {
     throw new UsageError(
-      `the scenario has no noise (noise.intensity and noise.detuningWalk are 0) and no ${FLAGS.partNoise} was given: there is nothing to analyse`,
+      `the scenario has no noise (noise.intensity and noise.detuningWalk are 0) and no ${names.partNoise} was given: there is nothing to analyse`,
     );
   }
 
   const { catalogue, settledIndex } = catalogueWithStart(model, scenario);
-  const index = choosePattern(catalogue.patterns, args.pattern, settledIndex, FLAGS.pattern, 'analyse');
+  const index = choosePattern(catalogue.patterns, args.pattern, settledIndex, names.pattern, 'analyse');
   const chosen = catalogue.patterns[index];
   if (chosen.stable === false) {
     throw new UsageError(
-      `pattern ${index} (${chosen.kind}) is unstable: it does not stay locked, so it has no stationary noise; choose a stable one with ${FLAGS.pattern}`,
+      `pattern ${index} (${chosen.kind}) is unstable: it does not stay locked, so it has no stationary noise; choose a stable one with ${names.pattern}`,
     );
   }
   const warnings = nearResonances(model.params.omega, model.params.epsilon).map((w) => w.message);
@@ -86,7 +101,7 @@ export function noiseOfScenario(scenario: Scenario, source: string, args: Omit<N
     throw error;
   }
   if (args.bandwidth !== undefined && analysis.bandwidthHz < args.bandwidth) {
-    warnings.push(`${FLAGS.bandwidth} ${args.bandwidth} Hz is above half the carrier; the deviations use ${analysis.bandwidthHz} Hz`);
+    warnings.push(`${names.bandwidth} ${args.bandwidth} Hz is above half the carrier; the deviations use ${analysis.bandwidthHz} Hz`);
   }
   return {
     scenario: scenario.name,

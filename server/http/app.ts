@@ -6,6 +6,7 @@ import { builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/i
 import type { LiveSession } from '../live/live-session.js';
 import type { ScenarioChoice } from '../../src/protocol/catalogue-lists.js';
 import { httpErrorHandler } from './http-error.js';
+import { registerNoiseApi } from './noise-api.js';
 import { registerPredictionApi } from './prediction-api.js';
 import { registerSoakApi } from './soak-api.js';
 import { registerSoakControl, type SoakControlOptions } from './soak-control.js';
@@ -23,6 +24,7 @@ export const WEB_ROOT = fileURLToPath(new URL(import.meta.url.endsWith('.ts') ? 
  *   GET /api/log        the current session log as an NDJSON download
  *   GET /api/health     liveness
  *   GET /api/catalogue, /api/what-if   prediction on the live parameters (prediction-api.ts)
+ *   GET /api/noise      phase noise and deviations of a locked pattern of the live parameters (noise-api.ts)
  *   GET /api/soaks, /soaks/NAME/report.html   soak folders (soak-api.ts)
  *   GET /api/campaigns, POST /api/soaks[/NAME/stop|resume]   starting soaks (soak-control.ts)
  * It returns the app with `close`, which stops the worker threads behind the slow endpoints.
@@ -58,6 +60,7 @@ export function createApp(
     }
   });
   background.push(registerPredictionApi(app, live));
+  background.push(registerNoiseApi(app, live));
   background.push(registerSoakApi(app, options.soaksDir ?? resolve('soaks')));
   if (options.control) registerSoakControl(app, options.soaksDir ?? resolve('soaks'), live, options.control);
   app.use('/api', (_req, res) => {

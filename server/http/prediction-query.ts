@@ -29,14 +29,14 @@ export function whatIfArguments(req: Request, params: ModelParameters): Predicti
   };
 }
 
-function oneText(req: Request, name: string): string | undefined {
+export function oneText(req: Request, name: string): string | undefined {
   const value = req.query[name];
   if (value === undefined) return undefined;
   if (typeof value !== 'string') throw new HttpError(400, `${name} must be given once, as text`, name);
   return value;
 }
 
-function integerQuery(req: Request, name: string, min: number): number | undefined {
+export function integerQuery(req: Request, name: string, min: number): number | undefined {
   const text = oneText(req, name);
   if (text === undefined) return undefined;
   const value = Number(text);

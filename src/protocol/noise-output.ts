@@ -26,3 +26,11 @@ export interface NoiseOutput extends LockedNoise {
   caution: string;
   wallSeconds: number;
 }
+
+/** GET /api/noise: the analysis of the live parameters, and which parameters it was made for. */
+export interface NoiseResponse extends NoiseOutput {
+  /** The live parameters' prediction fingerprint (the catalogue's), without the noise. */
+  fingerprint: string;
+  fromCache: boolean;
+  scenarioName: string;
+}
