@@ -61,7 +61,11 @@ export function noiseArguments(req: Request): NoiseRequest['args'] {
   if (bandwidth !== undefined) {
     const hz = Number(bandwidth);
     if (bandwidth.trim() === '' || !Number.isFinite(hz) || hz <= 0 || hz > BANDWIDTH_MAX_HZ)
-      throw new HttpError(400, `bandwidth must be a number of Hz in (0, ${BANDWIDTH_MAX_HZ}] (got ${JSON.stringify(bandwidth)})`, 'bandwidth');
+      throw new HttpError(
+        400,
+        `bandwidth must be a number of Hz in (0, ${BANDWIDTH_MAX_HZ}] (got ${JSON.stringify(bandwidth)})`,
+        'bandwidth',
+      );
     args.bandwidth = hz;
   }
   const partNoise = oneText(req, 'partNoise');

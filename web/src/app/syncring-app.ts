@@ -23,11 +23,13 @@ import '../charts/lock-chart.js';
 import '../replay/replay-bar.js';
 import '../panels/prediction-view.js';
 import '../panels/soak-panel.js';
+import '../panels/noise-view.js';
 
-/** The views of the dashboard; the live view is the default, the others are a hash away (#prediction, #soaks). */
+/** The views of the dashboard; the live view is the default, the others are a hash away (#prediction, #noise, #soaks). */
 const VIEWS = [
   { id: 'live', label: 'Live' },
   { id: 'prediction', label: 'Prediction' },
+  { id: 'noise', label: 'Noise' },
   { id: 'soaks', label: 'Soaks' },
 ] as const;
 type View = (typeof VIEWS)[number]['id'];
@@ -338,6 +340,7 @@ export class SyncringApp extends LitElement {
         ?active=${this.view === 'prediction'}
         ?hidden=${this.view !== 'prediction'}
       ></sr-prediction-view>
+      <sr-noise-view class="view" .store=${this.live} ?active=${this.view === 'noise'} ?hidden=${this.view !== 'noise'}></sr-noise-view>
       <sr-soak-panel class="view" ?active=${this.view === 'soaks'} ?hidden=${this.view !== 'soaks'}></sr-soak-panel>
       <main class=${this.replay ? 'replaying' : ''} ?hidden=${this.view !== 'live'}>
         <div class="column">

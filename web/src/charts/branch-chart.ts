@@ -1,11 +1,11 @@
-import { LitElement, css, html, nothing, unsafeCSS, type PropertyValues } from 'lit';
+import { html, nothing } from 'lit';
 import type { Chart, ChartConfiguration, Plugin, ScriptableLineSegmentContext } from 'chart.js';
 import type { BranchLimit } from '../../../src/predict/continuation.js';
 import { branchSeries, branchX, isLossLimit, type BranchQuantity, type BranchXY, type Continuation } from '../data/prediction-data.js';
 import { formatNumber, ppmOf } from '../data/engineering.js';
-import { FAULT, HOLDS_BAND, HOLDS_LABEL, INK, LABEL_GROUND, MUTED, SOFT_INK, SURFACE, columnStyles, nodeColour } from '../theme.js';
-import { ChartController } from './chart-controller.js';
-import { axis, leftAxis, legendKeyStyles } from './streaming-chart.js';
+import { FAULT, HOLDS_BAND, HOLDS_LABEL, INK, LABEL_GROUND, SURFACE, nodeColour } from '../theme.js';
+import { axis, leftAxis } from './streaming-chart.js';
+import { ResultChart } from './result-chart.js';
 
 interface MarkerLine {
   x: number;
@@ -114,7 +114,7 @@ const DASH = { stable: undefined, unstable: [9, 6], marginal: [2, 4] } as const;
  * a dark vertical line, fold / Hopf / branch-point limits red ones with their values.
  * The chart is owned by a ChartController; the data is put in imperatively after each update.
  */
-export class BranchChart extends LitElement {
+export class BranchChart extends ResultChart {
   static override properties = {
     continuation: { attribute: false },
     quantity: { type: String },
@@ -123,37 +123,6 @@ export class BranchChart extends LitElement {
     symbol: { type: String },
     epsilon: { type: Number },
   };
-  static override styles = [
-    legendKeyStyles,
-    columnStyles,
-    css`
-      .legend {
-        display: flex;
-        flex-wrap: wrap;
-        gap: 4px 14px;
-        font-size: 14px;
-        color: ${unsafeCSS(SOFT_INK)};
-        margin: 2px 0 4px;
-      }
-      .frame {
-        position: relative;
-        flex: 1 1 0;
-        min-height: var(--chart-height, 360px);
-      }
-      .empty {
-        position: absolute;
-        inset: 0;
-        display: flex;
-        align-items: center;
-        justify-content: center;
-        color: ${unsafeCSS(MUTED)};
-        font-size: 17px;
-        text-align: center;
-        padding: 0 40px;
-        pointer-events: none;
-      }
-    `,
-  ];
 
   declare continuation: Continuation | null;
   declare quantity: BranchQuantity;
@@ -163,8 +132,6 @@ export class BranchChart extends LitElement {
   declare symbol: string;
   declare epsilon: number;
 
-  private readonly charts: ChartController;
-
   constructor() {
     super();
     this.continuation = null;
@@ -173,17 +140,6 @@ export class BranchChart extends LitElement {
     this.inPpm = false;
     this.symbol = '';
     this.epsilon = 0;
-    this.charts = new ChartController(
-      this,
-      () => this.configure(),
-      (chart) => this.fill(chart),
-    );
-  }
-
-  protected override updated(changed: PropertyValues): void {
-    super.updated(changed);
-    const chart = this.charts.chart;
-    if (chart) this.fill(chart);
   }
 
   override render() {
@@ -213,7 +169,7 @@ export class BranchChart extends LitElement {
     `;
   }
 
-  private configure(): ChartConfiguration {
+  protected configure(): ChartConfiguration {
     return {
       type: 'line',
       data: { datasets: [] },
@@ -236,7 +192,7 @@ export class BranchChart extends LitElement {
     } as ChartConfiguration;
   }
 
-  private fill(chart: Chart): void {
+  protected fill(chart: Chart): void {
     const c = this.continuation;
     const canvas = chart.canvas;
     if (!c || c.branch.length === 0) {
