@@ -204,6 +204,14 @@ const SAME_SIGNATURE = 1e-9;
 const SAME_DIRECTION = 1e-9;
 /** Mean squared amplitude per (node, mode) below which a locked state is the trivial rest state, not a pattern (rms 1e-3; hasEnergy). */
 const ENERGY_FLOOR = 1e-6;
+/**
+ * Phase turns of one node tried when Newton stalls on a seed solved in the full space. A seed
+ * exactly at a symmetric shape (anti-phase, a twisted wave) on a detuned network can sit where
+ * the bordered Jacobian is singular at the lone-part amplitude; a turn of a twelfth of a cycle
+ * either way starts Newton inside the basin of the shifted state (the saddle of a detuned pair
+ * lies at 180 degrees minus the locked phase lag).
+ */
+const STALLED_SEED_TURNS = [Math.PI / 6, -Math.PI / 6];
 
 const TYPE_ORDER: CandidateType[] = [
   'in-phase',
@@ -490,6 +498,11 @@ class CatalogueSearch {
         )
       : this.parts;
     let locked = solveLockedState(field, seed, this.modes, { parts: generatorParts, basis: basis ?? undefined });
+    for (const turn of basis ? [] : STALLED_SEED_TURNS) {
+      if (locked.converged) break;
+      this.solves++;
+      locked = solveLockedState(field, turnedNode(seed, this.modes, 0, turn), this.modes, { parts: generatorParts });
+    }
     if (!locked.converged) return null;
     if (basis) {
       this.solves++;
@@ -646,4 +659,18 @@ function combineBasis(basis: readonly ComplexVector[], random: Random): ComplexV
     return { re, im };
   });
   return combine(basis, coefficients, basis[0].re.length);
+}
+
+/** A copy of `y` with every mode of node `k` turned by `angle` (its complex amplitudes times e^(i angle)). */
+function turnedNode(y: Float64Array, modes: number, k: number, angle: number): Float64Array {
+  const turned = Float64Array.from(y);
+  const c = Math.cos(angle);
+  const s = Math.sin(angle);
+  for (let j = 0; j < modes; j++) {
+    const i = 2 * (k * modes + j);
+    // a = u - i v: a e^(i angle) has u' = u c + v s, v' = v c - u s
+    turned[i] = y[i] * c + y[i + 1] * s;
+    turned[i + 1] = y[i + 1] * c - y[i] * s;
+  }
+  return turned;
 }

@@ -69,6 +69,22 @@ describe('syncring predict', () => {
     expect(continuation.branch.length).toBeGreaterThan(5);
   });
 
+  test('the detuned pair holds both of its locked states: the stable one at psi = asin(dDelta / K) and the saddle at pi minus it (Adler 1946)', () => {
+    const { patterns } = predict({ scenario: 'pair-adler' });
+    // pair-adler: Delta = +-0.005, K = kappa sigma / omega = 0.02 per unit phase difference of the pair, so
+    // sin psi = (Delta_0 - Delta_1) / K = 0.5: psi = pi/6 (stable) and 5 pi/6 (the saddle between them)
+    const lag = Math.asin(0.01 / 0.02);
+    expect(patterns).toHaveLength(2);
+    const stable = patterns.filter((p) => p.stable === true);
+    const saddle = patterns.filter((p) => p.stable === false);
+    expect(stable).toHaveLength(1);
+    expect(saddle).toHaveLength(1);
+    expect(Math.abs(Math.abs(stable[0].phaseDifferences[0]) - lag)).toBeLessThan(1e-6);
+    expect(Math.abs(Math.abs(saddle[0].phaseDifferences[0]) - (Math.PI - lag))).toBeLessThan(1e-6);
+    // one unstable direction: a saddle, not a repeller
+    expect(saddle[0].eigenvalues.filter((e) => e.re > 0)).toHaveLength(1);
+  });
+
   test('--continue link:4-0 --range 0.5:1 on the one-way 5-ring: the q = 1 wave survives down to about 0.905 of the weight', () => {
     const continuation = predict({ scenario: 'ring-one-way-5', continueIn: 'link:4-0', range: '0.5:1' }).continuation!;
     expect(continuation.pattern.q).toBe(1);
