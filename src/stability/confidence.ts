@@ -1,0 +1,98 @@
+/**
+ * Confidence intervals of the overlapping Allan, modified Allan and time deviations from their
+ * equivalent degrees of freedom: s^2 edf / chi2_{1-p/2}(edf) <= sigma^2 <= s^2 edf / chi2_{p/2}(edf)
+ * (NIST SP 1065, section 5.3, "Confidence intervals"; README, "Stability statistics").
+ */
+import { chiSquaredQuantile } from './chi-squared.js';
+import { mdevEdf, oadevEdf, type NoiseAlpha } from './edf.js';
+import type { NoiseEstimate } from './noise-id.js';
+
+/** One standard deviation of a normal distribution, erf(1 / sqrt 2): the level SP 1065's error bars use. */
+export const ONE_SIGMA_CONFIDENCE = 0.6826894921370859;
+
+/**
+ * Values resting on fewer independent terms than this are marked unreliable: with 2 or 3 terms a
+ * single disturbance decides the value, whatever the edf formula says.
+ */
+export const MIN_INDEPENDENT_TERMS = 4;
+
+/**
+ * Fits and headline ratios use a tau only with at least this edf. The relative standard error of a
+ * deviation is about 1 / sqrt(2 edf) (the deviation is the square root of a chi2(edf) / edf
+ * variance), 25 % at edf 8: below the 29 % step between neighbouring octaves of a tau^-1/2 curve,
+ * so each point used still tells its neighbours apart.
+ */
+export const FIT_MIN_EDF = 8;
+
+/** The deviations that get intervals. */
+export type IntervalMetric = 'oadev' | 'mdev' | 'tdev';
+
+export interface DeviationInterval {
+  /** Equivalent degrees of freedom; null when the formula has no meaning here (too few points). */
+  edf: number | null;
+  /** Lower and upper ends of the interval on the deviation, in its unit; null without an edf. */
+  low: number | null;
+  high: number | null;
+  /** Terms at stride m (the non-overlapping count); fewer than MIN_INDEPENDENT_TERMS marks the value unreliable. */
+  independentTerms: number;
+  reliable: boolean;
+  /** Reliable and edf >= FIT_MIN_EDF: used by slope fits and headline ratios. */
+  usedInFits: boolean;
+  /** The noise type the edf assumes. */
+  noise: NoiseEstimate;
+}
+
+/** sigma edf / chi2 bounds on a deviation (the square roots of the variance bounds). */
+export function chiSquaredInterval(deviation: number, edf: number, level: number): { low: number; high: number } {
+  const tail = (1 - level) / 2;
+  const variance = deviation * deviation;
+  return {
+    low: Math.sqrt((variance * edf) / chiSquaredQuantile(1 - tail, edf)),
+    high: Math.sqrt((variance * edf) / chiSquaredQuantile(tail, edf)),
+  };
+}
+
+/**
+ * Edf per the metric's formula: overlapping ADEV by SP 1065's simple (Howe-Allan-Barnes)
+ * approximations, MDEV and TDEV by Greenhall's algorithm for m >= 2; at m = 1 the modified
+ * estimator is the overlapping one term by term (the average over one sample is the sample), so
+ * it takes the same edf.
+ */
+export function edfOf(metric: IntervalMetric, noise: NoiseEstimate, phasePoints: number, m: number): number {
+  const edf = (alpha: NoiseAlpha): number =>
+    metric === 'oadev' || m === 1 ? oadevEdf(alpha, phasePoints, m) : mdevEdf(alpha, phasePoints, m);
+  // an estimate between two types: the one with fewer degrees of freedom, so the interval is not too narrow
+  return Math.min(...(noise.candidates ?? [noise.alpha]).map(edf));
+}
+
+/** Terms at stride m: floor((N - 1) / m) - 1 second differences for ADEV, floor(N / m) - 2 modified terms. */
+export function independentTerms(metric: IntervalMetric, phasePoints: number, m: number): number {
+  return metric === 'oadev' ? Math.floor((phasePoints - 1) / m) - 1 : Math.floor(phasePoints / m) - 2;
+}
+
+export function deviationIntervals(
+  metric: IntervalMetric,
+  phasePoints: number,
+  m: readonly number[],
+  deviation: readonly number[],
+  noise: readonly NoiseEstimate[],
+  level: number = ONE_SIGMA_CONFIDENCE,
+): DeviationInterval[] {
+  return m.map((factor, i) => {
+    const terms = independentTerms(metric, phasePoints, factor);
+    const raw = edfOf(metric, noise[i], phasePoints, factor);
+    const edf = Number.isFinite(raw) && raw > 0 ? raw : null;
+    const value = deviation[i];
+    const bounds = edf !== null && Number.isFinite(value) ? chiSquaredInterval(value, edf, level) : null;
+    const reliable = edf !== null && terms >= MIN_INDEPENDENT_TERMS;
+    return {
+      edf,
+      low: bounds?.low ?? null,
+      high: bounds?.high ?? null,
+      independentTerms: terms,
+      reliable,
+      usedInFits: reliable && edf !== null && edf >= FIT_MIN_EDF,
+      noise: noise[i],
+    };
+  });
+}
