@@ -4,7 +4,7 @@
  * (NIST SP 1065, section 5.3, "Confidence intervals"; README, "Stability statistics").
  */
 import { chiSquaredQuantile } from './chi-squared.js';
-import { mdevEdf, oadevEdf, type NoiseAlpha } from './edf.js';
+import { mdevEdf, NOISE_NAMES, oadevEdf, type NoiseAlpha } from './edf.js';
 import type { NoiseEstimate } from './noise-id.js';
 
 /** One standard deviation of a normal distribution, erf(1 / sqrt 2): the level SP 1065's error bars use. */
@@ -95,4 +95,55 @@ export function deviationIntervals(
       noise: noise[i],
     };
   });
+}
+
+export interface DeviationConfidence {
+  /** Averaging factor tau / tau0 (rounded; the statistics are defined at whole m). */
+  m: number;
+  edf: number | null;
+  low: number | null;
+  high: number | null;
+  independentTerms: number;
+  reliable: boolean;
+  usedInFits: boolean;
+  noise: NoiseEstimate;
+}
+
+/**
+ * Edf and chi-squared interval of one overlapping ADEV, MDEV or TDEV value at tau, from a record of
+ * `phasePoints` phase points spaced tau0 (for N fractional-frequency samples, N + 1), with the
+ * noise type given (an alpha, or an estimate from identifyNoise). For comparisons made outside the
+ * tables, e.g. a predicted deviation against a soak's value at the same tau.
+ */
+export function deviationConfidence(args: {
+  metric: IntervalMetric;
+  deviation: number;
+  tau: number;
+  tau0: number;
+  phasePoints: number;
+  noise: NoiseAlpha | NoiseEstimate;
+  level?: number;
+}): DeviationConfidence {
+  const { metric, deviation, tau, tau0, phasePoints } = args;
+  const where = 'deviationConfidence';
+  if (metric !== 'oadev' && metric !== 'mdev' && metric !== 'tdev')
+    throw new RangeError(`${where}: metric must be "oadev", "mdev" or "tdev", got ${JSON.stringify(metric)}`);
+  if (!(tau0 > 0) || !Number.isFinite(tau0)) throw new RangeError(`${where}: tau0 must be a finite number > 0 (seconds), got ${tau0}`);
+  const m = Math.round(tau / tau0);
+  if (!(m >= 1) || Math.abs(tau / tau0 - m) > 1e-6 * m)
+    throw new RangeError(`${where}: tau ${tau} s is not a whole multiple of tau0 ${tau0} s`);
+  const need = metric === 'oadev' ? 2 * m + 1 : 3 * m;
+  if (!Number.isSafeInteger(phasePoints) || phasePoints < need)
+    throw new RangeError(`${where}: tau = ${m} tau0 needs at least ${need} phase points, got ${phasePoints}`);
+  if (!(deviation >= 0) || !Number.isFinite(deviation))
+    throw new RangeError(`${where}: deviation must be finite and >= 0, got ${deviation}`);
+  const level = args.level ?? ONE_SIGMA_CONFIDENCE;
+  if (!(level > 0 && level < 1)) throw new RangeError(`${where}: level must be between 0 and 1, got ${level}`);
+  const noise: NoiseEstimate =
+    typeof args.noise === 'number'
+      ? { alpha: args.noise, type: NOISE_NAMES[args.noise], basis: 'assumed', method: 'given by the caller' }
+      : args.noise;
+  if (!(noise.alpha in NOISE_NAMES)) throw new RangeError(`${where}: noise alpha must be 2, 1, 0, -1 or -2, got ${String(noise.alpha)}`);
+  const [interval] = deviationIntervals(metric, phasePoints, [m], [deviation], [noise], level);
+  return { m, ...interval };
 }

@@ -3,8 +3,9 @@
  * statistics"): one value per line, or two columns, time (s) and value, separated by blanks, a
  * comma, a semicolon or a tab; '#' starts a comment; blank lines are skipped. Every data line must
  * have the same number of columns. With a time column the sample interval comes from it and must
- * be uniform (each step within TIME_STEP_TOLERANCE of the mean step: printed times are rounded,
- * a missing sample is a whole step off). Errors name the line.
+ * be uniform (each step within TIME_STEP_TOLERANCE of the median step, so that a gap is reported
+ * at its own line: printed times are rounded, a missing sample is a whole step off). Errors name
+ * the line.
  */
 import { InputError } from '../util/input-error.js';
 
@@ -57,19 +58,19 @@ export function parseDataText(text: string, source: string): DataFile {
   let tau0FromTimes: number | null = null;
   if (columns === 2) {
     if (times.length < 2) throw new InputError('', 'a time column needs at least two lines to give the sample interval', { source });
-    const step = (times[times.length - 1] - times[0]) / (times.length - 1);
-    if (!(step > 0)) fail(lines[1], `time must increase (from ${times[0]} at line ${lines[0]} to ${times[times.length - 1]} at the end)`);
-    for (let i = 1; i < times.length; i++) {
-      const d = times[i] - times[i - 1];
-      if (!(Math.abs(d - step) <= TIME_STEP_TOLERANCE * step)) {
+    const steps = times.slice(1).map((t, i) => t - times[i]);
+    const median = [...steps].sort((a, b) => a - b)[Math.floor(steps.length / 2)];
+    if (!(median > 0)) fail(lines[1], `time must increase (from ${times[0]} at line ${lines[0]} to ${times[1]})`);
+    steps.forEach((d, i) => {
+      if (!(Math.abs(d - median) <= TIME_STEP_TOLERANCE * median)) {
         fail(
-          lines[i],
-          `the time step ${d} s after line ${lines[i - 1]} differs from the mean step ${step} s by more than ` +
-            `${TIME_STEP_TOLERANCE * 100} %: the samples must be uniform (no gaps)`,
+          lines[i + 1],
+          `the time step ${d} s after line ${lines[i]} differs from the usual (median) step ${median} s by more than ` +
+            `${TIME_STEP_TOLERANCE * 100} %: the samples must be uniform (no gaps, time increasing)`,
         );
       }
-    }
-    tau0FromTimes = step;
+    });
+    tau0FromTimes = (times[times.length - 1] - times[0]) / (times.length - 1);
   }
   return {
     values: Float64Array.from(values),

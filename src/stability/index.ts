@@ -18,8 +18,15 @@ export { mdevEdf, oadevEdf, NOISE_NAMES } from './edf.js';
 export type { NoiseAlpha } from './edf.js';
 export { identifyNoise, lag1NoiseAlpha, NOISE_ID_MIN_POINTS } from './noise-id.js';
 export type { NoiseEstimate } from './noise-id.js';
-export { chiSquaredInterval, deviationIntervals, FIT_MIN_EDF, MIN_INDEPENDENT_TERMS, ONE_SIGMA_CONFIDENCE } from './confidence.js';
-export type { DeviationInterval, IntervalMetric } from './confidence.js';
+export {
+  chiSquaredInterval,
+  deviationConfidence,
+  deviationIntervals,
+  FIT_MIN_EDF,
+  MIN_INDEPENDENT_TERMS,
+  ONE_SIGMA_CONFIDENCE,
+} from './confidence.js';
+export type { DeviationConfidence, DeviationInterval, IntervalMetric } from './confidence.js';
 export { slopeFit, stabilityTables } from './tables.js';
 export type { SlopeFit, StabilityTables, TableOptions } from './tables.js';
 export { maskLimit, maskMargin, parseMask, parseMaskCsv } from './mask.js';

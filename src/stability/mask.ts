@@ -118,15 +118,16 @@ function checkPoints(points: [number, number][], where: (i: number) => string, s
 export function maskLimit(mask: StabilityMask, tau: number): number | null {
   const p = mask.points;
   if (!(tau >= p[0][0] && tau <= p[p.length - 1][0])) return null;
+  for (let i = 0; i < p.length; i++) if (tau === p[i][0]) return p[i][1]; // exact at its points, no rounding through the logs
   for (let i = 1; i < p.length; i++) {
-    if (tau <= p[i][0]) {
+    if (tau < p[i][0]) {
       const [t0, l0] = p[i - 1];
       const [t1, l1] = p[i];
       const s = Math.log(tau / t0) / Math.log(t1 / t0);
       return Math.exp(Math.log(l0) + s * Math.log(l1 / l0));
     }
   }
-  return p[0][1]; // a one-point mask at exactly its tau
+  return null; // not reached: tau lies inside the range
 }
 
 export interface MaskMargin {
