@@ -97,16 +97,9 @@ export function deviationIntervals(
   });
 }
 
-export interface DeviationConfidence {
-  /** Averaging factor tau / tau0 (rounded; the statistics are defined at whole m). */
+export interface DeviationConfidence extends DeviationInterval {
+  /** Averaging factor tau / tau0 (the statistics are defined at whole m). */
   m: number;
-  edf: number | null;
-  low: number | null;
-  high: number | null;
-  independentTerms: number;
-  reliable: boolean;
-  usedInFits: boolean;
-  noise: NoiseEstimate;
 }
 
 /**

@@ -5,6 +5,7 @@
  * 1.17.1 (scipy.stats.chi2.ppf, run while writing the test).
  */
 import { describe, expect, test } from 'vitest';
+import { nistTestSet } from '../../support/nist-test-set.js';
 import {
   deviationConfidence,
   deviationIntervals,
@@ -14,18 +15,6 @@ import {
   type NoiseEstimate,
 } from '../../../src/stability/index.js';
 import { PowerLawNoise } from '../../support/power-law-noise.js';
-
-/** NIST SP 1065 generator of its 1000-point test set (as in nist-1000.test.ts). */
-function nistSeries(count: number): Float64Array {
-  const modulus = 2147483647;
-  const values = new Float64Array(count);
-  let n = 1234567890;
-  for (let i = 0; i < count; i++) {
-    values[i] = n / modulus;
-    n = (16807 * n) % modulus;
-  }
-  return values;
-}
 
 const whiteFm: NoiseEstimate = { alpha: 0, type: 'white FM', basis: 'assumed', method: 'test' };
 
@@ -98,7 +87,7 @@ describe('deviationConfidence (one value at one tau)', () => {
 
 describe('stabilityTables', () => {
   test('NIST SP 1065 1000-point set as frequency: published OADEV and MDEV, white FM identified where it can be, assumed beyond', () => {
-    const t = stabilityTables(nistSeries(1000), 1, { metrics: ['oadev', 'mdev', 'tdev'], input: 'frequency', mValues: [1, 10, 100] });
+    const t = stabilityTables(nistTestSet(1000), 1, { metrics: ['oadev', 'mdev', 'tdev'], input: 'frequency', mValues: [1, 10, 100] });
     // NIST SP 1065 test-set table (as in nist-1000.test.ts)
     expect(Number(t.sweep.series.oadev!.deviation[0].toPrecision(7))).toBe(0.2922319);
     expect(Number(t.sweep.series.oadev!.deviation[1].toPrecision(7))).toBe(0.09159953);
