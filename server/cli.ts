@@ -10,7 +10,9 @@ const USAGE = `usage:
   syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max] [--soaks DIR]
   syncring soak SCENARIO.json --campaign CAMPAIGN.json --until TAU --out DIR [--resume] [--pace SLOW_UNITS_PER_SECOND]
                 [--segment-bytes BYTES] [--checkpoint-every TAU] [--fail-incomplete]
-  syncring report DIR [--out FILE.html]
+  syncring report DIR [--out FILE.html] [--overlay OTHER_DIR_OR_FILE [--overlay-label TEXT] [--overlay-tau0 S] [--overlay-type phase|frequency]]
+  syncring stability FILE [--tau0 SECONDS] [--type phase|frequency] [--mask MASK] [--html OUT.html]
+                [--spacing octave|decade|1-2-5] [--confidence P]
 
 SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler),
 CAMPAIGN a built-in campaign (timing-board-8-campaign).`;
@@ -156,13 +158,44 @@ export async function main(argv: string[]): Promise<number> {
         });
       }
       case 'report': {
-        const parsed = parseArgs(rest, ['out']);
-        onlyFlags(parsed, ['out']);
+        const valued = ['out', 'overlay', 'overlay-label', 'overlay-tau0', 'overlay-type'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, valued);
         if (parsed.positional.length !== 1) throw callError('report needs exactly one DIR (the --out folder of a soak)');
-        const out = parsed.flags.get('out');
+        const text = (name: string): string | undefined => parsed.flags.get(name) as string | undefined;
+        const overlay = text('overlay');
+        if (
+          overlay === undefined &&
+          (parsed.flags.has('overlay-label') || parsed.flags.has('overlay-tau0') || parsed.flags.has('overlay-type'))
+        )
+          throw callError('--overlay-label, --overlay-tau0 and --overlay-type go with --overlay');
         const { report } = await import('./commands/report.js');
-        const written = report(parsed.positional[0], typeof out === 'string' ? out : undefined);
+        const written = report(parsed.positional[0], text('out'), {
+          overlay,
+          overlayLabel: text('overlay-label'),
+          overlayTau0: numberFlag(parsed, 'overlay-tau0'),
+          overlayType: text('overlay-type'),
+        });
         process.stdout.write(`${JSON.stringify({ report: written })}\n`);
+        return 0;
+      }
+      case 'stability': {
+        const valued = ['tau0', 'type', 'mask', 'html', 'spacing', 'confidence'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, valued);
+        if (parsed.positional.length !== 1) throw callError('stability needs exactly one data FILE');
+        const text = (name: string): string | undefined => parsed.flags.get(name) as string | undefined;
+        const { stabilityCommand } = await import('./commands/stability.js');
+        const result = stabilityCommand({
+          file: parsed.positional[0],
+          tau0: numberFlag(parsed, 'tau0'),
+          type: text('type'),
+          mask: text('mask'),
+          html: text('html'),
+          spacing: text('spacing'),
+          confidence: numberFlag(parsed, 'confidence'),
+        });
+        process.stdout.write(`${JSON.stringify(result)}\n`);
         return 0;
       }
       case undefined:

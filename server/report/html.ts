@@ -10,7 +10,9 @@ import { describePerturbation } from '../../src/session/perturbation.js';
 import { PASS_CAUTION, PASS_CAUTION_SHORT, SIMULATION_CAUTION, STABILITY_CAUTION } from '../../src/campaign/cautions.js';
 import { ASSUMED_FREQUENCY_NOTE, ASSUMED_FREQUENCY_TAG } from '../../src/scenario/units.js';
 import type { ReportData } from './report-data.js';
-import { PALETTE, decimateMinMax, esc, linePlot, type PlotBand, type PlotGuide, type PlotSeries } from './svg-plot.js';
+import { maskParagraph } from './stability-html.js';
+import { intervalCaption, intervalTable, maskCurve, slopeGuides, stabilityCurve } from './stability-plots.js';
+import { PALETTE, decimateMinMax, esc, linePlot, type PlotBand, type PlotSeries } from './svg-plot.js';
 
 const SERIES_COLORS: Record<PhaseSeriesName, string> = {
   ensemble: '#1f5fa8',
@@ -25,6 +27,7 @@ const SERIES_SHORT: Record<PhaseSeriesName, string> = {
   singlePart: 'single free-running part',
 };
 const PLOT_POINTS = 1500;
+const OVERLAY_COLOR = '#7048a8';
 
 /** The whole report as one self-contained HTML document (inline CSS and SVG, no scripts). */
 export function reportHtml(d: ReportData): string {
@@ -96,7 +99,7 @@ figure { margin: 14px 0 22px; } figcaption { color: #4a5561; font-size: 12.5px; 
 svg { max-width: 100%; height: auto; }
 table { border-collapse: collapse; width: 100%; font-size: 12.5px; margin: 8px 0 16px; }
 th, td { border: 1px solid #d8dde3; padding: 4px 6px; text-align: left; vertical-align: top; }
-th { background: #eef1f4; } td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
+th { background: #eef1f4; } .wide-table { overflow-x: auto; } td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 ${VERDICT_COLOURS}
 .reasons { color: #8a2a1e; font-size: 12px; }
 .small { font-size: 11.5px; color: #4a5561; }
@@ -134,6 +137,17 @@ function keyNumbers(d: ReportData): string {
   const benefit = couplingBenefit(st);
   if (benefit)
     boxes.push(box(`${fmt(benefit.node)} x`, `Coupled node / uncoupled part (ADEV). ${couplingBenefitText(d, benefit)}`, 'wide'));
+  if (st.mask) {
+    const m = st.mask.margin;
+    const verdict = st.mask.pass ? 'met' : 'CROSSED';
+    const how = st.mask.required ? 'the soak must meet it' : 'reported only';
+    boxes.push(
+      box(
+        m.db === null ? (m.meets === null ? 'not checked' : 'met') : `${m.db.toFixed(1)} dB`,
+        `margin of the array output to mask "${st.mask.mask.name}" (${verdict}; ${how})`,
+      ),
+    );
+  }
   boxes.push(box(seconds(st.span), `stability record (${array?.points ?? 0} samples every ${seconds(st.tau0)})${assumed(d)}`));
   return `<div class="key" data-testid="key-numbers">${boxes.join('')}</div>${caution(STABILITY_CAUTION, 'stability-caution')}`;
 }
@@ -152,7 +166,7 @@ function couplingBenefit(
   st: NonNullable<ReportData['stability']>,
 ): { tau: number; node: number; ensemble: number; uncoupledEnsemble: number } | null {
   const r = st.ratioToSinglePart;
-  const at = r ? reliableIndex(st, r.node) : null;
+  const at = r ? (r.reliable ? fitIndex(r.reliable.node, r.node) : reliableIndex(st, r.node)) : null;
   if (!r || at === null) return null;
   return { tau: r.tau[at], node: r.node[at], ensemble: r.ensemble[at], uncoupledEnsemble: r.uncoupledEnsemble[at] };
 }
@@ -173,32 +187,22 @@ function stabilityPlots(d: ReportData): string {
   const st = d.stability;
   if (!st) return '<p>Not enough samples yet.</p>';
   const series = st.series;
-  const curve = (s: SeriesStability, metric: 'oadev' | 'tdev' | 'mtie' | 'mdev', scale = 1, dash?: string): PlotSeries => ({
-    name: `${SERIES_SHORT[s.name]}${metric === 'mtie' ? ' (MTIE)' : metric === 'tdev' ? ' (TDEV)' : ''}`,
-    color: SERIES_COLORS[s.name],
-    x: s.sweep.tau,
-    y: s.sweep.series[metric]!.deviation.map((v) => v * scale),
-    markers: true,
-    dash,
-  });
+  const curve = (s: SeriesStability, metric: 'oadev' | 'tdev' | 'mtie' | 'mdev', scale = 1, dash?: string): PlotSeries =>
+    stabilityCurve(
+      s,
+      metric,
+      `${SERIES_SHORT[s.name]}${metric === 'mtie' ? ' (MTIE)' : metric === 'tdev' ? ' (TDEV)' : ''}`,
+      SERIES_COLORS[s.name],
+      scale,
+      dash,
+    );
   const adev = series.map((s) => curve(s, 'oadev'));
+  if (d.overlay) adev.push(stabilityCurve(d.overlay.stability, 'oadev', `overlay: ${d.overlay.label}`, OVERLAY_COLOR, 1, '2 3'));
   const anchor = series.find((s) => s.name === 'singlePart') ?? series[0];
   const tau0 = anchor.sweep.tau[0];
   const tauMax = anchor.sweep.tau[anchor.sweep.tau.length - 1] * 1.5;
   const y0 = anchor.sweep.series.oadev!.deviation[0];
-  const guides: PlotGuide[] = [
-    // ADEV falls as 1/tau for white and for flicker PM alike (MDEV tells them apart)
-    [-1, 'slope -1: white or flicker PM'],
-    [-0.5, 'slope -1/2: white FM'],
-    [0, 'slope 0: flicker FM'],
-    [0.5, 'slope +1/2: random-walk FM'],
-  ].map(([slope, label]) => ({
-    points: [
-      [tau0 / 1.5, y0 * (1 / 1.5) ** (slope as number)],
-      [tauMax, y0 * (tauMax / tau0) ** (slope as number)],
-    ] as [number, number][],
-    label: label as string,
-  }));
+  const guides = slopeGuides(tau0, tauMax, y0);
   const all = adev.flatMap((c) => Array.from(c.y)).filter((v) => v > 0);
   const yRange: [number, number] = [Math.min(...all) / 2.5, Math.max(...all) * 2.5];
   const adevPlot = linePlot({
@@ -213,13 +217,16 @@ function stabilityPlots(d: ReportData): string {
   });
   const tdev = series.map((s) => curve(s, 'tdev', 1e9));
   const mtie = series.map((s) => curve(s, 'mtie', 1e9, '5 3'));
+  const mask = st.mask?.mask;
   const timePlot = linePlot({
-    title: 'Time deviation (solid) and MTIE (dashed)',
+    title: mask
+      ? `Time deviation (solid), MTIE (dashed) and the ${mask.metric.toUpperCase()} mask`
+      : 'Time deviation (solid) and MTIE (dashed)',
     xLabel: `averaging / observation time tau (s${assumedAside(d)})`,
     yLabel: `TDEV, MTIE (ns${assumedAside(d)})`,
     xLog: true,
     yLog: true,
-    series: [...tdev, ...mtie],
+    series: [...tdev, ...mtie, ...(mask ? [maskCurve(mask, 1e9)] : [])],
   });
   const ratioNote = couplingBenefit(st)
     ? " The key numbers above compare one coupled node with a single part: the coupling's own benefit."
@@ -232,12 +239,20 @@ function stabilityPlots(d: ReportData): string {
         "Dashed lines: reference slopes of the power-law noise types through the single part's first point. " +
         `Samples every ${seconds(st.tau0)}${assumed(d)}; octave-spaced tau up to a third of the record. ` +
         'The record includes the faults: a detuning step or a kick raises the deviations at the tau it spans, ' +
-        `so the curves show noise and faults together.${ratioNote}`,
+        `so the curves show noise and faults together.${ratioNote} ${intervalCaption(anchor.confidence ?? 0.6827)}` +
+        (d.overlay
+          ? ` Dotted: ${d.overlay.label} (${d.overlay.kind === 'soak' ? 'another soak' : 'a measured file'}, ${d.overlay.source}).`
+          : ''),
       true,
     ),
+    st.mask ? maskParagraph(st.mask.margin, st.mask.mask) : '',
     figure(
       timePlot,
-      'TDEV = (tau / sqrt 3) MDEV and MTIE (largest peak-to-peak time error in any window of length tau), in ns. MTIE includes the frequency offset; TDEV does not.',
+      'TDEV = (tau / sqrt 3) MDEV with its intervals, and MTIE (largest peak-to-peak time error in any window of length tau), in ns. ' +
+        'MTIE includes the frequency offset; TDEV does not.' +
+        (mask
+          ? ` Dash-dotted: the mask "${mask.name}", log-log interpolated between its points; the criterion judges the array output.`
+          : ''),
       true,
     ),
   ].join('');
@@ -444,6 +459,11 @@ function stabilityTables(d: ReportData): string {
     `<table><thead><tr>${summaryHeadings}</tr></thead><tbody>${summaryRows}</tbody></table>`,
     '<h3>Overlapping Allan deviation</h3>',
     `<table><thead><tr>${sweepHeadings}</tr></thead><tbody>${rows}</tbody></table>${caution(STABILITY_CAUTION, 'stability-caution')}`,
+    `<h3>Intervals, degrees of freedom and noise types</h3><p class="small">${esc(intervalCaption(first.confidence ?? 0.6827))} ` +
+      `Slopes and the headline ratio use only taus with edf >= 8 (a deviation's relative standard error is about 1/sqrt(2 edf), 25 % there).</p>`,
+    ...st.series.map(
+      (s) => `<h3>${esc(SERIES_LABELS[s.name])}</h3>${intervalTable(s, seconds, s.name === 'ensemble' ? st.mask?.mask : undefined)}`,
+    ),
   ].join('\n');
 }
 
@@ -493,6 +513,22 @@ function definitions(d: ReportData): string {
         'TDEV = (tau / sqrt 3) MDEV, in seconds (ITU-T G.810).',
     ],
     ['MTIE', 'Largest peak-to-peak time error in any window of length tau (ITU-T G.810); it includes the frequency offset.'],
+    [
+      'Intervals, edf, noise type',
+      'Each overlapping ADEV, MDEV and TDEV value carries its equivalent degrees of freedom (edf) for the power-law noise type ' +
+        'identified at its tau by the lag-1 autocorrelation of the phase (or assumed where too few points remain, and then said so), ' +
+        'and a chi-squared interval: s^2 edf / chi2_{1-p/2}(edf) to s^2 edf / chi2_{p/2}(edf) at one sigma (68.3 %). ' +
+        "Edf: NIST SP 1065 simple formulas for overlapping ADEV, Greenhall's algorithm for MDEV and TDEV. " +
+        'A value on fewer than 4 independent terms is unreliable (open marker); slopes and headline ratios use only taus with edf >= 8. ' +
+        'The number of terms averaged is not a confidence: overlapping terms are correlated.',
+    ],
+    [
+      'Mask',
+      'A table of tau and limit (MTIE or TDEV) given in the campaign (stability.mask), log-log interpolated between its points. ' +
+        'The margin is the smallest limit / value over the taus inside its range, in dB (20 log10); negative means the curve crosses it. ' +
+        'With stability.mustMeetMask the soak fails (exit code 1) when the array output crosses it: ' +
+        'a soak-level criterion, judged once over the whole record, not a fault verdict.',
+    ],
     [
       'Locked, settling, slip',
       'The ring is locked when it is frequency-locked: the phase differences of its coupled pairs stay bounded, with no cycle slip. ' +
@@ -592,7 +628,13 @@ function nodesOf(d: ReportData): number {
   return (d.header.scenario as { nodes: number }).nodes;
 }
 
-/** The longest tau whose estimate still rests on at least 8 independent stretches of the record (m <= N / 8). */
+/** The longest tau at which both values of a ratio are fit for headlines (reliable, edf >= 8: README, "Stability statistics"). */
+function fitIndex(fit: boolean[], values: number[]): number | null {
+  for (let i = values.length - 1; i >= 0; i--) if (fit[i] && Number.isFinite(values[i])) return i;
+  return null;
+}
+
+/** Summaries from before the intervals: the longest tau whose estimate still rests on at least 8 independent stretches of the record (m <= N / 8). */
 function reliableIndex(st: NonNullable<ReportData['stability']>, values: (number | null)[]): number | null {
   const points = st.series[0].points;
   const m = st.series[0].sweep.m;

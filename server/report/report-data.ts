@@ -1,6 +1,16 @@
-import { existsSync, readFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { analyzeStability, type FaultVerdict, type PhaseSample, type StabilityReport } from '../../src/campaign/index.js';
+import { existsSync, readFileSync, statSync } from 'node:fs';
+import { basename, join } from 'node:path';
+import {
+  analyzeStability,
+  type FaultVerdict,
+  type MeasuredStability,
+  type PhaseSample,
+  type StabilityAnalysisOptions,
+  type StabilityReport,
+} from '../../src/campaign/index.js';
+import { builtInMaskNames, builtInMaskRaw } from '../../src/scenarios/masks.js';
+import { parseMask } from '../../src/stability/index.js';
+import { analyzeMeasuredFile } from './measured-file.js';
 import { DEFAULT_NOMINAL_FREQUENCY_HZ, tauToSeconds } from '../../src/scenario/units.js';
 import { UsageError } from '../usage-error.js';
 import { describeProblems, readSoakLog, soakHeaderOf } from '../soak/resume.js';
@@ -30,9 +40,26 @@ export interface ReportData {
   tauPerUnit: number;
   problems: string | null;
   lastTau: number;
+  /** A second soak's array output or a measured file, drawn on the ADEV plot. */
+  overlay: ReportOverlay | null;
 }
 
-export function loadReportData(dir: string): ReportData {
+export interface ReportOverlay {
+  label: string;
+  source: string;
+  kind: 'soak' | 'file';
+  stability: MeasuredStability;
+}
+
+/** `syncring report --overlay ...`: another soak folder or a measured data file (README, "Stability statistics"). */
+export interface ReportOptions {
+  overlay?: string;
+  overlayLabel?: string;
+  overlayTau0?: number;
+  overlayType?: string;
+}
+
+export function loadReportData(dir: string, options: ReportOptions = {}): ReportData {
   if (!existsSync(dir)) throw new UsageError(`${dir}: no such folder`);
   const read = readSoakLog(dir);
   if (read.segments.length === 0) throw new UsageError(`${dir}: no soak log here (expected ${join(dir, 'log')}/soak-NNNNNN.ndjson)`);
@@ -56,7 +83,12 @@ export function loadReportData(dir: string): ReportData {
   const tauPerUnit = timeBase?.tauPerCampaignUnit ?? (unit === 'slow' ? 1 / scenario.epsilon : unit === 'seconds' ? 1 / secondsPerTau : 1);
   const stability =
     summary?.stability ??
-    analyzeStability(stabilitySamples(samples), header.soak.stride * header.soak.macroStep * secondsPerTau, nominalFrequencyHz);
+    analyzeStability(
+      stabilitySamples(samples),
+      header.soak.stride * header.soak.macroStep * secondsPerTau,
+      nominalFrequencyHz,
+      campaignMaskOptions(header.soak.campaign),
+    );
   return {
     dir,
     header,
@@ -74,5 +106,34 @@ export function loadReportData(dir: string): ReportData {
     tauPerUnit,
     problems: read.problems.length > 0 ? describeProblems(read) : null,
     lastTau,
+    overlay: options.overlay === undefined ? null : loadOverlay(options),
   };
+}
+
+/** The mask of the campaign in the log header (inline, or a built-in name), for a report made from the log alone. */
+function campaignMaskOptions(raw: unknown): StabilityAnalysisOptions {
+  const stability = (raw as { stability?: { mask?: unknown; mustMeetMask?: unknown } } | null)?.stability;
+  const ref = stability?.mask;
+  if (ref === undefined) return {};
+  const rawMask = typeof ref === 'string' && builtInMaskNames.includes(ref) ? builtInMaskRaw(ref) : ref;
+  // the header's campaign was validated when the soak started
+  return { mask: parseMask(rawMask, 'the log header'), mustMeetMask: stability?.mustMeetMask !== false };
+}
+
+function loadOverlay(options: ReportOptions): ReportOverlay {
+  const path = options.overlay!;
+  if (!existsSync(path)) throw new UsageError(`--overlay ${path}: no such soak folder or data file`);
+  if (statSync(path).isDirectory()) {
+    if (options.overlayTau0 !== undefined || options.overlayType !== undefined)
+      throw new UsageError('--overlay-tau0 and --overlay-type are for a data file, not a soak folder');
+    const other = loadReportData(path);
+    const series = other.stability?.series.find((s) => s.name === 'ensemble');
+    if (!series) throw new UsageError(`--overlay ${path}: that soak has no stability record yet`);
+    return { label: options.overlayLabel ?? `${basename(path)}: array output`, source: path, kind: 'soak', stability: series };
+  }
+  const type = options.overlayType ?? 'phase';
+  if (type !== 'phase' && type !== 'frequency')
+    throw new UsageError(`--overlay-type must be phase or frequency (got ${JSON.stringify(type)})`);
+  const measured = analyzeMeasuredFile(path, { tau0: options.overlayTau0, type });
+  return { label: options.overlayLabel ?? basename(path), source: path, kind: 'file', stability: measured.stability };
 }

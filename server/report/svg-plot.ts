@@ -15,6 +15,11 @@ export interface PlotSeries {
   breakAbove?: number;
   /** Draw a marker at every point (for sparse curves such as deviations versus tau). */
   markers?: boolean;
+  /** Error bars: the lower and upper end of each point's interval (null or non-finite: no bar). */
+  low?: ArrayLike<number | null>;
+  high?: ArrayLike<number | null>;
+  /** Points drawn as open markers (values marked unreliable), the same length as y. */
+  open?: ArrayLike<boolean>;
 }
 
 export interface PlotBand {
@@ -72,6 +77,8 @@ export function linePlot(o: PlotOptions): string {
       if (usable(s.x[i], o.xLog) && usable(s.y[i], o.yLog)) {
         xs.push(s.x[i]);
         ys.push(s.y[i]);
+        // error bars stay inside the fitted range
+        for (const end of [s.low?.[i], s.high?.[i]]) if (typeof end === 'number' && usable(end, o.yLog)) ys.push(end);
       }
     }
   }
@@ -197,10 +204,32 @@ function seriesPath(s: PlotSeries, px: (v: number) => number, py: (v: number) =>
     d += `${pen ? 'L' : 'M'}${f(px(x))},${f(py(y))}`;
     pen = true;
     previous = y;
-    if (s.markers) dots.push(`<circle cx="${f(px(x))}" cy="${f(py(y))}" r="2.6" fill="${s.color}"/>`);
+    if (s.low && s.high) dots.push(errorBar(px(x), s.low[i], s.high[i], py, s.color, o.yLog));
+    if (s.markers) {
+      const hollow = s.open?.[i] ?? false;
+      dots.push(
+        hollow
+          ? `<circle cx="${f(px(x))}" cy="${f(py(y))}" r="3" fill="#ffffff" stroke="${s.color}" stroke-width="1.3"/>`
+          : `<circle cx="${f(px(x))}" cy="${f(py(y))}" r="2.6" fill="${s.color}"/>`,
+      );
+    }
   }
   const dash = s.dash ? ` stroke-dasharray="${s.dash}"` : '';
   return `<path d="${d}" fill="none" stroke="${s.color}" stroke-width="${s.width ?? 1.6}" stroke-linejoin="round"${dash}/>${dots.join('')}`;
+}
+
+/** A vertical bar from low to high with short caps (an end that cannot be drawn, as 0 on a log axis, is left open). */
+function errorBar(x: number, low: number | null, high: number | null, py: (v: number) => number, color: string, log?: boolean): string {
+  if (low === null || high === null || !usable(high, log)) return '';
+  const top = py(high);
+  const bottom = usable(low, log) ? py(low) : null;
+  const cap = (y: number) => `<line x1="${f(x - 3)}" x2="${f(x + 3)}" y1="${f(y)}" y2="${f(y)}" stroke="${color}" stroke-width="1"/>`;
+  const end = bottom ?? top + 40;
+  return (
+    `<line class="error-bar" x1="${f(x)}" x2="${f(x)}" y1="${f(top)}" y2="${f(end)}" stroke="${color}" stroke-width="1" stroke-opacity="0.8"/>` +
+    cap(top) +
+    (bottom === null ? '' : cap(bottom))
+  );
 }
 
 /** Put a guide's label near its last point inside the plot. */

@@ -1,6 +1,7 @@
 import { parseCampaign, type Campaign } from '../../src/campaign/index.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { builtInCampaignNames, builtInCampaignRaw } from '../../src/scenarios/index.js';
+import { inlineCampaignMask } from '../report/mask-file.js';
 import { loadJsonInput } from '../scenario-file.js';
 
 /**
@@ -8,6 +9,8 @@ import { loadJsonInput } from '../scenario-file.js';
  * validated against the scenario it will run on. Errors name the file and the field.
  */
 export function loadCampaign(pathOrName: string, scenario: Scenario): { campaign: Campaign; raw: unknown; source: string } {
-  const { raw, source, label } = loadJsonInput(pathOrName, { kind: 'campaign', names: builtInCampaignNames, raw: builtInCampaignRaw });
+  const read = loadJsonInput(pathOrName, { kind: 'campaign', names: builtInCampaignNames, raw: builtInCampaignRaw });
+  const { source, label } = read;
+  const raw = inlineCampaignMask(read.raw, source);
   return { campaign: parseCampaign(raw, scenario, label), raw, source };
 }

@@ -25,6 +25,7 @@ import { engineFingerprint } from './engine-fingerprint.js';
 import { recordResume, writeSummary } from './outputs.js';
 import { checkSameSoak, findResumePoint, soakLogDir, type ResumePoint } from './resume.js';
 import { SoakLog } from './soak-log.js';
+import { exportStabilitySeries } from './series-export.js';
 import { SoakStatusReport } from './status.js';
 
 export interface SoakOptions {
@@ -173,6 +174,7 @@ class SoakRunner {
       stride: sim.plan.stride,
     };
     const { path, summary } = writeSummary(this.options.out, outcome, about, { ...this.log.facts(), wallSeconds: this.status.wallSeconds });
+    exportStabilitySeries(this.options.out, sim.samples, outcome.stability);
     this.status.finish();
     return { exitCode: outcome.exitCode, summaryPath: path, summary };
   }

@@ -13,6 +13,19 @@ export const PASS_CAUTION = `PASS means this campaign's criteria were met under 
 /** Beside every frequency-stability result (ADEV, TDEV, MTIE, offsets, ratios). */
 export const STABILITY_CAUTION = `These stability figures come from the simulated noise model, not from a measured part. ${NOT_A_MASK} ${QUALIFY}`;
 
+/** Beside every mask margin and mask verdict: a table someone supplied, compared with one record. */
+export const MASK_CAUTION =
+  'A mask margin compares this record with the table of limits supplied; it is not a compliance test. ' +
+  `syncring ships no standard's mask; the demo's mask is invented. ${QUALIFY}`;
+
+/**
+ * Beside the results of `syncring stability` on a measured file: the figures are the file's, and
+ * the intervals rest on a noise model.
+ */
+export const MEASURED_CAUTION =
+  'These figures describe the data file supplied, as recorded. The intervals assume Gaussian power-law noise of the type shown ' +
+  `at each tau; drifts, steps and gaps in the record are not modelled. ${NOT_A_MASK} ${QUALIFY}`;
+
 /**
  * Where a PASS sits in a row among many (a verdict table), the full text beside each one would
  * bury the table: this short form goes beside each, with PASS_CAUTION once beside the table.

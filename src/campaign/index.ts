@@ -14,11 +14,15 @@ export {
 } from './phase-record.js';
 export {
   analyzeStability,
+  measuredStability,
   timeErrorOf,
   SERIES_LABELS,
   MIN_STABILITY_SAMPLES,
   type StabilityReport,
   type SeriesStability,
+  type MeasuredStability,
+  type MaskResult,
+  type StabilityAnalysisOptions,
 } from './stability-analysis.js';
 export { appliesToUncoupled, previousValuesOf } from './restore.js';
 export type * from './types.js';

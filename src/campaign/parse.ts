@@ -28,6 +28,8 @@ import {
 } from './fields.js';
 import { parseCriteria } from './criteria.js';
 import { parseRandomSpec } from './parse-random.js';
+import { parseMask, type StabilityMask } from '../stability/mask.js';
+import { builtInMaskNames, builtInMaskRaw } from '../scenarios/masks.js';
 import type { Campaign, Criteria, DetectorSpec, FaultPlan, RestoreSpec, StabilitySpec, TimeUnit } from './types.js';
 
 const { expectObject, expectArray, numberField, integer, inRange } = checks;
@@ -113,10 +115,18 @@ function parseDetector(raw: unknown, scale: TimeScale, eps: number): DetectorSpe
 }
 
 function parseStability(raw: unknown, scale: TimeScale): StabilitySpec {
-  const defaults: StabilitySpec = { from: 'first-lock', uncoupledReference: true, maxSamples: DEFAULT_MAX_SAMPLES };
+  const defaults: StabilitySpec = {
+    from: 'first-lock',
+    uncoupledReference: true,
+    maxSamples: DEFAULT_MAX_SAMPLES,
+    mask: null,
+    mustMeetMask: false,
+  };
   if (raw === undefined) return defaults;
   const path = 'stability';
-  const obj = expectObject(raw, path, ['from', 'uncoupledReference', 'maxSamples']);
+  const obj = expectObject(raw, path, ['from', 'uncoupledReference', 'maxSamples', 'mask', 'mustMeetMask']);
+  const mask = has(obj, 'mask') ? parseCampaignMask(obj.mask, child(path, 'mask')) : null;
+  if (has(obj, 'mustMeetMask') && mask === null) fail(child(path, 'mustMeetMask'), 'needs a mask (stability.mask)');
   let from: StabilitySpec['from'] = 'first-lock';
   if (has(obj, 'from') && obj.from !== 'first-lock') {
     if (typeof obj.from !== 'number') fail(child(path, 'from'), `must be a time or "first-lock" (got ${JSON.stringify(obj.from)})`);
@@ -126,7 +136,31 @@ function parseStability(raw: unknown, scale: TimeScale): StabilitySpec {
     from,
     uncoupledReference: booleanField(obj, path, 'uncoupledReference', true),
     maxSamples: numberField(obj, path, 'maxSamples', (n, p) => inRange(integer(n, p), p, 16, 1_000_000), DEFAULT_MAX_SAMPLES),
+    mask,
+    mustMeetMask: mask !== null && booleanField(obj, path, 'mustMeetMask', true),
   };
+}
+
+/**
+ * stability.mask: a mask object, or the name of a built-in mask. `syncring soak` reads a mask
+ * file named there (relative to the campaign file) and puts its content in place of the name
+ * before the campaign gets here, so the log header keeps the mask itself.
+ */
+function parseCampaignMask(raw: unknown, path: string): StabilityMask {
+  if (typeof raw === 'string') {
+    if (!builtInMaskNames.includes(raw))
+      fail(
+        path,
+        `no built-in mask ${JSON.stringify(raw)} (built-in masks: ${builtInMaskNames.join(', ')}; syncring soak reads a file of that name)`,
+      );
+    return parseMask(builtInMaskRaw(raw), `built-in mask ${raw}`);
+  }
+  try {
+    return parseMask(raw);
+  } catch (error) {
+    if (error instanceof InputError) throw error.under(path);
+    throw error;
+  }
 }
 
 function parseFaults(raw: unknown, model: ModelParameters, scale: TimeScale, criteria: Criteria): FaultPlan[] {

@@ -6,7 +6,7 @@ import { SOAK_EXIT, type SoakOutcome } from '../protocol/soak-records.js';
 import { runSummaryOf, type RunSummary } from '../protocol/run-summary.js';
 import { CampaignRun } from './campaign-run.js';
 import { PhaseRecorder, type PhaseSample } from './phase-record.js';
-import { analyzeStability } from './stability-analysis.js';
+import { analyzeStability, type MaskResult } from './stability-analysis.js';
 import { tickViewOf } from './tick-view.js';
 import type { Campaign } from './types.js';
 import type { FaultVerdict, TimeBase } from './verdict.js';
@@ -146,7 +146,8 @@ export class SoakSimulation {
     const records: NewLogRecord[] = closing.map((verdict) => this.verdictRecord(verdict));
     const notes = [...(options.notes ?? [])];
     const tau0 = this.plan.stride * s.macroStep * this.base.secondsPerTau;
-    const stability = analyzeStability(this.samples, tau0, this.scenario.units.nominalFrequencyHz);
+    const { mask, mustMeetMask } = this.campaign.stability;
+    const stability = analyzeStability(this.samples, tau0, this.scenario.units.nominalFrequencyHz, mask ? { mask, mustMeetMask } : {});
     const twinStop = this.samples.findIndex((sample) => sample.uncoupledEnsemble === null);
     if (this.campaign.stability.uncoupledReference && twinStop >= 0)
       notes.push(`the uncoupled twin halted (blow-up); its stability series stop after ${twinStop} samples`);
@@ -156,9 +157,12 @@ export class SoakSimulation {
       );
     const failed = this.verdicts.filter((v) => v.outcome === 'fail').length;
     const incomplete = this.verdicts.filter((v) => v.outcome === 'incomplete').length;
+    // The mask is a soak-level criterion, judged once over the whole record: a crossing fails the soak as a failed fault does.
+    const maskFailed = mask !== null && mustMeetMask && stability?.mask?.pass !== true;
+    if (mask !== null) notes.push(maskNote(mask.name, mustMeetMask, stability?.mask ?? null));
     const exitCode = halted
       ? SOAK_EXIT.halted
-      : failed > 0 || (options.failIncomplete && incomplete > 0)
+      : failed > 0 || maskFailed || (options.failIncomplete && incomplete > 0)
         ? SOAK_EXIT.failed
         : SOAK_EXIT.pass;
     if (incomplete > 0) {
@@ -215,4 +219,15 @@ function sessionOptionsOf(campaign: Campaign): SessionOptions {
   if (campaign.detector.lockWindow !== null) options.lockWindow = campaign.detector.lockWindow;
   if (campaign.detector.lockTolerance !== null) options.lockTolerance = campaign.detector.lockTolerance;
   return options;
+}
+
+/** What the mask criterion found, for the summary's notes. */
+function maskNote(name: string, required: boolean, result: MaskResult | null): string {
+  const criterion = required ? 'the soak must meet it (stability.mustMeetMask)' : 'reported only (stability.mustMeetMask is false)';
+  if (result === null) return `mask ${JSON.stringify(name)} could not be checked: too few stability samples; ${criterion}`;
+  if (result.pass) {
+    const m = result.margin;
+    return `the array output meets mask ${JSON.stringify(name)} with a margin of ${m.db!.toFixed(2)} dB (x${m.factor!.toPrecision(3)}) at tau ${m.tau} s; ${criterion}`;
+  }
+  return `${result.reason}; ${criterion}`;
 }

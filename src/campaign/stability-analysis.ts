@@ -5,9 +5,25 @@
  * - time error x_i = (phi_i - phi_0) / (2 pi f0), seconds (shown in ns);
  * - mean fractional frequency offset y = (x_last - x_0) / (T), T the record length; shown in
  *   ppb (1 ppb accumulates 86.4 us of time error per day);
- * - overlapping ADEV, ADEV, MDEV, TDEV and MTIE of x across octave-spaced tau = m tau0.
+ * - overlapping ADEV, ADEV, MDEV, TDEV and MTIE of x across octave-spaced tau = m tau0, each
+ *   overlapping ADEV, MDEV and TDEV value with its equivalent degrees of freedom, the noise type
+ *   they assume and its chi-squared interval (src/stability/tables.ts; README, "Stability statistics");
+ * - optionally the margin of the array output's MTIE or TDEV to a mask.
  */
-import { powerLawFit, stabilitySweep, type SweepResult } from '../stability/index.js';
+import {
+  frequencyToPhase,
+  maskMargin,
+  stabilityTables,
+  type DeviationInterval,
+  type IntervalMetric,
+  type MaskMargin,
+  type NoiseEstimate,
+  type SlopeFit,
+  type StabilityMask,
+  type SweepResult,
+  type SweepSpacing,
+} from '../stability/index.js';
+import { MASK_CAUTION } from './cautions.js';
 import { PHASE_SERIES, type PhaseSample, type PhaseSeriesName } from './phase-record.js';
 
 export const SERIES_LABELS: Record<PhaseSeriesName, string> = {
@@ -30,8 +46,35 @@ export interface SeriesStability {
   /** Time error one day at this offset would accumulate, microseconds. */
   timeErrorPerDayUs: number;
   sweep: SweepResult;
-  /** Least-squares exponent of overlapping ADEV versus tau over the whole sweep. */
+  /**
+   * Least-squares exponent of overlapping ADEV versus tau over the taus fit for it (reliable, with
+   * edf >= FIT_MIN_EDF; `oadevFit` says which); null with fewer than two such taus.
+   */
   oadevSlope: number | null;
+  oadevFit: SlopeFit;
+  /** Confidence level of the intervals (one sigma, 0.683). */
+  confidence: number;
+  /** Noise type per tau (the order of sweep.m), identified or assumed. */
+  noise: NoiseEstimate[];
+  /** Edf, interval, reliability and noise type of every overlapping ADEV, MDEV and TDEV value. */
+  intervals: Partial<Record<IntervalMetric, DeviationInterval[]>>;
+  /** Margin of this series' MTIE or TDEV to the campaign's mask, when there is one. */
+  mask?: MaskMargin;
+}
+
+/** The campaign's mask with the array output's margin to it: the soak-level criterion. */
+export interface MaskResult {
+  mask: StabilityMask;
+  /** The series the criterion judges: the array output. */
+  judged: PhaseSeriesName;
+  margin: MaskMargin;
+  /** Whether the soak must meet it (campaign stability.mustMeetMask). */
+  required: boolean;
+  /** Met (margin >= 0 dB); false also when no tau of the record fell inside the mask's range. */
+  pass: boolean;
+  reason: string | null;
+  /** What a met mask does not mean (MASK_CAUTION). */
+  caution: string;
 }
 
 export interface StabilityReport {
@@ -49,8 +92,23 @@ export interface StabilityReport {
    * part; `ensemble` is mostly plain averaging, as `uncoupledEnsemble` shows without coupling.
    * Both approach 1/sqrt(N) only when the parts' noise is independent.
    */
-  ratioToSinglePart: { tau: number[]; ensemble: number[]; node: number[]; uncoupledEnsemble: number[] } | null;
+  ratioToSinglePart: {
+    tau: number[];
+    ensemble: number[];
+    node: number[];
+    uncoupledEnsemble: number[];
+    /** Per tau: both the series' and the single part's values are fit for headlines (usedInFits), per series. */
+    reliable?: { ensemble: boolean[]; node: boolean[]; uncoupledEnsemble: boolean[] };
+  } | null;
+  /** The mask criterion, when the campaign gives a mask. */
+  mask?: MaskResult;
   note: string | null;
+}
+
+export interface StabilityAnalysisOptions {
+  mask?: StabilityMask;
+  /** Whether the mask must be met (default true when a mask is given). */
+  mustMeetMask?: boolean;
 }
 
 const METRICS = ['adev', 'oadev', 'mdev', 'tdev', 'mtie'] as const;
@@ -58,7 +116,12 @@ const METRICS = ['adev', 'oadev', 'mdev', 'tdev', 'mtie'] as const;
 /** Fewest samples for a meaningful sweep (m = 1 needs 4 phase points; a handful of m values needs more). */
 export const MIN_STABILITY_SAMPLES = 16;
 
-export function analyzeStability(samples: readonly PhaseSample[], tau0: number, nominalFrequencyHz: number): StabilityReport | null {
+export function analyzeStability(
+  samples: readonly PhaseSample[],
+  tau0: number,
+  nominalFrequencyHz: number,
+  options: StabilityAnalysisOptions = {},
+): StabilityReport | null {
   if (samples.length < MIN_STABILITY_SAMPLES) return null;
   const twinLength = samples.findIndex((s) => s.uncoupledEnsemble === null || s.singlePart === null);
   const withTwin = twinLength === -1 ? samples.length : twinLength;
@@ -67,7 +130,7 @@ export function analyzeStability(samples: readonly PhaseSample[], tau0: number, 
     const count = name === 'ensemble' || name === 'node' ? samples.length : withTwin;
     if (count < MIN_STABILITY_SAMPLES) continue;
     const x = timeErrorOf(samples, name, count, nominalFrequencyHz);
-    series.push(seriesStability(name, x, tau0));
+    series.push(seriesStability(name, x, tau0, options.mask));
   }
   const single = series.find((s) => s.name === 'singlePart');
   let ratioToSinglePart: StabilityReport['ratioToSinglePart'] = null;
@@ -79,11 +142,19 @@ export function analyzeStability(samples: readonly PhaseSample[], tau0: number, 
         return j < 0 ? Number.NaN : s.sweep.series.oadev!.deviation[j] / single.sweep.series.oadev!.deviation[i];
       });
     };
+    const fit = (name: PhaseSeriesName): boolean[] => {
+      const s = series.find((t) => t.name === name)!;
+      return single.sweep.m.map((m, i) => {
+        const j = s.sweep.m.indexOf(m);
+        return j >= 0 && s.intervals.oadev![j].usedInFits && single.intervals.oadev![i].usedInFits;
+      });
+    };
     ratioToSinglePart = {
       tau: single.sweep.tau,
       ensemble: ratio('ensemble'),
       node: ratio('node'),
       uncoupledEnsemble: ratio('uncoupledEnsemble'),
+      reliable: { ensemble: fit('ensemble'), node: fit('node'), uncoupledEnsemble: fit('uncoupledEnsemble') },
     };
   }
   return {
@@ -93,6 +164,7 @@ export function analyzeStability(samples: readonly PhaseSample[], tau0: number, 
     nominalFrequencyHz,
     series,
     ratioToSinglePart,
+    ...(options.mask ? { mask: maskResult(options.mask, series, options.mustMeetMask ?? true) } : {}),
     note: withTwin < samples.length ? `the uncoupled twin stopped after ${withTwin} samples; its series are shorter` : null,
   };
 }
@@ -111,29 +183,86 @@ export function timeErrorOf(
   return x;
 }
 
-function seriesStability(name: PhaseSeriesName, x: Float64Array, tau0: number): SeriesStability {
-  const sweep = stabilitySweep(x, tau0, { metrics: METRICS, spacing: 'octave' });
+/** The mask criterion on the array output (the board's output): met when its curve stays at or below the mask. */
+function maskResult(mask: StabilityMask, series: readonly SeriesStability[], required: boolean): MaskResult {
+  const judged = series.find((s) => s.name === 'ensemble')!;
+  const margin = judged.mask!;
+  const reason =
+    margin.meets === null
+      ? `no tau of the record (${judged.sweep.tau[0]} to ${judged.sweep.tau[judged.sweep.tau.length - 1]} s) falls inside the mask's range`
+      : margin.meets
+        ? null
+        : `the array output's ${mask.metric.toUpperCase()} exceeds mask ${JSON.stringify(mask.name)} at tau ${margin.tau} s ` +
+          `(${margin.value} s against a limit of ${margin.limit} s, margin ${margin.db!.toFixed(2)} dB)`;
+  return { mask, judged: 'ensemble', margin, required, pass: margin.meets === true, reason, caution: MASK_CAUTION };
+}
+
+/** The tables of one soak series: its sweep with intervals and noise types, offsets and time errors. */
+function seriesStability(name: PhaseSeriesName, x: Float64Array, tau0: number, mask?: StabilityMask): SeriesStability {
+  return { name, label: SERIES_LABELS[name], ...measuredStability(x, tau0, { input: 'phase', spacing: 'octave', mask }) };
+}
+
+/** Everything a soak series carries except its name: what `syncring stability` prints for a measured file. */
+export type MeasuredStability = Omit<SeriesStability, 'name' | 'label'>;
+
+/**
+ * The same tables for any phase (time error, s) or fractional-frequency series: a soak's series
+ * and a measured file go through this one function.
+ */
+export function measuredStability(
+  data: ArrayLike<number>,
+  tau0: number,
+  options: { input: 'phase' | 'frequency'; spacing?: SweepSpacing; mask?: StabilityMask; confidence?: number },
+): MeasuredStability {
+  const tables = stabilityTables(data, tau0, {
+    metrics: METRICS,
+    input: options.input,
+    spacing: options.spacing,
+    confidence: options.confidence,
+  });
+  const x = options.input === 'phase' ? data : frequencyToPhase(data, tau0);
+  return { ...phaseSeriesFigures(x, tau0), ...tablesFields(tables, options.mask) };
+}
+
+/** Offset, final and largest time error and the per-day extrapolation of a phase record (seconds in, ns/ppb/us out). */
+export function phaseSeriesFigures(
+  x: ArrayLike<number>,
+  tau0: number,
+): Pick<SeriesStability, 'points' | 'frequencyOffsetPpb' | 'finalTimeErrorNs' | 'maxTimeErrorNs' | 'timeErrorPerDayUs'> {
   const span = (x.length - 1) * tau0;
   const offset = (x[x.length - 1] - x[0]) / span;
   let maxAbs = 0;
-  for (const v of x) maxAbs = Math.max(maxAbs, Math.abs(v));
-  const oadev = sweep.series.oadev!.deviation;
-  const usable = oadev.map((d, i) => ({ d, t: sweep.tau[i] })).filter((p) => p.d > 0 && Number.isFinite(p.d));
+  for (let i = 0; i < x.length; i++) maxAbs = Math.max(maxAbs, Math.abs(x[i]));
   return {
-    name,
-    label: SERIES_LABELS[name],
     points: x.length,
     frequencyOffsetPpb: offset * 1e9,
     finalTimeErrorNs: x[x.length - 1] * 1e9,
     maxTimeErrorNs: maxAbs * 1e9,
     timeErrorPerDayUs: offset * 86400 * 1e6,
+  };
+}
+
+/** The table fields every analysed series carries, with the mask margin of its MTIE or TDEV. */
+export function tablesFields(
+  tables: ReturnType<typeof stabilityTables>,
+  mask?: StabilityMask,
+): Pick<SeriesStability, 'sweep' | 'oadevSlope' | 'oadevFit' | 'confidence' | 'noise' | 'intervals' | 'mask'> {
+  const { sweep } = tables;
+  const margin = mask
+    ? maskMargin(
+        mask,
+        sweep.tau,
+        sweep.series[mask.metric]!.deviation,
+        mask.metric === 'tdev' ? tables.intervals.tdev!.map((i) => i.high) : undefined,
+      )
+    : undefined;
+  return {
     sweep,
-    oadevSlope:
-      usable.length >= 2
-        ? powerLawFit(
-            usable.map((p) => p.t),
-            usable.map((p) => p.d),
-          ).slope
-        : null,
+    oadevSlope: tables.oadevFit.slope,
+    oadevFit: tables.oadevFit,
+    confidence: tables.confidence,
+    noise: tables.noise,
+    intervals: tables.intervals,
+    ...(margin ? { mask: margin } : {}),
   };
 }

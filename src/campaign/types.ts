@@ -1,3 +1,4 @@
+import type { StabilityMask } from '../stability/mask.js';
 import type { Perturbation, PerturbationAction } from '../session/perturbation.js';
 
 /**
@@ -89,6 +90,10 @@ export interface StabilitySpec {
   uncoupledReference: boolean;
   /** Most stability samples kept; the sample stride is chosen from the soak length to fit. */
   maxSamples: number;
+  /** An MTIE or TDEV mask the array output is held against (README, "Stability statistics"), or null. */
+  mask: StabilityMask | null;
+  /** A soak-level criterion: the soak fails when the array output crosses the mask (default true with a mask). */
+  mustMeetMask: boolean;
 }
 
 export interface Campaign {

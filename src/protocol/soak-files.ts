@@ -18,6 +18,12 @@ export const REPORT_FILE = 'report.html';
 /** The log segments: LOG_FOLDER/SEGMENT_PREFIX-NNNNNN.ndjson. */
 export const LOG_FOLDER = 'log';
 export const SEGMENT_PREFIX = 'soak';
+/**
+ * Each analysed stability series at the end of a soak: SERIES_FOLDER/NAME.txt, two columns t (s)
+ * and time error x (s) with '#' header lines, the plain-text format `syncring stability` reads
+ * (src/stability/data-file.ts writes and reads it).
+ */
+export const SERIES_FOLDER = 'series';
 /** Where a soak started from the dashboard writes its stdout and stderr. */
 export const SOAK_OUT = 'soak.out';
 export const SOAK_ERR = 'soak.err';

@@ -13,3 +13,23 @@ export type { SeriesSummary } from './summary.js';
 export { METRIC_NAMES, isStabilityMetric } from './kernels.js';
 export type { MetricFunction } from './metric.js';
 export type { SeriesKind, SeriesOptions, StabilityMetric, StabilityPoint } from './types.js';
+export { chiSquaredCdf, chiSquaredQuantile, inverseRegularizedGammaP, regularizedGammaP, regularizedGammaQ } from './chi-squared.js';
+export { mdevEdf, oadevEdf, NOISE_NAMES } from './edf.js';
+export type { NoiseAlpha } from './edf.js';
+export { identifyNoise, lag1NoiseAlpha, NOISE_ID_MIN_POINTS } from './noise-id.js';
+export type { NoiseEstimate } from './noise-id.js';
+export {
+  chiSquaredInterval,
+  deviationConfidence,
+  deviationIntervals,
+  FIT_MIN_EDF,
+  MIN_INDEPENDENT_TERMS,
+  ONE_SIGMA_CONFIDENCE,
+} from './confidence.js';
+export type { DeviationConfidence, DeviationInterval, IntervalMetric } from './confidence.js';
+export { slopeFit, stabilityTables } from './tables.js';
+export type { SlopeFit, StabilityTables, TableOptions } from './tables.js';
+export { maskLimit, maskMargin, parseMask, parseMaskCsv } from './mask.js';
+export type { MaskMargin, MaskMetric, StabilityMask } from './mask.js';
+export { formatDataText, parseDataText, TIME_STEP_TOLERANCE } from './data-file.js';
+export type { DataFile } from './data-file.js';

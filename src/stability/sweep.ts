@@ -4,8 +4,8 @@ import { checkSeries, seriesKind, toPhase } from './series.js';
 import type { SeriesOptions, StabilityMetric } from './types.js';
 import { describeValue, requireAveragingFactor, requirePhasePoints } from './validate.js';
 
-/** 'octave': m = 1, 2, 4, 8, ...; 'decade': m = 1, 10, 100, ...; both stop at m_max. */
-export type SweepSpacing = 'octave' | 'decade';
+/** 'octave': m = 1, 2, 4, 8, ...; 'decade': m = 1, 10, 100, ...; '1-2-5': m = 1, 2, 5, 10, 20, 50, ...; all stop at m_max. */
+export type SweepSpacing = 'octave' | 'decade' | '1-2-5';
 
 export interface SweepOptions extends SeriesOptions {
   metrics: readonly StabilityMetric[];
@@ -41,8 +41,13 @@ export function largestSweepFactor(phasePoints: number): number {
   return Math.floor((phasePoints - 1) / 3);
 }
 
-/** Averaging factors 1, r, r^2, ... not above mMax (r = 2 for octave, 10 for decade). */
+/** Averaging factors 1, r, r^2, ... not above mMax (r = 2 for octave, 10 for decade), or 1, 2, 5 times each power of ten. */
 export function averagingFactors(mMax: number, spacing: SweepSpacing = 'octave'): number[] {
+  if (spacing === '1-2-5') {
+    const steps: number[] = [];
+    for (let decade = 1; decade <= mMax; decade *= 10) for (const k of [1, 2, 5]) if (k * decade <= mMax) steps.push(k * decade);
+    return steps;
+  }
   const ratio = spacing === 'octave' ? 2 : 10;
   const factors: number[] = [];
   for (let m = 1; m <= mMax; m *= ratio) factors.push(m);
@@ -107,8 +112,8 @@ function checkedFactors(where: string, mValues: unknown): number[] {
 }
 
 function ladder(where: string, phasePoints: number, spacing: unknown = 'octave'): number[] {
-  if (spacing !== 'octave' && spacing !== 'decade') {
-    throw new RangeError(`${where}: options.spacing must be "octave" or "decade", got ${describeValue(spacing)}`);
+  if (spacing !== 'octave' && spacing !== 'decade' && spacing !== '1-2-5') {
+    throw new RangeError(`${where}: options.spacing must be "octave", "decade" or "1-2-5", got ${describeValue(spacing)}`);
   }
   const mMax = largestSweepFactor(phasePoints);
   if (mMax < 1) {

@@ -57,7 +57,7 @@ describe('the soak report labels its numbers', () => {
     // one after the other: both write their scenario and campaign into `work`
     assumed = await soak('assumed');
     given = await soak('given', 10e6);
-  });
+  }, 120_000); // two soaks one after the other: seconds each on a loaded machine
 
   afterAll(() => {
     if (work) rmSync(work, { recursive: true, force: true });

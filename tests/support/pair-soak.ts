@@ -12,13 +12,14 @@ const bin = join(root, 'bin/syncring.js');
  * Adler, Proc. IRE 34, 1946: locked while |dw| <= K), applied once the pair has locked (a short
  * lock window, 5 slow units). Runs in about a second. The scenario gives no nominal frequency
  * unless `nominalFrequencyHz` is passed; `uncoupledReference` adds the uncoupled twin (and with
- * it the single-part stability series).
+ * it the single-part stability series); `stability` adds fields to the campaign's stability
+ * section (a mask, mustMeetMask).
  */
 export function runPairSoak(
   dir: string,
   out: string,
-  options: { uncoupledReference?: boolean; nominalFrequencyHz?: number } = {},
-): Promise<{ code: number; stdout: string }> {
+  options: { uncoupledReference?: boolean; nominalFrequencyHz?: number; stability?: Record<string, unknown> } = {},
+): Promise<{ code: number; stdout: string; stderr: string }> {
   const scenario = join(dir, 'pair.json');
   const given = options.nominalFrequencyHz === undefined ? {} : { nominalFrequencyHz: options.nominalFrequencyHz };
   writeFileSync(scenario, JSON.stringify({ ...adlerPairScenario(), ...given }));
@@ -29,7 +30,7 @@ export function runPairSoak(
       name: 'half the locking limit',
       detector: { lockWindow: 5 },
       faults: [{ id: 'half-limit', start: 2000, action: 'set-detuning', params: { node: 0, delta: 0.025 }, duration: 1500 }],
-      stability: { uncoupledReference: options.uncoupledReference ?? false },
+      stability: { uncoupledReference: options.uncoupledReference ?? false, ...options.stability },
     }),
   );
   return new Promise((resolve) => {
@@ -37,7 +38,7 @@ export function runPairSoak(
       'node',
       [bin, 'soak', scenario, '--campaign', campaign, '--until', '6000', '--out', out],
       { cwd: root, timeout: 60_000 },
-      (error, stdout) => resolve({ code: error ? ((error as { code?: number }).code ?? -1) : 0, stdout }),
+      (error, stdout, stderr) => resolve({ code: error ? ((error as { code?: number }).code ?? -1) : 0, stdout, stderr }),
     );
   });
 }

@@ -141,3 +141,37 @@ describe('campaign format', () => {
     expect(c.faults[0].start).toBeCloseTo(20 * Math.PI, 9);
   });
 });
+
+describe('campaign stability.mask', () => {
+  const points = [
+    [1e-6, 1e-9],
+    [1e-3, 1e-8],
+  ];
+  test('an inline mask, required by default; a built-in name; reported only with mustMeetMask false', () => {
+    const inline = parseCampaign({ ...fault({}), stability: { mask: { name: 'invented', metric: 'mtie', points } } }, ring);
+    expect(inline.stability.mask?.metric).toBe('mtie');
+    expect(inline.stability.mustMeetMask).toBe(true);
+    const named = parseCampaign({ ...fault({}), stability: { mask: 'invented-demo-tdev-mask', mustMeetMask: false } }, ring);
+    expect(named.stability.mask?.name).toMatch(/invented/);
+    expect(named.stability.mustMeetMask).toBe(false);
+    const none = parseCampaign(fault({}), ring);
+    expect(none.stability.mask).toBeNull();
+    expect(none.stability.mustMeetMask).toBe(false);
+  });
+
+  test('errors name the field under stability.mask', () => {
+    expect(errorOf({ ...fault({}), stability: { mask: { name: 'x', metric: 'tdev', points: [[1, -2]] } } }).message).toMatch(
+      /c\.json: stability\.mask\.points\[0\]\[1\]/,
+    );
+    expect(errorOf({ ...fault({}), stability: { mask: { name: 'x', metric: 'adev', points } } }).message).toMatch(
+      /stability\.mask\.metric/,
+    );
+    expect(errorOf({ ...fault({}), stability: { mask: 'no-such-mask' } }).message).toMatch(
+      /stability\.mask: no built-in mask "no-such-mask"/,
+    );
+    expect(errorOf({ ...fault({}), stability: { mustMeetMask: true } }).message).toMatch(/stability\.mustMeetMask: needs a mask/);
+    expect(errorOf({ ...fault({}), stability: { mask: { name: 'x', metric: 'tdev', points }, mustMeetMask: 'yes' } }).message).toMatch(
+      /stability\.mustMeetMask/,
+    );
+  });
+});

@@ -109,4 +109,76 @@ describe('stability analysis of a soak record', () => {
     ]);
     expect(report.note).toMatch(/stopped after 50 samples/);
   });
+
+  test('a mask judges the array output only: a crossing there fails with its tau; a crossing of the single part does not count', () => {
+    // array output: white FM phase (random walk) of 1e-12 s per sample; single part 100 times noisier
+    const random = new Random(12);
+    let a = 0;
+    let p = 0;
+    const toPhase = (x: number) => 2 * Math.PI * f0 * x;
+    const record = samples(2000, () => {
+      a += 1e-12 * random.normal();
+      p += 1e-10 * random.normal();
+      return [toPhase(a), toPhase(a), toPhase(p), toPhase(p)];
+    });
+    const flat = (limit: number) => ({
+      name: `flat ${limit}`,
+      metric: 'tdev' as const,
+      points: [
+        [1e-4, limit],
+        [10, limit],
+      ] as [number, number][],
+    });
+    const tdevOf = (r: ReturnType<typeof analyzeStability>, name: string) =>
+      r!.series.find((s) => s.name === name)!.sweep.series.tdev!.deviation;
+    const plain = analyzeStability(record, tau0, f0)!;
+    const arrayMax = Math.max(...tdevOf(plain, 'ensemble'));
+    const singleMax = Math.max(...tdevOf(plain, 'singlePart'));
+    expect(singleMax).toBeGreaterThan(10 * arrayMax);
+    // a limit between the two: met by the array output, crossed by the single part
+    const between = analyzeStability(record, tau0, f0, { mask: flat(2 * arrayMax) })!;
+    expect(between.mask!.pass).toBe(true);
+    expect(between.mask!.judged).toBe('ensemble');
+    expect(between.mask!.margin.factor).toBeCloseTo(2, 9);
+    expect(between.series.find((s) => s.name === 'singlePart')!.mask!.meets).toBe(false);
+    expect(between.mask!.caution).toMatch(/not a compliance test/);
+    // a limit below the array output's largest TDEV: crossed where that value is
+    const below = analyzeStability(record, tau0, f0, { mask: flat(arrayMax / 2) })!;
+    expect(below.mask!.pass).toBe(false);
+    expect(below.mask!.margin.tau).toBe(plain.series[0].sweep.tau[tdevOf(plain, 'ensemble').indexOf(arrayMax)]);
+    expect(below.mask!.reason).toMatch(/the array output's TDEV exceeds mask "flat/);
+    // a mask wholly beyond the record's taus cannot be met
+    const beyond = analyzeStability(record, tau0, f0, {
+      mask: {
+        name: 'far',
+        metric: 'mtie',
+        points: [
+          [100, 1],
+          [1000, 1],
+        ],
+      },
+    })!;
+    expect(beyond.mask!.pass).toBe(false);
+    expect(beyond.mask!.reason).toMatch(/no tau of the record .* falls inside the mask's range/);
+  });
+
+  test('every overlapping ADEV value carries an interval; the headline ratio marks taus not fit for it', () => {
+    const random = new Random(3);
+    let a = 0;
+    const record = samples(600, () => {
+      a += random.normal();
+      return [a, a, a, a];
+    });
+    const r = analyzeStability(record, tau0, f0)!;
+    const s = r.series[0];
+    expect(s.intervals.oadev!.length).toBe(s.sweep.m.length);
+    expect(s.noise.length).toBe(s.sweep.m.length);
+    const last = s.intervals.oadev!.length - 1;
+    // m = 128 of 600 points: floor(599 / 128) - 1 = 3 independent terms
+    expect(s.sweep.m[last]).toBe(128);
+    expect(s.intervals.oadev![last].reliable).toBe(false);
+    expect(r.ratioToSinglePart!.reliable!.node[last]).toBe(false);
+    expect(r.ratioToSinglePart!.reliable!.node[0]).toBe(true);
+    expect(s.oadevFit.toTau).toBeLessThan(s.sweep.tau[last]);
+  });
 });

@@ -4,21 +4,10 @@
  * them are published, are listed in docs/model.md, 'Reference values'.
  */
 import { describe, expect, it } from 'vitest';
+import { nistTestSet } from '../../support/nist-test-set.js';
 import { adev, hdev, hdevNonOverlapping, mdev, oadev, summarize, tdev } from '../../../src/stability/index.js';
 
-/** NIST SP 1065 generator: n_0 = 1234567890, n_{i+1} = 16807 n_i mod (2^31 - 1), value n_i / (2^31 - 1). */
-function nistSeries(count: number): Float64Array {
-  const modulus = 2147483647;
-  const values = new Float64Array(count);
-  let n = 1234567890;
-  for (let i = 0; i < count; i++) {
-    values[i] = n / modulus;
-    n = (16807 * n) % modulus; // the product stays below 2^53, so it is exact
-  }
-  return values;
-}
-
-const y = nistSeries(1000);
+const y = nistTestSet(1000);
 const asFrequency = { input: 'frequency' } as const;
 /** Rounds to the 7 significant digits the table prints. */
 const sevenDigits = (v: number): number => Number(v.toPrecision(7));

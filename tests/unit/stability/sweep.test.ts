@@ -101,7 +101,7 @@ describe('stabilitySweep', () => {
     );
     expect(() => stabilitySweep(y, 1, { metrics: [] })).toThrow(/options\.metrics must be a non-empty list/);
     expect(() => stabilitySweep(y, 1, { metrics: ['adev'], spacing: 'third' as 'octave' })).toThrow(
-      /options\.spacing must be "octave" or "decade", got "third"/,
+      /options\.spacing must be "octave", "decade" or "1-2-5", got "third"/,
     );
   });
 
