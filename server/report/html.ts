@@ -10,6 +10,8 @@ import { describePerturbation } from '../../src/session/perturbation.js';
 import { PASS_CAUTION, PASS_CAUTION_SHORT, SIMULATION_CAUTION, STABILITY_CAUTION } from '../../src/campaign/cautions.js';
 import { ASSUMED_FREQUENCY_NOTE, ASSUMED_FREQUENCY_TAG } from '../../src/scenario/units.js';
 import type { ReportData } from './report-data.js';
+import type { NoiseOutput } from '../../src/protocol/noise-output.js';
+import { predictedAt } from './noise-prediction.js';
 import { maskParagraph } from './stability-html.js';
 import { intervalCaption, intervalTable, maskCurve, slopeGuides, stabilityCurve } from './stability-plots.js';
 import { PALETTE, decimateMinMax, esc, linePlot, type PlotBand, type PlotSeries } from './svg-plot.js';
@@ -26,6 +28,15 @@ const SERIES_SHORT: Record<PhaseSeriesName, string> = {
   uncoupledEnsemble: 'uncoupled ensemble average',
   singlePart: 'single free-running part',
 };
+/** Which curve of the noise analysis each soak series is: the uncoupled ensemble averages N independent parts. */
+const PREDICTED_CURVE: Record<PhaseSeriesName, (t: NoiseOutput['adev'], nodes: number) => number[]> = {
+  ensemble: (t) => t.array,
+  node: (t) => t.nodes[0],
+  uncoupledEnsemble: (t, nodes) => t.uncoupled.map((v) => v / Math.sqrt(nodes)),
+  singlePart: (t) => t.uncoupled,
+};
+/** Decade taus of the noise table (s): from a carrier period's scale up to a day and beyond. */
+const PREDICTED_TABLE_TAUS = [1e-3, 1e-2, 0.1, 1, 10, 100, 1e3, 1e4, 1e5];
 const PLOT_POINTS = 1500;
 const OVERLAY_COLOR = '#7048a8';
 
@@ -54,6 +65,7 @@ export function reportHtml(d: ReportData): string {
     d.problems ? `<section class="problems"><h2>Log problems</h2><pre>${esc(d.problems)}</pre></section>` : '',
     keyNumbers(d),
     `<section><h2>Frequency stability</h2>${stabilityPlots(d)}</section>`,
+    `<section><h2>Noise at every time scale</h2>${noiseSection(d)}</section>`,
     `<section><h2>Phase and time error over the soak</h2>${timePlots(d, unit)}</section>`,
     `<section><h2>Verdicts</h2>${verdictTable(d, unit)}</section>`,
     `<section><h2>Stability tables</h2>${stabilityTables(d)}</section>`,
@@ -201,6 +213,22 @@ function stabilityPlots(d: ReportData): string {
   const anchor = series.find((s) => s.name === 'singlePart') ?? series[0];
   const tau0 = anchor.sweep.tau[0];
   const tauMax = anchor.sweep.tau[anchor.sweep.tau.length - 1] * 1.5;
+  const predicted = d.prediction.output;
+  if (predicted) {
+    const nodes = predicted.phaseNoise.nodes.length;
+    const inRange = predicted.adev.tau.map((t, i) => [t, i] as const).filter(([t]) => t >= tau0 / 1.5 && t <= tauMax);
+    for (const s of series) {
+      const values = PREDICTED_CURVE[s.name](predicted.adev, nodes);
+      adev.push({
+        name: `${SERIES_SHORT[s.name]}, predicted`,
+        color: SERIES_COLORS[s.name],
+        x: inRange.map(([t]) => t),
+        y: inRange.map(([, i]) => values[i]),
+        dash: '7 4',
+        width: 1.2,
+      });
+    }
+  }
   const y0 = anchor.sweep.series.oadev!.deviation[0];
   const guides = slopeGuides(tau0, tauMax, y0);
   const all = adev.flatMap((c) => Array.from(c.y)).filter((v) => v > 0);
@@ -242,6 +270,9 @@ function stabilityPlots(d: ReportData): string {
         `so the curves show noise and faults together.${ratioNote} ${intervalCaption(anchor.confidence ?? 0.6827)}` +
         (d.overlay
           ? ` Dotted: ${d.overlay.label} (${d.overlay.kind === 'soak' ? 'another soak' : 'a measured file'}, ${d.overlay.source}).`
+          : '') +
+        (predicted
+          ? ' Thin dashed, in the same colours: what the linear noise analysis of the locked pattern predicts for each series (section "Noise at every time scale").'
           : ''),
       true,
     ),
@@ -256,6 +287,64 @@ function stabilityPlots(d: ReportData): string {
       true,
     ),
   ].join('');
+}
+
+/**
+ * The linear noise analysis of the soaked scenario (`syncring noise`): the averaging times a soak
+ * cannot reach, and how the soak's own values compare with it where they overlap.
+ */
+function noiseSection(d: ReportData): string {
+  const p = d.prediction;
+  if (!p.output) return `<p data-testid="noise-unavailable">No noise analysis for this scenario: ${esc(p.unavailable)}.</p>`;
+  const n = p.output;
+  const sci = (v: number | null) => (v === null || !Number.isFinite(v) ? '-' : v.toExponential(2));
+  const rows = PREDICTED_TABLE_TAUS.map((tau) => {
+    const cell = (values: number[]) => `<td class="num">${sci(predictedAt(n.adev.tau, values, tau))}</td>`;
+    return `<tr><td class="num">${seconds(tau)}</td>${cell(n.adev.array)}${cell(n.adev.nodes[0])}${cell(n.adev.uncoupled)}${cell(n.tdev.array.map((v) => v * 1e9))}</tr>`;
+  }).join('');
+  const agreement = soakAgainstPrediction(d, n);
+  return [
+    `<p class="facts" data-testid="noise-facts">Linear analysis of the guiding system at pattern ${n.pattern.index} (${esc(n.pattern.kind)}, mode ${n.pattern.mode}), ` +
+      `the pattern the scenario's start settles into: the array output is ${n.arrayImprovementDb.toFixed(2)} dB below one part alone at low offsets, ` +
+      `each node ${n.nodeImprovementDb.toFixed(2)} dB` +
+      (n.lockingBandwidthHz !== null ? `, below a locking bandwidth of ${fmtHz(n.lockingBandwidthHz)}` : '') +
+      `. Valid while the pattern stays locked and the noise is small, and above tau = ${seconds(1 / n.averagedModelLimitHz)} ` +
+      `(offsets below ${fmtHz(n.averagedModelLimitHz)}), where the averaged model holds.${assumed(d)}</p>`,
+    caution(n.caution, 'noise-caution'),
+    `<div class="wide-table"><table data-testid="noise-table"><thead><tr><th class="num">tau</th><th class="num">ADEV array</th>` +
+      `<th class="num">ADEV node 0</th><th class="num">ADEV one part</th><th class="num">TDEV array (ns)</th></tr></thead><tbody>${rows}</tbody></table></div>`,
+    agreement,
+    n.warnings.length > 0 ? `<ul>${n.warnings.map((w) => `<li>${esc(w)}</li>`).join('')}</ul>` : '',
+  ].join('');
+}
+
+/** Where the soak's ADEV values are fit for it, how far they sit from the prediction, in units of their own interval. */
+function soakAgainstPrediction(d: ReportData, n: NoiseOutput): string {
+  const st = d.stability;
+  if (!st) return '';
+  const shortest = 1 / n.averagedModelLimitHz;
+  const nodes = n.phaseNoise.nodes.length;
+  let compared = 0;
+  let inside = 0;
+  for (const s of st.series) {
+    const intervals = s.intervals?.oadev;
+    if (!intervals) continue;
+    const values = PREDICTED_CURVE[s.name](n.adev, nodes);
+    s.sweep.tau.forEach((tau, i) => {
+      const iv = intervals[i];
+      const expected = predictedAt(n.adev.tau, values, tau);
+      if (tau < shortest || !iv.usedInFits || iv.low === null || iv.high === null || expected === null) return;
+      compared++;
+      if (expected >= iv.low && expected <= iv.high) inside++;
+    });
+  }
+  if (compared === 0) return "<p>No soak value is both reliable and inside the analysis's range, so none is compared.</p>";
+  const level = ((st.series[0].confidence ?? 0.6827) * 100).toFixed(1);
+  return (
+    `<p data-testid="noise-agreement">Of the soak's ${compared} reliable ADEV values inside the analysis's range, ${inside} have the prediction ` +
+    `inside their ${level} % interval (about ${level} % are expected to by chance alone). The record includes the faults, which raise ` +
+    "the soak's values at the taus they span; the prediction is for the locked pattern undisturbed.</p>"
+  );
 }
 
 function timePlots(d: ReportData, unit: ReturnType<typeof unitText>): string {

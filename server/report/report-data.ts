@@ -11,6 +11,7 @@ import {
 import { builtInMaskNames, builtInMaskRaw } from '../../src/scenarios/masks.js';
 import { parseMask } from '../../src/stability/index.js';
 import { analyzeMeasuredFile } from './measured-file.js';
+import { predictSoakNoise, type ReportNoisePrediction } from './noise-prediction.js';
 import { DEFAULT_NOMINAL_FREQUENCY_HZ, tauToSeconds } from '../../src/scenario/units.js';
 import { UsageError } from '../usage-error.js';
 import { describeProblems, readSoakLog, soakHeaderOf } from '../soak/resume.js';
@@ -42,6 +43,8 @@ export interface ReportData {
   lastTau: number;
   /** A second soak's array output or a measured file, drawn on the ADEV plot. */
   overlay: ReportOverlay | null;
+  /** The linear noise analysis of the soaked scenario, drawn beside the soak's statistics. */
+  prediction: ReportNoisePrediction;
 }
 
 export interface ReportOverlay {
@@ -107,6 +110,7 @@ export function loadReportData(dir: string, options: ReportOptions = {}): Report
     problems: read.problems.length > 0 ? describeProblems(read) : null,
     lastTau,
     overlay: options.overlay === undefined ? null : loadOverlay(options),
+    prediction: predictSoakNoise(header.scenario),
   };
 }
 

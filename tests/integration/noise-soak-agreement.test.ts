@@ -8,6 +8,7 @@ import { parseScenario } from '../../src/scenario/parse.js';
 import type { NoiseOutput } from '../../src/protocol/noise-output.js';
 import type { DeviationInterval } from '../../src/stability/confidence.js';
 import { chiSquaredInterval } from '../../src/stability/confidence.js';
+import { predictedAt } from '../../server/report/noise-prediction.js';
 
 /**
  * The frequency-domain analysis (`syncring noise`, linear analysis of the guiding system) against
@@ -52,24 +53,24 @@ interface SoakSeries {
   intervals: Record<string, DeviationInterval[]>;
 }
 
-/** log-log interpolation of a predicted deviation table at tau. */
-function predictedAt(taus: readonly number[], values: readonly number[], tau: number): number {
-  const i = taus.findIndex((t, k) => t <= tau && tau <= taus[k + 1]);
-  if (i < 0) throw new Error(`tau ${tau} is outside the predicted table`);
-  const a = Math.log(tau / taus[i]) / Math.log(taus[i + 1] / taus[i]);
-  return Math.exp(Math.log(values[i]) * (1 - a) + Math.log(values[i + 1]) * a);
+/** The predicted value at tau; the tables cover the soak's taus, so a miss is a defect of the test. */
+function predictedValue(taus: readonly number[], values: readonly number[], tau: number): number {
+  const value = predictedAt(taus, values, tau);
+  if (value === null) throw new Error(`tau ${tau} is outside the predicted table`);
+  return value;
 }
 
 describe('noise analysis against a soak of the same scenario', () => {
   let work: string;
   let series: SoakSeries[];
   let predicted: NoiseOutput;
+  let out: string;
 
   beforeAll(async () => {
     work = mkdtempSync(join(tmpdir(), 'syncring-agreement-'));
     writeFileSync(join(work, 'ring.json'), JSON.stringify(scenario));
     writeFileSync(join(work, 'campaign.json'), JSON.stringify(campaign));
-    const out = join(work, 'soak');
+    out = join(work, 'soak');
     await new Promise<void>((resolve, reject) =>
       execFile(
         'node',
@@ -111,7 +112,7 @@ describe('noise analysis against a soak of the same scenario', () => {
           const interval = s.intervals[metric][i];
           if (tau < shortest || !interval.usedInFits || interval.edf === null) return;
           const measured = s.sweep.series[metric].deviation[i];
-          const expected = predictedAt(table.tau, curves[s.name](table), tau);
+          const expected = predictedValue(table.tau, curves[s.name](table), tau);
           const { low, high } = chiSquaredInterval(measured, interval.edf, LEVEL);
           compared++;
           weighted.push({ logRatio: Math.log(measured / expected), edf: interval.edf });
@@ -143,7 +144,7 @@ describe('noise analysis against a soak of the same scenario', () => {
     const node = series.find((s) => s.name === 'node')!;
     const part = series.find((s) => s.name === 'singlePart')!;
     const ratioAt = (tau: number) =>
-      predictedAt(predicted.adev.tau, predicted.adev.nodes[0], tau) / predictedAt(predicted.adev.tau, predicted.adev.uncoupled, tau);
+      predictedValue(predicted.adev.tau, predicted.adev.nodes[0], tau) / predictedValue(predicted.adev.tau, predicted.adev.uncoupled, tau);
     // where the prediction has a node well on its way to 1 / sqrt(N) of a part (0.5 for four)
     const longTaus = node.sweep.tau.filter(
       (tau, i) => tau > 1 / (2 * Math.PI * bandwidth) && ratioAt(tau) < 0.65 && node.intervals.oadev[i].usedInFits,
@@ -163,4 +164,28 @@ describe('noise analysis against a soak of the same scenario', () => {
       expect(predictedRatio / measuredRatio).toBeLessThan(reach);
     }
   });
+
+  test('the soak report draws the prediction beside the soak and counts the agreement', async () => {
+    await new Promise<void>((resolve, reject) =>
+      execFile('node', [bin, 'report', out], { cwd: root, timeout: 120_000 }, (error) => (error ? reject(error) : resolve())),
+    );
+    const html = readFileSync(join(out, 'report.html'), 'utf8');
+    expect(html).toMatch(/<h2>Noise at every time scale<\/h2>/);
+    expect(html).toMatch(/data-testid="noise-facts">Linear analysis of the guiding system at pattern \d+ \(in-phase/);
+    expect(html).toContain('array output, predicted');
+    expect(html).toContain('single free-running part, predicted');
+    // nine decade rows, 1 ms .. 1e5 s, each with the array 10 log10 4 dB = a factor 2 below one part at long taus
+    const rows = [
+      ...html.matchAll(
+        /<tr><td class="num">([^<]+)<\/td><td class="num">([^<]+)<\/td><td class="num">([^<]+)<\/td><td class="num">([^<]+)<\/td>/g,
+      ),
+    ].filter((m) => html.indexOf(m[0]) > html.indexOf('data-testid="noise-table"'));
+    expect(rows.length).toBeGreaterThanOrEqual(9);
+    const last = rows[8];
+    expect(Number(last[4]) / Number(last[2])).toBeCloseTo(2, 1);
+    const agreement = /Of the soak's (\d+) reliable ADEV values inside the analysis's range, (\d+) have the prediction/.exec(html);
+    expect(agreement).not.toBeNull();
+    expect(Number(agreement![1])).toBeGreaterThan(10);
+    expect(html).toMatch(/data-testid="noise-caution"/);
+  }, 180_000);
 });
