@@ -56,6 +56,8 @@ const YARDSTICK_STEPS = 8;
 const YARDSTICK_TRIALS = 5;
 const YARDSTICK_TRIAL_SECONDS = 0.5;
 const TARGET_YARDSTICK_RATIO = 0.8;
+/** The TypeScript RK4 kernel against the same algorithm in C (issue 16, goal 1). */
+const TARGET_KERNEL_RATIO = 0.5;
 /** C and TypeScript RK4 differ only in rounding (libm, FMA contraction): ~1e-12 (from the brief). */
 const TARGET_AGREEMENT = 1e-12;
 const SCIPY_TOLERANCES = [1e-10, 1e-11, 1e-12, 1e-13];
@@ -288,10 +290,13 @@ function benchYardstick() {
       agreementWithTypeScriptRk4: agreement,
       errorAfter1000Periods: relativeError(Float64Array.from(check.state), reference.state),
       typeScriptRk4PeriodsPerSecond: sameMethodTs,
+      /** the same method (RK4, same steps) in TypeScript over C, wall and CPU */
+      kernelSpeedRatio: sameMethodTs.best / speed.periodsPerSecond,
+      kernelCpuSpeedRatio: sameMethodTs.bestCpu / speed.cpuPeriodsPerSecond,
       /** micro stepper (its default method) over C, wall and CPU */
       speedRatio: microSpeed.best / speed.periodsPerSecond,
       cpuSpeedRatio: microSpeed.bestCpu / speed.cpuPeriodsPerSecond,
-      targets: { speedRatio: TARGET_YARDSTICK_RATIO, agreement: TARGET_AGREEMENT },
+      targets: { speedRatio: TARGET_YARDSTICK_RATIO, kernelSpeedRatio: TARGET_KERNEL_RATIO, agreement: TARGET_AGREEMENT },
     };
   } finally {
     compiled.dispose();
@@ -491,6 +496,12 @@ function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: 
         `${n(y.typeScriptRk4PeriodsPerSecond.best)} | ${n(y.typeScriptRk4PeriodsPerSecond.bestCpu)}`,
         '-',
         '',
+      ],
+      [
+        `  TypeScript RK4 / C yardstick (same method, ${y.stepsPerPeriod} steps), periods per wall | CPU second`,
+        `${y.kernelSpeedRatio.toFixed(3)}x | ${y.kernelCpuSpeedRatio.toFixed(3)}x`,
+        `CPU >= ${TARGET_KERNEL_RATIO}`,
+        verdict(y.kernelCpuSpeedRatio >= TARGET_KERNEL_RATIO),
       ],
       [
         '  micro stepper / C yardstick, periods per wall second',
