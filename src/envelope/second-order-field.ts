@@ -194,11 +194,11 @@ export class SecondOrderField {
       const cos = torus.pointCos[p];
       const sin = torus.pointSin[p];
       for (let i = 0; i < size; i++) probe[i] = y[i] - step * correction[base + i];
-      field.evaluate(cos, sin, probe, out1);
+      field.evaluatePrepared(cos, sin, probe, out1);
       for (let i = 0; i < size; i++) probe[i] = y[i] + step * correction[base + i];
-      field.evaluate(cos, sin, probe, out2);
+      field.evaluatePrepared(cos, sin, probe, out2);
       for (let i = 0; i < size; i++) probe[i] = y[i] + 2 * step * correction[base + i];
-      field.evaluate(cos, sin, probe, out3);
+      field.evaluatePrepared(cos, sin, probe, out3);
       this.fieldEvaluations += 3;
       const weight = 1 / (6 * step);
       for (let i = 0; i < size; i++) {
@@ -284,7 +284,8 @@ export class SecondOrderField {
   /** f at every torus point into `samples`. */
   private sample(y: Float64Array): void {
     const { torus, sampleRows, field } = this;
-    for (let p = 0; p < torus.points; p++) field.evaluate(torus.pointCos[p], torus.pointSin[p], y, sampleRows[p]);
+    field.prepare();
+    for (let p = 0; p < torus.points; p++) field.evaluatePrepared(torus.pointCos[p], torus.pointSin[p], y, sampleRows[p]);
     this.fieldEvaluations += torus.points;
   }
 }

@@ -46,13 +46,15 @@ export class TorusAverage {
   evaluate(y: Float64Array, out: Float64Array): void {
     const m = this.params.modes;
     out.fill(0);
+    // One parameter snapshot for all points; each point adds 1 F to the sum in the kernel's own
+    // pass (out + 1 F is out + F exactly), its `next` output (y + 0 F) is scratch.
+    this.field.prepare();
     for (let p = 0; p < this.points; p++) {
       for (let j = 0; j < m; j++) {
         this.cos[j] = this.cosTable[p * m + j];
         this.sin[j] = this.sinTable[p * m + j];
       }
-      this.field.evaluate(this.cos, this.sin, y, this.sample);
-      for (let i = 0; i < out.length; i++) out[i] += this.sample[i];
+      this.field.combinePrepared(this.cos, this.sin, y, y, 0, this.sample, out, 1, out);
     }
     const scale = 1 / this.points;
     for (let i = 0; i < out.length; i++) out[i] *= scale;

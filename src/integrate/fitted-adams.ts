@@ -196,6 +196,8 @@ export class FittedAdamsScheme {
     for (let j = 0; j < this.k; j++) this.stepWeights[j] = eps * h * weights.step[j];
     const { field, angles, size, offsets, slots, history, stepWeights } = this;
     const k = this.k;
+    // parameters change only between runs: one snapshot for the whole run (SlowField.prepare)
+    field.prepare();
     let head = this.rebuildHistory(y, tau0, h, weights.back);
     let evaluations = this.rebuildEvaluations;
     angles.setStep(h);
@@ -204,7 +206,7 @@ export class FittedAdamsScheme {
       if (step > 0) {
         // The newest sample of the first step came with the rebuilt history.
         head = head + 1 === k ? 0 : head + 1;
-        field.evaluate(angles.cos, angles.sin, y, slots[head]);
+        field.evaluatePrepared(angles.cos, angles.sin, y, slots[head]);
         evaluations++;
       }
       for (let j = 0, slot = head; j < k; j++, slot = slot === 0 ? k - 1 : slot - 1) offsets[j] = slot * size;
@@ -230,7 +232,7 @@ export class FittedAdamsScheme {
     const scale = params.epsilon * h;
     for (let j = 0; j < k; j++) {
       this.pastAngles(tau0 - j * h);
-      field.evaluate(this.cosPast, this.sinPast, y, guessSlots[j]);
+      field.evaluatePrepared(this.cosPast, this.sinPast, y, guessSlots[j]);
     }
     slots[0].set(guessSlots[0]);
     for (let l = 0; l < k; l++) guessOffsets[l] = l * size;
@@ -242,7 +244,7 @@ export class FittedAdamsScheme {
         if (k === 11) addWeightedSum11(trial, guesses, guessOffsets, rowWeights, size);
         else addWeightedSum(trial, guesses, guessOffsets, rowWeights, size, k);
         this.pastAngles(tau0 - j * h);
-        field.evaluate(this.cosPast, this.sinPast, trial, slots[k - j]);
+        field.evaluatePrepared(this.cosPast, this.sinPast, trial, slots[k - j]);
       }
     }
     return 0;

@@ -32,13 +32,14 @@ export class Rk4Scheme {
     const { cos, sin } = angles;
     angles.setStep(0.5 * h);
     angles.reset(tau0);
+    field.prepare();
     for (let step = 0; step < steps; step++) {
-      field.combine(cos, sin, y, y, half, trial, y, sixth, sum);
+      field.combinePrepared(cos, sin, y, y, half, trial, y, sixth, sum);
       angles.advance();
-      field.combine(cos, sin, trial, y, half, trial, sum, third, sum);
-      field.combine(cos, sin, trial, y, full, trial, sum, third, sum);
+      field.combinePrepared(cos, sin, trial, y, half, trial, sum, third, sum);
+      field.combinePrepared(cos, sin, trial, y, full, trial, sum, third, sum);
       angles.advance();
-      field.combine(cos, sin, trial, y, 0, trial, sum, sixth, y);
+      field.combinePrepared(cos, sin, trial, y, 0, trial, sum, sixth, y);
       if ((step + 1) % CarrierAngles.RESEED_STEPS === 0) angles.reset(tau0 + (step + 1) * h);
     }
     return 4 * steps;

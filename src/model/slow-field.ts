@@ -1,4 +1,5 @@
 import type { ModelParameters } from './parameters.js';
+import { MAX_NODES, RING_CONSTANTS, RING_PER_NODE, ringTwoModes } from './ring-kernel.js';
 
 /** Above this in-degree a node's links are summed through the general CSR lists. */
 const SLOTS = 2;
@@ -33,6 +34,15 @@ export class SlowField {
   private readonly linkA: Int32Array;
   private readonly linkB: Int32Array;
   private readonly slotted: boolean;
+  /** The slots form a ring (slot A = node k - 1, slot B = node k + 1, or k itself one-way): ring-kernel.ts runs it. */
+  private readonly ring: 'two-way' | 'one-way' | null;
+  /** The ring kernel's snapshot of the parameters (ring-kernel.ts), taken by `prepare`. */
+  private readonly ringData: Float64Array;
+  /** The ring kernel's base and running sum when only F is wanted. */
+  private readonly zeros: Float64Array;
+  private readonly discard: Float64Array;
+  /** a and b of the ring kernel's call. */
+  private readonly stageWeights = new Float64Array(2);
 
   constructor(readonly params: ModelParameters) {
     const n = params.nodes;
@@ -55,19 +65,55 @@ export class SlowField {
       this.linkB[k] = degree > 1 ? params.inLink[first + 1] : 0;
     }
     this.slotted = slotted;
+    this.ring = slotted && params.modes === 2 && n <= MAX_NODES ? ringKind(this.fromA, this.fromB) : null;
+    this.ringData = new Float64Array(this.ring ? RING_CONSTANTS + RING_PER_NODE * n : 0);
+    this.zeros = new Float64Array(this.ring ? size : 0);
+    this.discard = new Float64Array(this.ring ? size : 0);
+  }
+
+  /**
+   * Take the snapshot of the mutable parameters that `evaluatePrepared` and `combinePrepared`
+   * read. A scheme calls it once per run (parameters change only between runs) and saves
+   * reading them node by node in every evaluation; `evaluate` takes it itself.
+   */
+  prepare(): void {
+    if (!this.ring) return;
+    const p = this.params;
+    const data = this.ringData;
+    data[0] = p.omega[0];
+    data[1] = p.omega[1];
+    data[2] = p.gain[0];
+    data[3] = p.gain[1];
+    data[4] = p.loss[0];
+    data[5] = p.loss[1];
+    data[6] = p.strength * p.reactive;
+    data[7] = p.strength * p.dissipative;
+    for (let k = 0; k < p.nodes; k++) {
+      const d = RING_CONSTANTS + RING_PER_NODE * k;
+      data[d] = p.linkWeight[this.linkA[k]];
+      data[d + 1] = this.ring === 'one-way' ? 0 : p.linkWeight[this.linkB[k]];
+      data[d + 2] = p.detuning[k];
+    }
   }
 
   /** out = f(y, theta) where cos/sin hold cos(theta_j), sin(theta_j) per mode. */
   evaluate(cos: Float64Array, sin: Float64Array, y: Float64Array, out: Float64Array): void {
+    this.prepare();
+    this.run(cos, sin, y, out, 0, out, out, 0, out, true);
+  }
+
+  /** `evaluate` on the parameters as the last `prepare` saw them. */
+  evaluatePrepared(cos: Float64Array, sin: Float64Array, y: Float64Array, out: Float64Array): void {
     this.run(cos, sin, y, out, 0, out, out, 0, out, true);
   }
 
   /**
-   * One fused Runge-Kutta stage: with F = f(yIn, theta), write next = base + a F and
-   * accOut = accIn + b F, element by element. yIn is read completely before anything is
-   * written, so next may be yIn, and accOut may be accIn; base and accIn are read per element.
+   * One fused Runge-Kutta stage on the parameters as the last `prepare` saw them: with
+   * F = f(yIn, theta), write next = base + a F and accOut = accIn + b F, element by element.
+   * yIn is read completely before anything is written, so next may be yIn, and accOut may be
+   * accIn; base and accIn are read per element.
    */
-  combine(
+  combinePrepared(
     cos: Float64Array,
     sin: Float64Array,
     yIn: Float64Array,
@@ -94,6 +140,16 @@ export class SlowField {
     accOut: Float64Array,
     plain: boolean,
   ): void {
+    if (this.ring) {
+      // F itself is 0 + 1 F (the sign of an exact zero aside), with the sum thrown away.
+      const weights = this.stageWeights;
+      weights[0] = plain ? 1 : a;
+      weights[1] = plain ? 0 : b;
+      const n = this.params.nodes;
+      if (plain) ringTwoModes(n, this.ringData, cos, sin, yIn, this.zeros, next, this.zeros, this.discard, weights);
+      else ringTwoModes(n, this.ringData, cos, sin, yIn, base, next, accIn, accOut, weights);
+      return;
+    }
     this.computeMotion(cos, sin, yIn);
     const m = this.params.modes;
     if (this.slotted && m === 2) this.forcesTwoModes(cos, sin, base, a, next, accIn, b, accOut, plain);
@@ -329,4 +385,18 @@ export class SlowField {
       }
     }
   }
+}
+
+/** 'two-way' or 'one-way' if the slots form a ring of at least three nodes in ring order, else null. */
+function ringKind(fromA: Int32Array, fromB: Int32Array): 'two-way' | 'one-way' | null {
+  const n = fromA.length;
+  if (n < 3) return null;
+  let twoWay = true;
+  let oneWay = true;
+  for (let k = 0; k < n; k++) {
+    if (fromA[k] !== (k - 1 + n) % n) return null;
+    if (fromB[k] !== (k + 1) % n) twoWay = false;
+    if (fromB[k] !== k) oneWay = false;
+  }
+  return twoWay ? 'two-way' : oneWay ? 'one-way' : null;
 }

@@ -120,6 +120,11 @@ export class LockDetector {
   largestMove = 0;
   /** Largest excursion over the window (as far as it is filled) at the latest tick. */
   windowExcursion = 0;
+  /** Largest drift between the window's halves at the latest tick (0 with fewer than two ticks). */
+  windowDrift = 0;
+  /** Per-difference sums over the older and the newer half of the window (scratch of measureWindow). */
+  private readonly older: Float64Array;
+  private readonly newer: Float64Array;
   /** Cycle slips seen since the detector was made (never reset, so callers can count per span). */
   slips = 0;
 
@@ -133,6 +138,8 @@ export class LockDetector {
     this.history = new Float64Array(size * window);
     this.last = new Float64Array(size);
     this.offsets = new Float64Array(size);
+    this.older = new Float64Array(size);
+    this.newer = new Float64Array(size);
   }
 
   get locked(): boolean {
@@ -179,14 +186,14 @@ export class LockDetector {
     }
     const transientShape = shape !== this.label && this.shapeTicks < this.window;
     const oscillating = meanAmplitude > this.amplitudeFloor;
-    const excursion = this.excursion(differences);
-    this.windowExcursion = excursion;
+    this.measureWindow(differences);
+    const excursion = this.windowExcursion;
     const full = this.count === this.window;
     const steadyIdentity = this.candidateTicks >= this.window;
 
     // noise may spread the differences over the window; what matters is whether they still
     // move, which the drift between the window's halves measures
-    const drift = this.drift(differences);
+    const drift = this.windowDrift;
     const converged = full && drift < this.tolerance / 2;
 
     if (this.status === 'unlocked') {
@@ -231,37 +238,38 @@ export class LockDetector {
   }
 
   /**
-   * Largest drift of a phase difference over the window: the mean of the newer half minus the
-   * mean of the older half (each measured from the newest value, so wrapping does not matter).
-   * A steady move of d over the window drifts by d / 2; noise averages out of the means.
+   * Both window measures at once from the newest differences, in one pass over the window (the
+   * window holds up to thousands of ticks, and this runs every tick for two trackers):
+   * - drift: the largest drift of a phase difference over the window, the mean of the newer half
+   *   minus the mean of the older half (each measured from the newest value, so wrapping does not
+   *   matter). A steady move of d over the window drifts by d / 2; noise averages out of the means.
+   * - excursion: the largest excursion of any phase difference from its newest value.
+   * The sums run over the ticks oldest first for each difference, as a separate pass per
+   * difference would add them, so the results are the same to the bit.
    */
-  drift(newest: ArrayLike<number>): number {
+  private measureWindow(newest: ArrayLike<number>): void {
+    const { history, size, window, older, newer } = this;
     const n = this.count;
-    if (n < 2) return 0;
     const half = Math.floor(n / 2);
-    let worst = 0;
-    for (let k = 0; k < this.size; k++) {
-      let older = 0;
-      let newer = 0;
-      for (let i = 0; i < n; i++) {
-        const slot = (this.head - n + i + 2 * this.window) % this.window;
-        const d = wrapAngle(this.history[slot * this.size + k] - newest[k]);
-        if (i < half) older += d;
-        else newer += d;
+    older.fill(0);
+    newer.fill(0);
+    let excursion = 0;
+    // oldest tick first: slot (head - n + i) mod window
+    let slot = (this.head - n + 2 * window) % window;
+    for (let i = 0; i < n; i++) {
+      const row = slot * size;
+      const sums = i < half ? older : newer;
+      for (let k = 0; k < size; k++) {
+        const d = wrappedDifference(history[row + k] - newest[k]);
+        sums[k] += d;
+        excursion = Math.max(excursion, Math.abs(d));
       }
-      worst = Math.max(worst, Math.abs(newer / (n - half) - older / half));
+      slot = slot + 1 === window ? 0 : slot + 1;
     }
-    return worst;
-  }
-
-  /** Largest excursion of any phase difference from its newest value over the window. */
-  excursion(newest: ArrayLike<number>): number {
-    let worst = 0;
-    for (let t = 0; t < this.count; t++) {
-      const row = t * this.size;
-      for (let k = 0; k < this.size; k++) worst = Math.max(worst, Math.abs(wrapAngle(this.history[row + k] - newest[k])));
-    }
-    return worst;
+    let drift = 0;
+    if (n >= 2) for (let k = 0; k < size; k++) drift = Math.max(drift, Math.abs(newer[k] / (n - half) - older[k] / half));
+    this.windowExcursion = excursion;
+    this.windowDrift = drift;
   }
 
   /** Everything needed to continue exactly where it was (for checkpoints). */
@@ -341,4 +349,9 @@ export class LockDetector {
     for (let k = 1; k < this.size; k++) if (Math.abs(this.offsets[k]) > Math.abs(this.offsets[best])) best = k;
     return best;
   }
+}
+
+/** wrapAngle, with the common case (already in (-pi, pi), where wrapAngle returns its argument) first. */
+function wrappedDifference(d: number): number {
+  return d > -Math.PI && d < Math.PI ? d : wrapAngle(d);
 }

@@ -130,3 +130,48 @@ function runMicro(params: ModelParameters, start: Float64Array, steps: number, t
   stepper.advance(tauEnd);
   return stepper;
 }
+
+export interface EndToEndCase {
+  epsilon: number;
+  periods: number;
+  macroPeriods: number;
+  ticks: number;
+  ticksInEnvelope: number;
+  periodsPerSecond: number;
+  cpuPeriodsPerSecond: number;
+}
+
+/**
+ * The envelope as `syncring simulate --mode envelope` runs it: the scenario's default macro tick
+ * (defaultMacroPeriods, a hundredth of a slow time unit), so the per-tick guide, observables,
+ * lock detection and pattern work are all in the figure, with a frame callback per tick like the
+ * command's. Effective carrier periods per wall and per CPU second of runUntil, best of `trials`.
+ */
+export function benchEnvelopeEndToEnd(scenario: Scenario, tauEnd: number, trials: number): EndToEndCase {
+  let bestWall = Number.POSITIVE_INFINITY;
+  let bestCpu = Number.POSITIVE_INFINITY;
+  let session: CoSimulation | null = null;
+  for (let t = 0; t < trials; t++) {
+    const s = new CoSimulation(scenario, { integrator: 'envelope' });
+    let frames = 0;
+    const cpu = process.cpuUsage();
+    const t0 = performance.now();
+    s.runUntil(tauEnd, () => frames++);
+    const wall = (performance.now() - t0) / 1000;
+    const used = process.cpuUsage(cpu);
+    if (s.halted) throw new Error(`end-to-end envelope bench: the session halted: ${s.halted}`);
+    bestWall = Math.min(bestWall, wall);
+    bestCpu = Math.min(bestCpu, (used.user + used.system) / 1e6);
+    session = s;
+  }
+  const periods = tauEnd / TWO_PI;
+  return {
+    epsilon: scenario.epsilon,
+    periods,
+    macroPeriods: scenario.integrator.macroPeriods,
+    ticks: session!.tick,
+    ticksInEnvelope: session!.integrator.ticksIn.envelope,
+    periodsPerSecond: periods / bestWall,
+    cpuPeriodsPerSecond: periods / bestCpu,
+  };
+}

@@ -31,7 +31,7 @@ import { defaultMacroPeriods } from '../../src/scenario/index.js';
 import type { ModeState } from '../../src/scenario/types.js';
 import { makeScenario } from '../support/scenarios.js';
 import { OriginalRk4 } from './original-rk4.js';
-import { benchEnvelope } from './envelope.js';
+import { benchEnvelope, benchEnvelopeEndToEnd } from './envelope.js';
 import { compileYardstick } from './yardstick.js';
 import { runDop853, scipyUnavailable, scipyVersion } from './scipy.js';
 import { benchStreaming, type StreamingResult } from './streaming.js';
@@ -52,10 +52,16 @@ const ENVELOPE_EPSILONS = [1e-5, 1e-6, 1e-7];
 const ENVELOPE_REFERENCE_STEPS = 12;
 const TARGET_ENVELOPE_RATE = 1e7;
 const TARGET_ENVELOPE_ERROR = 1e-8;
+/** End to end as `simulate --mode envelope` runs it (issue 16, goal 4): eps, span in slow time, trials. */
+const END_TO_END_EPSILON = 1e-6;
+const END_TO_END_SLOW_SPAN = 100;
+const END_TO_END_TRIALS = 2;
 const YARDSTICK_STEPS = 8;
 const YARDSTICK_TRIALS = 5;
 const YARDSTICK_TRIAL_SECONDS = 0.5;
 const TARGET_YARDSTICK_RATIO = 0.8;
+/** The TypeScript RK4 kernel against the same algorithm in C (issue 16, goal 1). */
+const TARGET_KERNEL_RATIO = 0.5;
 /** C and TypeScript RK4 differ only in rounding (libm, FMA contraction): ~1e-12 (from the brief). */
 const TARGET_AGREEMENT = 1e-12;
 const SCIPY_TOLERANCES = [1e-10, 1e-11, 1e-12, 1e-13];
@@ -253,6 +259,15 @@ const envelopeCases = sections.has('envelope')
     })
   : [];
 for (const c of envelopeCases) if (c.note) notes.push(`envelope at eps = ${c.epsilon}: ${c.note}`);
+if (sections.has('envelope'))
+  log(`envelope end to end at eps = ${END_TO_END_EPSILON}, default macro tick, to tau = ${END_TO_END_SLOW_SPAN}/eps ...`);
+const endToEnd = sections.has('envelope')
+  ? benchEnvelopeEndToEnd(
+      ringScenario(8, END_TO_END_EPSILON, ENVELOPE_OMEGA1, defaultMacroPeriods(END_TO_END_EPSILON)),
+      END_TO_END_SLOW_SPAN / END_TO_END_EPSILON,
+      END_TO_END_TRIALS,
+    )
+  : null;
 
 // C yardstick: the same problem (N = 8, omega_1 = 1.0015, eps = 1e-5) in C -O3, RK4 at 8 steps.
 let yardstick: ReturnType<typeof benchYardstick> | null = null;
@@ -288,10 +303,13 @@ function benchYardstick() {
       agreementWithTypeScriptRk4: agreement,
       errorAfter1000Periods: relativeError(Float64Array.from(check.state), reference.state),
       typeScriptRk4PeriodsPerSecond: sameMethodTs,
+      /** the same method (RK4, same steps) in TypeScript over C, wall and CPU */
+      kernelSpeedRatio: sameMethodTs.best / speed.periodsPerSecond,
+      kernelCpuSpeedRatio: sameMethodTs.bestCpu / speed.cpuPeriodsPerSecond,
       /** micro stepper (its default method) over C, wall and CPU */
       speedRatio: microSpeed.best / speed.periodsPerSecond,
       cpuSpeedRatio: microSpeed.bestCpu / speed.cpuPeriodsPerSecond,
-      targets: { speedRatio: TARGET_YARDSTICK_RATIO, agreement: TARGET_AGREEMENT },
+      targets: { speedRatio: TARGET_YARDSTICK_RATIO, kernelSpeedRatio: TARGET_KERNEL_RATIO, agreement: TARGET_AGREEMENT },
     };
   } finally {
     compiled.dispose();
@@ -411,6 +429,12 @@ const result = {
         targets: { periodsPerSecondAt1e6: TARGET_ENVELOPE_RATE, relativeError: TARGET_ENVELOPE_ERROR },
       }
     : null,
+  envelopeEndToEnd: endToEnd && {
+    ...endToEnd,
+    omega1: ENVELOPE_OMEGA1,
+    slowSpan: `${END_TO_END_SLOW_SPAN}/eps`,
+    target: TARGET_ENVELOPE_RATE,
+  },
   cYardstick: yardstick,
   scipyDop853: scipy,
   streaming: streaming && {
@@ -469,6 +493,24 @@ function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: 
       );
     }
   }
+  if (endToEnd) {
+    const c = endToEnd;
+    rows.push(
+      [
+        `envelope end to end (simulate --mode envelope), eps = ${c.epsilon}, omega_1 = ${ENVELOPE_OMEGA1}, default tick, ` +
+          `to ${END_TO_END_SLOW_SPAN}/eps: periods per wall | CPU second`,
+        `${n(c.periodsPerSecond)} | ${n(c.cpuPeriodsPerSecond)}`,
+        `CPU >= ${n(TARGET_ENVELOPE_RATE)}`,
+        verdict(c.cpuPeriodsPerSecond >= TARGET_ENVELOPE_RATE),
+      ],
+      [
+        `  ticks in envelope mode (${c.macroPeriods} periods per tick)`,
+        `${c.ticksInEnvelope}/${c.ticks}`,
+        `${c.ticks}/${c.ticks}`,
+        verdict(c.ticksInEnvelope === c.ticks),
+      ],
+    );
+  }
   if (yardstick) {
     const y = yardstick;
     rows.push(
@@ -491,6 +533,12 @@ function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: 
         `${n(y.typeScriptRk4PeriodsPerSecond.best)} | ${n(y.typeScriptRk4PeriodsPerSecond.bestCpu)}`,
         '-',
         '',
+      ],
+      [
+        `  TypeScript RK4 / C yardstick (same method, ${y.stepsPerPeriod} steps), periods per wall | CPU second`,
+        `${y.kernelSpeedRatio.toFixed(3)}x | ${y.kernelCpuSpeedRatio.toFixed(3)}x`,
+        `CPU >= ${TARGET_KERNEL_RATIO}`,
+        verdict(y.kernelCpuSpeedRatio >= TARGET_KERNEL_RATIO),
       ],
       [
         '  micro stepper / C yardstick, periods per wall second',

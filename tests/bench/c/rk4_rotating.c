@@ -5,6 +5,9 @@
  * operation by operation: the same fused stages, the same half-step rotation recurrence for the
  * carrier angles, reseeded from cos/sin every 1024 steps, and the same step grid (equal steps, at
  * most the nominal 2 pi / (S max omega)). Only the compiler's rounding choices differ.
+ * The engine runs rings through a one-pass form of the same kernel (src/model/ring-kernel.ts, the
+ * same operations in the same order, bit for bit); that form written in C ran at the same speed
+ * as this two-pass one (measured with gcc -O3 -march=native), so this stays the yardstick.
  *
  * Input on stdin (whitespace-separated numbers):
  *   N steps_per_period periods trials eps

@@ -113,6 +113,15 @@ describe('field kernel (SlowField)', () => {
   const graphs: { name: string; nodes: number; links: Link[]; modes: ModeSpec[] }[] = [
     { name: 'two-way ring, two modes', nodes: 5, links: ringLinks(5, true), modes: MODES_3.slice(0, 2) },
     { name: 'one-way ring, one mode', nodes: 4, links: ringLinks(4, false), modes: MODES_3.slice(0, 1) },
+    // rings of two modes run the one-pass ring kernel (src/model/ring-kernel.ts)
+    { name: 'one-way ring, two modes', nodes: 5, links: ringLinks(5, false), modes: MODES_3.slice(0, 2) },
+    { name: 'two-way ring, two modes, 3 nodes', nodes: 3, links: ringLinks(3, true), modes: MODES_3.slice(0, 2) },
+    {
+      name: 'two-way ring, two modes, slots in the other order (two-pass kernel)',
+      nodes: 5,
+      links: ringLinks(5, true).reverse(),
+      modes: MODES_3.slice(0, 2),
+    },
     {
       name: 'in-degree 3 with a weighted chord, two modes',
       nodes: 6,
@@ -151,6 +160,54 @@ describe('field kernel (SlowField)', () => {
       const scale = Math.max(...expected.map(Math.abs));
       for (let i = 0; i < size; i++) expect(Math.abs(out[i] - expected[i])).toBeLessThan(1e-13 * scale);
     }
+  });
+
+  test('the ring kernel and the two-pass kernel agree to rounding, stage by stage, and the snapshot holds until prepare', () => {
+    // The same ring listed in two link orders: ring order runs the one-pass kernel, the other
+    // order the general two-pass one; the two sum the neighbours in opposite order, so they
+    // agree to rounding (1e-14 relative, common practice), not bit for bit.
+    const make = (links: Link[]) => {
+      const scenario = makeScenario({
+        nodes: 6,
+        links,
+        epsilon: 1e-4,
+        modes: MODES_3.slice(0, 2),
+        coupling: { strength: 0.4, reactive: 0.3, dissipative: 0.9 },
+        detuning: [0.2, -0.4, 0.1, 0, 0.3, -0.1],
+      });
+      const params = new ModelParameters(scenario);
+      return { params, field: new SlowField(params) };
+    };
+    const ring = make(ringLinks(6, true));
+    const other = make(ringLinks(6, true).reverse());
+    const random = new Random(5);
+    const y = Float64Array.from({ length: 24 }, () => 2 * random.uniform() - 1);
+    const base = Float64Array.from({ length: 24 }, () => random.uniform());
+    const acc = Float64Array.from({ length: 24 }, () => random.uniform());
+    const cos = Float64Array.of(Math.cos(0.7), Math.cos(2.1));
+    const sin = Float64Array.of(Math.sin(0.7), Math.sin(2.1));
+    const outputs = (field: SlowField, prepared: boolean) => {
+      const next = new Float64Array(24);
+      const sum = Float64Array.from(acc);
+      if (!prepared) field.prepare();
+      field.combinePrepared(cos, sin, y, base, 0.3, next, sum, -0.2, sum);
+      return [...next, ...sum];
+    };
+    const close = (a: number[], b: number[]) => a.every((x, i) => Math.abs(x - b[i]) <= 1e-14 * (1 + Math.abs(b[i])));
+    expect(close(outputs(ring.field, false), outputs(other.field, false))).toBe(true);
+    // A parameter changed after prepare is seen by combinePrepared only after the next prepare.
+    ring.field.prepare();
+    const before = outputs(ring.field, true);
+    for (const p of [ring.params, other.params]) {
+      p.setLinkWeight(p.findLink(2, 3), 0);
+      p.detuning[2] = 0.5;
+      p.strength = 0.9;
+    }
+    expect(outputs(ring.field, true)).toEqual(before);
+    expect(close(outputs(ring.field, true), outputs(other.field, false))).toBe(false);
+    ring.field.prepare();
+    expect(close(outputs(ring.field, true), outputs(other.field, false))).toBe(true);
+    expect(close(outputs(ring.field, false), outputs(other.field, false))).toBe(true);
   });
 
   test('f is a trigonometric polynomial of total degree 0, 2 or 4 in the angles (the fitted space relies on it)', () => {

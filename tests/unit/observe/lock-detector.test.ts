@@ -1,5 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import { LockDetector, type LockTransition } from '../../../src/observe/lock-detector.js';
+import { Random } from '../../../src/util/random.js';
+import { wrapAngle } from '../../../src/util/angles.js';
 
 // The detector's own definitions (module header): frequency lock = bounded phase differences
 // with no cycle slip; a slip is an unwrapped move of pi (past the unstable equilibrium of
@@ -185,4 +187,42 @@ test('noise that spreads a locked ring beyond the tolerance, without drift, keep
     Array.from({ length: 10 }, (_, i) => 0.3 + 0.01 * (i + 1) + (i % 2 === 0 ? 0.1 : -0.1)),
   );
   expect(detector.status).toBe('settling');
+});
+
+describe('lock detector window measures', () => {
+  test('drift and excursion equal their definitions computed directly, bit for bit, across wraps and a partly filled window', () => {
+    // Definitions from the detector's documentation: drift = max_k |mean(newer half) - mean(older
+    // half)| and excursion = max |wrap(h - newest)|, each over the ticks in the window, oldest
+    // first; computed here the plain way (one pass per difference, wrapAngle on every term).
+    const size = 3;
+    const window = 7;
+    const detector = new LockDetector(size, window);
+    const random = new Random(17);
+    const ticks: number[][] = [];
+    let phase = [0.1, 3.0, -3.1];
+    for (let t = 0; t < 40; t++) {
+      // steps of up to 0.8 rad carry the differences across +-pi now and then
+      phase = phase.map((p) => wrapAngle(p + 1.6 * (random.uniform() - 0.5)));
+      ticks.push(phase);
+      detector.push(t, phase, 1, 'a');
+      const seen = ticks.slice(-window);
+      const n = seen.length;
+      const half = Math.floor(n / 2);
+      let drift = 0;
+      let excursion = 0;
+      for (let k = 0; k < size; k++) {
+        let older = 0;
+        let newer = 0;
+        for (let i = 0; i < n; i++) {
+          const d = wrapAngle(seen[i][k] - phase[k]);
+          if (i < half) older += d;
+          else newer += d;
+          excursion = Math.max(excursion, Math.abs(d));
+        }
+        if (n >= 2) drift = Math.max(drift, Math.abs(newer / (n - half) - older / half));
+      }
+      expect(detector.windowDrift).toBe(drift);
+      expect(detector.windowExcursion).toBe(excursion);
+    }
+  });
 });
