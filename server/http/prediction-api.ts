@@ -9,7 +9,8 @@ import type { LiveSession } from '../live/live-session.js';
 import { HttpError, sendHttpError } from './http-error.js';
 import { whatIfArguments } from './prediction-query.js';
 import type { PredictionRequest } from './prediction-worker.js';
-import { BackgroundWorker, compiledHttpWorker } from './worker-client.js';
+import { BackgroundWorker, compiledHttpWorker, type WorkerLimits } from './worker-client.js';
+import { sourceOf } from '../request-source.js';
 
 /**
  * Prediction for the dashboard, always on a copy of the live parameters (never the live run):
@@ -17,7 +18,9 @@ import { BackgroundWorker, compiledHttpWorker } from './worker-client.js';
  *                       weights and coupling, with their stability (`syncring predict`'s JSON)
  *   GET /api/what-if?param=PARAM[&pattern=INDEX][&range=MIN:MAX][&maxSteps=N]
  *                       one pattern continued in one parameter, with the branch and its limits
- * Both run in a worker thread (prediction-worker.ts) and are cached by the parameter set.
+ * Both run in a worker thread (prediction-worker.ts) and are cached by the parameter set. The
+ * query is bounded (prediction-query.ts); the worker gives each request a time budget and keeps
+ * a queue with a share per source (worker-client.ts).
  */
 
 /** Cached answers (catalogues and branches together); the oldest is dropped first. */
@@ -51,8 +54,14 @@ interface Current {
   info: SessionInfo;
 }
 
-export function registerPredictionApi(app: Express, live: LiveSession): { close(): Promise<void> } {
-  const worker = new BackgroundWorker<PredictionRequest, PredictOutput>(compiledHttpWorker('prediction-worker'), 'prediction');
+/** What a prediction that overran its budget is told. */
+const OVERRUN_ADVICE = 'ask for a narrower range or fewer steps (maxSteps)';
+
+export function registerPredictionApi(app: Express, live: LiveSession, limits: Partial<WorkerLimits> = {}): { close(): Promise<void> } {
+  const worker = new BackgroundWorker<PredictionRequest, PredictOutput>(compiledHttpWorker('prediction-worker'), 'prediction', {
+    overrunAdvice: OVERRUN_ADVICE,
+    ...limits,
+  });
   const cache = new Map<string, Promise<PredictOutput>>();
 
   const current = (): Current => {
@@ -77,8 +86,8 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
     return { result, fromCache: false };
   };
 
-  const reply = async (res: Response, now: Current, key: string, args: PredictionRequest['args']) => {
-    const { result, fromCache } = cached(key, () => worker.request({ scenario: now.scenario, args }));
+  const reply = async (res: Response, now: Current, key: string, args: PredictionRequest['args'], source: string) => {
+    const { result, fromCache } = cached(key, () => worker.request({ scenario: now.scenario, args }, source));
     try {
       const value = await result;
       res.json({ fingerprint: now.fingerprint, fromCache, computedFor: computedFor(now.info), ...value } satisfies CatalogueResponse);
@@ -87,9 +96,9 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
     }
   };
 
-  app.get('/api/catalogue', async (_req, res) => {
+  app.get('/api/catalogue', async (req, res) => {
     const now = current();
-    await reply(res, now, `catalogue|${now.fingerprint}`, {});
+    await reply(res, now, `catalogue|${now.fingerprint}`, {}, sourceOf(req.socket.remoteAddress));
   });
 
   app.get('/api/what-if', async (req, res) => {
@@ -104,7 +113,7 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
       }
       throw error;
     }
-    await reply(res, now, `what-if|${now.fingerprint}|${JSON.stringify(args)}`, args);
+    await reply(res, now, `what-if|${now.fingerprint}|${JSON.stringify(args)}`, args, sourceOf(req.socket.remoteAddress));
   });
 
   return { close: () => worker.close() };
