@@ -31,20 +31,31 @@ export class FairQueue<T> {
     this.count++;
   }
 
-  /** The next item in turn. */
-  shift(): T | undefined {
+  /** The next item in turn, passing over the sources `skip` names (those already being served). */
+  shift(skip: (source: string) => boolean = () => false): T | undefined {
     let next: { items: T[]; lastTurn: number } | undefined;
     for (const [source, entry] of this.sources) {
       if (entry.items.length === 0) {
         if (entry.lastTurn < this.turn - FairQueue.MEMORY_TURNS) this.sources.delete(source);
         continue;
       }
+      if (skip(source)) continue;
       if (!next || entry.lastTurn < next.lastTurn) next = entry;
     }
     if (!next) return undefined;
     next.lastTurn = this.turn++;
     this.count--;
     return next.items.shift();
+  }
+
+  /** Take `item` of `source` out before its turn; whether it was waiting. */
+  remove(source: string, item: T): boolean {
+    const items = this.sources.get(source)?.items;
+    const at = items?.indexOf(item) ?? -1;
+    if (at < 0) return false;
+    items!.splice(at, 1);
+    this.count--;
+    return true;
   }
 
   /** Take every item out (in no particular order). */

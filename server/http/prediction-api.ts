@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import type { CatalogueResponse, ComputedFor, PredictOutput } from '../../src/protocol/predict-output.js';
-import type { Express, Response } from 'express';
+import type { Express, Request, Response } from 'express';
 import { ModelParameters } from '../../src/model/parameters.js';
 import { parameterFingerprint } from '../../src/predict/guide-model.js';
 import { parseScenario, type ScenarioJSON } from '../../src/scenario/parse.js';
@@ -47,6 +47,13 @@ export function predictionFingerprint(scenario: ScenarioJSON, params: ModelParam
   return createHash('sha256').update(JSON.stringify(fixed)).update('\n').update(parameterFingerprint(params)).digest('hex').slice(0, 16);
 }
 
+/** A computation and how many requests still wait for it (withdrawn from the queue when none does). */
+interface CacheEntry {
+  result: Promise<PredictOutput>;
+  askers: number;
+  withdraw: AbortController;
+}
+
 interface Current {
   scenario: ScenarioJSON;
   params: ModelParameters;
@@ -62,7 +69,7 @@ export function registerPredictionApi(app: Express, live: LiveSession, limits: P
     overrunAdvice: OVERRUN_ADVICE,
     ...limits,
   });
-  const cache = new Map<string, Promise<PredictOutput>>();
+  const cache = new Map<string, CacheEntry>();
 
   const current = (): Current => {
     const info = live.info();
@@ -72,24 +79,31 @@ export function registerPredictionApi(app: Express, live: LiveSession, limits: P
   };
 
   /** One computation per key: concurrent requests share it, failures are not kept. */
-  const cached = (key: string, compute: () => Promise<PredictOutput>): { result: Promise<PredictOutput>; fromCache: boolean } => {
+  const cached = (key: string, compute: (signal: AbortSignal) => Promise<PredictOutput>): { entry: CacheEntry; fromCache: boolean } => {
     const hit = cache.get(key);
     if (hit) {
       cache.delete(key);
       cache.set(key, hit);
-      return { result: hit, fromCache: true };
+      return { entry: hit, fromCache: true };
     }
-    const result = compute();
-    cache.set(key, result);
-    result.catch(() => cache.delete(key));
+    const withdraw = new AbortController();
+    const entry: CacheEntry = { result: compute(withdraw.signal), askers: 0, withdraw };
+    cache.set(key, entry);
+    entry.result.catch(() => cache.delete(key));
     while (cache.size > CACHE_SIZE) cache.delete(cache.keys().next().value!);
-    return { result, fromCache: false };
+    return { entry, fromCache: false };
   };
 
-  const reply = async (res: Response, now: Current, key: string, args: PredictionRequest['args'], source: string) => {
-    const { result, fromCache } = cached(key, () => worker.request({ scenario: now.scenario, args }, source));
+  const reply = async (req: Request, res: Response, now: Current, key: string, args: PredictionRequest['args']) => {
+    const source = sourceOf(req.socket.remoteAddress);
+    const { entry, fromCache } = cached(key, (signal) => worker.request({ scenario: now.scenario, args }, source, signal));
+    // a computation still waiting when everyone who asked for it has gone is not made
+    entry.askers++;
+    res.on('close', () => {
+      if (--entry.askers === 0) entry.withdraw.abort();
+    });
     try {
-      const value = await result;
+      const value = await entry.result;
       res.json({ fingerprint: now.fingerprint, fromCache, computedFor: computedFor(now.info), ...value } satisfies CatalogueResponse);
     } catch (error) {
       sendHttpError(res, error);
@@ -98,7 +112,7 @@ export function registerPredictionApi(app: Express, live: LiveSession, limits: P
 
   app.get('/api/catalogue', async (req, res) => {
     const now = current();
-    await reply(res, now, `catalogue|${now.fingerprint}`, {}, sourceOf(req.socket.remoteAddress));
+    await reply(req, res, now, `catalogue|${now.fingerprint}`, {});
   });
 
   app.get('/api/what-if', async (req, res) => {
@@ -113,7 +127,7 @@ export function registerPredictionApi(app: Express, live: LiveSession, limits: P
       }
       throw error;
     }
-    await reply(res, now, `what-if|${now.fingerprint}|${JSON.stringify(args)}`, args, sourceOf(req.socket.remoteAddress));
+    await reply(req, res, now, `what-if|${now.fingerprint}|${JSON.stringify(args)}`, args);
   });
 
   return { close: () => worker.close() };

@@ -15,19 +15,27 @@ export function compiledHttpWorker(name: string): URL {
   return new URL(`../../dist/server/http/${name}.js`, here);
 }
 
-/** How much work one worker takes on (README "Security"). */
+/** How much work the workers behind one endpoint take on (README "Security"). */
 export interface WorkerLimits {
-  /** How long one request may compute before the worker is stopped and started again (ms). */
+  /** How long one request may compute before its worker is stopped and started again (ms). */
   timeBudgetMs: number;
   /** Requests waiting or in progress at most, from all sources together. */
   queueLimit: number;
   /** Requests waiting or in progress at most from one source. */
   perSource: number;
+  /** Worker threads; one source computes on one of them at a time, so the others stay free for everyone else. */
+  threads: number;
   /** What to do instead, said to a request that overran its budget. */
   overrunAdvice: string;
 }
 
-const DEFAULT_LIMITS: WorkerLimits = { timeBudgetMs: 30_000, queueLimit: 8, perSource: 2, overrunAdvice: 'ask for less' };
+/**
+ * A normal what-if takes about a second, the heaviest one within the query bounds a few
+ * seconds of CPU, so 20 s is a backstop even on a loaded machine. Two threads: one for a
+ * source that floods, one for everyone else (the live run has its own). Three per source: the
+ * dashboard's catalogue and what-if at once, with room for one more click.
+ */
+const DEFAULT_LIMITS: WorkerLimits = { timeBudgetMs: 20_000, queueLimit: 12, perSource: 3, threads: 2, overrunAdvice: 'ask for less' };
 
 interface Job<TRequest, TValue> {
   message: TRequest;
@@ -37,20 +45,27 @@ interface Job<TRequest, TValue> {
   reject: (error: Error) => void;
 }
 
+/** One thread of the pool and the request it computes. */
+interface Slot<TRequest, TValue> {
+  worker: Worker | null;
+  job: Job<TRequest, TValue> | null;
+  timer: NodeJS.Timeout | null;
+}
+
 /**
- * One worker thread for slow, synchronous computations behind HTTP requests, so they never
- * block the event loop that serves WebSocket frames. Started on the first request. Requests
- * wait in a queue bounded in all and per source, taken in turn by source (fair-queue.ts), and
- * go to the worker one at a time, so that a request which overruns its time budget is the only
- * one lost when the worker is terminated: it is answered 504 and the next one starts on a new
- * worker. A full queue is answered 503, a source over its share 429. A crashed worker fails
- * the request it was computing and is started again for the next.
+ * Worker threads for slow, synchronous computations behind HTTP requests, so they never block
+ * the event loop that serves WebSocket frames. Threads start on first use. Requests wait in a
+ * queue bounded in all and per source, taken in turn by source (fair-queue.ts); a source
+ * computes on one thread at a time, so one client that floods holds at most one thread and
+ * everyone else's requests go to the others. A request that overruns its time budget is the
+ * only one lost when its thread is terminated: it is answered 504 and the thread started again.
+ * A full queue is answered 503, a source over its share 429. A request whose asker has gone
+ * (its signal aborted) leaves the queue. A crashed thread fails the request it was computing.
  */
 export class BackgroundWorker<TRequest extends object, TValue> {
-  private worker: Worker | null = null;
   private nextId = 1;
   private readonly queue = new FairQueue<Job<TRequest, TValue>>();
-  private running: { job: Job<TRequest, TValue>; timer: NodeJS.Timeout } | null = null;
+  private readonly slots: Slot<TRequest, TValue>[];
   private closed = false;
   private readonly limits: WorkerLimits;
 
@@ -60,10 +75,11 @@ export class BackgroundWorker<TRequest extends object, TValue> {
     limits: Partial<WorkerLimits> = {},
   ) {
     this.limits = { ...DEFAULT_LIMITS, ...limits };
+    this.slots = Array.from({ length: Math.max(1, this.limits.threads) }, () => ({ worker: null, job: null, timer: null }));
   }
 
-  /** Queue one request from `source` (sourceOf of the client's address). */
-  request(message: TRequest, source = 'local'): Promise<TValue> {
+  /** Queue one request from `source` (sourceOf of the client's address); `signal` withdraws it while it waits. */
+  request(message: TRequest, source = 'local', signal?: AbortSignal): Promise<TValue> {
     if (this.closed) return Promise.reject(new Error(`the ${this.label} worker is closed`));
     const { perSource, queueLimit } = this.limits;
     if (this.pendingFrom(source) >= perSource) {
@@ -77,89 +93,88 @@ export class BackgroundWorker<TRequest extends object, TValue> {
       );
     }
     return new Promise<TValue>((resolve, reject) => {
-      this.queue.push(source, { message, source, id: this.nextId++, resolve, reject });
+      const job: Job<TRequest, TValue> = { message, source, id: this.nextId++, resolve, reject };
+      this.queue.push(source, job);
+      signal?.addEventListener('abort', () => {
+        if (this.queue.remove(source, job)) reject(new Error(`the ${this.label} request was withdrawn`));
+      });
       this.pump();
     });
   }
 
   /** Requests waiting or in progress. */
   get busy(): number {
-    return this.queue.size + (this.running ? 1 : 0);
+    return this.queue.size + this.slots.filter((slot) => slot.job).length;
   }
 
   async close(): Promise<void> {
     this.closed = true;
-    const worker = this.worker;
-    this.worker = null;
     const error = new Error(`the ${this.label} worker was closed`);
-    if (this.running) {
-      clearTimeout(this.running.timer);
-      this.running.job.reject(error);
-      this.running = null;
+    const workers = this.slots.map((slot) => slot.worker);
+    for (const slot of this.slots) {
+      slot.worker = null;
+      if (slot.job) this.finish(slot, slot.job, (job) => job.reject(error));
     }
     for (const job of this.queue.drain()) job.reject(error);
-    await worker?.terminate();
+    await Promise.all(workers.map((worker) => worker?.terminate()));
   }
 
   private pendingFrom(source: string): number {
-    return this.queue.waiting(source) + (this.running?.job.source === source ? 1 : 0);
+    return this.queue.waiting(source) + this.slots.filter((slot) => slot.job?.source === source).length;
   }
 
-  /** Hand the next request in turn to the worker when it is idle. */
+  /** Hand the next requests in turn to idle threads, passing over sources already computing. */
   private pump(): void {
-    if (this.running || this.closed) return;
-    const job = this.queue.shift();
-    if (!job) return;
-    const worker = this.start();
-    const timer = setTimeout(() => this.overran(job), this.limits.timeBudgetMs);
-    timer.unref();
-    this.running = { job, timer };
-    worker.postMessage({ ...job.message, id: job.id });
+    if (this.closed) return;
+    for (const slot of this.slots) {
+      if (slot.job) continue;
+      const job = this.queue.shift((source) => this.slots.some((other) => other.job?.source === source));
+      if (!job) return;
+      const worker = this.start(slot);
+      slot.job = job;
+      slot.timer = setTimeout(() => this.overran(slot, job), this.limits.timeBudgetMs);
+      slot.timer.unref();
+      worker.postMessage({ ...job.message, id: job.id });
+    }
   }
 
-  private finish(job: Job<TRequest, TValue>, settle: () => void): void {
-    if (this.running?.job !== job) return;
-    clearTimeout(this.running.timer);
-    this.running = null;
-    settle();
+  private finish(slot: Slot<TRequest, TValue>, job: Job<TRequest, TValue>, settle: (job: Job<TRequest, TValue>) => void): void {
+    if (slot.job !== job) return;
+    if (slot.timer) clearTimeout(slot.timer);
+    slot.job = null;
+    slot.timer = null;
+    settle(job);
     this.pump();
   }
 
-  /** The request computed past its budget: a synchronous computation cannot be interrupted, so the worker goes. */
-  private overran(job: Job<TRequest, TValue>): void {
-    const worker = this.worker;
-    this.worker = null;
+  /** The request computed past its budget: a synchronous computation cannot be interrupted, so its thread goes. */
+  private overran(slot: Slot<TRequest, TValue>, job: Job<TRequest, TValue>): void {
+    const worker = slot.worker;
+    slot.worker = null;
     void worker?.terminate();
     const seconds = this.limits.timeBudgetMs / 1000;
-    this.finish(job, () =>
-      job.reject(
-        new HttpError(
-          504,
-          `the ${this.label} took longer than its time budget of ${seconds} s and was stopped: ${this.limits.overrunAdvice}`,
-        ),
-      ),
-    );
+    const message = `the ${this.label} took longer than its time budget of ${seconds} s and was stopped: ${this.limits.overrunAdvice}`;
+    this.finish(slot, job, (j) => j.reject(new HttpError(504, message)));
   }
 
-  private start(): Worker {
-    if (this.worker) return this.worker;
+  private start(slot: Slot<TRequest, TValue>): Worker {
+    if (slot.worker) return slot.worker;
     const worker = new Worker(this.url);
     // Never keep the process alive just for an idle worker.
     worker.unref();
     worker.on('message', (reply: WorkerReply<TValue>) => {
-      const job = this.running?.job;
-      if (!job || job.id !== reply.id) return;
-      this.finish(job, () => (reply.ok ? job.resolve(reply.value) : job.reject(HttpError.fromData(reply.error))));
+      const job = slot.job;
+      if (slot.worker !== worker || !job || job.id !== reply.id) return;
+      this.finish(slot, job, (j) => (reply.ok ? j.resolve(reply.value) : j.reject(HttpError.fromData(reply.error))));
     });
     const lost = (error: Error) => {
-      if (this.worker !== worker) return;
-      this.worker = null;
-      const job = this.running?.job;
-      if (job) this.finish(job, () => job.reject(error));
+      if (slot.worker !== worker) return;
+      slot.worker = null;
+      if (slot.job) this.finish(slot, slot.job, (j) => j.reject(error));
     };
     worker.on('error', (error) => lost(new Error(`the ${this.label} worker failed: ${error.message}`)));
     worker.on('exit', (code) => lost(new Error(`the ${this.label} worker stopped (exit code ${code})`)));
-    this.worker = worker;
+    slot.worker = worker;
     return worker;
   }
 }

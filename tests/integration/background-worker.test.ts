@@ -6,7 +6,8 @@ import { BackgroundWorker, type WorkerLimits } from '../../server/http/worker-cl
  * The worker behind the slow HTTP endpoints, on a stand-in worker that computes for as long as
  * it is told: a request over its time budget is answered 504 and its worker replaced, the
  * requests behind it are still answered; a source over its share is answered 429 at once, a
- * full queue 503; and a source that sends many waits behind itself, not another source.
+ * full queue 503; a source that sends many waits behind itself, not another source, and on a
+ * pool of threads computes on one at a time; a request whose asker has gone leaves the queue.
  */
 
 interface Spin {
@@ -52,8 +53,8 @@ describe('BackgroundWorker limits', () => {
     expect(w.busy).toBe(0);
   });
 
-  test('one source over its share is refused 429 at once; a full queue 503; another source is served next', async () => {
-    const w = spinWorker({ timeBudgetMs: 10_000, perSource: 2, queueLimit: 4 });
+  test('on one thread: a source over its share is refused 429 at once; a full queue 503; other sources are served next', async () => {
+    const w = spinWorker({ timeBudgetMs: 10_000, perSource: 2, queueLimit: 4, threads: 1 });
     const flood = Array.from({ length: 6 }, (_, i) => settled(w.request({ spinMs: 300, label: `a${i}` }, 'a')));
     const other = settled(w.request({ spinMs: 10, label: 'b' }, 'b'));
     const third = settled(w.request({ spinMs: 10, label: 'c' }, 'c'));
@@ -68,5 +69,42 @@ describe('BackgroundWorker limits', () => {
     // b and c waited behind a's first request only, not behind a's second
     expect(b.startedAt).toBeLessThan(done[1].startedAt);
     expect(c.startedAt).toBeLessThan(done[1].startedAt);
+  });
+
+  test('on two threads: a source computes on one at a time, so another source starts at once beside it', async () => {
+    const w = spinWorker({ timeBudgetMs: 10_000, perSource: 3, threads: 2 });
+    const flood = [0, 1, 2].map((i) => settled(w.request({ spinMs: 500, label: `a${i}` }, 'a')));
+    // let a's first start (its thread has to start too)
+    await new Promise((r) => setTimeout(r, 100));
+    const asked = Date.now();
+    const other = (await settled(w.request({ spinMs: 10, label: 'b' }, 'b'))) as Done;
+    const done = (await Promise.all(flood)) as Done[];
+    // a's three ran one after another: each started after the one before had spun its 500 ms
+    expect(done[1].startedAt - done[0].startedAt).toBeGreaterThanOrEqual(500);
+    expect(done[2].startedAt - done[1].startedAt).toBeGreaterThanOrEqual(500);
+    // b did not wait for a's first to end (its worker thread started for it, a few hundred ms at most)
+    expect(other.startedAt).toBeLessThan(done[0].startedAt + 500);
+    expect(other.startedAt - asked).toBeLessThan(2000);
+  });
+
+  test('a waiting request whose asker has gone leaves the queue and frees its share', async () => {
+    const w = spinWorker({ timeBudgetMs: 10_000, perSource: 2, threads: 1 });
+    const first = settled(w.request({ spinMs: 300, label: 'a0' }, 'a'));
+    const gone = new AbortController();
+    const withdrawn = settled(w.request({ spinMs: 300, label: 'a1' }, 'a', gone.signal));
+    expect(w.busy).toBe(2);
+    gone.abort();
+    expect((await withdrawn) as Error).toEqual(new Error('the test computation request was withdrawn'));
+    expect(w.busy).toBe(1);
+    // the share is free again: a third request from the same source is taken, not refused
+    const again = settled(w.request({ spinMs: 10, label: 'a2' }, 'a'));
+    expect(await first).toMatchObject({ label: 'a0' });
+    expect(await again).toMatchObject({ label: 'a2' });
+    // a running request is not withdrawn: its answer may serve others (the prediction cache)
+    const running = new AbortController();
+    const kept = settled(w.request({ spinMs: 300, label: 'a3' }, 'a', running.signal));
+    await new Promise((r) => setTimeout(r, 100));
+    running.abort();
+    expect(await kept).toMatchObject({ label: 'a3' });
   });
 });
