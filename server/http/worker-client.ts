@@ -31,11 +31,11 @@ export interface WorkerLimits {
 
 /**
  * A normal what-if takes about a second, the heaviest one within the query bounds a few
- * seconds of CPU, so 20 s is a backstop even on a loaded machine. Two threads: one for a
+ * seconds of CPU, so 30 s is a backstop even on a machine loaded many times over. Two threads: one for a
  * source that floods, one for everyone else (the live run has its own). Three per source: the
  * dashboard's catalogue and what-if at once, with room for one more click.
  */
-const DEFAULT_LIMITS: WorkerLimits = { timeBudgetMs: 20_000, queueLimit: 12, perSource: 3, threads: 2, overrunAdvice: 'ask for less' };
+const DEFAULT_LIMITS: WorkerLimits = { timeBudgetMs: 30_000, queueLimit: 12, perSource: 3, threads: 2, overrunAdvice: 'ask for less' };
 
 interface Job<TRequest, TValue> {
   message: TRequest;

@@ -115,17 +115,18 @@ async function startServer(root: string): Promise<{ child: ChildProcess; port: n
   return { child, port, cwd };
 }
 
-async function normalLatencies(port: number, count: number, offset: number): Promise<number[]> {
-  const times: number[] = [];
+/** Each normal what-if as `N ms`, or its status beside the time when it was not answered 200 (0: no answer within the timeout). */
+async function normalLatencies(port: number, count: number, offset: number): Promise<string[]> {
+  const times: string[] = [];
   for (let i = 0; i < count; i++) {
     // a question not asked before (no cached answer): the continuation's default step count, give or take
     const answer = await get(port, `/api/what-if?param=coupling&maxSteps=${200 - offset - i}`, NORMAL_SOURCE, NORMAL_TIMEOUT_MS);
-    times.push(answer.status === 200 ? answer.ms : Infinity);
+    times.push(answer.status === 200 ? `${Math.round(answer.ms)} ms` : `${answer.status} after ${Math.round(answer.ms)} ms`);
   }
   return times;
 }
 
-async function flood(port: number, o: Options): Promise<{ sent: number; statuses: Record<number, number>; normal: number[] }> {
+async function flood(port: number, o: Options): Promise<{ sent: number; statuses: Record<number, number>; normal: string[] }> {
   const deadline = performance.now() + o.floodSeconds * 1000;
   const statuses: Record<number, number> = {};
   let sent = 0;
@@ -191,8 +192,6 @@ function guessLine(where: string, g: { answeredPerSecond: number; checkedPerSeco
   return `token guesses on ${where}: ${g.answeredPerSecond}/s answered, ${g.checkedPerSecond}/s checked ${JSON.stringify(g.statuses)}\n`;
 }
 
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
-
 async function main(): Promise<void> {
   const o = options(process.argv.slice(2));
   const { child, port, cwd } = await startServer(o.root);
@@ -209,8 +208,8 @@ async function main(): Promise<void> {
     const result = {
       root: o.root,
       loadAverage: loadavg()[0],
-      whatIfIdleMs: idle.map(Math.round),
-      whatIfDuringFloodMs: flooded.normal.map((t) => (Number.isFinite(t) ? Math.round(t) : `over ${NORMAL_TIMEOUT_MS / 1000} s`)),
+      whatIfIdle: idle,
+      whatIfDuringFlood: flooded.normal,
       floodRequests: flooded.sent,
       floodStatuses: flooded.statuses,
       rssMiB: { before: Math.round(rssBefore), after: Math.round(rssAfter) },
@@ -230,8 +229,8 @@ async function main(): Promise<void> {
     if (o.json) process.stdout.write(`${JSON.stringify(result)}\n`);
     else {
       process.stdout.write(
-        `what-if, idle: median ${Math.round(median(idle))} ms (${result.whatIfIdleMs.join(', ')})\n` +
-          `what-if during a flood of ${flooded.sent} requests from ${o.flooders} connections: ${result.whatIfDuringFloodMs.join(', ')} ms\n` +
+        `what-if, idle: ${idle.join(', ')}\n` +
+          `what-if during a flood of ${flooded.sent} requests from ${o.flooders} connections: ${result.whatIfDuringFlood.join(', ')}\n` +
           `  flood answers by status: ${JSON.stringify(flooded.statuses)}\n` +
           `server memory (RSS): ${result.rssMiB.before} MiB before the flood, ${result.rssMiB.after} MiB after\n` +
           guessLine('/ws', result.tokenGuesses.ws) +

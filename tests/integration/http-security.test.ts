@@ -169,7 +169,7 @@ describe('HTTP security of a live server', () => {
 });
 
 describe('the Host/Origin policy when listening on every interface', () => {
-  const policy: OriginPolicy = { allowedHosts: ['board.lab:8300'], allowedOrigins: [], anyHost: true };
+  const policy: OriginPolicy = { allowedHosts: ['board.lab:8300', 'proxy.lab'], allowedOrigins: [], anyHost: true };
   const check = (headers: Record<string, string>) => checkHostAndOrigin({ headers }, 8300, policy);
 
   test('any IP address literal names the server, a DNS name only when allowed (a rebinding page has a DNS name)', () => {
@@ -182,6 +182,24 @@ describe('the Host/Origin policy when listening on every interface', () => {
       /^Origin http:\/\/evil\.example:8300 is not allowed/,
     );
     expect(check({ host: '192.0.2.7:8300', origin: 'https://192.0.2.7:8300' })).toMatch(/https:\/\/ is another site/);
+  });
+
+  test('an allowed NAME:PORT is that port only; a bare NAME any port (a reverse proxy on 80 forwards Host without one)', () => {
+    expect(check({ host: 'board.lab:8301' })).toMatch(/is not this server.*--allow-host/);
+    expect(check({ host: 'BOARD.lab:8300' })).toBeNull();
+    expect(check({ host: 'proxy.lab', origin: 'http://proxy.lab' })).toBeNull();
+    expect(check({ host: 'proxy.lab:9000', origin: 'http://proxy.lab:9000' })).toBeNull();
+    // the Origin must still be the page's own: the same name and port as the Host
+    expect(check({ host: 'proxy.lab', origin: 'http://proxy.lab:9000' })).toMatch(/is not allowed/);
+    expect(check({ host: 'sub.proxy.lab' })).toMatch(/is not this server/);
+  });
+
+  test('an allowed host that is not NAME or NAME:PORT is a usage error at start-up, before anything listens', async () => {
+    for (const entry of ['http://board.lab:8300', 'board.lab:port', 'board lab']) {
+      await expect(serve({ port: 0, scenario: 'pair-adler', logDir: null, quiet: true, allowedHosts: [entry] })).rejects.toThrow(
+        `--allow-host and SYNCRING_ALLOWED_HOSTS take NAME or NAME:PORT, e.g. board.lab:8300 (got ${JSON.stringify(entry)})`,
+      );
+    }
   });
 });
 
