@@ -7,7 +7,8 @@ const USAGE = `usage:
   syncring predict SCENARIO.json [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
                 PARAM: detuning:K | coupling | reactive | dissipative | link:A-B | edge:A-B
   syncring noise SCENARIO.json [--pattern INDEX] [--bandwidth HZ] [--part-noise h0=VALUE,h-1=VALUE,...]
-  syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max] [--soaks DIR]
+  syncring serve [--port PORT] [--host HOST] [--allow-host NAME[:PORT],...] [--scenario SCENARIO.json]
+                [--speed UNITS_PER_SECOND|max] [--soaks DIR]
   syncring soak SCENARIO.json --campaign CAMPAIGN.json --until TAU --out DIR [--resume] [--pace SLOW_UNITS_PER_SECOND]
                 [--segment-bytes BYTES] [--checkpoint-every TAU] [--fail-incomplete]
   syncring report DIR [--out FILE.html] [--overlay OTHER_DIR_OR_FILE [--overlay-label TEXT] [--overlay-tau0 S] [--overlay-type phase|frequency]]
@@ -115,9 +116,10 @@ export async function main(argv: string[]): Promise<number> {
         return 0;
       }
       case 'serve': {
-        const { serve } = await import('./commands/serve.js');
-        const parsed = parseArgs(rest, ['port', 'scenario', 'host', 'speed', 'soaks']);
-        onlyFlags(parsed, ['port', 'scenario', 'host', 'speed', 'soaks']);
+        const { serve, commaList } = await import('./commands/serve.js');
+        const valued = ['port', 'scenario', 'host', 'allow-host', 'speed', 'soaks'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, valued);
         const speed = parsed.flags.get('speed') === 'max' ? 'max' : numberFlag(parsed, 'speed');
         if (typeof speed === 'number' && !(speed > 0)) throw new UsageError(`--speed must be > 0 or "max" (got ${speed})`);
         const running = await serve({
@@ -125,6 +127,7 @@ export async function main(argv: string[]): Promise<number> {
           port: numberFlag(parsed, 'port'),
           scenario: parsed.flags.get('scenario') as string | undefined,
           host: parsed.flags.get('host') as string | undefined,
+          allowedHosts: commaList(parsed.flags.get('allow-host') as string | undefined),
           soaksDir: parsed.flags.get('soaks') as string | undefined,
         });
         const stop = () => void running.close().then(() => process.exit(0));

@@ -25,8 +25,8 @@ export interface PredictArgs {
   maxSteps?: number;
 }
 
-/** "MIN:MAX" with either side optional ("0:", ":0.3"). */
-function parseRange(text: string, names: ArgumentNames): { min?: number; max?: number } {
+/** "MIN:MAX" with either side optional ("0:", ":0.3"); errors name the argument as `names` call it. */
+export function parseRange(text: string, names: ArgumentNames): { min?: number; max?: number } {
   const match = /^\s*([^:]*):([^:]*)\s*$/.exec(text);
   if (!match) throw new UsageError(`${names.range} must look like MIN:MAX, e.g. -0.1:0.1 (got ${JSON.stringify(text)})`);
   const side = (word: string, name: string): number | undefined => {

@@ -1,15 +1,18 @@
 import { existsSync } from 'node:fs';
 import { basename, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import express, { type Express } from 'express';
+import express, { type Express, type RequestHandler } from 'express';
 import { builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
 import type { LiveSession } from '../live/live-session.js';
 import type { ScenarioChoice } from '../../src/protocol/catalogue-lists.js';
-import { httpErrorHandler } from './http-error.js';
+import { HttpError, httpErrorHandler } from './http-error.js';
 import { registerNoiseApi } from './noise-api.js';
 import { registerPredictionApi } from './prediction-api.js';
 import { registerSoakApi } from './soak-api.js';
 import { registerSoakControl, type SoakControlOptions } from './soak-control.js';
+import { securityHeaders } from './security-headers.js';
+import type { WorkerLimits } from './worker-client.js';
+import { checkHostAndOrigin, type OriginPolicy } from '../ws/origin.js';
 
 /**
  * Where `vite build` puts the dashboard: dist/web beside dist/server, also when the server runs
@@ -27,15 +30,25 @@ export const WEB_ROOT = fileURLToPath(new URL(import.meta.url.endsWith('.ts') ? 
  *   GET /api/noise      phase noise and deviations of a locked pattern of the live parameters (noise-api.ts)
  *   GET /api/soaks, /soaks/NAME/report.html   soak folders (soak-api.ts)
  *   GET /api/campaigns, POST /api/soaks[/NAME/stop|resume]   starting soaks (soak-control.ts)
+ * Before any of them, every request (static files too) gets the security headers and passes the
+ * server's Host/Origin policy (ws/origin.ts), the one the WebSocket upgrades pass: a request from
+ * another site or under a foreign DNS name is answered 403 and reaches nothing.
  * It returns the app with `close`, which stops the worker threads behind the slow endpoints.
  */
 export function createApp(
   live: LiveSession,
   viewers: () => number,
-  options: { soaksDir?: string; control?: SoakControlOptions } = {},
+  options: {
+    access: AccessOptions;
+    soaksDir?: string;
+    control?: SoakControlOptions;
+    predictionLimits?: Partial<WorkerLimits>;
+  },
 ): { app: Express; close(): Promise<void> } {
   const app = express();
   app.disable('x-powered-by');
+  app.use(securityHeaders());
+  app.use(hostAndOriginCheck(options.access));
   const background: { close(): Promise<void> }[] = [];
   app.get('/api/health', (_req, res) => {
     res.json({ ok: true });
@@ -59,8 +72,8 @@ export function createApp(
       next(error);
     }
   });
-  background.push(registerPredictionApi(app, live));
-  background.push(registerNoiseApi(app, live));
+  background.push(registerPredictionApi(app, live, options.predictionLimits));
+  background.push(registerNoiseApi(app, live, options.predictionLimits));
   background.push(registerSoakApi(app, options.soaksDir ?? resolve('soaks')));
   if (options.control) registerSoakControl(app, options.soaksDir ?? resolve('soaks'), live, options.control);
   app.use('/api', (_req, res) => {
@@ -73,11 +86,28 @@ export function createApp(
       res.status(503).type('text/plain').send('The dashboard is not built: run `npm run build` (npm start does it).\n');
     });
   }
+  app.use((_req, res) => {
+    res.status(404).type('text/plain').send('no such page\n');
+  });
   app.use(httpErrorHandler);
   return {
     app,
     close: async () => {
       await Promise.all(background.map((b) => b.close()));
     },
+  };
+}
+
+/** The Host/Origin policy of the server and the port it listens on (known once it listens). */
+export interface AccessOptions {
+  policy: OriginPolicy;
+  port: () => number;
+}
+
+function hostAndOriginCheck({ policy, port }: AccessOptions): RequestHandler {
+  return (req, _res, next) => {
+    const problem = checkHostAndOrigin(req, port(), policy);
+    if (problem) throw new HttpError(403, `refused: ${problem}`);
+    next();
   };
 }

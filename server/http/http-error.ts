@@ -11,8 +11,8 @@ export interface HttpErrorData {
 /**
  * A request refused or failed, with the HTTP status to answer with (400 bad input, 401 no or
  * wrong token, 403 refused, 404 no such thing, 409 the state forbids it, 413 too large, 429 too
- * many at once, 500 the server's fault) and, when one field of the request is at fault, that
- * field as data beside the message.
+ * many at once, 500 the server's fault, 503 too busy, 504 over its time budget) and, when one
+ * field of the request is at fault, that field as data beside the message.
  */
 export class HttpError extends Error {
   readonly status: number;
@@ -40,9 +40,14 @@ export class HttpError extends Error {
   }
 }
 
-/** An HttpError as it is; anything else is the server's fault: 500 with its message. */
+/**
+ * An HttpError as it is; a request path that is not percent-encoded UTF-8 (express decodes route
+ * parameters and throws a URIError) is bad input, 400; anything else is the server's fault: 500
+ * with its message.
+ */
 export function httpErrorOf(error: unknown): HttpError {
   if (error instanceof HttpError) return error;
+  if (error instanceof URIError) return new HttpError(400, `the request path is not percent-encoded UTF-8 (${error.message})`, 'path');
   return new HttpError(500, error instanceof Error ? error.message : String(error));
 }
 

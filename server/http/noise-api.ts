@@ -6,14 +6,16 @@ import type { LiveSession } from '../live/live-session.js';
 import { AnswerCache } from './answer-cache.js';
 import { HttpError, sendHttpError } from './http-error.js';
 import type { NoiseRequest } from './noise-worker.js';
-import { integerQuery, oneText } from './prediction-query.js';
+import { WHAT_IF_BOUNDS, integerQuery, oneText } from './prediction-query.js';
+import { sourceOf } from '../request-source.js';
 import { liveScenarioJson, predictionFingerprint } from './prediction-api.js';
-import { BackgroundWorker, compiledHttpWorker } from './worker-client.js';
+import { BackgroundWorker, compiledHttpWorker, type WorkerLimits } from './worker-client.js';
 
 /**
  * GET /api/noise[?pattern=INDEX][&bandwidth=HZ][&partNoise=h0=..,h-1=..]: `syncring noise` on a
  * copy of the live parameters (the live detuning, links, coupling and noise), in its own worker
- * thread, cached by the parameters and the query.
+ * thread with a time budget and a fair queue per source (worker-client.ts), cached by the parameters
+ * and the query.
  */
 
 /** Answers kept; each is a few hundred numbers per node. */
@@ -23,8 +25,8 @@ const PART_NOISE_MAX_LENGTH = 200;
 /** Bandwidths beyond this are refused before any work (the analysis caps it at f0 / 2 in any case). */
 const BANDWIDTH_MAX_HZ = 1e12;
 
-export function registerNoiseApi(app: Express, live: LiveSession): { close(): Promise<void> } {
-  const worker = new BackgroundWorker<NoiseRequest, NoiseOutput>(compiledHttpWorker('noise-worker'), 'noise');
+export function registerNoiseApi(app: Express, live: LiveSession, limits: Partial<WorkerLimits> = {}): { close(): Promise<void> } {
+  const worker = new BackgroundWorker<NoiseRequest, NoiseOutput>(compiledHttpWorker('noise-worker'), 'noise', limits);
   const cache = new AnswerCache<NoiseOutput>(CACHE_SIZE);
 
   app.get('/api/noise', async (req, res) => {
@@ -40,7 +42,9 @@ export function registerNoiseApi(app: Express, live: LiveSession): { close(): Pr
     const fingerprint = predictionFingerprint(scenario, new ModelParameters(parseScenario(scenario, 'live scenario')));
     // noise is what this answer is about, so it joins the key the catalogue's fingerprint leaves it out of
     const key = `${fingerprint}|${JSON.stringify(scenario.noise)}|${JSON.stringify(args)}`;
-    const { result, fromCache } = cache.get(key, () => worker.request({ scenario, args }));
+    const { result, fromCache } = cache.ask(key, res, (signal) =>
+      worker.request({ scenario, args }, sourceOf(req.socket.remoteAddress), signal),
+    );
     try {
       const value = await result;
       res.json({ fingerprint, fromCache, scenarioName: info.scenarioName, ...value } satisfies NoiseResponse);
@@ -55,7 +59,7 @@ export function registerNoiseApi(app: Express, live: LiveSession): { close(): Pr
 /** The query read into noise's arguments; what can be checked without the catalogue is checked here. */
 export function noiseArguments(req: Request): NoiseRequest['args'] {
   const args: NoiseRequest['args'] = {};
-  const pattern = integerQuery(req, 'pattern', 0);
+  const pattern = integerQuery(req, 'pattern', WHAT_IF_BOUNDS.pattern);
   if (pattern !== undefined) args.pattern = pattern;
   const bandwidth = oneText(req, 'bandwidth');
   if (bandwidth !== undefined) {

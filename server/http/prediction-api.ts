@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import type { CatalogueResponse, ComputedFor, PredictOutput } from '../../src/protocol/predict-output.js';
-import type { Express, Response } from 'express';
+import type { Express, Request, Response } from 'express';
 import { ModelParameters } from '../../src/model/parameters.js';
 import { parameterFingerprint } from '../../src/predict/guide-model.js';
 import { parseScenario, type ScenarioJSON } from '../../src/scenario/parse.js';
@@ -9,7 +9,9 @@ import type { LiveSession } from '../live/live-session.js';
 import { HttpError, sendHttpError } from './http-error.js';
 import { whatIfArguments } from './prediction-query.js';
 import type { PredictionRequest } from './prediction-worker.js';
-import { BackgroundWorker, compiledHttpWorker } from './worker-client.js';
+import { BackgroundWorker, compiledHttpWorker, type WorkerLimits } from './worker-client.js';
+import { sourceOf } from '../request-source.js';
+import { AnswerCache } from './answer-cache.js';
 
 /**
  * Prediction for the dashboard, always on a copy of the live parameters (never the live run):
@@ -17,7 +19,9 @@ import { BackgroundWorker, compiledHttpWorker } from './worker-client.js';
  *                       weights and coupling, with their stability (`syncring predict`'s JSON)
  *   GET /api/what-if?param=PARAM[&pattern=INDEX][&range=MIN:MAX][&maxSteps=N]
  *                       one pattern continued in one parameter, with the branch and its limits
- * Both run in a worker thread (prediction-worker.ts) and are cached by the parameter set.
+ * Both run in a worker thread (prediction-worker.ts) and are cached by the parameter set. The
+ * query is bounded (prediction-query.ts); the worker gives each request a time budget and keeps
+ * a queue with a share per source (worker-client.ts).
  */
 
 /** Cached answers (catalogues and branches together); the oldest is dropped first. */
@@ -51,9 +55,15 @@ interface Current {
   info: SessionInfo;
 }
 
-export function registerPredictionApi(app: Express, live: LiveSession): { close(): Promise<void> } {
-  const worker = new BackgroundWorker<PredictionRequest, PredictOutput>(compiledHttpWorker('prediction-worker'), 'prediction');
-  const cache = new Map<string, Promise<PredictOutput>>();
+/** What a prediction that overran its budget is told. */
+const OVERRUN_ADVICE = 'ask for a narrower range or fewer steps (maxSteps)';
+
+export function registerPredictionApi(app: Express, live: LiveSession, limits: Partial<WorkerLimits> = {}): { close(): Promise<void> } {
+  const worker = new BackgroundWorker<PredictionRequest, PredictOutput>(compiledHttpWorker('prediction-worker'), 'prediction', {
+    overrunAdvice: OVERRUN_ADVICE,
+    ...limits,
+  });
+  const cache = new AnswerCache<PredictOutput>(CACHE_SIZE);
 
   const current = (): Current => {
     const info = live.info();
@@ -62,23 +72,9 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
     return { scenario, params, fingerprint: predictionFingerprint(scenario, params), info };
   };
 
-  /** One computation per key: concurrent requests share it, failures are not kept. */
-  const cached = (key: string, compute: () => Promise<PredictOutput>): { result: Promise<PredictOutput>; fromCache: boolean } => {
-    const hit = cache.get(key);
-    if (hit) {
-      cache.delete(key);
-      cache.set(key, hit);
-      return { result: hit, fromCache: true };
-    }
-    const result = compute();
-    cache.set(key, result);
-    result.catch(() => cache.delete(key));
-    while (cache.size > CACHE_SIZE) cache.delete(cache.keys().next().value!);
-    return { result, fromCache: false };
-  };
-
-  const reply = async (res: Response, now: Current, key: string, args: PredictionRequest['args']) => {
-    const { result, fromCache } = cached(key, () => worker.request({ scenario: now.scenario, args }));
+  const reply = async (req: Request, res: Response, now: Current, key: string, args: PredictionRequest['args']) => {
+    const source = sourceOf(req.socket.remoteAddress);
+    const { result, fromCache } = cache.ask(key, res, (signal) => worker.request({ scenario: now.scenario, args }, source, signal));
     try {
       const value = await result;
       res.json({ fingerprint: now.fingerprint, fromCache, computedFor: computedFor(now.info), ...value } satisfies CatalogueResponse);
@@ -87,9 +83,9 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
     }
   };
 
-  app.get('/api/catalogue', async (_req, res) => {
+  app.get('/api/catalogue', async (req, res) => {
     const now = current();
-    await reply(res, now, `catalogue|${now.fingerprint}`, {});
+    await reply(req, res, now, `catalogue|${now.fingerprint}`, {});
   });
 
   app.get('/api/what-if', async (req, res) => {
@@ -104,7 +100,7 @@ export function registerPredictionApi(app: Express, live: LiveSession): { close(
       }
       throw error;
     }
-    await reply(res, now, `what-if|${now.fingerprint}|${JSON.stringify(args)}`, args);
+    await reply(req, res, now, `what-if|${now.fingerprint}|${JSON.stringify(args)}`, args);
   });
 
   return { close: () => worker.close() };

@@ -22,6 +22,9 @@ import type { ReportRequest } from './report-worker.js';
 import { BackgroundWorker, compiledHttpWorker } from './worker-client.js';
 import { httpErrorOf } from './http-error.js';
 import { VerdictTail } from './verdict-tail.js';
+import { useReportPolicy } from './security-headers.js';
+import { asServed, SERVED_SOAKS_DIR } from './served-paths.js';
+import { sourceOf } from '../request-source.js';
 
 /**
  * Soaks for the dashboard, read from the folders `syncring soak --out` writes under one soaks
@@ -31,15 +34,23 @@ import { VerdictTail } from './verdict-tail.js';
  *   GET /soaks/NAME/report.html     the soak's report: report.html when it is up to date, else
  *                                   made on demand from the log (in a worker thread)
  * Starting, stopping and resuming soaks from the dashboard is soak-control.ts; it leaves
- * START_FILE in the folders it starts, which the listing reads for `launch`.
+ * START_FILE in the folders it starts, which the listing reads for `launch`. What they send
+ * names the soaks folder as it is served (`soaks`, served-paths.ts), never its place on disk.
  */
 
 /** Newest verdicts listed per soak (a long random campaign judges thousands). */
 const VERDICTS_LISTED = 200;
 
+/** A report of a long soak is read from its whole log: more work than a prediction, so a longer budget. */
+const REPORT_BUDGET_MS = 120_000;
+
 export function registerSoakApi(app: Express, soaksDir: string): { close(): Promise<void> } {
   const root = resolve(soaksDir);
-  const worker = new BackgroundWorker<ReportRequest, string>(compiledHttpWorker('report-worker'), 'report');
+  const worker = new BackgroundWorker<ReportRequest, string>(compiledHttpWorker('report-worker'), 'report', {
+    timeBudgetMs: REPORT_BUDGET_MS,
+    overrunAdvice: 'make it with `syncring report` on the server',
+  });
+  const served = (text: string) => asServed(text, root);
   const reader = new JsonFileCache();
   const tails = new Map<string, VerdictTail>();
   const tailOf = (dir: string): VerdictTail => {
@@ -51,9 +62,9 @@ export function registerSoakApi(app: Express, soaksDir: string): { close(): Prom
   app.get('/api/soaks', async (_req, res) => {
     if (!existsSync(root)) {
       res.json({
-        dir: root,
+        dir: SERVED_SOAKS_DIR,
         soaks: [],
-        note: `no soaks folder yet: soaks written with --out ${join(root, 'NAME')} show up here`,
+        note: `no soaks folder yet: soaks written with --out ${SERVED_SOAKS_DIR}/NAME (in the soaks folder syncring serve printed at start-up) show up here`,
       } satisfies SoaksResponse);
       return;
     }
@@ -64,7 +75,8 @@ export function registerSoakApi(app: Express, soaksDir: string): { close(): Prom
       (s): s is SoakListing => s !== null,
     );
     soaks.sort((a, b) => b.updatedAt.localeCompare(a.updatedAt) || a.name.localeCompare(b.name));
-    res.json({ dir: root, soaks } satisfies SoaksResponse);
+    for (const soak of soaks) soak.problems = soak.problems.map(served);
+    res.json({ dir: SERVED_SOAKS_DIR, soaks } satisfies SoaksResponse);
   });
 
   app.get('/soaks/:name/report.html', async (req, res) => {
@@ -74,26 +86,24 @@ export function registerSoakApi(app: Express, soaksDir: string): { close(): Prom
       res
         .status(404)
         .type('text/plain')
-        .send(`no soak named ${JSON.stringify(name)} in ${root}\n`);
+        .send(`no soak named ${JSON.stringify(name)} in ${SERVED_SOAKS_DIR}\n`);
       return;
     }
     const file = join(dir, REPORT_FILE);
     const [report, summary] = await Promise.all([statOrNull(file), statOrNull(join(dir, SUMMARY_FILE))]);
-    if (report && summary && report.mtimeMs >= summary.mtimeMs) {
-      res.sendFile(file);
-      return;
-    }
+    const upToDate = report !== null && summary !== null && report.mtimeMs >= summary.mtimeMs;
     try {
-      res
-        .set('Cache-Control', 'no-store')
-        .type('html')
-        .send(await worker.request({ dir }));
+      // read rather than sent as a file: the page names the soak's folder, which is shown as served
+      const html = upToDate ? await readFile(file, 'utf8') : await worker.request({ dir }, sourceOf(req.socket.remoteAddress));
+      if (!upToDate) res.set('Cache-Control', 'no-store');
+      useReportPolicy(res);
+      res.type('html').send(served(html));
     } catch (error) {
-      const status = httpErrorOf(error).status;
+      const answer = httpErrorOf(error);
       res
-        .status(status)
+        .status(answer.status)
         .type('text/plain')
-        .send(`${(error as Error).message}\n`);
+        .send(`${served(answer.message)}\n`);
     }
   });
 

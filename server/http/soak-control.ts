@@ -3,12 +3,13 @@ import { scenarioToJSON } from '../../src/scenario/parse.js';
 import { builtInCampaignNames, builtInScenarioNames, loadBuiltInScenario } from '../../src/scenarios/index.js';
 import { describeValue, fieldChecks, has, type JsonObject } from '../../src/util/json-fields.js';
 import { InputError } from '../../src/util/input-error.js';
-import { HttpError, sendHttpError } from './http-error.js';
+import { HttpError, httpErrorOf, sendHttpError } from './http-error.js';
 import type { LiveSession } from '../live/live-session.js';
 import { LaunchError, SoakLauncher, campaignProblem, type LaunchRefusal, type LaunchRequest } from '../soak/launcher.js';
 import { SAFE_NAME } from '../soak/soak-folder.js';
-import { checkUpgrade, type OriginPolicy } from '../ws/origin.js';
-import { sameToken } from '../operator-token.js';
+import { throttledMessage, type OperatorToken } from '../operator-token.js';
+import { sourceOf } from '../request-source.js';
+import { asServed, SERVED_SOAKS_DIR } from './served-paths.js';
 
 /**
  * Starting, stopping and resuming soaks from the dashboard (the listing is soak-api.ts): thin
@@ -19,17 +20,14 @@ import { sameToken } from '../operator-token.js';
  *                                  `syncring soak ... --out SOAKS/NAME` as a detached process
  *   POST /api/soaks/NAME/stop      SIGTERM to a running soak this server started
  *   POST /api/soaks/NAME/resume    { pace? }: the same soak again with --resume
- * The POSTs change things: they need the operator token (`Authorization: Bearer TOKEN`) and
- * pass the same Host/Origin check as the WebSocket upgrade (ws/origin.ts), so no other site
- * can make a browser start soaks. Viewers can still list.
+ * The POSTs change things: they need the operator token (`Authorization: Bearer TOKEN`, wrong
+ * ones throttled per source), and like every request they have passed the Host/Origin policy
+ * (app.ts), so no other site can make a browser start soaks. Viewers can still list.
  */
 
 export interface SoakControlOptions {
   /** The operator token of the WebSocket hub. */
-  token: string;
-  policy: OriginPolicy;
-  /** The port the server listens on (known once it listens). */
-  port: () => number;
+  token: OperatorToken;
   /** Soaks started from the dashboard that may run at once; default 2 (one per core of the development machine). */
   maxRunning?: number;
 }
@@ -54,18 +52,22 @@ export function registerSoakControl(app: express.Express, soaksDir: string, live
   });
 
   const router = Router();
-  const guard = (req: Request, _res: Response, next: NextFunction) => {
-    const problem = checkUpgrade(req, options.port(), options.policy);
-    if (problem) throw new HttpError(403, `refused: ${problem}`);
+  const guard = (req: Request, res: Response, next: NextFunction) => {
     const match = /^Bearer\s+(\S+)\s*$/i.exec(req.headers.authorization ?? '');
     if (!match) throw new HttpError(401, 'starting, stopping and resuming soaks needs the operator token (Authorization: Bearer TOKEN)');
-    if (!sameToken(match[1], options.token)) throw new HttpError(401, 'wrong operator token');
+    const verdict = options.token.check(match[1], sourceOf(req.socket.remoteAddress), `${req.method} ${req.path}`);
+    if (!verdict.ok && verdict.throttled) {
+      res.set('Retry-After', String(verdict.retryAfterSeconds));
+      throw new HttpError(429, throttledMessage(verdict.retryAfterSeconds));
+    }
+    if (!verdict.ok) throw new HttpError(401, 'wrong operator token');
     next();
   };
   const body = express.json({ limit: BODY_LIMIT, strict: true });
 
   router.post('/api/soaks', guard, body, (req, res) => {
-    res.status(202).json(launcher.start(startRequest(req.body, liveBuiltIn(live))));
+    const started = launcher.start(startRequest(req.body, liveBuiltIn(live)));
+    res.status(202).json({ ...started, dir: `${SERVED_SOAKS_DIR}/${started.name}` });
   });
   router.post('/api/soaks/:name/stop', guard, async (req, res) => {
     res.json(await launcher.stop(String(req.params.name)));
@@ -76,7 +78,8 @@ export function registerSoakControl(app: express.Express, soaksDir: string, live
 
   router.use((error: unknown, _req: Request, res: Response, next: NextFunction) => {
     if (res.headersSent) return next(error);
-    sendHttpError(res, answerFor(error));
+    const answer = httpErrorOf(answerFor(error));
+    sendHttpError(res, new HttpError(answer.status, asServed(answer.message, launcher.root), answer.field));
   });
   app.use(router);
 }
@@ -90,7 +93,8 @@ function answerFor(error: unknown): unknown {
   if (e.type === 'entity.parse.failed') return new HttpError(400, `body: not valid JSON (${e.message})`, 'body');
   if (e.type === 'entity.too.large')
     return new HttpError(413, `body: larger than ${BODY_LIMIT}; a soak request is a few short fields`, 'body');
-  if (typeof e.status === 'number' && e.status >= 400 && e.status < 500) return new HttpError(e.status, `body: ${e.message}`, 'body');
+  if (typeof e.type === 'string' && typeof e.status === 'number' && e.status >= 400 && e.status < 500)
+    return new HttpError(e.status, `body: ${e.message}`, 'body');
   return error;
 }
 

@@ -1,5 +1,6 @@
 import { EventEmitter } from 'node:events';
 import { Worker } from 'node:worker_threads';
+import { basename } from 'node:path';
 import { ModelParameters } from '../../src/model/parameters.js';
 import { parseScenario } from '../../src/scenario/parse.js';
 import { scenarioToJSON } from '../../src/scenario/parse.js';
@@ -83,7 +84,8 @@ export class LiveSession extends EventEmitter {
 
   info(): SessionInfo {
     if (!this.current) throw new Error('the live session has not started yet');
-    return { ...this.current, logFile: this.log?.path ?? null };
+    // the file's name only: the path on disk is the server's own business (GET /api/log serves the file)
+    return { ...this.current, logFile: this.log ? basename(this.log.path) : null };
   }
 
   get status(): RunStatus {

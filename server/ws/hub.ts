@@ -12,12 +12,14 @@ import {
 import type { SessionEvent } from '../../src/session/session.js';
 import { InputError } from '../../src/util/input-error.js';
 import type { LiveSession } from '../live/live-session.js';
-import { checkUpgrade, type OriginPolicy } from './origin.js';
+import { checkHostAndOrigin, type OriginPolicy } from './origin.js';
 import { SOFTWARE_VERSION } from '../version.js';
-import { sameToken } from '../operator-token.js';
+import { throttledMessage, type OperatorToken } from '../operator-token.js';
+import { sourceOf } from '../request-source.js';
 
 export interface HubOptions {
-  token: string;
+  /** The operator token, checked and throttled per source. */
+  token: OperatorToken;
   port: () => number;
   policy: OriginPolicy;
   heartbeatMs?: number;
@@ -89,10 +91,17 @@ export class Hub {
     socket.on('error', () => socket.destroy());
     const url = new URL(request.url ?? '/', 'http://placeholder');
     if (url.pathname !== '/ws') return refuse(socket, 404, 'Not Found');
-    const problem = checkUpgrade(request, this.options.port(), this.options.policy);
+    const problem = checkHostAndOrigin(request, this.options.port(), this.options.policy);
     if (problem) return refuse(socket, 403, 'Forbidden', problem);
     const token = url.searchParams.get('token');
-    if (token !== null && !sameToken(token, this.options.token)) return refuse(socket, 403, 'Forbidden', 'wrong operator token');
+    if (token !== null) {
+      const verdict = this.options.token.check(token, sourceOf(request.socket.remoteAddress), '/ws');
+      if (!verdict.ok && verdict.throttled) {
+        const retry = `Retry-After: ${verdict.retryAfterSeconds}\r\n`;
+        return refuse(socket, 429, 'Too Many Requests', throttledMessage(verdict.retryAfterSeconds), retry);
+      }
+      if (!verdict.ok) return refuse(socket, 403, 'Forbidden', 'wrong operator token');
+    }
     const role: Role = token !== null ? 'operator' : 'viewer';
     this.wss.handleUpgrade(request, socket, head, (ws) => this.attach(ws, role));
   }
@@ -239,7 +248,7 @@ export class Hub {
   }
 }
 
-function refuse(socket: Duplex, status: number, text: string, detail = ''): void {
-  socket.write(`HTTP/1.1 ${status} ${text}\r\nConnection: close\r\nContent-Type: text/plain\r\n\r\n${detail}\n`);
+function refuse(socket: Duplex, status: number, text: string, detail = '', extraHeaders = ''): void {
+  socket.write(`HTTP/1.1 ${status} ${text}\r\nConnection: close\r\nContent-Type: text/plain\r\n${extraHeaders}\r\n${detail}\n`);
   socket.destroy();
 }

@@ -55,6 +55,7 @@ export interface SessionInfo {
   status: RunStatus;
   speed: Speed;
   warnings: string[];
+  /** The session log's file name (GET /api/log downloads it), never its path on the server; null without a log. */
   logFile: string | null;
 }
 

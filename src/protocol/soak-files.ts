@@ -181,6 +181,7 @@ export interface SoakListing {
 
 /** GET /api/soaks */
 export interface SoaksResponse {
+  /** The soaks folder as the server serves it ("soaks", the prefix of the report URLs), never its path on disk. */
   dir: string;
   soaks: SoakListing[];
   note?: string;

@@ -111,7 +111,7 @@ describe('prediction and soak API', () => {
       ['param=link:0-5', /param=link:0-5: there is no link from node 0 to node 5/],
       ['', /param is required/],
       ['param=coupling&pattern=abc', /pattern must be an integer/],
-      ['param=coupling&maxSteps=0', /maxSteps must be an integer >= 1/],
+      ['param=coupling&maxSteps=0', /maxSteps must be an integer from 1 to 1000/],
       ['param=coupling&range=1:0', /range: MIN must be below MAX/],
       ['param=coupling&pattern=999', /pattern must be an index 0\.\.\d+/],
     ];

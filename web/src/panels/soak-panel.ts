@@ -316,14 +316,18 @@ export class SoakPanel extends LitElement {
       <div class="card">
         <h2>Soaks ${l ? html`· ${l.soaks.length}` : nothing}</h2>
         ${startForm} ${this.error ? html`<p class="no">${this.error}</p>` : nothing}
-        ${l ? html`<div class="line small" data-testid="soaks-dir">folder ${l.dir}</div>` : html`<p class="muted">Reading the soaks folder…</p>`}
+        ${
+          l
+            ? html`<div class="line small" data-testid="soaks-dir">the server's soaks folder (${l.dir}/ here; syncring serve prints where it is)</div>`
+            : html`<p class="muted">Reading the soaks folder…</p>`
+        }
         <div class="list" data-testid="soak-list">${l?.soaks.map((s) => this.renderItem(s))}</div>
         ${
           l && l.soaks.length === 0
             ? html`<p class="empty">
                 No soaks yet. Start one ${this.token ? 'with the form above or ' : ''}with<br /><code
-                  >npx syncring soak SCENARIO --campaign CAMPAIGN --until TAU --out ${l.dir}/NAME</code
-                ><br />and it shows up here while it runs.
+                  >npx syncring soak SCENARIO --campaign CAMPAIGN --until TAU --out SOAKS/NAME</code
+                ><br />(SOAKS: the soaks folder <code>syncring serve</code> printed at start-up) and it shows up here while it runs.
               </p>`
             : nothing
         }
