@@ -70,7 +70,7 @@ describe('noise API', () => {
   test('query errors name the field and leave the server answering', async () => {
     const cases: [string, RegExp][] = [
       ['pattern=abc', /pattern must be an integer/],
-      ['pattern=-1', /pattern must be an integer >= 0/],
+      ['pattern=-1', /pattern must be an integer from 0 to 999/],
       ['pattern=999', /pattern must be an index 0\.\.\d+/],
       ['bandwidth=-5', /bandwidth must be a number of Hz/],
       ['bandwidth=Infinity', /bandwidth must be a number of Hz/],
