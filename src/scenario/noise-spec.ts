@@ -17,6 +17,8 @@ import { failInput as fail } from '../util/input-error.js';
 
 /** A fit worse than this anywhere (dB) is refused: the spec has a shape the four power laws cannot make (a bump, a PLL's peaking). */
 export const FIT_LIMIT_DB = 3;
+/** Sums of squared relative errors closer than this are a tie (rounding of an exact fit), which the fewer terms win. */
+const FIT_TIE = 1e-12;
 /** The coefficient names as the trade writes them, and the field each one fills. */
 export const PART_NOISE_NAMES: Record<string, keyof PartNoise> = { h2: 'h2', h0: 'h0', 'h-1': 'hm1', 'h-2': 'hm2' };
 /** Exponent a of f^a in S_y for each term. */
@@ -61,7 +63,7 @@ export function fitPhaseNoise(points: readonly (readonly [number, number])[], f0
     );
     if (!c || c.some((v) => !(v > 0))) continue;
     const residual = rows.reduce((sum, r) => sum + (used.reduce((s, t, i) => s + r[t] * c[i], 0) - 1) ** 2, 0);
-    const better = !best || residual < best.residual * (1 - 1e-9) || (residual <= best.residual * (1 + 1e-9) && used.length < best.size);
+    const better = !best || residual < best.residual - FIT_TIE || (residual <= best.residual + FIT_TIE && used.length < best.size);
     if (better) {
       const full = TERMS.map(() => 0);
       used.forEach((t, i) => (full[t] = c[i]));
