@@ -62,7 +62,8 @@ export function noiseOfScenario(scenario: Scenario, source: string, args: Omit<N
   const partsAreQuiet = !partNoise || partNoise.every((p) => Object.values(p).every((h) => h === 0));
   if (!(intensity > 0) && !(detuningWalk > 0) && partsAreQuiet) {
     throw new UsageError(
-      `the scenario has no noise (noise.intensity and noise.detuningWalk are 0, no noise.powerLaw or noise.phaseNoise) and no ${FLAGS.partNoise} was given: there is nothing to analyse`,
+      'the scenario has no noise (noise.intensity and noise.detuningWalk are 0, no noise.powerLaw or noise.phaseNoise) ' +
+        `and no ${FLAGS.partNoise} was given: there is nothing to analyse`,
     );
   }
 
@@ -111,7 +112,8 @@ export function noiseOfScenario(scenario: Scenario, source: string, args: Omit<N
         'offsets above averagedModelLimitHz (f0 / 100), and deviations at tau below about 1 / averagedModelLimitHz, ' +
         'rest on the averaged model beyond its range: the resonator selectivity it leaves out shapes real noise there',
       modelNoise:
-        "the model's white noise q enters as white FM with amplitude noise beside it; its detuning random walk as random-walk FM; the scenario's part noise (noise.powerLaw, noise.phaseNoise) and --part-noise add each part's h2 h1 h0 h-1 h-2",
+        "the model's white noise q enters as white FM with amplitude noise beside it; its detuning random walk as random-walk FM; " +
+        "the scenario's part noise (noise.powerLaw, noise.phaseNoise) and --part-noise add each part's h2 h1 h0 h-1 h-2",
       seconds: scenario.units.nominalFrequencyAssumed
         ? ASSUMED_FREQUENCY_NOTE
         : `seconds at the scenario's nominal frequency, ${scenario.units.nominalFrequencyHz} Hz`,
