@@ -20,14 +20,21 @@ const PART_NOISE_SEED_MIX = 0x6d2b79f5;
 
 export interface FrequencyDriveState {
   source: PartNoiseSourceState | null;
+  /** Each node's nominal detuning (the scenario's, an operator's or a campaign's). */
+  nominal: number[];
   /** The Delta each node's detuning holds beyond its nominal value. */
   applied: number[];
+  /** The detuning as the drive last wrote it (a detuning walk moves it on from there). */
+  written: number[];
   outputPhase: number[];
 }
 
 export class FrequencyDrive {
+  /** Each node's nominal detuning, kept exactly (the detuning is nominal + applied, never a running sum). */
+  readonly nominal: Float64Array;
   /** Delta added to each node's nominal detuning for the current tick. */
   readonly applied: Float64Array;
+  private readonly written: Float64Array;
   /** White-PM phase of each node's output (rad at the carrier of mode 0) at the end of the last tick. */
   readonly outputPhase: Float64Array;
   private readonly source: PartNoiseSource | null;
@@ -41,6 +48,8 @@ export class FrequencyDrive {
   ) {
     if (!(params.epsilon > 0)) throw new RangeError('part noise and the environment move the detuning, which needs epsilon > 0');
     const n = params.nodes;
+    this.nominal = Float64Array.from(params.detuning);
+    this.written = Float64Array.from(params.detuning);
     this.applied = new Float64Array(n);
     this.outputPhase = new Float64Array(n);
     this.carrierHz = scenario.units.nominalFrequencyHz;
@@ -70,21 +79,39 @@ export class FrequencyDrive {
       let y = source ? source.meanFrequency[k] : 0;
       if (env) y += environmentFrequency(env, k, middle);
       const delta = y / epsilon;
-      detuning[k] += delta - this.applied[k];
+      // a detuning walk moved the nominal value since the last write (0 exactly when nothing did)
+      this.nominal[k] += detuning[k] - this.written[k];
+      detuning[k] = this.nominal[k] + delta;
+      this.written[k] = detuning[k];
       this.applied[k] = delta;
       this.outputPhase[k] = source ? phasePerSecond * source.outputTimeError[k] : 0;
     }
   }
 
+  /** A detuning set from outside (an operator, a campaign) is the node's nominal value; the drive's offset stays on top. */
+  setNominal(node: number, delta: number): void {
+    this.nominal[node] = delta;
+    this.params.detuning[node] = delta + this.applied[node];
+    this.written[node] = this.params.detuning[node];
+  }
+
   save(): FrequencyDriveState {
-    return { source: this.source?.save() ?? null, applied: Array.from(this.applied), outputPhase: Array.from(this.outputPhase) };
+    return {
+      source: this.source?.save() ?? null,
+      nominal: Array.from(this.nominal),
+      applied: Array.from(this.applied),
+      written: Array.from(this.written),
+      outputPhase: Array.from(this.outputPhase),
+    };
   }
 
   load(state: FrequencyDriveState): void {
     if (state.applied.length !== this.applied.length)
       throw new RangeError('the drive checkpoint does not belong to this scenario (node count differs)');
     if (this.source && state.source) this.source.load(state.source);
+    this.nominal.set(state.nominal);
     this.applied.set(state.applied);
+    this.written.set(state.written);
     this.outputPhase.set(state.outputPhase);
   }
 }

@@ -264,6 +264,15 @@ export class CoSimulation {
     return last;
   }
 
+  /**
+   * Each node's nominal detuning: the scenario's or the one an operator or a campaign set, without
+   * the offset the part noise and the environment add for the current tick (frequency-drive.ts).
+   * What the board is, as the catalogue and the controls see it; equal to params.detuning without a drive.
+   */
+  nominalDetuning(): number[] {
+    return Array.from(this.drive ? this.drive.nominal : this.params.detuning);
+  }
+
   /** The full state in the original coordinates (x, x') at the current tau. */
   fullState(): ModeState[][] {
     return originalFromRotating(this.params, this.tau, this.full.state);
@@ -350,8 +359,7 @@ export class CoSimulation {
         addToAmplitude(this.guide.state, m, node, mode, re, im);
       });
       // a set detuning is the node's nominal value: the drive's offset stays on top of it
-      if (perturbation.action === 'set-detuning' && this.drive)
-        this.params.detuning[perturbation.node] += this.drive.applied[perturbation.node];
+      if (perturbation.action === 'set-detuning' && this.drive) this.drive.setNominal(perturbation.node, perturbation.delta);
       if (perturbation.action.endsWith('link') || perturbation.action === 'set-link-weight') linksChanged = true;
       if (perturbation.action !== 'set-noise') this.predictionStale = true;
       if (perturbation.action === 'kick-mode') this.predictionKicked = true;

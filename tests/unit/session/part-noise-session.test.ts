@@ -143,5 +143,18 @@ describe('part noise and the rest of the session', () => {
     // applied to the tick that just ran: the new tick's drive is in params now
     expect(sim.params.detuning[0]).toBeCloseTo(0.01 + sim.drive!.applied[0], 14);
     expect(sim.drive!.applied[0]).not.toBe(0);
+    // what the board is, as the catalogue and the controls see it: exactly, tick after tick (never a running sum)
+    for (let n = 0; n < 200; n++) sim.step();
+    expect(sim.nominalDetuning()[0]).toBe(0.01);
+    expect(sim.params.detuning[0]).toBe(0.01 + sim.drive!.applied[0]);
+  });
+
+  test('a detuning walk moves the nominal value, the drive stays on top of it', () => {
+    const sim = new CoSimulation(lonePart({ seed: 5, detuningWalk: 1e-6, powerLaw: { h0: 1e-18 } }), { integrator: 'micro' });
+    for (let n = 0; n < 100; n++) sim.step();
+    const nominal = sim.nominalDetuning()[0];
+    expect(nominal).not.toBe(0);
+    // the walk's last step comes after the drive's write: the detuning is nominal + applied up to that step
+    expect(Math.abs(sim.params.detuning[0] - nominal - sim.drive!.applied[0])).toBeLessThan(5 * Math.sqrt(1e-6 * sim.macroStep));
   });
 });
