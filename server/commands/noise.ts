@@ -1,7 +1,7 @@
 import { STABILITY_CAUTION } from '../../src/campaign/cautions.js';
 import { nearResonances } from '../../src/guide/resonance.js';
 import { lockedPatternNoise } from '../../src/noise/locked-noise.js';
-import { parsePowerLawNoise, type PowerLawNoise } from '../../src/noise/power-law.js';
+import { NO_POWER_LAW_NOISE, addPowerLaw, parsePowerLawNoise, type PowerLawNoise } from '../../src/noise/power-law.js';
 import { CATALOGUE_SIZE_LIMIT } from '../../src/predict/catalogue.js';
 import { GuideModel } from '../../src/predict/guide-model.js';
 import { solveLockedState } from '../../src/predict/locked-state.js';
@@ -20,7 +20,7 @@ export interface NoiseArgs {
   pattern?: number;
   /** Measurement bandwidth of the deviations (Hz). */
   bandwidth?: number;
-  /** "h0=...,h-1=..." power-law noise of every part, added to the model's own. */
+  /** "h0=...,h-1=..." power-law noise of every part, added to the model's own and the scenario's part noise. */
   partNoise?: string;
 }
 
@@ -68,10 +68,17 @@ export function noiseOfScenario(
     );
   }
   const { intensity, detuningWalk } = scenario.noise;
-  const partsAreQuiet = !parts || Object.values(parts).every((h) => h === 0);
+  // the scenario's own part noise (noise.powerLaw or noise.phaseNoise), with the flag's on top
+  const scenarioParts = scenario.noise.parts?.map((p): PowerLawNoise => ({ ...NO_POWER_LAW_NOISE, ...p })) ?? null;
+  const partNoise =
+    scenarioParts || parts
+      ? Array.from({ length: model.nodes }, (_, k) => addPowerLaw(scenarioParts?.[k] ?? NO_POWER_LAW_NOISE, parts ?? NO_POWER_LAW_NOISE))
+      : null;
+  const partsAreQuiet = !partNoise || partNoise.every((p) => Object.values(p).every((h) => h === 0));
   if (!(intensity > 0) && !(detuningWalk > 0) && partsAreQuiet) {
     throw new UsageError(
-      `the scenario has no noise (noise.intensity and noise.detuningWalk are 0) and no ${names.partNoise} was given: there is nothing to analyse`,
+      'the scenario has no noise (noise.intensity and noise.detuningWalk are 0, no noise.powerLaw or noise.phaseNoise) ' +
+        `and no ${names.partNoise} was given: there is nothing to analyse`,
     );
   }
 
@@ -94,7 +101,7 @@ export function noiseOfScenario(
   try {
     analysis = lockedPatternNoise(model, locked, {
       ...(args.bandwidth !== undefined ? { bandwidthHz: args.bandwidth } : {}),
-      ...(parts ? { partNoise: Array.from({ length: model.nodes }, (): PowerLawNoise => parts) } : {}),
+      ...(partNoise ? { partNoise } : {}),
     });
   } catch (error) {
     if (error instanceof RangeError) throw new InputError('', error.message, { source });
@@ -107,7 +114,7 @@ export function noiseOfScenario(
     scenario: scenario.name,
     pattern: { index, kind: chosen.kind, q: chosen.q ?? null, mode: chosen.mode, stable: chosen.stable, wantedMode: chosen.wantedMode },
     carrierAssumed: scenario.units.nominalFrequencyAssumed,
-    sources: { model: { intensity, detuningWalk }, parts },
+    sources: { model: { intensity, detuningWalk }, parts, scenarioParts },
     ...analysis,
     notes: {
       method:
@@ -120,7 +127,8 @@ export function noiseOfScenario(
         'offsets above averagedModelLimitHz (f0 / 100), and deviations at tau below about 1 / averagedModelLimitHz, ' +
         'rest on the averaged model beyond its range: the resonator selectivity it leaves out shapes real noise there',
       modelNoise:
-        "the model's white noise q enters as white FM with amplitude noise beside it; its detuning random walk as random-walk FM; --part-noise adds each part's h2 h1 h0 h-1 h-2",
+        "the model's white noise q enters as white FM with amplitude noise beside it; its detuning random walk as random-walk FM; " +
+        "the scenario's part noise (noise.powerLaw, noise.phaseNoise) and --part-noise add each part's h2 h1 h0 h-1 h-2",
       seconds: scenario.units.nominalFrequencyAssumed
         ? ASSUMED_FREQUENCY_NOTE
         : `seconds at the scenario's nominal frequency, ${scenario.units.nominalFrequencyHz} Hz`,

@@ -80,8 +80,9 @@ export class SessionRunner {
       nominalFrequencyAssumed: s.units.nominalFrequencyAssumed,
       omega: Array.from(p.omega),
       links: Array.from(p.linkFrom, (from, e) => ({ from, to: p.linkTo[e], weight: p.linkWeight[e], nominal: p.linkNominal[e] })),
-      detuning: Array.from(p.detuning),
-      detuningPpm: Array.from(p.detuning, (d) => (p.epsilon > 0 ? deltaToPpm(d, p.epsilon) : 0)),
+      // nominal values: part noise and the environment move the detuning every tick on top of them
+      detuning: this.session.nominalDetuning(),
+      detuningPpm: this.session.nominalDetuning().map((d) => (p.epsilon > 0 ? deltaToPpm(d, p.epsilon) : 0)),
       coupling: { strength: p.strength, reactive: p.reactive, dissipative: p.dissipative },
       noise: { intensity: p.noiseIntensity, detuningWalk: p.detuningWalk, seed: s.noise.seed },
       macroStep: this.session.macroStep,

@@ -4,6 +4,7 @@ import type { Perturbation } from '../session/perturbation.js';
 import { FaultGenerator, type GeneratorState } from './generator.js';
 import { applyToView, appliesToUncoupled, previousValuesOf } from './restore.js';
 import type { TickView } from './tick-view.js';
+import { RAMP_STEPS, rampStepsDue, rampTarget, rampValue, type ActiveRamp } from './ramp.js';
 import type { Campaign, FaultPlan } from './types.js';
 import { FaultEvaluation, type EvaluationState, type FaultVerdict, type TimeBase } from './verdict.js';
 
@@ -28,6 +29,8 @@ export interface CampaignRunState {
   open: EvaluationState[];
   /** Absent in checkpoints written before judging could be cut short: then read off the open evaluations. */
   restores?: PendingRestore[];
+  /** Ramps still moving (absent in checkpoints written before faults could ramp). */
+  ramps?: ActiveRamp[];
   lastView: TickView | null;
   started: number;
   finished: number;
@@ -49,6 +52,7 @@ export class CampaignRun {
   private readonly generator: FaultGenerator | null;
   private open: FaultEvaluation[] = [];
   private restores: PendingRestore[] = [];
+  private ramps: ActiveRamp[] = [];
   /** Verdicts of evaluations cut short before the latest tick, handed out with its afterTick. */
   private cut: FaultVerdict[] = [];
   private lastView: TickView | null = null;
@@ -82,6 +86,17 @@ export class CampaignRun {
     const due = (start: number) => start <= tau * (1 + 1e-12) && start < this.until;
     const queued: QueuedPerturbation[] = [];
     const view = this.params.mutableValues();
+    // ramps move on before anything else happens at this tick: a restore or a new fault of the same parameter wins
+    this.ramps = this.ramps.filter((ramp) => {
+      const due = rampStepsDue(ramp, tau);
+      if (due > ramp.taken) {
+        ramp.taken = due;
+        const p = rampValue(ramp.from, ramp.to, due / RAMP_STEPS);
+        applyToView(p, view, this.params);
+        queued.push({ perturbation: p, by: `campaign:${ramp.id} (ramp ${due}/${RAMP_STEPS})`, uncoupled: appliesToUncoupled(p) });
+      }
+      return ramp.taken < RAMP_STEPS;
+    });
     this.restores = this.restores.filter((pending) => {
       if (tau < pending.at * (1 - 1e-12)) return true;
       const evaluation = this.open.find((e) => e.id === pending.id);
@@ -116,6 +131,9 @@ export class CampaignRun {
     for (const plan of starting) {
       const p = plan.perturbation;
       const restore = plan.restore === 'previous' ? previousValuesOf(p, view, this.params) : plan.restore === 'none' ? null : plan.restore;
+      // a ramp starts from the values the fault replaces (what "previous" restores too)
+      const rampTo = plan.ramp !== undefined ? rampTarget(p, this.params) : null;
+      const rampFrom = rampTo ? previousValuesOf(rampTo, view, this.params)! : null;
       applyToView(p, view, this.params);
       const evaluation = FaultEvaluation.begin(plan, tau, restore, this.lastView, this.lock);
       // faults applied at the same tick are judged together: their effects cannot be told apart
@@ -126,6 +144,11 @@ export class CampaignRun {
       if (evaluation.state.restoreAt !== null) this.restores.push({ id: plan.id, at: evaluation.state.restoreAt, restore });
       this.open.push(evaluation);
       this.started++;
+      if (rampTo && rampFrom) {
+        // the value at the start is the one replaced: the first step is taken at the next tick
+        this.ramps.push({ id: plan.id, start: tau, end: tau + plan.ramp!, from: rampFrom, to: rampTo, taken: 0 });
+        continue;
+      }
       queued.push({ perturbation: p, by: `campaign:${plan.id}`, uncoupled: appliesToUncoupled(p) });
     }
     return queued;
@@ -165,6 +188,7 @@ export class CampaignRun {
       generator: this.generator?.save() ?? null,
       open: this.open.map((e) => e.state),
       restores: this.restores,
+      ramps: this.ramps,
       lastView: this.lastView,
       started: this.started,
       finished: this.finished,
@@ -182,6 +206,7 @@ export class CampaignRun {
       state.open
         .filter((s) => s.restoreAt !== null && s.restoredAt === null)
         .map((s) => ({ id: s.plan.id, at: s.restoreAt!, restore: s.restore }));
+    this.ramps = state.ramps ?? [];
     this.lastView = state.lastView;
     this.started = state.started;
     this.finished = state.finished;

@@ -5,7 +5,7 @@
  *
  * Defaults: timeUnit "tau"; restore "previous" (kick-mode: none); criteria mustPersist true,
  * mustRelock true, relockWithin three lock windows, no excursion or divergence limit,
- * predictionMustAgree false; stability from the first lock, with the uncoupled twin, at most
+ * predictionMustAgree false; no ramp (a step); stability from the first lock, with the uncoupled twin, at most
  * 20000 samples.
  */
 import { child, has, item, type JsonObject } from '../util/json-fields.js';
@@ -30,12 +30,13 @@ import { parseCriteria } from './criteria.js';
 import { parseRandomSpec } from './parse-random.js';
 import { parseMask, type StabilityMask } from '../stability/mask.js';
 import { builtInMaskNames, builtInMaskRaw } from '../scenarios/masks.js';
+import { RAMPED_ACTIONS } from './ramp.js';
 import type { Campaign, Criteria, DetectorSpec, FaultPlan, RestoreSpec, StabilitySpec, TimeUnit } from './types.js';
 
 const { expectObject, expectArray, numberField, integer, inRange } = checks;
 
 const TOP_FIELDS = ['name', 'description', 'timeUnit', 'criteria', 'detector', 'stability', 'faults', 'random'];
-const FAULT_FIELDS = ['id', 'start', 'action', 'params', 'duration', 'restore', 'criteria'];
+const FAULT_FIELDS = ['id', 'start', 'action', 'params', 'ramp', 'duration', 'restore', 'criteria'];
 const TIME_UNITS: readonly TimeUnit[] = ['tau', 'slow', 'seconds'];
 
 export const DEFAULT_MAX_SAMPLES = 20000;
@@ -202,7 +203,12 @@ function parseFault(raw: unknown, path: string, index: number, model: ModelParam
     duration = timeField(obj, path, 'duration', scale, true);
   }
   const criteria = has(obj, 'criteria') ? parseCriteria(obj.criteria, child(path, 'criteria'), base, scale) : base;
-  return { id, source: 'schedule', start, duration, perturbation, restore, criteria };
+  const plan: FaultPlan = { id, source: 'schedule', start, duration, perturbation, restore, criteria };
+  if (has(obj, 'ramp')) {
+    if (!RAMPED_ACTIONS.includes(action)) fail(child(path, 'ramp'), `${action} is instantaneous: it cannot ramp`);
+    plan.ramp = timeField(obj, path, 'ramp', scale, true);
+  }
+  return plan;
 }
 
 function parseRestore(obj: JsonObject, path: string, action: FaultPlan['perturbation']['action'], model: ModelParameters): RestoreSpec {

@@ -34,8 +34,10 @@ export interface FaultPlan {
   source: 'schedule' | 'random';
   /** Planned start (tau); applied at the first tick boundary at or after it. */
   start: number;
-  /** Time from start to restore (tau); null for permanent and instantaneous faults. */
+  /** Time from the full value (the start, or the end of the ramp) to the restore (tau); null for permanent and instantaneous faults. */
   duration: number | null;
+  /** Time over which the parameters move linearly to the fault's values (tau); absent for a step. */
+  ramp?: number;
   perturbation: Perturbation;
   restore: RestoreSpec;
   criteria: Criteria;

@@ -50,6 +50,8 @@ export interface FaultVerdict {
   /** tau at which the fault was applied (the first tick boundary at or after its start). */
   appliedAt: number;
   restoredAt: number | null;
+  /** When the fault ramps: the tau at which its parameters reached their values (judging counts from there); else null. */
+  rampedUntil: number | null;
   windowEnd: number;
   /** tau up to which the fault was judged: the window end, the end of the soak, or the next fault. */
   judgedUntil: number;
@@ -104,6 +106,8 @@ export interface EvaluationState {
   restore: Perturbation | null;
   restoreAt: number | null;
   restoredAt: number | null;
+  /** Where a ramping fault reaches its values (absent for a step, and in older checkpoints). */
+  rampEnd?: number;
   windowEnd: number;
   /** Lock tolerance of the detector (rad), for the settling time. */
   lockTolerance: number;
@@ -124,6 +128,11 @@ export interface EvaluationState {
   overlaps: string[];
 }
 
+/** What judging counts from: the restore, the end of a ramp, or the fault itself. */
+function latestChangeName(s: EvaluationState, restore: boolean): string {
+  return restore ? 'restore' : s.rampEnd !== undefined ? "ramp's end" : 'fault';
+}
+
 /**
  * One fault under evaluation, from the tick it is applied to the end of its window
  * (restore + relockWithin, or start + relockWithin without a restore), or to the application of
@@ -140,7 +149,10 @@ export class FaultEvaluation {
     before: TickView | null,
     lock: LockSettings,
   ): FaultEvaluation {
-    const restoreAt = plan.duration !== null ? appliedAt + plan.duration : null;
+    // a ramp is judged from where it ends: the duration runs from there, and so does the window without a restore
+    const rampEnd = plan.ramp !== undefined ? appliedAt + plan.ramp : undefined;
+    const full = rampEnd ?? appliedAt;
+    const restoreAt = plan.duration !== null ? full + plan.duration : null;
     const nothing: SystemView = {
       label: 'unlocked',
       status: 'unlocked',
@@ -156,7 +168,8 @@ export class FaultEvaluation {
       restore,
       restoreAt,
       restoredAt: null,
-      windowEnd: (restoreAt ?? appliedAt) + plan.criteria.relockWithin,
+      ...(rampEnd !== undefined ? { rampEnd } : {}),
+      windowEnd: (restoreAt ?? full) + plan.criteria.relockWithin,
       lockTolerance: lock.tolerance,
       lockWindow: lock.window,
       lastTau: appliedAt,
@@ -196,7 +209,7 @@ export class FaultEvaluation {
 
   observe(view: TickView): void {
     const s = this.state;
-    const reference = s.restoreAt === null ? s.appliedAt : s.restoredAt;
+    const reference = s.restoreAt === null ? (s.rampEnd ?? s.appliedAt) : s.restoredAt;
     s.lastTau = view.tau;
     observeTrack(s.full, view.full, view.tau, reference);
     observeTrack(s.guide, view.guide, view.tau, reference);
@@ -206,7 +219,7 @@ export class FaultEvaluation {
     if (s.restoredAt === null && s.predictedDuring === null && p && made(s.appliedAt)) {
       s.predictedDuring = { persists: p.persists, message: p.message };
     }
-    if (p && made(s.restoredAt ?? s.appliedAt)) s.continued = p.persists ? p.continued : null;
+    if (p && made(s.restoredAt ?? s.rampEnd ?? s.appliedAt)) s.continued = p.persists ? p.continued : null;
   }
 
   windowClosed(tau: number): boolean {
@@ -224,10 +237,10 @@ export class FaultEvaluation {
     const track = s.full;
     const wasLost = lost(track);
     // settled means the detector's window, all of it after the latest perturbation, saw no motion
-    const windowSeen = s.lastTau - (s.restoredAt ?? s.appliedAt) >= (s.lockWindow ?? 0) * (1 - 1e-9);
+    const windowSeen = s.lastTau - (s.restoredAt ?? s.rampEnd ?? s.appliedAt) >= (s.lockWindow ?? 0) * (1 - 1e-9);
     const settled = windowSeen && settledInBaseline(track);
     const fullPersisted = windowSeen && persisted(track);
-    const reference = s.restoreAt === null ? s.appliedAt : s.restoredAt;
+    const reference = s.restoreAt === null ? (s.rampEnd ?? s.appliedAt) : s.restoredAt;
     const recovered = !wasLost || track.relockedAt !== null;
     const relockTau = wasLost && track.relockedAt !== null && reference !== null ? Math.max(0, track.relockedAt - reference) : null;
     const settleTau = settled ? settledAfter(track, s.lockTolerance) : null;
@@ -258,7 +271,7 @@ export class FaultEvaluation {
         if (relockTau === null) {
           if (complete)
             reasons.push(
-              `did not re-lock into ${track.baseline} within ${spanText(c.relockWithin, base)} of the ${s.restoreAt === null ? 'fault' : 'restore'}`,
+              `did not re-lock into ${track.baseline} within ${spanText(c.relockWithin, base)} of the ${latestChangeName(s, s.restoreAt !== null)}`,
             );
           else open = true;
         } else if (relockTau > c.relockWithin)
@@ -321,7 +334,7 @@ export class FaultEvaluation {
         : settled
           ? 'the window had not closed'
           : !windowSeen
-            ? `less than a lock window had passed since the ${s.restoredAt === null ? 'fault' : 'restore'}`
+            ? `less than a lock window had passed since the ${latestChangeName(s, s.restoredAt !== null)}`
             : `the ring was still ${track.finalStatus}`;
       notes.push(`undecided when judging stopped: ${why}`);
     }
@@ -334,6 +347,7 @@ export class FaultEvaluation {
       restore: s.restore,
       appliedAt: s.appliedAt,
       restoredAt: s.restoredAt,
+      rampedUntil: s.rampEnd ?? null,
       windowEnd: s.windowEnd,
       judgedUntil: s.lastTau,
       cutShort,

@@ -111,6 +111,15 @@ export class IntegratorSwitch {
     if (this.envelope) this.switchTo(this.decide(this.mode === 'micro' ? RETURN_HYSTERESIS : 1));
   }
 
+  /**
+   * After the detuning moved between ticks (part noise, the environment): the envelope's chunk
+   * was solved with the old values, so it starts again from where it is. Micro steps read the
+   * parameters afresh at every step and need nothing.
+   */
+  afterDetuningChange(): void {
+    if (this.mode === 'envelope' && this.envelope) this.envelope.restart(this.envelope.state, this.envelope.tau);
+  }
+
   /** After tick `tick`: micro steps that stand in for the envelope look at it again about once per slow time unit. */
   afterTick(tick: number): void {
     if (this.mode === 'micro' && this.envelope && tick % this.recheckTicks === 0) {

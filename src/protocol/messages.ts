@@ -45,6 +45,7 @@ export interface SessionInfo {
   nominalFrequencyAssumed: boolean;
   omega: number[];
   links: LinkState[];
+  /** Nominal Delta_k per node: without the offsets part noise and the environment add each tick. */
   detuning: number[];
   detuningPpm: number[];
   coupling: { strength: number; reactive: number; dissipative: number };

@@ -17,8 +17,10 @@ export interface NoiseOutput extends LockedNoise {
   sources: {
     /** The model's additive white noise intensity q (per unit tau) and detuning random walk (per unit tau). */
     model: { intensity: number; detuningWalk: number };
-    /** The parts' coefficients, the same for every node; null when none were given. */
+    /** The parts' coefficients from --part-noise, the same for every node; null when none were given. */
     parts: PowerLawNoise | null;
+    /** Per node, the scenario's own part noise (noise.powerLaw or the fit of noise.phaseNoise); null when it gives none. */
+    scenarioParts?: PowerLawNoise[] | null;
   };
   notes: Record<string, string>;
   warnings: string[];

@@ -11,7 +11,9 @@
  *   coupling that names neither does nothing: state the kind of coupling you mean.
  * - `detuning` (Delta_k) or `detuningPpm` (never both) default to zeros.
  * - `noise` defaults to {intensity 0, seed 1, detuningWalk 0}; when given, intensity and seed
- *   are required.
+ *   are required (intensity defaults to 0 when the parts' `powerLaw` or `phaseNoise` is given,
+ *   read in noise-spec.ts).
+ * - `environment` (temperature, aging, supply) is read in environment.ts.
  * - `initial` defaults to {random: {seed 1, amplitude 0.1}}; `pattern.mode` defaults to 0.
  * - `integrator` defaults: stepsPerPeriod from defaultStepsPerPeriod (src/integrate/default-steps.ts: 5 with
  *   the fitted Adams method at eps <= 1e-4 where it applies, else RK4's rule, 56 at eps = 1e-3), averagingGrid 8, and macroPeriods
@@ -26,6 +28,8 @@ import { DEFAULT_NOMINAL_FREQUENCY_HZ, offsetPpmToOmega, ppmToDelta, qualityToLo
 import { defaultStepsPerPeriod } from '../integrate/default-steps.js';
 import { child, describeValue, fieldChecks, has, item, type Check, type JsonObject } from '../util/json-fields.js';
 import { InputError, failInput as fail } from '../util/input-error.js';
+import { PART_NOISE_FIELDS, parsePartNoise, partNoiseToJSON } from './noise-spec.js';
+import { environmentToJSON, parseEnvironment } from './environment.js';
 
 export const MAX_NODES = 4096;
 export const DEFAULT_NAME = 'Untitled scenario';
@@ -97,10 +101,11 @@ const TOP_FIELDS = [
   'noise',
   'initial',
   'integrator',
+  'environment',
 ] as const;
 const MODE_FIELDS = ['omega', 'offsetPpm', 'gain', 'loss', 'quality'] as const;
 const COUPLING_FIELDS = ['strength', 'reactive', 'dissipative'] as const;
-const NOISE_FIELDS = ['intensity', 'seed', 'detuningWalk'] as const;
+const NOISE_FIELDS = ['intensity', 'seed', 'detuningWalk', ...PART_NOISE_FIELDS] as const;
 const INITIAL_KINDS = ['state', 'random', 'pattern'] as const;
 const INTEGRATOR_FIELDS = ['stepsPerPeriod', 'macroPeriods', 'averagingGrid'] as const;
 
@@ -234,12 +239,15 @@ function parseDetuning(top: JsonObject, nodes: number, epsilon: number): number[
   return new Array<number>(nodes).fill(0);
 }
 
-function parseNoise(value: unknown): NoiseSpec {
+function parseNoise(value: unknown, nodes: number, nominalHz: number): NoiseSpec {
   const obj = expectObject(value, 'noise', NOISE_FIELDS);
+  const parts = parsePartNoise(obj, nodes, nominalHz);
   return {
-    intensity: numberField(obj, 'noise', 'intensity', nonNegative),
+    // with the parts' own noise given, the model's white noise q is optional
+    intensity: numberField(obj, 'noise', 'intensity', nonNegative, parts ? 0 : undefined),
     seed: numberField(obj, 'noise', 'seed', uint32),
     detuningWalk: numberField(obj, 'noise', 'detuningWalk', nonNegative, DEFAULT_NOISE.detuningWalk),
+    ...(parts ? { parts } : {}),
   };
 }
 
@@ -343,9 +351,13 @@ function parseUnsourced(raw: unknown): Scenario {
   const modes = parseModes(required(top, 'modes', ''), epsilon);
   const coupling = parseCoupling(required(top, 'coupling', ''));
   const detuning = parseDetuning(top, nodes, epsilon);
-  const noise = has(top, 'noise') ? parseNoise(top.noise) : { ...DEFAULT_NOISE };
+  const noise = has(top, 'noise') ? parseNoise(top.noise, nodes, nominalFrequencyHz) : { ...DEFAULT_NOISE };
   const initial = has(top, 'initial') ? parseInitial(top.initial, nodes, modes.length) : { random: { ...DEFAULT_INITIAL_RANDOM } };
   const integrator = parseIntegrator(top.integrator, epsilon);
+  const environment = parseEnvironment(top, nodes);
+  // both move a node's frequency through its detuning, Delta = y / eps
+  if (epsilon === 0 && (noise.parts || environment))
+    fail(noise.parts ? 'noise' : 'environment', 'needs epsilon > 0: part noise and the environment act through the detuning');
   const scenario: Scenario = {
     name,
     nodes,
@@ -359,6 +371,7 @@ function parseUnsourced(raw: unknown): Scenario {
     initial,
     integrator,
     units: { nominalFrequencyHz, nominalFrequencyAssumed: !has(top, 'nominalFrequencyHz') },
+    ...(environment ? { environment } : {}),
   };
   if (integrator.stepsPerPeriod === 0) integrator.stepsPerPeriod = defaultStepsPerPeriod(scenario);
   return scenario;
@@ -375,9 +388,10 @@ export interface ScenarioJSON {
   modes: ModeSpec[];
   coupling: CouplingSpec;
   detuning: number[];
-  noise: NoiseSpec;
+  noise: Omit<NoiseSpec, 'parts'> & { powerLaw?: Record<string, number>[] };
   initial: InitialSpec;
   integrator: IntegratorSpec;
+  environment?: Record<string, unknown>;
 }
 
 /**
@@ -401,10 +415,16 @@ export function scenarioToJSON(s: Scenario): ScenarioJSON {
     modes: s.modes.map((m) => ({ omega: m.omega, gain: m.gain, loss: m.loss })),
     coupling: { ...s.coupling },
     detuning: [...s.detuning],
-    noise: { ...s.noise },
+    noise: noiseToJSON(s.noise),
     initial: copyInitial(s.initial),
     integrator: { ...s.integrator },
+    ...(s.environment ? { environment: environmentToJSON(s.environment) } : {}),
   };
+}
+
+function noiseToJSON(noise: NoiseSpec): ScenarioJSON['noise'] {
+  const { parts, ...model } = noise;
+  return parts ? { ...model, powerLaw: partNoiseToJSON(parts) } : model;
 }
 
 function copyInitial(initial: InitialSpec): InitialSpec {

@@ -38,6 +38,23 @@ export interface NoiseSpec {
   detuningWalk: number;
   /** Seed of the noise generator (unsigned 32-bit integer). */
   seed: number;
+  /**
+   * Per node, the part's power-law fractional-frequency noise (src/scenario/noise-spec.ts: given as
+   * coefficients or fitted to a phase-noise spec); absent when the scenario gives none.
+   */
+  parts?: PartNoise[];
+}
+
+/** One node's power-law noise as the engine generates it (h1, flicker PM, is not generated). */
+export interface PartNoise {
+  /** White PM, S_y = h2 f^2 (added at the output). */
+  h2: number;
+  /** White FM, S_y = h0. */
+  h0: number;
+  /** Flicker FM, S_y = h-1 / f. */
+  hm1: number;
+  /** Random-walk FM, S_y = h-2 / f^2. */
+  hm2: number;
 }
 
 /** x and x' of one mode of one node, in the original coordinates. */
@@ -86,4 +103,36 @@ export interface Scenario {
   initial: InitialSpec;
   integrator: IntegratorSpec;
   units: UnitsSpec;
+  /** Temperature, aging and supply (src/scenario/environment.ts); absent when the scenario gives none. */
+  environment?: EnvironmentSpec;
+}
+
+/**
+ * A quantity over board time (seconds from the start of the run): a start value, steps and
+ * linear ramps at given times, and an optional sinusoidal cycle on top.
+ */
+export interface ProfileSpec {
+  start: number;
+  /** In time order; `over` 0 is a step. */
+  changes: { at: number; by: number; over: number }[];
+  cycle: { amplitude: number; periodS: number; phaseS: number } | null;
+}
+
+/** Frequency-temperature curve of one part: ppm = a1 d + a2 d^2 + a3 d^3 with d = T - inflectionC. */
+export interface TemperatureCurve {
+  inflectionC: number;
+  a1PpmPerC: number;
+  a2PpmPerC2: number;
+  a3PpmPerC3: number;
+}
+
+/** Aging of one part from the start of the run: logarithmic A ln(1 + t / t1), or linear ppm per day. */
+export type AgingSpec = { logPpm: number; timeConstantS: number } | { ppmPerDay: number };
+
+export interface EnvironmentSpec {
+  /** Ambient temperature (deg C) and per-node offsets from it (a board gradient), with one curve per node. */
+  temperature: { ambient: ProfileSpec; offsetsC: number[]; curves: TemperatureCurve[] } | null;
+  aging: AgingSpec[] | null;
+  /** Supply voltage (V) against its nominal value, with one pushing coefficient per node. */
+  supply: { voltage: ProfileSpec; nominalV: number; pushingPpmPerV: number[] } | null;
 }

@@ -19,6 +19,8 @@ import { PatternTracker, patternIdentity, type PatternReport, type PatternTracke
 import { LOCK_TOLERANCE, type LockSettings, type LockTransition } from '../observe/lock-detector.js';
 import { CoupledPairs } from '../observe/coupled-pairs.js';
 import type { RandomState } from '../util/random.js';
+import { wrapAngle } from '../util/angles.js';
+import { FrequencyDrive, type FrequencyDriveState } from './frequency-drive.js';
 
 export interface SessionOptions {
   /**
@@ -77,6 +79,8 @@ export interface SessionCheckpoint {
   margin: { stale: boolean; value: { margin: number; rotation: number[] } | null };
   /** Which integrator ran, with the envelope's state (absent in older checkpoints: micro steps). */
   integrator?: IntegratorSwitchCheckpoint;
+  /** Part noise and environment drive (absent when the scenario has neither). */
+  drive?: FrequencyDriveState;
   /** Live prediction state (absent in checkpoints written before it existed). */
   prediction?: { stale: boolean; kicked: boolean; value: LivePrediction | null; predictor: LivePredictorState };
 }
@@ -151,6 +155,8 @@ export class CoSimulation {
   readonly lock: LockSettings;
   /** The coupled pairs whose phase differences the lock detectors watch (updated after link and coupling faults). */
   readonly pairs: CoupledPairs;
+  /** Part noise and environment (src/session/frequency-drive.ts); null when the scenario has neither. */
+  readonly drive: FrequencyDrive | null;
 
   private readonly fullTracker: PatternTracker;
   private readonly guideTracker: PatternTracker;
@@ -175,6 +181,7 @@ export class CoSimulation {
     const micro = new FullSystem(this.params, initial, scenario.integrator.stepsPerPeriod, scenario.noise.seed);
     this.guide = new GuideSystem(this.params, initial, scenario.integrator.averagingGrid, options.guideTolerance ?? GUIDE_TOLERANCE);
     this.macroStep = macroStepOf(scenario);
+    this.drive = FrequencyDrive.of(scenario, this.params, this.macroStep);
     this.integrator = new IntegratorSwitch(
       this.params,
       micro,
@@ -226,6 +233,11 @@ export class CoSimulation {
     if (this.halted) return null;
     this.applyQueue();
     const tauEnd = until !== undefined ? Math.min(this.tau + this.macroStep, until) : this.tau + this.macroStep;
+    if (this.drive) {
+      this.drive.beforeTick(this.tau, tauEnd);
+      this.guide.invalidate();
+      this.integrator.afterDetuningChange();
+    }
     const outcome = this.integrator.advance(tauEnd);
     if (!outcome.ok) {
       this.halted = outcome.reason ?? 'blow-up';
@@ -252,6 +264,15 @@ export class CoSimulation {
     return last;
   }
 
+  /**
+   * Each node's nominal detuning: the scenario's or the one an operator or a campaign set, without
+   * the offset the part noise and the environment add for the current tick (frequency-drive.ts).
+   * What the board is, as the catalogue and the controls see it; equal to params.detuning without a drive.
+   */
+  nominalDetuning(): number[] {
+    return Array.from(this.drive ? this.drive.nominal : this.params.detuning);
+  }
+
   /** The full state in the original coordinates (x, x') at the current tau. */
   fullState(): ModeState[][] {
     return originalFromRotating(this.params, this.tau, this.full.state);
@@ -275,6 +296,7 @@ export class CoSimulation {
       trackers: { full: this.fullTracker.save(), guide: this.guideTracker.save() },
       margin: { stale: this.marginStale, value: this.margin },
       integrator: this.integrator.save(),
+      ...(this.drive ? { drive: this.drive.save() } : {}),
       prediction: { stale: this.predictionStale, kicked: this.predictionKicked, value: this.prediction, predictor: this.predictor.save() },
     };
   }
@@ -306,6 +328,7 @@ export class CoSimulation {
     this.guide.restore({ state: saved.guide, tau: saved.tau, failed: saved.guideFailed, nextStep: saved.guideStep });
     p.restoreValues(saved.parameters);
     this.integrator.load(saved.integrator);
+    if (this.drive && saved.drive) this.drive.load(saved.drive);
     this.queue.push(...saved.queue.map((q) => ({ ...q })));
     this.eventCount = saved.eventCount;
     this.halted = saved.halted;
@@ -335,6 +358,8 @@ export class CoSimulation {
         addToAmplitude(this.full.state, m, node, mode, re, im);
         addToAmplitude(this.guide.state, m, node, mode, re, im);
       });
+      // a set detuning is the node's nominal value: the drive's offset stays on top of it
+      if (perturbation.action === 'set-detuning' && this.drive) this.drive.setNominal(perturbation.node, perturbation.delta);
       if (perturbation.action.endsWith('link') || perturbation.action === 'set-link-weight') linksChanged = true;
       if (perturbation.action !== 'set-noise') this.predictionStale = true;
       if (perturbation.action === 'kick-mode') this.predictionKicked = true;
@@ -367,6 +392,7 @@ export class CoSimulation {
     const full = this.fullTracker.observe(this.tau, this.full.state, fullObserved, this.group);
     const guide = this.guideTracker.observe(this.tau, this.guide.state, guideObserved, this.group);
     if (full.transition) this.recordTransition(full.transition);
+    if (this.drive) this.addOutputPhase(fullObserved.phase);
     const margin = guide.report.locked ? this.guideMargin() : null;
     if (!guide.report.locked) this.marginStale = true;
     const eps = this.params.epsilon;
@@ -386,6 +412,19 @@ export class CoSimulation {
       prediction: this.prediction,
       events,
     };
+  }
+
+  /**
+   * White PM is the output buffer's: it is in the phases read off the nodes (and so in every
+   * stability record), not in what the resonators or the lock detector see.
+   */
+  private addOutputPhase(phase: number[][]): void {
+    const pm = this.drive!.outputPhase;
+    const omega = this.params.omega;
+    for (let k = 0; k < phase.length; k++) {
+      if (pm[k] === 0) continue;
+      for (let j = 0; j < phase[k].length; j++) phase[k][j] = wrapAngle(phase[k][j] + (pm[k] * omega[j]) / omega[0]);
+    }
   }
 
   /** Lock, unlock and pattern-change events of the full system (the lock detector's transitions). */

@@ -1,37 +1,8 @@
 import { describe, expect, test } from 'vitest';
-import { CampaignRun, parseCampaign, tickViewOf } from '../../../src/campaign/index.js';
-import { CoSimulation } from '../../../src/session/session.js';
-import { makeScenario } from '../../support/scenarios.js';
+import { driveCampaign, driveCampaignResumed } from '../../support/campaign-ring.js';
 
 /** A campaign driving a real (small) session: what gets queued when, and what "previous" restores. */
-const scenario = makeScenario({
-  nodes: 3,
-  twoWay: true,
-  epsilon: 0.01,
-  modes: [{ omega: 1, gain: 1, loss: 0 }],
-  coupling: { strength: 0.1, reactive: 0, dissipative: 1 },
-  detuning: [0.01, 0, -0.01],
-  initial: { pattern: { q: 0, amplitude: 2, mode: 0 } },
-  stepsPerPeriod: 8,
-});
-
-function drive(raw: unknown, until: number) {
-  const session = new CoSimulation(scenario);
-  const campaign = parseCampaign(raw, scenario);
-  const run = new CampaignRun(campaign, session.params, until, session.lock, { epsilon: 0.01, secondsPerTau: 1e-7 });
-  const log: { tau: number; by: string; uncoupled: boolean }[] = [];
-  const verdicts = [];
-  while (session.tau < until) {
-    for (const q of run.beforeTick(session.tau)) {
-      session.enqueue(q.perturbation, q.by);
-      log.push({ tau: session.tau, by: q.by, uncoupled: q.uncoupled });
-    }
-    const frame = session.step(until)!;
-    verdicts.push(...run.afterTick(tickViewOf(frame, session.pairs)));
-  }
-  verdicts.push(...run.finishAll('end'));
-  return { session, run, log, verdicts };
-}
+const drive = driveCampaign;
 
 describe('a campaign run against a session', () => {
   test('faults start at the first tick boundary at or after their start; same-tick faults restore in a chain', () => {
@@ -93,23 +64,7 @@ describe('a campaign run against a session', () => {
     };
     const straight = drive(raw, 1200).verdicts;
 
-    const session = new CoSimulation(scenario);
-    const campaign = parseCampaign(raw, scenario);
-    const base = { epsilon: 0.01, secondsPerTau: 1e-7 };
-    let run = new CampaignRun(campaign, session.params, 1200, session.lock, base);
-    let resumed = session;
-    const verdicts = [];
-    while (resumed.tau < 1200) {
-      if (resumed.tick === 60) {
-        const saved = JSON.parse(JSON.stringify({ s: resumed.checkpoint(), r: run.save() }));
-        resumed = CoSimulation.fromCheckpoint(scenario, saved.s);
-        run = new CampaignRun(campaign, resumed.params, 1200, resumed.lock, base);
-        run.load(saved.r);
-      }
-      for (const q of run.beforeTick(resumed.tau)) resumed.enqueue(q.perturbation, q.by);
-      verdicts.push(...run.afterTick(tickViewOf(resumed.step(1200)!, resumed.pairs)));
-    }
-    verdicts.push(...run.finishAll('end'));
+    const { verdicts } = driveCampaignResumed(raw, 1200, 60);
     expect(verdicts).toEqual(straight);
     expect(straight.length).toBeGreaterThan(2);
   });

@@ -50,6 +50,23 @@ describe('syncring noise', () => {
       expect(row.every((v) => v > 0 && Number.isFinite(v))).toBe(true);
   });
 
+  test("the demo's part noise comes from its scenario: one part near 1e-11 at 1 s, as SP 1065 gives for its coefficients", async () => {
+    const result = JSON.parse((await run(['noise', 'timing-board-8'])).out) as NoiseOutput;
+    expect(result.sources.parts).toBeNull();
+    expect(result.sources.scenarioParts).toHaveLength(8);
+    // by hand (NIST SP 1065 power-law table): h0 / 2 + 2 ln 2 h-1 + (2 pi^2 / 3) h-2 at tau = 1 s, plus white PM
+    // 3 fh h2 / (4 pi^2) at the default bandwidth fh = f0 / 2 = 5 MHz: 1.3204e-22 + 7.6e-25, so ADEV = 1.152e-11
+    const avar = 5e-23 / 2 + 2 * Math.LN2 * 7e-23 + ((2 * Math.PI ** 2) / 3) * 1.5e-24 + (3 * 5e6 * 2e-30) / (4 * Math.PI ** 2);
+    expect(at(result.adev, result.adev.uncoupled, 1) / Math.sqrt(avar)).toBeCloseTo(1, 2);
+  });
+
+  test("--part-noise adds to the scenario's part noise", async () => {
+    const path = scenarioFile({ noise: { seed: 1, powerLaw: { h0: 2e-22 } } });
+    const both = JSON.parse((await run(['noise', path, '--part-noise', 'h0=2e-22'])).out) as NoiseOutput;
+    // white FM h0 = 4e-22 in all: sigma_y(1 s) = sqrt(4e-22 / 2) (SP 1065)
+    expect(at(both.adev, both.adev.uncoupled, 1) / Math.sqrt(2e-22)).toBeCloseTo(1, 2);
+  });
+
   test('one part alone (the uncoupled reference) meets SP 1065 for white, flicker and random-walk FM to 1 %', async () => {
     // SP 1065 (Riley 2008), power-law table: sigma_y^2 = h0 / (2 tau), 2 ln 2 h-1, (2 pi^2 / 3) h-2 tau
     const quiet = scenarioFile({ noise: { intensity: 0, seed: 1 } });

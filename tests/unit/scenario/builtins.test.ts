@@ -23,7 +23,13 @@ describe('built-in scenarios', () => {
     expect(s.modes[1]!.loss).toBeCloseTo(1.0015 / 2.5, 14); // 1.0015 / (1e-5 * 2.5e5)
     expect(s.detuning[0]).toBeCloseTo(0.012, 14); // 0.12 ppm / 1e-5
     expect(s.detuning[3]).toBeCloseTo(-0.015, 14); // -0.15 ppm / 1e-5
-    expect(s.noise).toEqual({ intensity: 1e-9, seed: 2026, detuningWalk: 0 });
+    // a plausible 10 MHz crystal oscillator (values from memory, README 'Noise of the parts'): the same part noise on every node
+    const part = { h2: 2e-30, h0: 5e-23, hm1: 7e-23, hm2: 1.5e-24 };
+    expect(s.noise).toEqual({ intensity: 0, seed: 2026, detuningWalk: 0, parts: new Array(8).fill(part) });
+    // SP 1065 Allan variance of one part at 1 s, by hand: 5e-23 / 2 + 2 ln 2 * 7e-23 + (2 pi^2 / 3) * 1.5e-24 = 1.320e-22
+    // (white PM adds 3 fh h2 / (4 pi^2) = 7.6e-19 at fh = 5 MHz only at tau well below 1 ms), so ADEV(1 s) = 1.15e-11
+    const avar = part.h0 / 2 + 2 * Math.LN2 * part.hm1 + ((2 * Math.PI * Math.PI) / 3) * part.hm2;
+    expect(Math.sqrt(avar)).toBeCloseTo(1.15e-11, 13);
     expect(s.initial).toEqual({ random: { seed: 7, amplitude: [1.0, 0.02] } });
     expect(s.integrator.macroPeriods).toBe(159); // round(1 / (2 pi 100 * 1e-5)) by hand
   });
