@@ -59,3 +59,15 @@ export function referralFactor(shuntCapacitanceF: number, loadCapacitanceF: numb
 export function loadResonanceResistance(motionalResistanceOhm: number, shuntCapacitanceF: number, loadCapacitanceF: number): number {
   return motionalResistanceOhm / referralFactor(shuntCapacitanceF, loadCapacitanceF);
 }
+
+/** The load capacitance at which the crystal runs at fHz: C_L = C1 / (2 (f / f_s - 1)) - C0 (the load formula solved for C_L); NaN where no load reaches it. */
+export function loadForFrequency(
+  seriesFrequencyHz: number,
+  motionalCapacitanceF: number,
+  shuntCapacitanceF: number,
+  frequencyHz: number,
+): number {
+  const pulling = frequencyHz / seriesFrequencyHz - 1;
+  const load = pulling > 0 ? motionalCapacitanceF / (2 * pulling) - shuntCapacitanceF : NaN;
+  return load > 0 ? load : NaN;
+}
