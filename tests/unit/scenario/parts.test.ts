@@ -265,4 +265,41 @@ describe('rules of thumb and bad part values', () => {
     expect(() => explainScenario(s, 'm.json')).toThrow(/^m\.json: parts: is missing/);
     expect(scenarioToJSON(s)).not.toHaveProperty('parts');
   });
+
+  test('the same rules on other invented boards: a 25 MHz part and a 32 kHz-range low-C0 part', () => {
+    // 25 MHz, R1 = 40 ohm, C1 = 8 fF, C0 = 2 pF, C_L = 8 pF: t = 0.64, R_L = 62.5 ohm (hand);
+    // R_n = -150 gives m = 2.4 (warned), -300 gives 4.8 (low end), -400 gives 6.4 (silent)
+    const crystal = {
+      seriesFrequencyHz: 25e6,
+      motionalResistanceOhm: 40,
+      motionalCapacitanceF: 8e-15,
+      shuntCapacitanceF: 2e-12,
+      loadCapacitanceF: 8e-12,
+    };
+    const warnings = (rn: number, nodes?: unknown[]): string[] =>
+      explainScenario(
+        parseScenario(board({ crystal, sustaining: { negativeResistanceOhm: rn, driveLevelW: 1e-4 }, ...(nodes ? { nodes } : {}) })),
+      ).warnings;
+    expect(warnings(-150)).toEqual([
+      expect.stringMatching(/node 0: start-up margin 2\.40 is below/),
+      expect.stringMatching(/node 1: start-up margin 2\.40 is below/),
+    ]);
+    expect(warnings(-300)[0]).toMatch(/start-up margin 4\.80 is at the low end/);
+    expect(warnings(-400)).toEqual([]);
+    // pullability -C1 / (2 (C0 + C_L)^2) = -8e-15 / 2e-22 = -40 ppm/pF; a 0.1 pF spread is about 4 ppm, more than
+    // 2 P cos(alpha) = 3.46 ppm: the span is named; with 0.05 pF (about 2 ppm) it is not
+    expect(warnings(-400, [{}, { loadToleranceF: 0.1e-12 }])).toEqual([expect.stringMatching(/span 3\.9\d ppm, more than the 3\.46 ppm/)]);
+    expect(warnings(-400, [{}, { loadToleranceF: 0.05e-12 }])).toEqual([]);
+    // a node with a lossier part of its own (R1 = 70 ohm): m = 400 * 0.64 / 70 = 3.66, named as that node's
+    expect(warnings(-400, [{}, { motionalResistanceOhm: 70 }])).toEqual([
+      expect.stringMatching(/node 1: start-up margin 3\.66 is at the low end/),
+      expect.stringMatching(/mode 0: the nodes' losses and gains differ by up to/),
+    ]);
+    // overlapping faults: the lossier part and a margin below 1 on it is an error at that node
+    expect(
+      errorOf(
+        board({ crystal, sustaining: { negativeResistanceOhm: -100, driveLevelW: 1e-4 }, nodes: [{}, { motionalResistanceOhm: 70 }] }),
+      ).path,
+    ).toBe('parts.nodes[1].motionalResistanceOhm');
+  });
 });
