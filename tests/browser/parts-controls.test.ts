@@ -58,6 +58,8 @@ describe.runIf(available)('parts in the controls', () => {
     await fieldset.locator('select').selectOption('3');
     // node 3 as built: f_s 8.4 ppm low, C_L = 16 - 0.1 - 0.43 = 15.47 pF
     await expect.poll(() => textOf(page, '[data-testid=trim-basis]')).toMatch(/from 15\.47 pF as built/);
+    // untouched, the node sits at its built load: no change
+    expect(await fieldset.locator('#trim').inputValue()).toBe('0');
     await fieldset.locator('#trim').fill('-0.1');
     // by hand with f_L = f_s (1 + C1 / (2 (C0 + C_L))) (docs/parts.md): 15.37 pF
     const fs = 9996925 * (1 - 8.4e-6);

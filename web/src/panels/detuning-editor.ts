@@ -98,7 +98,8 @@ export class DetuningEditor extends LitElement {
   private trimFor(ppm: number | null): string {
     if (!this.crystal || ppm === null || !Number.isFinite(ppm)) return '';
     const change = ppmToLoadChange(this.crystal, ppm, this.nominalFrequencyHz) / PICOFARAD;
-    return Number.isFinite(change) ? formatNumber(change, 4) : '';
+    // to 0.1 fF: a node at its built load reads 0, not the rounding left by solving the load formula back
+    return Number.isFinite(change) ? String(Number(change.toFixed(4))) : '';
   }
 
   protected override willUpdate(changed: PropertyValues<this>): void {
