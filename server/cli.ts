@@ -6,6 +6,7 @@ const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson] [--mode micro|envelope|auto]
   syncring predict SCENARIO.json [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
                 PARAM: detuning:K | coupling | reactive | dissipative | link:A-B | edge:A-B
+  syncring explain SCENARIO.json
   syncring noise SCENARIO.json [--pattern INDEX] [--bandwidth HZ] [--part-noise h0=VALUE,h-1=VALUE,...]
   syncring serve [--port PORT] [--host HOST] [--allow-host NAME[:PORT],...] [--scenario SCENARIO.json]
                 [--speed UNITS_PER_SECOND|max] [--soaks DIR]
@@ -98,6 +99,14 @@ export async function main(argv: string[]): Promise<number> {
           maxSteps: numberFlag(parsed, 'max-steps'),
         });
         process.stdout.write(`${JSON.stringify(result)}\n`);
+        return 0;
+      }
+      case 'explain': {
+        const parsed = parseArgs(rest, []);
+        onlyFlags(parsed, []);
+        if (parsed.positional.length !== 1) throw callError('explain needs exactly one SCENARIO');
+        const { explain } = await import('./commands/explain.js');
+        process.stdout.write(`${JSON.stringify(explain(parsed.positional[0]))}\n`);
         return 0;
       }
       case 'noise': {

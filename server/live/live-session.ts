@@ -12,6 +12,7 @@ import type { ClientCommand, HistoryPoint, RunStatus, SessionInfo, Speed, WireFr
 import { InputError, type InputErrorData } from '../../src/util/input-error.js';
 import { SessionLog } from '../log/session-log.js';
 import { SOFTWARE_VERSION } from '../version.js';
+import { partsViewOf } from '../../src/scenario/parts/trim.js';
 import { SessionRunner, type RunnerOptions, type RunnerOutput } from './session-runner.js';
 
 export interface LiveSessionOptions {
@@ -66,6 +67,7 @@ export class LiveSession extends EventEmitter {
     this.ready = new Promise((resolve) => (this.markReady = resolve));
     const runnerOptions: RunnerOptions = {
       scenario: scenarioToJSON(options.scenario),
+      partsView: partsViewOf(options.scenario),
       speed: options.speed ?? 1,
       frameRate: options.frameRate ?? 20,
       sliceMs: options.sliceMs ?? 25,

@@ -1,4 +1,5 @@
 import { CoSimulation, type Frame, type SessionEvent } from '../../src/session/session.js';
+import { partsViewOf } from '../../src/scenario/parts/trim.js';
 import { parseScenario, scenarioToJSON } from '../../src/scenario/parse.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { deltaToPpm } from '../../src/scenario/units.js';
@@ -10,6 +11,7 @@ import {
   historyPointOf,
   type ClientCommand,
   type HistoryPoint,
+  type NodePartsView,
   type RunStatus,
   type SessionInfo,
   type Speed,
@@ -28,6 +30,8 @@ export type RunnerOutput =
 export interface RunnerOptions {
   /** Scenario in normalized JSON form (it crosses a thread boundary). */
   scenario: unknown;
+  /** The parts of a board described by them (the normalized JSON keeps only the derived model). */
+  partsView?: NodePartsView[] | null;
   speed: Speed;
   frameRate: number;
   sliceMs: number;
@@ -46,6 +50,7 @@ const CHECKPOINT_EVERY = 50;
 export class SessionRunner {
   session!: CoSimulation;
   scenario!: Scenario;
+  private partsView: NodePartsView[] | null = null;
   status: RunStatus = 'running';
   speed: Speed;
   private readonly frameInterval: number;
@@ -64,7 +69,7 @@ export class SessionRunner {
   ) {
     this.speed = options.speed;
     this.frameInterval = 1000 / options.frameRate;
-    this.start(parseScenario(options.scenario, 'scenario'));
+    this.start(parseScenario(options.scenario, 'scenario'), options.partsView ?? null);
   }
 
   info(): SessionInfo {
@@ -91,6 +96,7 @@ export class SessionRunner {
       speed: this.speed,
       warnings: this.session.warnings.map((w) => w.message),
       logFile: null,
+      parts: this.partsView,
     };
   }
 
@@ -127,7 +133,7 @@ export class SessionRunner {
         );
         return;
       case 'reset':
-        this.start(this.scenario);
+        this.start(this.scenario, this.partsView);
         this.announce('run reset to its start', by);
         return;
       case 'load-scenario': {
@@ -149,7 +155,7 @@ export class SessionRunner {
           if (error instanceof InputError) throw error.under('scenario').answering(command.id);
           throw error;
         }
-        this.start(scenario);
+        this.start(scenario, partsViewOf(scenario));
         this.announce(`scenario "${scenario.name}" loaded`, by);
         return;
       }
@@ -172,8 +178,9 @@ export class SessionRunner {
     this.timer = null;
   }
 
-  private start(scenario: Scenario): void {
+  private start(scenario: Scenario, partsView: NodePartsView[] | null): void {
     this.scenario = scenario;
+    this.partsView = partsView;
     this.session = new CoSimulation(scenario);
     const eps = this.session.params.epsilon;
     const ticksPerSlowUnit = eps > 0 ? 1 / (eps * this.session.macroStep) : 1;

@@ -37,3 +37,8 @@ export const SIMULATION_CAUTION =
   'Simulation does not replace qualification of real hardware. ' +
   "A PASS or a stability figure here holds under the simulated noise model only and does not mean compliance with any standard's mask. " +
   QUALIFY;
+
+/** Beside figures derived from part values (syncring explain, the dashboard's engineering values). */
+export const PARTS_CAUTION =
+  'These figures follow from the stated part values by textbook formulas; real parts spread, age and drift with temperature. ' +
+  `A start-up margin here does not replace a start-up test of the real circuit over temperature and supply. ${QUALIFY}`;

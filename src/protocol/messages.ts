@@ -28,6 +28,18 @@ export interface LinkState {
   nominal: number;
 }
 
+/** One node's crystal and load as built, for a board described by its parts: what turns a C_L change into ppm. */
+export interface NodePartsView {
+  seriesFrequencyHz: number;
+  motionalCapacitanceF: number;
+  shuntCapacitanceF: number;
+  /** Nominal + tolerance + trim, as the scenario built it. */
+  loadCapacitanceF: number;
+  pullabilityPpmPerPf: number;
+  startupMargin: number;
+  driveLevelW: number;
+}
+
 /** Everything a dashboard needs to label and draw the current run. */
 export interface SessionInfo {
   scenarioName: string;
@@ -58,6 +70,8 @@ export interface SessionInfo {
   warnings: string[];
   /** The session log's file name (GET /api/log downloads it), never its path on the server; null without a log. */
   logFile: string | null;
+  /** Per node, the parts of a board described by them (docs/parts.md); null in model units, absent from older servers. */
+  parts?: NodePartsView[] | null;
 }
 
 /** The few numbers per tick that the dashboard's time charts keep. */

@@ -22,6 +22,10 @@
  * - Engineering units (mapped in units.ts only): `nominalFrequencyHz` (default 10e6, marked
  *   `units.nominalFrequencyAssumed` when it was left out), `detuningPpm`, per-mode `offsetPpm`
  *   instead of `omega` and `quality` instead of `loss`.
+ * - `parts` (src/scenario/parts/, docs/parts.md) derives epsilon (unless given), nominalFrequencyHz
+ *   (unless given), modes, coupling and detuning from the board's crystal, sustaining circuit,
+ *   unwanted mode and coupling; those model fields may then not be given. The Scenario keeps the
+ *   derivation in `parts`; scenarioToJSON writes the derived model only.
  */
 import type { CouplingSpec, InitialSpec, IntegratorSpec, Link, ModeSpec, ModeState, NoiseSpec, Scenario, Topology } from './types.js';
 import { DEFAULT_NOMINAL_FREQUENCY_HZ, offsetPpmToOmega, ppmToDelta, qualityToLoss } from './units.js';
@@ -30,6 +34,7 @@ import { child, describeValue, fieldChecks, has, item, type Check, type JsonObje
 import { InputError, failInput as fail } from '../util/input-error.js';
 import { PART_NOISE_FIELDS, parsePartNoise, partNoiseToJSON } from './noise-spec.js';
 import { environmentToJSON, parseEnvironment } from './environment.js';
+import { modelFromParts } from './parts/scenario-parts.js';
 
 export const MAX_NODES = 4096;
 export const DEFAULT_NAME = 'Untitled scenario';
@@ -102,6 +107,7 @@ const TOP_FIELDS = [
   'initial',
   'integrator',
   'environment',
+  'parts',
 ] as const;
 const MODE_FIELDS = ['omega', 'offsetPpm', 'gain', 'loss', 'quality'] as const;
 const COUPLING_FIELDS = ['strength', 'reactive', 'dissipative'] as const;
@@ -346,11 +352,14 @@ function parseUnsourced(raw: unknown): Scenario {
   const name = parseName(top);
   const nodes = numberField(top, '', 'nodes', (n, path) => inRange(integer(n, path), path, 1, MAX_NODES));
   const { topology, links } = parseTopology(required(top, 'topology', ''), nodes);
-  const epsilon = numberField(top, '', 'epsilon', (n, path) => inRange(n, path, 0, 0.5));
-  const nominalFrequencyHz = numberField(top, '', 'nominalFrequencyHz', positive, DEFAULT_NOMINAL_FREQUENCY_HZ);
-  const modes = parseModes(required(top, 'modes', ''), epsilon);
-  const coupling = parseCoupling(required(top, 'coupling', ''));
-  const detuning = parseDetuning(top, nodes, epsilon);
+  // A board described by its parts derives eps, f0, modes, coupling and detuning (docs/parts.md).
+  const fromParts = has(top, 'parts') ? modelFromParts(top, nodes) : null;
+  const epsilon = fromParts?.epsilon ?? numberField(top, '', 'epsilon', (n, path) => inRange(n, path, 0, 0.5));
+  const nominalFrequencyHz =
+    fromParts?.nominalFrequencyHz ?? numberField(top, '', 'nominalFrequencyHz', positive, DEFAULT_NOMINAL_FREQUENCY_HZ);
+  const modes = fromParts?.modes ?? parseModes(required(top, 'modes', ''), epsilon);
+  const coupling = fromParts?.coupling ?? parseCoupling(required(top, 'coupling', ''));
+  const detuning = fromParts?.detuning ?? parseDetuning(top, nodes, epsilon);
   const noise = has(top, 'noise') ? parseNoise(top.noise, nodes, nominalFrequencyHz) : { ...DEFAULT_NOISE };
   const initial = has(top, 'initial') ? parseInitial(top.initial, nodes, modes.length) : { random: { ...DEFAULT_INITIAL_RANDOM } };
   const integrator = parseIntegrator(top.integrator, epsilon);
@@ -370,7 +379,8 @@ function parseUnsourced(raw: unknown): Scenario {
     noise,
     initial,
     integrator,
-    units: { nominalFrequencyHz, nominalFrequencyAssumed: !has(top, 'nominalFrequencyHz') },
+    units: { nominalFrequencyHz, nominalFrequencyAssumed: fromParts === null && !has(top, 'nominalFrequencyHz') },
+    ...(fromParts ? { parts: fromParts.derivation } : {}),
     ...(environment ? { environment } : {}),
   };
   if (integrator.stepsPerPeriod === 0) integrator.stepsPerPeriod = defaultStepsPerPeriod(scenario);

@@ -4,6 +4,8 @@
  * nothing downstream ever sees ppm, Hz or quality factors.
  */
 
+import type { PartsDerivation } from './parts/types.js';
+
 /** A directed, weighted link: carries node `from`'s signal into node `to` (A[to][from] = weight). */
 export interface Link {
   from: number;
@@ -103,6 +105,8 @@ export interface Scenario {
   initial: InitialSpec;
   integrator: IntegratorSpec;
   units: UnitsSpec;
+  /** Present when the scenario described the board by its parts: what the model numbers follow from. */
+  parts?: PartsDerivation;
   /** Temperature, aging and supply (src/scenario/environment.ts); absent when the scenario gives none. */
   environment?: EnvironmentSpec;
 }

@@ -13,6 +13,10 @@
  * | mode offset from mode 0 in ppm              | omega_j = omega_0 * (1 + ppm * 1e-6)       |
  * | mode quality factor Q_j                     | d_j = omega_j / (eps * Q_j)                |
  * | nominal frequency f0 (Hz) of mode 0         | one period 2 pi / omega_0 of tau = 1/f0 s  |
+ * | start-up margin m_j = |R_n| / R1_j of mode j | g_j = m_j d_j                              |
+ * | coupling pull P (ppm) and angle alpha        | kappa = 2 P 1e-6 / eps, sigma = cos alpha, |
+ * |                                             | rho = omega_0 sin alpha                    |
+ * | drive level P_d (W) of a mode                | P_d = W_1 |a|^2 (W_1: watts at |a| = 1)    |
  *
  * Why these forms:
  * - Detuning: 2 eps omega^2 Delta x shifts the squared frequency by that amount, i.e. the
@@ -20,6 +24,17 @@
  * - Quality: a resonator x'' + (omega/Q) x' + omega^2 x = 0 has quality Q; in the model the
  *   mode's own damping coefficient in x'' is eps * d, so eps * d = omega / Q.
  *   (The net linear growth rate of a lone mode is eps * (g - d) / 2; the gain g is not a Q.)
+ * - Start-up margin: the sustaining circuit's negative resistance and the mode's R1 act on the
+ *   same motional current, so their rates stand in the ratio of the resistances: eps g_j is the
+ *   small-signal growth that |R_n| gives, eps d_j the loss R1_j gives, and g_j / d_j = |R_n| / R1_j
+ *   (docs/parts.md, 'Sustaining circuit').
+ * - Coupling pull: one link of weight 1 shifts a node's phase at the rate
+ *   (eps/2) kappa |sigma - i rho/omega| sin(psi - alpha) at equal amplitudes (docs/model.md, 'Phase
+ *   equations'), so P = (eps/2) kappa |sigma - i rho/omega_0| is the largest frequency shift
+ *   (relative) one link can impose, and alpha = atan(rho / (omega_0 sigma)) splits it into its
+ *   reactive and dissipative parts. The pair locking range is 2 P cos alpha.
+ * - Drive level: the model amplitude |a| is the motional charge in units of a fixed reference
+ *   charge, so the power R1 I_rms^2 the crystal dissipates grows as |a|^2.
  * - Time: tau is scaled so that mode 0 oscillates at omega_0 rad per unit tau, and mode 0 stands
  *   for f0 Hz, so seconds = tau * omega_0 / (2 pi f0).
  * All mappings are exact inverses of each other (up to rounding); eps = 0 has no ppm or Q
@@ -111,4 +126,73 @@ export function secondsToTau(seconds: number, nominalFrequencyHz: number, omega0
   requirePositive('nominalFrequencyHz', nominalFrequencyHz);
   requirePositive('omega0', omega0);
   return (seconds * TWO_PI * nominalFrequencyHz) / omega0;
+}
+
+/** Start-up margin m_j = |R_n| / R1_j of a mode with extra loss d_j -> its gain g_j. */
+export function startupMarginToGain(margin: number, loss: number): number {
+  requirePositive('startup margin', margin);
+  requirePositive('loss', loss);
+  return margin * loss;
+}
+
+/** Gain g_j and extra loss d_j -> the start-up margin g_j / d_j (Infinity for d = 0). */
+export function gainToStartupMargin(gain: number, loss: number): number {
+  requireFinite('gain', gain);
+  requireFinite('loss', loss);
+  if (loss < 0) throw new RangeError(`loss must be >= 0 to have a start-up margin (got ${loss})`);
+  return loss === 0 ? Infinity : gain / loss;
+}
+
+/** The coupling as an engineer states it: the largest pull one link exerts and the coupling angle. */
+export interface CouplingPull {
+  /** P: the largest relative frequency shift (ppm) one link of weight 1 imposes at equal amplitudes. */
+  pullPpm: number;
+  /** alpha in radians: 0 purely dissipative, pi/2 purely reactive (capacitive-like), negative inductive-like. */
+  angle: number;
+}
+
+/** Pull P (ppm) and angle alpha -> kappa, rho, sigma with |sigma - i rho/omega_0| = 1. */
+export function pullToCoupling(
+  pull: CouplingPull,
+  eps: number,
+  omega0: number,
+): { strength: number; reactive: number; dissipative: number } {
+  requireFinite('pullPpm', pull.pullPpm);
+  if (pull.pullPpm < 0) throw new RangeError(`pullPpm must be >= 0 (got ${pull.pullPpm})`);
+  requireFinite('angle', pull.angle);
+  requirePositive('epsilon', eps);
+  requirePositive('omega0', omega0);
+  return { strength: (2 * pull.pullPpm * PPM) / eps, reactive: omega0 * Math.sin(pull.angle), dissipative: Math.cos(pull.angle) };
+}
+
+/** kappa, rho, sigma -> pull P (ppm) and angle alpha (inverse of pullToCoupling up to the split of kappa). */
+export function couplingToPull(
+  coupling: { strength: number; reactive: number; dissipative: number },
+  eps: number,
+  omega0: number,
+): CouplingPull {
+  requireFinite('strength', coupling.strength);
+  requireFinite('reactive', coupling.reactive);
+  requireFinite('dissipative', coupling.dissipative);
+  requireFinite('epsilon', eps);
+  requirePositive('omega0', omega0);
+  const r = coupling.reactive / omega0;
+  const size = Math.hypot(coupling.dissipative, r);
+  const signed = coupling.strength < 0 ? -1 : 1;
+  return { pullPpm: ((eps / 2) * Math.abs(coupling.strength) * size) / PPM, angle: Math.atan2(signed * r, signed * coupling.dissipative) };
+}
+
+/** Model amplitude |a| -> drive level in W, given the drive level W_1 at |a| = 1. */
+export function amplitudeToDriveLevel(amplitude: number, wattsAtUnitAmplitude: number): number {
+  requireFinite('amplitude', amplitude);
+  requirePositive('wattsAtUnitAmplitude', wattsAtUnitAmplitude);
+  return wattsAtUnitAmplitude * amplitude * amplitude;
+}
+
+/** Drive level in W -> model amplitude |a| (inverse of amplitudeToDriveLevel). */
+export function driveLevelToAmplitude(watts: number, wattsAtUnitAmplitude: number): number {
+  requireFinite('watts', watts);
+  if (watts < 0) throw new RangeError(`watts must be >= 0 (got ${watts})`);
+  requirePositive('wattsAtUnitAmplitude', wattsAtUnitAmplitude);
+  return Math.sqrt(watts / wattsAtUnitAmplitude);
 }

@@ -123,14 +123,14 @@ describe.runIf(available)('prediction and soak views in Chromium', () => {
     // dissipative coupling: in-phase (q = 0, cos 0 > 0) is stable (Wiley, Strogatz, Girvan 2006)
     expect(await page.locator('sr-catalogue-panel tr[data-kind=in-phase][data-stability=stable]').count()).toBeGreaterThan(0);
     expect(await textOf(page, '[data-testid=catalogue-facts]')).toMatch(/\d+ locked patterns, \d+ stable/);
-    // the demo's unwanted mode sits 1500 ppm up (the part's own figure): its stable patterns are
-    // design defects, and their output is read against the wanted frequency (+1500 ppm, 15 kHz at 10 MHz)
+    // the demo's unwanted mode sits 2995.5 ppm up at the load (its parts, docs/parts.md): its stable patterns are
+    // design defects, and their output is read against the wanted frequency (+2996 ppm, 30 kHz at 10 MHz, shown to 3 digits)
     const defects = page.locator('sr-catalogue-panel tbody tr.defect');
     expect(await defects.count()).toBeGreaterThan(0);
     for (const row of await defects.all()) {
       expect(await row.textContent()).toMatch(/unwanted mode 1/);
       expect(await row.textContent()).toMatch(/DESIGN DEFECT/);
-      expect(await row.textContent()).toMatch(/\+1500 ppm\s*\+15(\.\d+)? kHz/);
+      expect(await row.textContent()).toMatch(/\+3000 ppm\s*\+30(\.0+)? kHz/);
     }
     expect(await page.locator('sr-catalogue-panel tbody tr:not(.defect)').first().textContent()).not.toMatch(/DESIGN DEFECT/);
     expect(await textOf(page, '[data-testid=catalogue-facts]')).toMatch(/\d+ of them on an unwanted mode/);

@@ -6,9 +6,12 @@ import { wrapAngle } from '../../../src/util/angles.js';
 /**
  * Predicted against observed for sudden detuning steps of node 0 on the freshly locked demo
  * board (a fault is a jump, not a ramp). The continuation puts the in-phase pattern's limit near
- * +7.2 ppm (Hopf); the live prediction must say "persists" where the full system keeps its lock
+ * +3.1 ppm (a fold: `syncring predict timing-board-8 --continue detuning:0`; one node held by two
+ * links of 1.5 ppm pull each, docs/parts.md); the live prediction must say "persists" where the full system keeps its lock
  * and "lost" where it slips a cycle (a neighbour phase difference moving by pi or more, the
- * definition the soak verdicts use).
+ * definition the soak verdicts use). Just past a fold the slip is slow (the passage by the ghost
+ * of the vanished state): at +4 ppm the look-ahead says lost, but the full system had not slipped
+ * within 20 slow units when this was written, so the test steps well beyond the limit.
  */
 const scenario = loadBuiltInScenario('timing-board-8');
 let locked: SessionCheckpoint;
@@ -21,7 +24,8 @@ beforeAll(() => {
   expect(frame.full.pattern.locked).toBe(true);
   expect(frame.guide.pattern.locked).toBe(true);
   locked = JSON.parse(JSON.stringify(session.checkpoint()));
-});
+  // the engine project's test timeout: locking takes some 35 slow units of micro steps, slow on a shared machine
+}, 120_000);
 
 function stepAndWatch(ppm: number, slowTime: number): { verdict: string | undefined; slipped: boolean } {
   const session = CoSimulation.fromCheckpoint(scenario, locked, { integrator: 'micro' });
@@ -43,11 +47,11 @@ function stepAndWatch(ppm: number, slowTime: number): { verdict: string | undefi
 }
 
 describe('live prediction of a sudden detuning step on the demo board', () => {
-  test('+6 ppm (inside the limit) is predicted to persist, and the full system keeps its lock', () => {
-    expect(stepAndWatch(6, 20)).toEqual({ verdict: 'persists', slipped: false });
+  test('+2.5 ppm (inside the limit) is predicted to persist, and the full system keeps its lock', () => {
+    expect(stepAndWatch(2.5, 20)).toEqual({ verdict: 'persists', slipped: false });
   });
 
-  test('+9 ppm (beyond it) is predicted lost, and the full system slips a cycle', () => {
-    expect(stepAndWatch(9, 20)).toEqual({ verdict: 'lost', slipped: true });
+  test('+5 ppm (beyond it) is predicted lost, and the full system slips a cycle', () => {
+    expect(stepAndWatch(5, 30)).toEqual({ verdict: 'lost', slipped: true });
   });
 });

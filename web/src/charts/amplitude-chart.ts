@@ -42,7 +42,7 @@ export class AmplitudeChart extends StreamingChart {
         ...base,
         layout: { padding: { right: RIGHT_AXIS_WIDTH } },
         scales: {
-          x: { type: 'linear', ...axis('slow time ε·τ') },
+          x: this.timeAxis(),
           y: {
             type: 'logarithmic',
             min: FLOOR,

@@ -43,7 +43,7 @@ export class LockChart extends StreamingChart {
       options: {
         ...base,
         scales: {
-          x: { type: 'linear', ...axis('slow time ε·τ') },
+          x: this.timeAxis(),
           y: {
             type: 'linear',
             min: 0,

@@ -39,7 +39,7 @@ export class PhaseChart extends StreamingChart {
         ...base,
         layout: { padding: { right: RIGHT_AXIS_WIDTH } },
         scales: {
-          x: { type: 'linear', ...axis('slow time ε·τ') },
+          x: this.timeAxis(),
           y: {
             type: 'linear',
             min: -1.05,

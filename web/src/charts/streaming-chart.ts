@@ -5,6 +5,8 @@ import { StoreController } from '../data/store-controller.js';
 import { GRID, MUTED, OUTLINE, SOFT_INK, panelStyles } from '../theme.js';
 import { ChartController } from './chart-controller.js';
 import { headingMarkup, headingText, type HeadingPart } from '../panels/heading-text.js';
+import { formatSeconds, frequencyBasis, runScalesOf } from '../data/engineering.js';
+import { tauToSeconds } from '../../../src/scenario/units.js';
 
 /**
  * A panel with one chart fed from the store: subclasses say how to configure the chart, how
@@ -97,7 +99,42 @@ export abstract class StreamingChart extends LitElement {
     return '';
   }
 
+  /**
+   * The x axis of the time charts: slow time, with the board time it stands for (ms, s at the
+   * nominal frequency, src/scenario/units.ts) as a second line under each tick.
+   */
+  protected timeAxis() {
+    const base = axis(SLOW_TIME_TITLE);
+    return {
+      type: 'linear' as const,
+      ...base,
+      ticks: {
+        ...base.ticks,
+        callback: (value: number | string): string[] => {
+          const slow = Number(value);
+          const board = this.boardSeconds(slow);
+          const label = String(Number(slow.toPrecision(6)));
+          return board === null ? [label] : [label, formatSeconds(board)];
+        },
+      },
+    };
+  }
+
+  /** Board seconds at a slow time, or null when the session has no scale for it (eps = 0). */
+  private boardSeconds(slow: number): number | null {
+    const session = this.store?.session;
+    if (!session || !(session.epsilon > 0)) return null;
+    const scales = runScalesOf(session);
+    return tauToSeconds(slow / scales.epsilon, scales.nominalFrequencyHz, scales.omega0);
+  }
+
   private refresh(chart: Chart, store: FrameStore, change: StoreChange): void {
+    const x = chart.options.scales?.x as { title?: { text?: unknown } } | undefined;
+    if (x?.title && store.session && String(x.title.text).startsWith(SLOW_TIME_TITLE)) {
+      // the board time's basis (given or assumed frequency) is known once the session is
+      x.title.text =
+        store.session.epsilon > 0 ? `${SLOW_TIME_TITLE} and board time ${frequencyBasis(runScalesOf(store.session))}` : SLOW_TIME_TITLE;
+    }
     const points = this.fill(chart, store, change);
     chart.update('none');
     // Exposed for tests and for anyone inspecting the page: how many points the chart holds.
@@ -112,6 +149,9 @@ export abstract class StreamingChart extends LitElement {
     `;
   }
 }
+
+/** The time charts' x axis title; the board time's basis is added once the session is known. */
+export const SLOW_TIME_TITLE = 'slow time ε·τ';
 
 /** Fixed axis widths, so that the time axes of all charts line up one above the other. */
 export const LEFT_AXIS_WIDTH = 66;

@@ -3,6 +3,7 @@ import type { SessionInfo, Speed } from '../../../src/protocol/messages.js';
 import type { FrameStore } from '../data/frame-store.js';
 import { StoreController } from '../data/store-controller.js';
 import { formatNumber, formatSimulatedSeconds, rateAsPpm, runScalesOf, simulatedSecondsPerSecond } from '../data/engineering.js';
+import { couplingToPull } from '../../../src/scenario/units.js';
 import { DIVIDER, MUTED, NOTICE_BORDER, NOTICE_GROUND, NOTICE_INK, panelStyles } from '../theme.js';
 import { commandEvent } from './commands.js';
 import type { ScenarioChoice } from '../../../src/protocol/catalogue-lists.js';
@@ -113,7 +114,10 @@ export class ControlPanel extends LitElement {
 
   private edit(key: string) {
     return (event: Event) => {
-      this.drafts = { ...this.drafts, [key]: (event.target as HTMLInputElement).value };
+      const drafts = { ...this.drafts, [key]: (event.target as HTMLInputElement).value };
+      // a typed kappa replaces a typed pull, which then reads from kappa again
+      if (key === 'k') delete drafts.pull;
+      this.drafts = drafts;
     };
   }
 
@@ -198,6 +202,7 @@ export class ControlPanel extends LitElement {
 
   private renderCoupling(s: SessionInfo, off: boolean) {
     const keys = { strength: 'k', reactive: 'rho', dissipative: 'sigma' };
+    const clear = [...Object.values(keys), 'pull'];
     const kappa = Number(this.draft('k', s.coupling.strength));
     return html`
       <fieldset>
@@ -223,15 +228,55 @@ export class ControlPanel extends LitElement {
             ?disabled=${off}
             @click=${() => {
               const fields = this.changed(keys);
-              if (Object.keys(fields).length) this.send('set-coupling', fields, Object.values(keys));
+              if (Object.keys(fields).length) this.send('set-coupling', fields, clear);
             }}
           >
             Apply
           </button>
         </div>
+        ${this.renderPull(s, off)}
         <div class="unit">ε·κ = ${formatNumber(rateAsPpm(kappa, s.epsilon), 3)} ppm (coupling rate as a relative frequency)</div>
       </fieldset>
     `;
+  }
+
+  /**
+   * The coupling as an engineer states it (src/scenario/units.ts, couplingToPull): the largest pull
+   * one link of weight 1 exerts, its angle and the pair locking range 2 P cos alpha. Typing a pull
+   * sets kappa for the rho and sigma shown.
+   */
+  private renderPull(s: SessionInfo, off: boolean) {
+    if (!(s.epsilon > 0)) return nothing;
+    const shape = {
+      reactive: Number(this.draft('rho', s.coupling.reactive)),
+      dissipative: Number(this.draft('sigma', s.coupling.dissipative)),
+    };
+    if (![shape.reactive, shape.dissipative].every(Number.isFinite)) return nothing;
+    const perUnit = couplingToPull({ strength: 1, ...shape }, s.epsilon, s.omega[0]);
+    const kappa = Number(this.draft('k', s.coupling.strength));
+    const pull = Number.isFinite(kappa) ? couplingToPull({ strength: kappa, ...shape }, s.epsilon, s.omega[0]) : null;
+    const onPull = (event: Event) => {
+      const text = (event.target as HTMLInputElement).value;
+      this.drafts = {
+        ...this.drafts,
+        pull: text,
+        ...(perUnit.pullPpm > 0 && text.trim() !== '' ? { k: String(Number(text) / perUnit.pullPpm) } : {}),
+      };
+    };
+    const shown = this.drafts.pull ?? (pull ? formatNumber(pull.pullPpm, 4) : '');
+    return html`<div class="row">
+      <label
+        >pull <input type="number" step="0.1" data-testid="coupling-pull" .value=${shown} ?disabled=${off || !(perUnit.pullPpm > 0)} @input=${onPull} /> ppm
+        per link</label
+      >
+      <span class="unit" data-testid="coupling-pull-reading"
+        >${
+          pull
+            ? `at α = ${formatNumber((pull.angle * 180) / Math.PI, 3)}°, pair locking range ${formatNumber(2 * pull.pullPpm * Math.cos(pull.angle), 3)} ppm`
+            : ''
+        }</span
+      >
+    </div>`;
   }
 
   private renderNoise(s: SessionInfo, off: boolean) {
@@ -332,7 +377,15 @@ export class ControlPanel extends LitElement {
               ${Array.from({ length: s.nodes }, (_, i) => html`<option value=${i} ?selected=${i === k}>${i}</option>`)}
             </select></label
           >
-          <sr-detuning-editor inline .node=${k} .delta=${s.detuning[k] ?? 0} .epsilon=${s.epsilon} ?disabled=${off}></sr-detuning-editor>
+          <sr-detuning-editor
+            inline
+            .node=${k}
+            .delta=${s.detuning[k] ?? 0}
+            .epsilon=${s.epsilon}
+            .crystal=${s.parts?.[k] ?? null}
+            .nominalFrequencyHz=${s.nominalFrequencyHz}
+            ?disabled=${off}
+          ></sr-detuning-editor>
         </div>
       </fieldset>
     `;

@@ -1,23 +1,32 @@
 import { LitElement, css, html, unsafeCSS, type PropertyValues } from 'lit';
+import type { NodePartsView } from '../../../src/protocol/messages.js';
+import { loadChangeToPpm, ppmToLoadChange } from '../../../src/scenario/parts/trim.js';
 import { deltaOf, formatNumber, ppmOf } from '../data/engineering.js';
 import { MUTED, POPOVER_SHADOW, panelStyles } from '../theme.js';
 import { commandEvent } from './commands.js';
 
+const PICOFARAD = 1e-12;
+
 /**
  * Edits one node's detuning with the physical offset (ppm) and the model's Delta side by side;
  * typing in either updates the other through the units mapping. Apply sends set-detuning with
- * the field that was typed, so the server does the one authoritative conversion.
+ * the field that was typed, so the server does the one authoritative conversion. On a board
+ * described by its parts a third field takes the detuning as a change of the node's load
+ * capacitance from as built, in pF (docs/parts.md, 'Load resonance'), and sends it as ppm.
  */
 export class DetuningEditor extends LitElement {
   static override properties = {
     node: { type: Number },
     delta: { type: Number },
     epsilon: { type: Number },
+    crystal: { attribute: false },
+    nominalFrequencyHz: { type: Number },
     disabled: { type: Boolean },
     closable: { type: Boolean },
     typed: { state: true },
     ppmText: { state: true },
     deltaText: { state: true },
+    trimText: { state: true },
   };
   static override styles = [
     panelStyles,
@@ -66,6 +75,9 @@ export class DetuningEditor extends LitElement {
   declare typed: 'ppm' | 'delta' | null;
   declare ppmText: string;
   declare deltaText: string;
+  declare trimText: string;
+  declare crystal: NodePartsView | null;
+  declare nominalFrequencyHz: number;
 
   constructor() {
     super();
@@ -77,15 +89,27 @@ export class DetuningEditor extends LitElement {
     this.typed = null;
     this.ppmText = '';
     this.deltaText = '';
+    this.trimText = '';
+    this.crystal = null;
+    this.nominalFrequencyHz = 0;
+  }
+
+  /** The load change (pF) that gives `ppm`, as text; blank without parts or where no load reaches it. */
+  private trimFor(ppm: number | null): string {
+    if (!this.crystal || ppm === null || !Number.isFinite(ppm)) return '';
+    const change = ppmToLoadChange(this.crystal, ppm, this.nominalFrequencyHz) / PICOFARAD;
+    // to 0.1 fF: a node at its built load reads 0, not the rounding left by solving the load formula back
+    return Number.isFinite(change) ? String(Number(change.toFixed(4))) : '';
   }
 
   protected override willUpdate(changed: PropertyValues<this>): void {
     // A new node or a new value from the server replaces whatever has not been typed yet.
-    if (changed.has('node') || ((changed.has('delta') || changed.has('epsilon')) && this.typed === null)) {
+    if (changed.has('node') || ((changed.has('delta') || changed.has('epsilon') || changed.has('crystal')) && this.typed === null)) {
       this.typed = null;
       this.deltaText = formatNumber(this.delta, 4);
       const ppm = ppmOf(this.delta, this.epsilon);
       this.ppmText = ppm === null ? '' : formatNumber(ppm, 4);
+      this.trimText = this.trimFor(ppm);
     }
   }
 
@@ -94,6 +118,20 @@ export class DetuningEditor extends LitElement {
     this.ppmText = (event.target as HTMLInputElement).value;
     const delta = deltaOf(Number(this.ppmText), this.epsilon);
     this.deltaText = delta === null || this.ppmText.trim() === '' ? '' : formatNumber(delta, 4);
+    this.trimText = this.ppmText.trim() === '' ? '' : this.trimFor(Number(this.ppmText));
+  }
+
+  private onTrim(event: Event): void {
+    // sent as ppm: the server maps ppm, the trim is this editor's reading of it
+    this.typed = 'ppm';
+    this.trimText = (event.target as HTMLInputElement).value;
+    const ppm =
+      this.crystal && this.trimText.trim() !== ''
+        ? loadChangeToPpm(this.crystal, Number(this.trimText) * PICOFARAD, this.nominalFrequencyHz)
+        : NaN;
+    this.ppmText = Number.isFinite(ppm) ? formatNumber(ppm, 6) : '';
+    const delta = Number.isFinite(ppm) ? deltaOf(ppm, this.epsilon) : null;
+    this.deltaText = delta === null ? '' : formatNumber(delta, 4);
   }
 
   private onDelta(event: Event): void {
@@ -101,6 +139,7 @@ export class DetuningEditor extends LitElement {
     this.deltaText = (event.target as HTMLInputElement).value;
     const ppm = ppmOf(Number(this.deltaText), this.epsilon);
     this.ppmText = ppm === null || this.deltaText.trim() === '' ? '' : formatNumber(ppm, 4);
+    this.trimText = this.deltaText.trim() === '' ? '' : this.trimFor(ppm);
   }
 
   private apply(): void {
@@ -144,6 +183,25 @@ export class DetuningEditor extends LitElement {
           @keydown=${(e: KeyboardEvent) => e.key === 'Enter' && this.apply()}
         />
       </div>
+      ${
+        this.crystal
+          ? html`<div class="row trim">
+            <label for="trim">C_L change (pF)</label>
+            <input
+              id="trim"
+              type="number"
+              step="0.01"
+              .value=${this.trimText}
+              ?disabled=${this.disabled || !canPpm}
+              @input=${this.onTrim}
+              @keydown=${(e: KeyboardEvent) => e.key === 'Enter' && this.apply()}
+            />
+            <span class="eq" data-testid="trim-basis"
+              >from ${formatNumber(this.crystal.loadCapacitanceF / PICOFARAD, 4)} pF as built, ${formatNumber(this.crystal.pullabilityPpmPerPf, 3)} ppm/pF there</span
+            >
+          </div>`
+          : ''
+      }
       <div class="eq">Δ = ppm·10⁻⁶ / ε, ε = ${formatNumber(this.epsilon)}</div>
       <div class="actions">
         ${this.closable ? html`<button @click=${this.close}>Cancel</button>` : ''}
