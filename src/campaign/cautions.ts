@@ -24,3 +24,9 @@ export const SIMULATION_CAUTION =
   'Simulation does not replace qualification of real hardware. ' +
   "A PASS or a stability figure here holds under the simulated noise model only and does not mean compliance with any standard's mask. " +
   QUALIFY;
+
+/** Beside every yield figure: the share of simulated boards that met the study's criteria, under the tolerances the study assumed. */
+export const YIELD_CAUTION =
+  "A yield here is the share of simulated boards, drawn from the study's assumed tolerances, that met the study's criteria under the model. " +
+  'It is not a measured production yield: simulation does not replace qualification of real hardware, and equipment in telecom, ' +
+  'power or navigation service follows the applicable standards and accredited practice.';
