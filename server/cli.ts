@@ -11,6 +11,8 @@ const USAGE = `usage:
   syncring soak SCENARIO.json --campaign CAMPAIGN.json --until TAU --out DIR [--resume] [--pace SLOW_UNITS_PER_SECOND]
                 [--segment-bytes BYTES] [--checkpoint-every TAU] [--fail-incomplete]
   syncring report DIR [--out FILE.html]
+  syncring yield STUDY.json --out DIR [--workers N] [--redis URL] [--resume]
+  syncring worker --redis URL [--threads N] [--lock-seconds S]
 
 SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler),
 CAMPAIGN a built-in campaign (timing-board-8-campaign).`;
@@ -154,6 +156,38 @@ export async function main(argv: string[]): Promise<number> {
           checkpointEvery: numberFlag(parsed, 'checkpoint-every'),
           failIncomplete: parsed.flags.get('fail-incomplete') === true,
         });
+      }
+      case 'yield': {
+        const valued = ['out', 'workers', 'redis'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, [...valued, 'resume']);
+        if (parsed.positional.length !== 1) throw callError('yield needs exactly one STUDY');
+        const out = parsed.flags.get('out');
+        if (typeof out !== 'string') throw callError('yield needs --out DIR');
+        const { yieldCommand } = await import('./commands/yield.js');
+        const summary = await yieldCommand({
+          study: parsed.positional[0],
+          out,
+          workers: numberFlag(parsed, 'workers'),
+          redis: parsed.flags.get('redis') as string | undefined,
+          resume: parsed.flags.get('resume') === true,
+        });
+        process.stdout.write(`${JSON.stringify(summary)}\n`);
+        return 0;
+      }
+      case 'worker': {
+        const valued = ['redis', 'threads', 'lock-seconds'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, valued);
+        if (parsed.positional.length !== 0) throw callError('worker takes no positional arguments');
+        const redis = parsed.flags.get('redis');
+        if (typeof redis !== 'string') throw callError('worker needs --redis URL');
+        const { worker } = await import('./commands/worker.js');
+        const running = await worker({ redis, threads: numberFlag(parsed, 'threads'), lockSeconds: numberFlag(parsed, 'lock-seconds') });
+        const stop = () => void running.close().then(() => process.exit(0));
+        process.once('SIGINT', stop);
+        process.once('SIGTERM', stop);
+        return -1;
       }
       case 'report': {
         const parsed = parseArgs(rest, ['out']);
