@@ -4,7 +4,7 @@ import { UsageError, callError } from './usage-error.js';
 
 const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson] [--mode micro|envelope|auto]
-  syncring predict SCENARIO.json [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
+  syncring predict SCENARIO.json [--basins N] [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
                 PARAM: detuning:K | coupling | reactive | dissipative | link:A-B | edge:A-B
   syncring noise SCENARIO.json [--pattern INDEX] [--bandwidth HZ] [--part-noise h0=VALUE,h-1=VALUE,...]
   syncring serve [--port PORT] [--host HOST] [--scenario SCENARIO.json] [--speed UNITS_PER_SECOND|max] [--soaks DIR]
@@ -83,7 +83,7 @@ export async function main(argv: string[]): Promise<number> {
         return result.status === 'halted' ? 3 : 0;
       }
       case 'predict': {
-        const valued = ['continue', 'pattern', 'range', 'max-steps'];
+        const valued = ['continue', 'pattern', 'range', 'max-steps', 'basins'];
         const parsed = parseArgs(rest, valued);
         onlyFlags(parsed, valued);
         if (parsed.positional.length !== 1) throw callError('predict needs exactly one SCENARIO');
@@ -95,6 +95,7 @@ export async function main(argv: string[]): Promise<number> {
           pattern: numberFlag(parsed, 'pattern'),
           range: text('range'),
           maxSteps: numberFlag(parsed, 'max-steps'),
+          basins: numberFlag(parsed, 'basins'),
         });
         process.stdout.write(`${JSON.stringify(result)}\n`);
         return 0;

@@ -46,7 +46,16 @@ export interface SampleSetup {
   sweepValue: number | null;
 }
 
-/** Amplitude per mode of a random start: the scenario's own random amplitude, else each mode's lone amplitude. */
+/**
+ * The random start of a board, as at power-up: every node and mode gets a seeded random phase and
+ * a modulus uniform in [A/2, A] (model/initial.ts), A per mode the scenario's own random amplitude
+ * when it starts at random, else each mode's lone amplitude. Yield studies and basin counts start
+ * from it alike.
+ */
+export function randomStart(scenario: Scenario, seed: number): Scenario['initial'] {
+  return { random: { seed, amplitude: startAmplitude(scenario) } };
+}
+
 function startAmplitude(scenario: Scenario): number[] {
   const init = scenario.initial;
   if ('random' in init) {
@@ -81,7 +90,7 @@ export function sampleSetup(study: Study, point: number, sample: number): Sample
       parameters[c.label] = value;
     });
   }
-  if (study.start === 'random') scenario.initial = { random: { seed: startSeed, amplitude: startAmplitude(study.scenario) } };
+  if (study.start === 'random') scenario.initial = randomStart(study.scenario, startSeed);
   scenario.name = `${study.scenario.name}, sample ${point * study.samples + sample}`;
   return { scenario, seed, parameters, startSeed: study.start === 'random' ? startSeed : null, sweepValue };
 }
