@@ -123,4 +123,19 @@ describe('syncring yield on the local pool', () => {
     expect(workers.code).toBe(2);
     expect(workers.stderr).toContain('--workers must be a positive integer');
   });
+
+  test("predict --basins N adds each pattern's start-up probability; a bad N exits 2", async () => {
+    const counted = await cli(['predict', 'ring-one-way-5', '--basins', '10']);
+    expect(counted.code, counted.stderr).toBe(0);
+    const output = JSON.parse(counted.stdout) as {
+      patterns: { stability: string }[];
+      basins: { starts: number; shares: { pattern: number; count: number; low: number; high: number }[]; unsettled: { count: number } };
+    };
+    expect(output.basins.starts).toBe(10);
+    expect(output.basins.shares.reduce((s, b) => s + b.count, 0) + output.basins.unsettled.count).toBe(10);
+    for (const share of output.basins.shares) expect(output.patterns[share.pattern].stability).toBe('stable');
+    const refused = await cli(['predict', 'ring-one-way-5', '--basins', '0']);
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toContain('--basins must be a whole number of starts');
+  });
 });
