@@ -12,6 +12,7 @@ const USAGE = `usage:
                 [--segment-bytes BYTES] [--checkpoint-every TAU] [--fail-incomplete]
   syncring report DIR [--out FILE.html]
   syncring yield STUDY.json --out DIR [--workers N] [--redis URL] [--resume]
+  syncring yield STUDY.json --board INDEX     (the scenario of one sample, to open with serve --scenario)
   syncring worker --redis URL [--threads N] [--lock-seconds S]
 
 SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler),
@@ -159,10 +160,16 @@ export async function main(argv: string[]): Promise<number> {
         });
       }
       case 'yield': {
-        const valued = ['out', 'workers', 'redis'];
+        const valued = ['out', 'workers', 'redis', 'board'];
         const parsed = parseArgs(rest, valued);
         onlyFlags(parsed, [...valued, 'resume']);
         if (parsed.positional.length !== 1) throw callError('yield needs exactly one STUDY');
+        const board = numberFlag(parsed, 'board');
+        if (board !== undefined) {
+          const { boardScenario } = await import('./commands/yield.js');
+          process.stdout.write(`${JSON.stringify(boardScenario(parsed.positional[0], board))}\n`);
+          return 0;
+        }
         const out = parsed.flags.get('out');
         if (typeof out !== 'string') throw callError('yield needs --out DIR');
         const { yieldCommand } = await import('./commands/yield.js');

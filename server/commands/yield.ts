@@ -1,4 +1,7 @@
 import type { YieldSummary } from '../../src/protocol/yield-files.js';
+import { scenarioToJSON, type ScenarioJSON } from '../../src/scenario/parse.js';
+import { totalSamples } from '../../src/yield/study.js';
+import { sampleSetup } from '../../src/yield/sample.js';
 import { UsageError } from '../usage-error.js';
 import { runStudy, type SampleEngine } from '../yield/coordinator.js';
 import { LocalEngine } from '../yield/local-engine.js';
@@ -35,4 +38,18 @@ export async function yieldCommand(args: YieldArgs): Promise<YieldSummary> {
   } finally {
     await engine.close();
   }
+}
+
+/**
+ * `syncring yield STUDY --board INDEX`: the scenario of one sample (its drawn parameters, its
+ * start and noise seeds), rebuilt from the study and the index alone, so a failing board from
+ * samples.ndjson can be opened live with `syncring serve --scenario FILE` or simulated again.
+ */
+export function boardScenario(path: string, index: number): ScenarioJSON {
+  const study = loadStudy(path);
+  const total = totalSamples(study);
+  if (!(Number.isInteger(index) && index >= 0 && index < total)) {
+    throw new UsageError(`--board must be a sample index, 0 to ${total - 1} (got ${index})`);
+  }
+  return scenarioToJSON(sampleSetup(study, Math.floor(index / study.samples), index % study.samples).scenario);
 }

@@ -138,4 +138,24 @@ describe('syncring yield on the local pool', () => {
     expect(refused.code).toBe(2);
     expect(refused.stderr).toContain('--basins must be a whole number of starts');
   });
+
+  test('--board INDEX gives the scenario of one sample, with its drawn detuning, to open live', async () => {
+    const records = readFileSync(join(dir, 'one', 'samples.ndjson'), 'utf8')
+      .trim()
+      .split('\n')
+      .map((l) => JSON.parse(l) as { index: number; pass: boolean; parameters: Record<string, number>; startSeed: number });
+    const failing = records.find((r) => !r.pass)!;
+    const board = await cli(['yield', study, '--board', String(failing.index)]);
+    expect(board.code, board.stderr).toBe(0);
+    const scenario = JSON.parse(board.stdout) as { detuning: number[]; initial: { random: { seed: number } } };
+    expect(scenario.detuning).toEqual([failing.parameters['detuning[0]'], failing.parameters['detuning[1]']]);
+    expect(scenario.initial.random.seed).toBe(failing.startSeed);
+    const file = join(dir, 'board.json');
+    writeFileSync(file, board.stdout);
+    const simulated = await cli(['simulate', file, '--until', '100']);
+    expect(simulated.code, simulated.stderr).toBe(0);
+    const outside = await cli(['yield', study, '--board', '48']);
+    expect(outside.code).toBe(2);
+    expect(outside.stderr).toContain('--board must be a sample index, 0 to 47');
+  });
 });
