@@ -4,7 +4,7 @@ import { UsageError, callError } from './usage-error.js';
 
 const USAGE = `usage:
   syncring simulate SCENARIO.json --until TAU [--out FILE.ndjson] [--mode micro|envelope|auto]
-  syncring predict SCENARIO.json [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
+  syncring predict SCENARIO.json [--basins N] [--continue PARAM [--pattern INDEX] [--range MIN:MAX] [--max-steps N]]
                 PARAM: detuning:K | coupling | reactive | dissipative | link:A-B | edge:A-B
   syncring explain SCENARIO.json
   syncring noise SCENARIO.json [--pattern INDEX] [--bandwidth HZ] [--part-noise h0=VALUE,h-1=VALUE,...]
@@ -15,6 +15,9 @@ const USAGE = `usage:
   syncring report DIR [--out FILE.html] [--overlay OTHER_DIR_OR_FILE [--overlay-label TEXT] [--overlay-tau0 S] [--overlay-type phase|frequency]]
   syncring stability FILE [--tau0 SECONDS] [--type phase|frequency] [--mask MASK] [--html OUT.html]
                 [--spacing octave|decade|1-2-5] [--confidence P]
+  syncring yield STUDY.json --out DIR [--workers N] [--redis URL] [--resume]
+  syncring yield STUDY.json --board INDEX     (the scenario of one sample, to open with serve --scenario)
+  syncring worker --redis URL [--threads N] [--lock-seconds S]
 
 SCENARIO may also name a built-in scenario (timing-board-8, ring-one-way-5, pair-adler),
 CAMPAIGN a built-in campaign (timing-board-8-campaign).`;
@@ -85,7 +88,7 @@ export async function main(argv: string[]): Promise<number> {
         return result.status === 'halted' ? 3 : 0;
       }
       case 'predict': {
-        const valued = ['continue', 'pattern', 'range', 'max-steps'];
+        const valued = ['continue', 'pattern', 'range', 'max-steps', 'basins'];
         const parsed = parseArgs(rest, valued);
         onlyFlags(parsed, valued);
         if (parsed.positional.length !== 1) throw callError('predict needs exactly one SCENARIO');
@@ -97,6 +100,7 @@ export async function main(argv: string[]): Promise<number> {
           pattern: numberFlag(parsed, 'pattern'),
           range: text('range'),
           maxSteps: numberFlag(parsed, 'max-steps'),
+          basins: numberFlag(parsed, 'basins'),
         });
         process.stdout.write(`${JSON.stringify(result)}\n`);
         return 0;
@@ -168,6 +172,44 @@ export async function main(argv: string[]): Promise<number> {
           checkpointEvery: numberFlag(parsed, 'checkpoint-every'),
           failIncomplete: parsed.flags.get('fail-incomplete') === true,
         });
+      }
+      case 'yield': {
+        const valued = ['out', 'workers', 'redis', 'board'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, [...valued, 'resume']);
+        if (parsed.positional.length !== 1) throw callError('yield needs exactly one STUDY');
+        const board = numberFlag(parsed, 'board');
+        if (board !== undefined) {
+          const { boardScenario } = await import('./commands/yield.js');
+          process.stdout.write(`${JSON.stringify(boardScenario(parsed.positional[0], board))}\n`);
+          return 0;
+        }
+        const out = parsed.flags.get('out');
+        if (typeof out !== 'string') throw callError('yield needs --out DIR');
+        const { yieldCommand } = await import('./commands/yield.js');
+        const summary = await yieldCommand({
+          study: parsed.positional[0],
+          out,
+          workers: numberFlag(parsed, 'workers'),
+          redis: parsed.flags.get('redis') as string | undefined,
+          resume: parsed.flags.get('resume') === true,
+        });
+        process.stdout.write(`${JSON.stringify(summary)}\n`);
+        return 0;
+      }
+      case 'worker': {
+        const valued = ['redis', 'threads', 'lock-seconds'];
+        const parsed = parseArgs(rest, valued);
+        onlyFlags(parsed, valued);
+        if (parsed.positional.length !== 0) throw callError('worker takes no positional arguments');
+        const redis = parsed.flags.get('redis');
+        if (typeof redis !== 'string') throw callError('worker needs --redis URL');
+        const { worker } = await import('./commands/worker.js');
+        const running = await worker({ redis, threads: numberFlag(parsed, 'threads'), lockSeconds: numberFlag(parsed, 'lock-seconds') });
+        const stop = () => void running.close().then(() => process.exit(0));
+        process.once('SIGINT', stop);
+        process.once('SIGTERM', stop);
+        return -1;
       }
       case 'report': {
         const valued = ['out', 'overlay', 'overlay-label', 'overlay-tau0', 'overlay-type'];

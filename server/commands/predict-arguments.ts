@@ -12,6 +12,7 @@ export interface ArgumentNames {
   pattern: string;
   range: string;
   maxSteps: string;
+  basins: string;
   /** An argument together with the value it was given: `--continue coupling`, `param=coupling`. */
   given(name: string, value: string): string;
 }
@@ -21,6 +22,7 @@ export const FLAG_NAMES: ArgumentNames = {
   pattern: '--pattern',
   range: '--range',
   maxSteps: '--max-steps',
+  basins: '--basins',
   given: (name, value) => `${name} ${value}`,
 };
 
@@ -30,6 +32,7 @@ export const QUERY_NAMES: ArgumentNames = {
   pattern: 'pattern',
   range: 'range',
   maxSteps: 'maxSteps',
+  basins: 'basins',
   given: (name, value) => `${name}=${value}`,
 };
 

@@ -4,6 +4,7 @@ import { CATALOGUE_SIZE_LIMIT } from '../../src/predict/catalogue.js';
 import { continueBranch, type Branch } from '../../src/predict/continuation.js';
 import { CONTINUATION_SYNTAX } from '../../src/predict/continuation-parameter.js';
 import { catalogueWithStart } from '../../src/predict/start-pattern.js';
+import { catalogueWithBasins, MAX_BASIN_STARTS } from '../../src/yield/basins.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { ASSUMED_FREQUENCY_NOTE } from '../../src/scenario/units.js';
 import type { ContinuationOutput, PredictOutput } from '../../src/protocol/predict-output.js';
@@ -23,6 +24,8 @@ export interface PredictArgs {
   range?: string;
   /** Accepted continuation steps per direction. */
   maxSteps?: number;
+  /** Seeded random starts whose destinations give each pattern's start-up probability. */
+  basins?: number;
 }
 
 /** "MIN:MAX" with either side optional ("0:", ":0.3"); errors name the argument as `names` call it. */
@@ -77,8 +80,15 @@ export function predictScenario(
   if (args.maxSteps !== undefined && (!Number.isInteger(args.maxSteps) || args.maxSteps < 1))
     throw new UsageError(`${names.maxSteps} must be a positive integer (got ${args.maxSteps})`);
 
+  if (args.basins !== undefined && !(Number.isInteger(args.basins) && args.basins >= 1 && args.basins <= MAX_BASIN_STARTS))
+    throw new UsageError(`${names.basins} must be a whole number of starts, 1 to ${MAX_BASIN_STARTS} (got ${args.basins})`);
+
   const started = Date.now();
-  const { catalogue, destination, settledIndex } = catalogueWithStart(model, scenario);
+  const counted = args.basins !== undefined ? catalogueWithBasins(model, scenario, args.basins) : null;
+  const plain = counted ? null : catalogueWithStart(model, scenario);
+  const catalogue = counted ? counted.catalogue : plain!.catalogue;
+  const settledIndex = counted ? counted.settledIndex : plain!.settledIndex;
+  const destination = counted ? { settled: counted.initialSettled, slowTime: counted.initialSlowTime } : plain!.destination;
 
   const result: PredictOutput = {
     scenario: scenario.name,
@@ -114,6 +124,7 @@ export function predictScenario(
     mirrors: catalogue.mirrors,
     numbering: catalogue.numbering,
     search: catalogue.search,
+    ...(counted ? { basins: counted.basins } : {}),
     wallSeconds: 0,
   };
 

@@ -8,7 +8,12 @@ import { UsageError } from '../usage-error.js';
  * writers on one log would interleave their lines.
  */
 export function lockSoakDir(dir: string): () => void {
-  const path = join(dir, 'soak.lock');
+  return lockFolder(dir, 'soak');
+}
+
+/** The same lock for any run that owns a folder (`kind` names it: DIR/KIND.lock, "in use by another KIND"). */
+export function lockFolder(dir: string, kind: string): () => void {
+  const path = join(dir, `${kind}.lock`);
   for (let attempt = 0; attempt < 2; attempt++) {
     try {
       const fd = openSync(path, 'wx');
@@ -26,13 +31,13 @@ export function lockSoakDir(dir: string): () => void {
       const holder = Number(readFileSync(path, 'utf8').trim());
       if (Number.isInteger(holder) && holder > 0 && holder !== process.pid && isAlive(holder)) {
         throw new UsageError(
-          `${dir} is in use by another soak (pid ${holder}); wait for it or stop it first (remove ${path} if no soak is running there)`,
+          `${dir} is in use by another ${kind} (pid ${holder}); wait for it or stop it first (remove ${path} if no ${kind} is running there)`,
         );
       }
       unlinkSync(path);
     }
   }
-  throw new UsageError(`${dir}: cannot take the soak lock ${path}`);
+  throw new UsageError(`${dir}: cannot take the ${kind} lock ${path}`);
 }
 
 function isAlive(pid: number): boolean {

@@ -42,3 +42,9 @@ export const SIMULATION_CAUTION =
 export const PARTS_CAUTION =
   'These figures follow from the stated part values by textbook formulas; real parts spread, age and drift with temperature. ' +
   `A start-up margin here does not replace a start-up test of the real circuit over temperature and supply. ${QUALIFY}`;
+
+/** Beside every yield figure: the share of simulated boards that met the study's criteria, under the tolerances the study assumed. */
+export const YIELD_CAUTION =
+  "A yield here is the share of simulated boards, drawn from the study's assumed tolerances, that met the study's criteria under the model. " +
+  'It is not a measured production yield: simulation does not replace qualification of real hardware, and equipment in telecom, ' +
+  'power or navigation service follows the applicable standards and accredited practice.';

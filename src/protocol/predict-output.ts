@@ -2,6 +2,7 @@ import type { CataloguePattern, PatternCatalogue } from '../predict/catalogue.js
 import type { BranchLimit, BranchPoint } from '../predict/continuation.js';
 import type { LimitKind } from '../predict/continuation.js';
 import type { SessionInfo } from './messages.js';
+import type { BasinCount } from '../yield/basins.js';
 
 /**
  * What `syncring predict` prints, and what the server's /api/catalogue and /api/what-if answer
@@ -53,6 +54,8 @@ export interface PredictOutput {
   numbering: PatternCatalogue['numbering'];
   search: PatternCatalogue['search'];
   continuation?: ContinuationOutput;
+  /** With --basins N: the start-up probability of each pattern reached from N seeded random starts. */
+  basins?: BasinCount;
   wallSeconds: number;
 }
 

@@ -35,6 +35,7 @@ import { benchEnvelope, benchEnvelopeEndToEnd } from './envelope.js';
 import { compileYardstick } from './yardstick.js';
 import { runDop853, scipyUnavailable, scipyVersion } from './scipy.js';
 import { benchStreaming, type StreamingResult } from './streaming.js';
+import { benchYield, type YieldBench } from './yield.js';
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { measureThroughput, relativeError, searchSteps, type StepSearch, type Throughput } from './measure.js';
@@ -76,10 +77,10 @@ const TARGET_MEMORY_GROWTH = 0.05;
 /** "No client able to slow another": the slowest client gets at least this share of the mean frame rate. */
 const TARGET_SLOWEST_SHARE = 0.9;
 
-const SECTIONS = ['micro', 'envelope', 'c', 'scipy', 'stream'] as const;
+const SECTIONS = ['micro', 'envelope', 'c', 'scipy', 'stream', 'yield'] as const;
 type Section = (typeof SECTIONS)[number];
 const USAGE =
-  'expected --json, --steps=S, --sections=LIST (of micro,envelope,c,scipy,stream), --stream-seconds N, --envelope-budget=SECONDS';
+  'expected --json, --steps=S, --sections=LIST (of micro,envelope,c,scipy,stream,yield), --stream-seconds N, --envelope-budget=SECONDS';
 
 /** `--name=value` or `--name value`; undefined when absent. */
 function option(args: string[], name: string): string | undefined {
@@ -394,6 +395,14 @@ if (sections.has('stream')) {
   }
 }
 
+// Yield studies: the embedded pool at 1 and 2 threads, the Redis engine at 2 workers, guide against full cost per board.
+let yieldBench: YieldBench | null = null;
+if (sections.has('yield')) {
+  log('yield: Adler-pair study on the local pool (1 and 2 threads) and on Redis (2 workers) ...');
+  yieldBench = await benchYield();
+  notes.push(...yieldBench.notes);
+}
+
 const result = {
   machine: { node: process.version, cpus: availableParallelism(), loadAverage: loadavg().map((l) => Number(l.toFixed(2))) },
   case: {
@@ -441,6 +450,7 @@ const result = {
     ...streaming,
     targets: { frameAgeP99Ms: TARGET_FRAME_AGE_P99_MS, memoryGrowth: TARGET_MEMORY_GROWTH, slowestClientShare: TARGET_SLOWEST_SHARE },
   },
+  yield: yieldBench,
   notes,
   seconds: (performance.now() - started) / 1000,
 };
@@ -449,6 +459,30 @@ type Cells = [string, string, string, string];
 /** Table rows of the sections after the micro stepper's. */
 function extraRows(e: (x: number) => string, n: (x: number) => string, verdict: (ok: boolean) => string): Cells[] {
   const rows: Cells[] = [];
+  const y = yieldBench;
+  if (y) {
+    rows.push(
+      [
+        `yield, Adler pair, ${y.samples} boards: samples per second, 1 | 2 local threads`,
+        `${y.local1.toFixed(1)} | ${y.local2.toFixed(1)}`,
+        '-',
+        '',
+      ],
+      ['  2 threads / 1 thread', `${y.scaling.toFixed(2)}x`, '> 1 (2 cores)', verdict(y.scaling > 1)],
+      [
+        '  Redis, 2 workers: samples per second | against 2 local threads',
+        y.redis2 === null ? 'skipped' : `${y.redis2.toFixed(1)} | ${y.redisOverLocal!.toFixed(2)}x`,
+        '-',
+        '',
+      ],
+      [
+        '  one board, guiding system | full system (ms)',
+        `${y.guideMsPerSample.toFixed(1)} | ${y.fullMsPerSample.toFixed(0)}`,
+        '-',
+        `full/guide ${y.fullOverGuide.toFixed(0)}x`,
+      ],
+    );
+  }
   for (const c of envelopeCases) {
     const atTarget = c.epsilon === 1e-6;
     rows.push(
