@@ -119,7 +119,7 @@ describe('sample draws', () => {
     expect(setup.parameters['coupling.strength']).toBeGreaterThanOrEqual(0.27);
     expect(setup.parameters['coupling.strength']).toBeLessThanOrEqual(0.33);
     // the study's own scenario is untouched
-    expect(study.scenario.coupling.strength).toBe(0.3);
+    expect(study.scenario.coupling.strength).toBe(board.coupling.strength);
     expect('random' in setup.scenario.initial).toBe(true);
   });
 
@@ -139,14 +139,15 @@ describe('sample draws', () => {
     const plain = draws.map((d) => d['detuning[0]']);
     const mean = plain.reduce((s, v) => s + v, 0) / plain.length;
     const sd = Math.sqrt(plain.reduce((s, v) => s + (v - mean) ** 2, 0) / (plain.length - 1));
-    // nominal detuningPpm[0] is 0.12; standard error of the mean 0.5 / sqrt(4000) = 0.0079 (4.5 sigma bound below)
-    expect(Math.abs(mean - 0.12)).toBeLessThan(0.036);
+    // the board's own detuning of node 0 in ppm (Delta eps 1e6); standard error of the mean 0.5 / sqrt(4000) = 0.0079 (4.5 sigma bound below)
+    const nominalPpm = (k: number) => board.detuning[k] * board.epsilon * 1e6;
+    expect(Math.abs(mean - nominalPpm(0))).toBeLessThan(0.036);
     // standard error of s is about sigma / sqrt(2 n) = 0.0056
     expect(Math.abs(sd - 0.5)).toBeLessThan(0.025);
     const truncated = draws.map((d) => d['detuning[1]']);
-    // nominal -0.08 +- 1 sigma
-    expect(Math.min(...truncated)).toBeGreaterThanOrEqual(-0.58 - 1e-12);
-    expect(Math.max(...truncated)).toBeLessThanOrEqual(0.42 + 1e-12);
+    // nominal +- 1 sigma
+    expect(Math.min(...truncated)).toBeGreaterThanOrEqual(nominalPpm(1) - 0.5 - 1e-9);
+    expect(Math.max(...truncated)).toBeLessThanOrEqual(nominalPpm(1) + 0.5 + 1e-9);
     // a normal truncated at +-1 sigma has standard deviation sigma sqrt(1 - 2 phi(1) / (2 Phi(1) - 1)) = 0.5 * 0.5380 (standard result)
     const tm = truncated.reduce((s, v) => s + v, 0) / truncated.length;
     const tsd = Math.sqrt(truncated.reduce((s, v) => s + (v - tm) ** 2, 0) / (truncated.length - 1));
