@@ -19,6 +19,7 @@
  * of phi(t) is S_phi(f) = sum over inputs of |H(w)|^2 S_in(f) with the input spectra written in
  * the units below (see phaseSpectra).
  */
+import { carryingMode } from '../observe/amplitudes.js';
 import { LuDecomposition, Matrix } from 'ml-matrix';
 import type { GuideModel } from '../predict/guide-model.js';
 import { fieldJacobian, type LockedState } from '../predict/locked-state.js';
@@ -51,7 +52,7 @@ export function linearNoiseModel(model: GuideModel, locked: LockedState): Linear
   const n = y.length;
   const jacobian = fieldJacobian(model.field, y);
   subtractRotation(jacobian, locked.generators, locked.rates, modes);
-  const carrying = carryingModeOf(y, nodes, modes);
+  const carrying = carryingMode(y, nodes, modes);
   const readouts: Float64Array[] = [];
   const array = new Float64Array(n);
   for (let k = 0; k < nodes; k++) {
@@ -106,17 +107,6 @@ function detuningResponses(model: GuideModel, y: Float64Array): Float64Array[] {
     out.push(Float64Array.from(plus, (p, i) => (p - minus[i]) / (2 * h)));
   }
   return out;
-}
-
-function carryingModeOf(y: Float64Array, nodes: number, modes: number): number {
-  let best = 0;
-  let bestEnergy = -1;
-  for (let j = 0; j < modes; j++) {
-    let e = 0;
-    for (let k = 0; k < nodes; k++) e += y[2 * (k * modes + j)] ** 2 + y[2 * (k * modes + j) + 1] ** 2;
-    if (e > bestEnergy) [best, bestEnergy] = [j, e];
-  }
-  return best;
 }
 
 /** One-sided phase spectra S_phi(f) in rad^2/Hz of every node and of the array, at the given Fourier frequencies. */

@@ -2,20 +2,9 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, test, vi } from 'vitest';
-import { main } from '../../../server/cli.js';
+import { runCli } from '../../support/run-cli.js';
 import type { NoiseOutput } from '../../../src/protocol/noise-output.js';
 import { adlerPairScenario } from '../../support/adler-pair.js';
-
-/** Runs the CLI with stdout and stderr captured. */
-async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => ((out += String(chunk)), true));
-  vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => ((err += String(chunk)), true));
-  const code = await main(argv);
-  vi.restoreAllMocks();
-  return { code, out, err };
-}
 
 afterEach(() => vi.restoreAllMocks());
 
@@ -33,7 +22,7 @@ const at = (table: { tau: number[] }, row: number[], tau: number): number => {
 
 describe('syncring noise', () => {
   test('the demo board: one JSON object, taus from the carrier period to 1e5 s, the array 10 log10 N dB below a part', async () => {
-    const { code, out } = await run(['noise', 'timing-board-8']);
+    const { code, out } = await runCli(['noise', 'timing-board-8']);
     expect(code).toBe(0);
     const result = JSON.parse(out) as NoiseOutput;
     expect(result.pattern.kind).toBe('in-phase');
@@ -51,7 +40,7 @@ describe('syncring noise', () => {
   });
 
   test("the demo's part noise comes from its scenario: one part near 1e-11 at 1 s, as SP 1065 gives for its coefficients", async () => {
-    const result = JSON.parse((await run(['noise', 'timing-board-8'])).out) as NoiseOutput;
+    const result = JSON.parse((await runCli(['noise', 'timing-board-8'])).out) as NoiseOutput;
     expect(result.sources.parts).toBeNull();
     expect(result.sources.scenarioParts).toHaveLength(8);
     // by hand (NIST SP 1065 power-law table): h0 / 2 + 2 ln 2 h-1 + (2 pi^2 / 3) h-2 at tau = 1 s, plus white PM
@@ -62,7 +51,7 @@ describe('syncring noise', () => {
 
   test("--part-noise adds to the scenario's part noise", async () => {
     const path = scenarioFile({ noise: { seed: 1, powerLaw: { h0: 2e-22 } } });
-    const both = JSON.parse((await run(['noise', path, '--part-noise', 'h0=2e-22'])).out) as NoiseOutput;
+    const both = JSON.parse((await runCli(['noise', path, '--part-noise', 'h0=2e-22'])).out) as NoiseOutput;
     // white FM h0 = 4e-22 in all: sigma_y(1 s) = sqrt(4e-22 / 2) (SP 1065)
     expect(at(both.adev, both.adev.uncoupled, 1) / Math.sqrt(2e-22)).toBeCloseTo(1, 2);
   });
@@ -76,7 +65,7 @@ describe('syncring noise', () => {
       { spec: 'h-2=1e-27', expected: (tau: number) => Math.sqrt(((2 * Math.PI ** 2) / 3) * 1e-27 * tau) },
     ];
     for (const c of cases) {
-      const { code, out, err } = await run(['noise', quiet, '--part-noise', c.spec]);
+      const { code, out, err } = await runCli(['noise', quiet, '--part-noise', c.spec]);
       expect(code, err).toBe(0);
       const result = JSON.parse(out) as NoiseOutput;
       for (const tau of [1, 10, 100, 1e3, 1e4, 1e5]) {
@@ -98,18 +87,18 @@ describe('syncring noise', () => {
       [['noise'], /noise needs exactly one SCENARIO/],
     ];
     for (const [argv, message] of cases) {
-      const { code, err } = await run(argv);
+      const { code, err } = await runCli(argv);
       expect(code, argv.join(' ')).toBe(2);
       expect(err).toMatch(message);
     }
   });
 
   test('an unstable pattern is refused: it has no stationary noise', async () => {
-    const predicted = await run(['predict', 'ring-one-way-5']);
+    const predicted = await runCli(['predict', 'ring-one-way-5']);
     const patterns = JSON.parse(predicted.out).patterns as { stable: boolean | null }[];
     const unstable = patterns.findIndex((p) => p.stable === false);
     expect(unstable).toBeGreaterThanOrEqual(0);
-    const { code, err } = await run(['noise', 'ring-one-way-5', '--pattern', String(unstable), '--part-noise', 'h0=1e-22']);
+    const { code, err } = await runCli(['noise', 'ring-one-way-5', '--pattern', String(unstable), '--part-noise', 'h0=1e-22']);
     expect(code).toBe(2);
     expect(err).toMatch(new RegExp(`pattern ${unstable} .* is unstable`));
   });

@@ -1,23 +1,12 @@
 import { afterEach, describe, expect, test, vi } from 'vitest';
-import { main } from '../../../server/cli.js';
+import { runCli } from '../../support/run-cli.js';
 import { predict } from '../../../server/commands/predict.js';
-
-/** Runs the CLI with stdout and stderr captured. */
-async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  vi.spyOn(process.stdout, 'write').mockImplementation((chunk: string | Uint8Array) => ((out += String(chunk)), true));
-  vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => ((err += String(chunk)), true));
-  const code = await main(argv);
-  vi.restoreAllMocks();
-  return { code, out, err };
-}
 
 afterEach(() => vi.restoreAllMocks());
 
 describe('syncring predict', () => {
   test('one JSON object with the catalogue: every pattern has the contract fields; the 5-ring waves follow cos(2 pi q / 5) > 0', async () => {
-    const { code, out } = await run(['predict', 'ring-one-way-5']);
+    const { code, out } = await runCli(['predict', 'ring-one-way-5']);
     expect(code).toBe(0);
     const result = JSON.parse(out);
     expect(result.nodes).toBe(5);
@@ -109,7 +98,7 @@ describe('syncring predict', () => {
     [['predict', 'ring-one-way-5', '--pattern', '1'], /--pattern needs --continue PARAM/],
     [['predict', 'ring-one-way-5', '--frobnicate'], /unknown option --frobnicate/],
   ])('bad input %j exits 2 naming the problem', async (argv, message) => {
-    const { code, out, err } = await run(argv as string[]);
+    const { code, out, err } = await runCli(argv as string[]);
     expect(code).toBe(2);
     expect(out).toBe('');
     expect(err).toMatch(message as RegExp);

@@ -2,17 +2,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, test, vi } from 'vitest';
-import { main } from '../../../server/cli.js';
-
-/** Runs the CLI in this process with stderr captured. */
-async function run(argv: string[]): Promise<{ code: number; err: string }> {
-  let err = '';
-  vi.spyOn(process.stdout, 'write').mockImplementation(() => true);
-  vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => ((err += String(chunk)), true));
-  const code = await main(argv);
-  vi.restoreAllMocks();
-  return { code, err };
-}
+import { runCli } from '../../support/run-cli.js';
 
 afterEach(() => vi.restoreAllMocks());
 
@@ -26,14 +16,14 @@ describe('the usage text after a command-line error', () => {
     [['simulate', 'pair-adler', '--until', '5', '--fast'], 'syncring: unknown option --fast\n'],
     [['frobnicate'], 'syncring: unknown command "frobnicate"\n'],
   ])('%j is a call of the wrong shape: message, then the usage text', async (argv, message) => {
-    const { code, err } = await run(argv);
+    const { code, err } = await runCli(argv);
     expect(code).toBe(2);
     expect(err.startsWith(message)).toBe(true);
     expect(err.slice(message.length).startsWith(USAGE_LINE)).toBe(true);
   });
 
   test('a missing file whose name holds the word "command" is bad input, not a wrong call: the message alone', async () => {
-    const { code, err } = await run(['simulate', 'command-board.json', '--until', '10']);
+    const { code, err } = await runCli(['simulate', 'command-board.json', '--until', '10']);
     expect(code).toBe(2);
     expect(err).toMatch(/^syncring: command-board\.json: no such file \(built-in scenarios: [^\n]*\)\n$/);
   });
@@ -42,7 +32,7 @@ describe('the usage text after a command-line error', () => {
     const dir = mkdtempSync(join(tmpdir(), 'syncring-cli-usage-'));
     const campaign = join(dir, 'empty-campaign.json');
     writeFileSync(campaign, '{}');
-    const { code, err } = await run(['soak', 'pair-adler', '--campaign', campaign, '--until', '10', '--out', join(dir, 'out')]);
+    const { code, err } = await runCli(['soak', 'pair-adler', '--campaign', campaign, '--until', '10', '--out', join(dir, 'out')]);
     expect(code).toBe(2);
     expect(err).toBe(`syncring: ${campaign}: a campaign needs faults, a random generator, or both\n`);
   });
